@@ -1,0 +1,224 @@
+import { relations, sql } from "drizzle-orm";
+import { index, integer, primaryKey, sqliteTable, text } from "drizzle-orm/sqlite-core";
+
+// Every timestamp is stored as UTC milliseconds since the epoch; dates without a time (birth dates, precaution
+// windows) are ISO 8601 `YYYY-MM-DD` strings.
+const id = () =>
+  text("id")
+    .primaryKey()
+    .$defaultFn(() => crypto.randomUUID());
+const createdAt = () =>
+  integer("created_at", { mode: "timestamp_ms" })
+    .notNull()
+    .$defaultFn(() => new Date());
+const updatedAt = () =>
+  integer("updated_at", { mode: "timestamp_ms" })
+    .notNull()
+    .$defaultFn(() => new Date());
+
+export const ROLES = ["admin", "therapist", "assistant", "client"] as const;
+export type Role = (typeof ROLES)[number];
+export const STAFF_ROLES = ["admin", "therapist", "assistant"] as const satisfies readonly Role[];
+export const CLINICAL_ROLES = ["therapist", "assistant"] as const satisfies readonly Role[];
+
+export const clinics = sqliteTable("clinics", {
+  id: id(),
+  name: text("name").notNull(),
+  timezone: text("timezone").notNull().default("UTC"),
+  /** Which published table of normal active range is the default reference (see lib/motions). */
+  normTable: text("norm_table").notNull().default("aaos1965"),
+  /** Grading scale offered first: daniels | mrc | intrinsic. */
+  gradeScale: text("grade_scale").notNull().default("daniels"),
+  /** Share of the reference range that counts as "full range" for grading, in percent. */
+  fullRangePercent: integer("full_range_percent").notNull().default(90),
+  contactEmail: text("contact_email"),
+  createdAt: createdAt(),
+  updatedAt: updatedAt(),
+});
+
+export const users = sqliteTable(
+  "users",
+  {
+    id: id(),
+    clinicId: text("clinic_id").references(() => clinics.id, { onDelete: "restrict" }),
+    name: text("name"),
+    email: text("email").notNull().unique(),
+    emailVerified: integer("email_verified", { mode: "timestamp_ms" }),
+    image: text("image"),
+    role: text("role", { enum: ROLES }).notNull().default("client"),
+    /** argon2id; null until a staff member sets a password from their invitation (clients sign in by link). */
+    passwordHash: text("password_hash"),
+    active: integer("active", { mode: "boolean" }).notNull().default(true),
+    lastSignInAt: integer("last_sign_in_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [index("users_clinic_idx").on(t.clinicId)],
+);
+
+// Auth.js adapter tables (shapes required by @auth/drizzle-adapter).
+export const accounts = sqliteTable(
+  "accounts",
+  {
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    type: text("type").$type<"email" | "oauth" | "oidc" | "webauthn">().notNull(),
+    provider: text("provider").notNull(),
+    providerAccountId: text("provider_account_id").notNull(),
+    refresh_token: text("refresh_token"),
+    access_token: text("access_token"),
+    expires_at: integer("expires_at"),
+    token_type: text("token_type"),
+    scope: text("scope"),
+    id_token: text("id_token"),
+    session_state: text("session_state"),
+  },
+  (t) => [primaryKey({ columns: [t.provider, t.providerAccountId] }), index("accounts_user_idx").on(t.userId)],
+);
+
+export const sessions = sqliteTable(
+  "sessions",
+  {
+    sessionToken: text("session_token").primaryKey(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    expires: integer("expires", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [index("sessions_user_idx").on(t.userId)],
+);
+
+export const verificationTokens = sqliteTable(
+  "verification_tokens",
+  {
+    identifier: text("identifier").notNull(),
+    token: text("token").notNull(),
+    expires: integer("expires", { mode: "timestamp_ms" }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.identifier, t.token] })],
+);
+
+/** One-time links for staff: set a password from an invitation, or reset it. Only the SHA-256 of the token is kept. */
+export const passwordTokens = sqliteTable(
+  "password_tokens",
+  {
+    tokenHash: text("token_hash").primaryKey(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "cascade" }),
+    purpose: text("purpose", { enum: ["invite", "reset"] }).notNull(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    usedAt: integer("used_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("password_tokens_user_idx").on(t.userId)],
+);
+
+/** Failed sign-in counters, keyed by account (`account:<email>`) and by address (`address:<ip>`). */
+export const signInThrottle = sqliteTable("sign_in_throttle", {
+  key: text("key").primaryKey(),
+  failures: integer("failures").notNull().default(0),
+  windowStartedAt: integer("window_started_at", { mode: "timestamp_ms" }).notNull(),
+  lockedUntil: integer("locked_until", { mode: "timestamp_ms" }),
+});
+
+export const PRECAUTION_FLAGS = [
+  "no_resisted_testing",
+  "unhealed_fracture",
+  "tendon_repair",
+  "ligament_or_capsule_repair",
+  "joint_instability",
+  "osteoporosis",
+  "acute_inflammation_or_infection",
+  "cardiovascular",
+  "bleeding_disorder",
+  "reduced_sensation",
+] as const;
+export type PrecautionFlag = (typeof PRECAUTION_FLAGS)[number];
+
+export const SIDES = ["left", "right"] as const;
+export const AFFECTED_SIDES = ["left", "right", "both"] as const;
+export const SEXES = ["female", "male", "other", "unknown"] as const;
+
+/** The clinic's record of a person it treats. A client may (or may not yet) have a sign-in account. */
+export const clients = sqliteTable(
+  "clients",
+  {
+    id: id(),
+    clinicId: text("clinic_id")
+      .notNull()
+      .references(() => clinics.id, { onDelete: "restrict" }),
+    userId: text("user_id")
+      .unique()
+      .references(() => users.id, { onDelete: "set null" }),
+    givenName: text("given_name").notNull(),
+    familyName: text("family_name").notNull(),
+    email: text("email"),
+    dateOfBirth: text("date_of_birth").notNull(),
+    /** Used only to pick age- and sex-matched grip and pinch norms. */
+    sex: text("sex", { enum: SEXES }).notNull().default("unknown"),
+    dominantHand: text("dominant_hand", { enum: SIDES }).notNull(),
+    affectedSide: text("affected_side", { enum: AFFECTED_SIDES }).notNull(),
+    diagnosisNote: text("diagnosis_note").notNull().default(""),
+    referringPhysician: text("referring_physician").notNull().default(""),
+    precautionFlags: text("precaution_flags", { mode: "json" }).$type<PrecautionFlag[]>().notNull().default(sql`'[]'`),
+    precautionNote: text("precaution_note").notNull().default(""),
+    /** No resisted testing before this date (inclusive end of the window is the day before). */
+    noResistedUntil: text("no_resisted_until"),
+    primaryTherapistId: text("primary_therapist_id").references(() => users.id, { onDelete: "set null" }),
+    selfPay: integer("self_pay", { mode: "boolean" }).notNull().default(false),
+    archivedAt: integer("archived_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    index("clients_clinic_idx").on(t.clinicId),
+    index("clients_therapist_idx").on(t.primaryTherapistId),
+    index("clients_clinic_family_idx").on(t.clinicId, t.familyName),
+  ],
+);
+
+/** Append-only record of sign-ins and of every access to clinical records. */
+export const auditEvents = sqliteTable(
+  "audit_events",
+  {
+    id: id(),
+    at: integer("at", { mode: "timestamp_ms" })
+      .notNull()
+      .$defaultFn(() => new Date()),
+    clinicId: text("clinic_id").references(() => clinics.id, { onDelete: "set null" }),
+    actorUserId: text("actor_user_id").references(() => users.id, { onDelete: "set null" }),
+    actorRole: text("actor_role"),
+    /** Dotted verb, e.g. `auth.sign_in`, `client.read`, `client.update`, `staff.invite`. */
+    action: text("action").notNull(),
+    subjectType: text("subject_type"),
+    subjectId: text("subject_id"),
+    clientId: text("client_id").references(() => clients.id, { onDelete: "set null" }),
+    address: text("address"),
+    detail: text("detail", { mode: "json" }).$type<Record<string, unknown>>(),
+  },
+  (t) => [
+    index("audit_clinic_at_idx").on(t.clinicId, t.at),
+    index("audit_actor_idx").on(t.actorUserId),
+    index("audit_client_idx").on(t.clientId),
+  ],
+);
+
+export const clinicsRelations = relations(clinics, ({ many }) => ({ users: many(users), clients: many(clients) }));
+export const usersRelations = relations(users, ({ one }) => ({
+  clinic: one(clinics, { fields: [users.clinicId], references: [clinics.id] }),
+}));
+export const clientsRelations = relations(clients, ({ one }) => ({
+  clinic: one(clinics, { fields: [clients.clinicId], references: [clinics.id] }),
+  user: one(users, { fields: [clients.userId], references: [users.id] }),
+  primaryTherapist: one(users, { fields: [clients.primaryTherapistId], references: [users.id] }),
+}));
+
+export type Clinic = typeof clinics.$inferSelect;
+export type User = typeof users.$inferSelect;
+export type NewUser = typeof users.$inferInsert;
+export type Client = typeof clients.$inferSelect;
+export type NewClient = typeof clients.$inferInsert;
+export type AuditEvent = typeof auditEvents.$inferSelect;
+

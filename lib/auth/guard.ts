@@ -1,0 +1,97 @@
+import { and, eq } from "drizzle-orm";
+import { z } from "zod";
+import { getDb, type Database } from "@/db";
+import { clients, users, type Client, type Role } from "@/db/schema";
+import { recordAudit } from "@/lib/audit";
+import { auth, requestAddress } from "./index";
+
+/** The signed-in person as the server sees them, re-read from the database on every request. */
+export interface Actor {
+  userId: string;
+  role: Role;
+  clinicId: string;
+  name: string;
+  email: string;
+  /** For role `client`: the client record this account belongs to. */
+  clientId: string | null;
+}
+
+export class AccessError extends Error {
+  constructor(
+    public readonly status: 401 | 403 | 404,
+    message: string,
+  ) {
+    super(message);
+  }
+}
+
+export const NOT_FOUND = "No such record.";
+
+export async function actorForUser(db: Database, userId: string): Promise<Actor | null> {
+  const [row] = await db
+    .select({ user: users, clientId: clients.id })
+    .from(users)
+    .leftJoin(clients, eq(clients.userId, users.id))
+    .where(eq(users.id, userId));
+  if (!row || !row.user.active || !row.user.clinicId) return null;
+  if (row.user.role === "client" && !row.clientId) return null;
+  return {
+    userId: row.user.id,
+    role: row.user.role,
+    clinicId: row.user.clinicId,
+    name: row.user.name ?? row.user.email,
+    email: row.user.email,
+    clientId: row.user.role === "client" ? row.clientId : null,
+  };
+}
+
+export async function currentActor(): Promise<Actor | null> {
+  const session = await auth();
+  if (!session?.user?.id) return null;
+  return actorForUser(getDb(), session.user.id);
+}
+
+/** Resolves the session and checks the role. 401 when not signed in, 403 when the role may not do this. */
+export async function requireActor(roles: readonly Role[]): Promise<Actor> {
+  const actor = await currentActor();
+  if (!actor) throw new AccessError(401, "Sign in to continue.");
+  assertRole(actor, roles);
+  return actor;
+}
+
+export function assertRole(actor: Actor, roles: readonly Role[]): void {
+  if (!roles.includes(actor.role)) throw new AccessError(403, `A ${actor.role} account cannot do this.`);
+}
+
+/**
+ * Loads a client record the actor may see, or 404 (never 403, so a record's existence does not leak): staff see their
+ * own clinic's clients; a client sees only their own record. Every read is audited.
+ */
+export async function requireClientRecord(
+  actor: Actor,
+  clientId: string,
+  opts: { db?: Database; address?: string | null; purpose?: string } = {},
+): Promise<Client> {
+  const db = opts.db ?? getDb();
+  if (!z.uuid().safeParse(clientId).success) throw new AccessError(404, NOT_FOUND);
+  if (actor.role === "client" && actor.clientId !== clientId) throw new AccessError(404, NOT_FOUND);
+  const [record] = await db
+    .select()
+    .from(clients)
+    .where(and(eq(clients.id, clientId), eq(clients.clinicId, actor.clinicId)));
+  if (!record) throw new AccessError(404, NOT_FOUND);
+  await recordAudit(db, {
+    action: "client.read",
+    clinicId: actor.clinicId,
+    actorUserId: actor.userId,
+    actorRole: actor.role,
+    subjectType: "client",
+    subjectId: record.id,
+    clientId: record.id,
+    address: opts.address ?? null,
+    detail: opts.purpose ? { purpose: opts.purpose } : undefined,
+  });
+  return record;
+}
+
+export { requestAddress };
