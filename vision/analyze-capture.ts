@@ -1,0 +1,101 @@
+import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
+import { createLivePipeline, type LivePipelineOptions, type MeasurementMethod, type PipelineFrame } from "./pipeline";
+import type { PlaneReading } from "./plane";
+import type { Repetition } from "./reps";
+import type { Vec3 } from "./vec";
+
+/** What the analyzer needs from a capture; the parsed capture file (lib/capture) has this shape. */
+export interface CaptureInput {
+  motion: MotionId;
+  side: Side;
+  digit: Digit | null;
+  condition: Condition;
+  gravity?: Vec3 | null;
+  frames: readonly PipelineFrame[];
+}
+
+export interface TrackingLimits {
+  /** Fewer usable frames than this share marks the capture's tracking as poor. */
+  minUsableFraction: number;
+  /** A mean tracker score below this marks it poor too. */
+  minMeanScore: number;
+}
+
+// A quarter of frames lost, or a mean score under 0.7, is where angles start to come from too few frames to trust
+// the hold plateau [common practice for hand-tracking confidence gating; tune with field data].
+export const DEFAULT_TRACKING_LIMITS: TrackingLimits = { minUsableFraction: 0.75, minMeanScore: 0.7 };
+
+export interface CaptureAnalysis {
+  motion: MotionId;
+  side: Side;
+  digit: Digit | null;
+  condition: Condition;
+  frames: number;
+  usableFrames: number;
+  meanScore: number;
+  reps: number;
+  repetitions: Repetition[];
+  /** Start, peak and arc of the repetition with the highest peak; null when no repetition was found. */
+  startDeg: number | null;
+  peakDeg: number | null;
+  arcDeg: number | null;
+  plane: PlaneReading | null;
+  /** Whether the plane check agrees with the condition the capture declares. */
+  planeAgrees: boolean;
+  trackingOk: boolean;
+  method: MeasurementMethod;
+  uncertaintyDeg?: number;
+  correctionVersion: string | null;
+  warnings: string[];
+}
+
+export type AnalyzeOptions = Omit<LivePipelineOptions, "motion" | "side" | "digit" | "condition" | "gravity"> & {
+  tracking?: Partial<TrackingLimits>;
+};
+
+/** Runs a whole capture through the same pipeline the live view uses, then sums it up. */
+export function analyzeCapture(capture: CaptureInput, options: AnalyzeOptions = {}): CaptureAnalysis {
+  const pipeline = createLivePipeline({
+    ...options,
+    motion: capture.motion,
+    side: capture.side,
+    digit: capture.digit,
+    condition: capture.condition,
+    gravity: capture.gravity ?? null,
+  });
+  for (const frame of capture.frames) pipeline.push(frame);
+  const summary = pipeline.summary();
+  const limits = { ...DEFAULT_TRACKING_LIMITS, ...options.tracking };
+
+  let best: Repetition | null = null;
+  for (const rep of summary.repetitions) if (!best || rep.peakDeg > best.peakDeg) best = rep;
+
+  const warnings = [...summary.warnings];
+  const planeAgrees = summary.plane?.verdict === capture.condition;
+  if (summary.plane && !planeAgrees) {
+    warnings.push(`declared ${capture.condition} but the test plane reads ${summary.plane.verdict} (axis ${summary.plane.axisToGravityDeg.toFixed(0)} deg from gravity)`);
+  }
+  const usableFraction = summary.frames ? summary.usableFrames / summary.frames : 0;
+  const trackingOk = usableFraction >= limits.minUsableFraction && summary.meanScore >= limits.minMeanScore;
+
+  return {
+    motion: capture.motion,
+    side: capture.side,
+    digit: capture.digit,
+    condition: capture.condition,
+    frames: summary.frames,
+    usableFrames: summary.usableFrames,
+    meanScore: summary.meanScore,
+    reps: summary.repetitions.length,
+    repetitions: summary.repetitions,
+    startDeg: best ? best.startDeg : null,
+    peakDeg: best ? best.peakDeg : null,
+    arcDeg: best ? best.arcDeg : null,
+    plane: summary.plane,
+    planeAgrees,
+    trackingOk,
+    method: summary.method,
+    correctionVersion: summary.correctionVersion,
+    warnings,
+  };
+}

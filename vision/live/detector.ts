@@ -1,0 +1,90 @@
+/**
+ * The landmarkers and one detection step, shared by the worker and the main-thread fallback.
+ * Models and wasm are served by the app itself (built by `npm run models`); nothing is fetched from elsewhere.
+ */
+import { FilesetResolver, HandLandmarker, PoseLandmarker } from "@mediapipe/tasks-vision";
+import { forearmDirection, handFrame } from "./landmark-results";
+import type { LandmarkXYZ, ModelVariant, TrackedFrame } from "./types";
+
+export interface DetectorConfig {
+  /** Absolute URLs: a worker resolves relative ones against its own script, not the page. */
+  wasmBaseUrl: string;
+  handModelUrl: string;
+  poseModelUrl: string | null;
+  poseIntervalMs: number;
+  inputMirrored: boolean;
+  /** The module build of the wasm loader is needed inside module workers, which cannot use importScripts. */
+  wasmAsModule: boolean;
+}
+
+export interface DetectionStep {
+  frame: TrackedFrame;
+  landmarksMs: number;
+  poseMs: number | null;
+}
+
+export interface Detector {
+  detect(image: TexImageSource, t: number): DetectionStep;
+  close(): void;
+}
+
+export function modelUrls(assetBaseUrl: string, handModel: ModelVariant, poseModel: ModelVariant | null) {
+  const base = assetBaseUrl.replace(/\/$/, "");
+  return {
+    wasmBaseUrl: `${base}/mediapipe/wasm`,
+    handModelUrl: `${base}/models/hand_landmarker_${handModel}.task`,
+    poseModelUrl: poseModel ? `${base}/models/pose_landmarker_${poseModel}.task` : null,
+  };
+}
+
+// A forearm reading older than this no longer describes the arm in the current frame.
+const FOREARM_STALE_AFTER_INTERVALS = 2.5;
+
+export async function createDetector(config: DetectorConfig): Promise<Detector> {
+  const fileset = await FilesetResolver.forVisionTasks(config.wasmBaseUrl, config.wasmAsModule);
+  // CPU: the GPU delegate falls back to software WebGL on many machines and is then 10x slower (hand-models notes).
+  // One hand: asking for more than are in view runs the palm detector on every frame.
+  const hands = await HandLandmarker.createFromOptions(fileset, {
+    baseOptions: { modelAssetPath: config.handModelUrl, delegate: "CPU" },
+    runningMode: "VIDEO",
+    numHands: 1,
+  });
+  const pose = config.poseModelUrl
+    ? await PoseLandmarker.createFromOptions(fileset, {
+        baseOptions: { modelAssetPath: config.poseModelUrl, delegate: "CPU" },
+        runningMode: "VIDEO",
+        numPoses: 1,
+      })
+    : null;
+
+  // detectForVideo needs strictly increasing timestamps; clips can repeat a media time when they loop or seek.
+  let lastTimestamp = -Infinity;
+  let lastPoseAt = -Infinity;
+  let lastForearm: { t: number; direction: LandmarkXYZ } | null = null;
+
+  return {
+    detect(image, t) {
+      const timestamp = t > lastTimestamp ? t : lastTimestamp + 1;
+      lastTimestamp = timestamp;
+      const started = performance.now();
+      const frame = handFrame(t, hands.detectForVideo(image, timestamp), config.inputMirrored);
+      const landmarksMs = performance.now() - started;
+      let poseMs: number | null = null;
+      if (pose && timestamp - lastPoseAt >= config.poseIntervalMs) {
+        lastPoseAt = timestamp;
+        const poseStarted = performance.now();
+        const direction = forearmDirection(pose.detectForVideo(image, timestamp), frame.image?.[0] ?? null);
+        poseMs = performance.now() - poseStarted;
+        lastForearm = direction ? { t: timestamp, direction } : null;
+      }
+      if (lastForearm && timestamp - lastForearm.t <= config.poseIntervalMs * FOREARM_STALE_AFTER_INTERVALS) {
+        frame.forearm = lastForearm.direction;
+      }
+      return { frame, landmarksMs, poseMs };
+    },
+    close() {
+      hands.close();
+      pose?.close();
+    },
+  };
+}

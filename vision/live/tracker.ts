@@ -1,0 +1,234 @@
+/**
+ * The browser tracking loop: camera or clip frames in, a typed stream of hand landmarks out.
+ * Detection runs in a Web Worker with transferred frames where the browser allows it, else on the main thread with
+ * a frame budget. Browser-only; consumers (the measurement engine's live pipeline, the overlay, the harness)
+ * subscribe to `TrackedFrame`s and never touch the landmarkers.
+ */
+import { createDetector, modelUrls, type DetectionStep, type Detector, type DetectorConfig } from "./detector";
+import { FrameGovernor } from "./frame-governor";
+import type { FrameTiming, TrackedFrame, TrackerOptions, TrackerStats } from "./types";
+import type { TransferableFrame, WorkerRequest, WorkerResponse } from "./worker-protocol";
+
+export interface HandTracker {
+  readonly thread: "worker" | "main";
+  /** Follows the video's frames until `stop()`. The video must be playing (camera stream or clip). */
+  start(video: HTMLVideoElement): void;
+  stop(): void;
+  subscribe(listener: (frame: TrackedFrame) => void): () => void;
+  onTiming(listener: (timing: FrameTiming) => void): () => void;
+  stats(): TrackerStats;
+  /** Stops and frees the landmarkers (and the worker). */
+  close(): void;
+}
+
+// Detection on the main thread may take at most this share of the time, leaving the rest for drawing and input.
+const MAIN_THREAD_BUSY_SHARE = 0.5;
+const WORKER_READY_TIMEOUT_MS = 30_000;
+
+interface Backend {
+  thread: "worker" | "main";
+  /** Resolves with the detection step, or null when the frame could not be processed. */
+  process(video: HTMLVideoElement, t: number): Promise<DetectionStep | null>;
+  close(): void;
+}
+
+export async function createHandTracker(options: TrackerOptions = {}): Promise<HandTracker> {
+  const {
+    handModel = "lite",
+    forearm = false,
+    poseModel = "lite",
+    poseIntervalMs = 200,
+    assetBaseUrl = globalThis.location?.origin ?? "",
+    inputMirrored = false,
+    maxFps = 30,
+    thread = "auto",
+  } = options;
+  if (!(poseIntervalMs > 0)) throw new Error(`poseIntervalMs: expected a positive number, got ${poseIntervalMs}`);
+  const config: Omit<DetectorConfig, "wasmAsModule"> = {
+    ...modelUrls(new URL(assetBaseUrl || "/", globalThis.location?.href).href, handModel, forearm ? poseModel : null),
+    poseIntervalMs,
+    inputMirrored,
+  };
+
+  let backend: Backend;
+  if (thread === "main" || typeof Worker === "undefined") {
+    backend = await mainThreadBackend(config);
+  } else {
+    try {
+      backend = await workerBackend(config);
+    } catch (error) {
+      if (thread === "worker") throw error;
+      console.warn(`tracking: worker unavailable (${error instanceof Error ? error.message : String(error)}); using the main thread`);
+      backend = await mainThreadBackend(config);
+    }
+  }
+
+  const governor = new FrameGovernor({ maxFps, maxBusyShare: backend.thread === "worker" ? 1 : MAIN_THREAD_BUSY_SHARE });
+  const frameListeners = new Set<(frame: TrackedFrame) => void>();
+  const timingListeners = new Set<(timing: FrameTiming) => void>();
+  let running: { video: HTMLVideoElement; startedAt: number; handle: number | null; generation: number } | null = null;
+  let generation = 0;
+  let framesWithHand = 0;
+  let firstHandAfterMs: number | null = null;
+
+  const onVideoFrame = (video: HTMLVideoElement, nowMs: number, mediaTimeS: number | null) => {
+    if (!running || running.video !== video) return;
+    const run = running;
+    schedule(run);
+    if (video.readyState < 2 || !governor.tryBegin(nowMs)) return;
+    // A clip's own clock lets results line up with its frames; a camera has no media time worth keeping.
+    const t = video.srcObject || mediaTimeS === null ? nowMs : mediaTimeS * 1000;
+    const grabbedAt = performance.now();
+    backend
+      .process(video, t)
+      .then((step) => {
+        if (!step || run.generation !== generation) return governor.abandon();
+        governor.end(backend.thread === "worker" ? step.landmarksMs + (step.poseMs ?? 0) : performance.now() - grabbedAt);
+        if (step.frame.hand) {
+          framesWithHand++;
+          if (firstHandAfterMs === null) firstHandAfterMs = performance.now() - run.startedAt;
+        }
+        const timing: FrameTiming = { t, landmarksMs: step.landmarksMs, poseMs: step.poseMs, roundTripMs: performance.now() - grabbedAt };
+        for (const listener of frameListeners) listener(step.frame);
+        for (const listener of timingListeners) listener(timing);
+      })
+      .catch((error: unknown) => {
+        governor.abandon();
+        console.error("tracking: frame failed", error);
+      });
+  };
+
+  const schedule = (run: NonNullable<typeof running>) => {
+    const video = run.video;
+    if ("requestVideoFrameCallback" in video) {
+      run.handle = video.requestVideoFrameCallback((now, metadata) => onVideoFrame(video, now, metadata.mediaTime));
+    } else {
+      run.handle = requestAnimationFrame((now) => onVideoFrame(video, now, null));
+    }
+  };
+
+  const stop = () => {
+    if (!running) return;
+    const { video, handle } = running;
+    if (handle !== null) {
+      if ("cancelVideoFrameCallback" in video) (video as HTMLVideoElement).cancelVideoFrameCallback(handle);
+      else cancelAnimationFrame(handle);
+    }
+    running = null;
+    generation++;
+  };
+
+  return {
+    thread: backend.thread,
+    start(video) {
+      stop();
+      running = { video, startedAt: performance.now(), handle: null, generation };
+      schedule(running);
+    },
+    stop,
+    subscribe(listener) {
+      frameListeners.add(listener);
+      return () => frameListeners.delete(listener);
+    },
+    onTiming(listener) {
+      timingListeners.add(listener);
+      return () => timingListeners.delete(listener);
+    },
+    stats: () => ({
+      thread: backend.thread,
+      processedFrames: governor.processed,
+      skippedFrames: governor.skipped,
+      framesWithHand,
+      firstHandAfterMs,
+      frameIntervalMs: governor.intervalMs,
+    }),
+    close() {
+      stop();
+      backend.close();
+    },
+  };
+}
+
+async function mainThreadBackend(config: Omit<DetectorConfig, "wasmAsModule">): Promise<Backend> {
+  const detector: Detector = await createDetector({ ...config, wasmAsModule: false });
+  return {
+    thread: "main",
+    process: async (video, t) => detector.detect(video, t),
+    close: () => detector.close(),
+  };
+}
+
+async function grabFrame(video: HTMLVideoElement, t: number): Promise<TransferableFrame> {
+  // A VideoFrame wraps the decoded frame without a copy; ImageBitmap is the older transferable fallback.
+  if (typeof VideoFrame !== "undefined") {
+    try {
+      return new VideoFrame(video, { timestamp: Math.round(t * 1000) });
+    } catch {
+      // Some browsers refuse a VideoFrame from a video element (e.g. before the first frame); use a bitmap.
+    }
+  }
+  return createImageBitmap(video);
+}
+
+async function workerBackend(config: Omit<DetectorConfig, "wasmAsModule">): Promise<Backend> {
+  // The literal `new Worker(new URL(..., import.meta.url))` form is what bundlers (Next, Vite) recognise.
+  const worker = new Worker(new URL("./tracker.worker.ts", import.meta.url), { type: "module", name: "kinarc-tracking" });
+  const pending = new Map<number, (step: DetectionStep | null) => void>();
+  let nextId = 0;
+  let failure: string | null = null;
+
+  await new Promise<void>((resolve, reject) => {
+    const timer = setTimeout(() => reject(new Error(`no answer within ${WORKER_READY_TIMEOUT_MS} ms`)), WORKER_READY_TIMEOUT_MS);
+    worker.onerror = (event) => {
+      clearTimeout(timer);
+      event.preventDefault();
+      reject(new Error(event.message || "worker failed to load"));
+    };
+    worker.onmessage = (event: MessageEvent<WorkerResponse>) => {
+      if (event.data.type === "ready") {
+        clearTimeout(timer);
+        resolve();
+      } else if (event.data.type === "error") {
+        clearTimeout(timer);
+        reject(new Error(event.data.message));
+      }
+    };
+    worker.postMessage({ type: "init", config } satisfies WorkerRequest);
+  }).catch((error: unknown) => {
+    worker.terminate();
+    throw error;
+  });
+
+  worker.onmessage = (event: MessageEvent<WorkerResponse>) => {
+    const message = event.data;
+    if (message.type === "result" || message.type === "frame-error") {
+      const resolve = pending.get(message.id);
+      pending.delete(message.id);
+      if (message.type === "frame-error") console.error(`tracking: ${message.message}`);
+      resolve?.(message.type === "result" ? message.step : null);
+    }
+  };
+  worker.onerror = (event) => {
+    failure = event.message || "worker error";
+    for (const resolve of pending.values()) resolve(null);
+    pending.clear();
+  };
+
+  return {
+    thread: "worker",
+    async process(video, t) {
+      if (failure) throw new Error(`tracking worker stopped: ${failure}`);
+      const image = await grabFrame(video, t);
+      const id = nextId++;
+      return new Promise<DetectionStep | null>((resolve) => {
+        pending.set(id, resolve);
+        worker.postMessage({ type: "frame", id, t, image } satisfies WorkerRequest, [image]);
+      });
+    },
+    close() {
+      worker.postMessage({ type: "close" } satisfies WorkerRequest);
+      for (const resolve of pending.values()) resolve(null);
+      pending.clear();
+    },
+  };
+}

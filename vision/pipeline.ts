@@ -1,0 +1,200 @@
+import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
+import { MOTIONS } from "@/lib/motions/catalog";
+import { handAxes, readMotion } from "./angles";
+import type { HandLandmarks } from "./landmarks";
+import { LANDMARK_COUNT } from "./landmarks";
+import { OneEuroFilter, type OneEuroParams } from "./one-euro";
+import { PlaneAccumulator, readPlane, unitGravity, type PlaneReading } from "./plane";
+import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
+import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
+
+/** How an angle was obtained; later accuracy work adds corrected methods beside these. */
+export type MeasurementMethod = "world3d" | "image_plane";
+
+export interface PipelineFrame {
+  /** Milliseconds since the capture started. */
+  t: number;
+  /** The tracker's hand-presence score, 0..1. */
+  score: number;
+  hand: HandLandmarks | null;
+  /** Unit vector from elbow to wrist, camera axes, when the elbow is in view. */
+  forearm?: Vec3 | null;
+}
+
+export interface LivePipelineOptions {
+  motion: MotionId;
+  side: Side;
+  digit: Digit | null;
+  condition: Condition;
+  /** Gravity in camera axes; straight down the image when not given. */
+  gravity?: Vec3 | null;
+  /** Frames scoring below this are skipped, never read as a zero angle. */
+  minScore?: number;
+  filter?: Partial<OneEuroParams>;
+  reps?: Partial<RepParams>;
+  /** Without a forearm direction, the hand's mean long axis over this first stretch is taken as neutral. */
+  neutralWindowMs?: number;
+  /** A gap in usable frames longer than this restarts the smoother, so it does not glide across the hole. */
+  maxGapMs?: number;
+}
+
+export type FrameQuality = "ok" | "no_hand" | "low_score" | "bad_landmarks" | "degenerate";
+
+export interface LiveUpdate {
+  t: number;
+  quality: FrameQuality;
+  score: number;
+  /** Reported angle (positive in the motion's direction), null when the frame was skipped. */
+  angleDeg: number | null;
+  imagePlaneDeg: number | null;
+  smoothedDeg: number | null;
+  plane: PlaneReading | null;
+  rep: { phase: RepPhase; count: number; currentTopDeg: number | null };
+  method: MeasurementMethod;
+  uncertaintyDeg?: number;
+  correctionVersion: string | null;
+}
+
+export interface PipelineSummary {
+  frames: number;
+  usableFrames: number;
+  meanScore: number;
+  /** Completed repetitions plus, if the capture stopped mid-movement, the open one marked incomplete. */
+  repetitions: Repetition[];
+  /** Plane over the outward part of every repetition, or over all usable frames when there was none. */
+  plane: PlaneReading | null;
+  method: MeasurementMethod;
+  uncertaintyDeg?: number;
+  correctionVersion: string | null;
+  warnings: string[];
+}
+
+export interface LivePipeline {
+  readonly options: Readonly<LivePipelineOptions>;
+  push(frame: PipelineFrame): LiveUpdate;
+  summary(): PipelineSummary;
+}
+
+export const DEFAULT_MIN_SCORE = 0.5;
+const DEFAULT_NEUTRAL_WINDOW_MS = 500;
+const DEFAULT_MAX_GAP_MS = 500;
+
+function landmarksUsable(hand: HandLandmarks): boolean {
+  if (hand.length !== LANDMARK_COUNT) return false;
+  for (const p of hand) if (!isFiniteVec(p)) return false;
+  return true;
+}
+
+/**
+ * The per-frame measurement path shared by the live UI (one `push` per camera frame) and the whole-capture analyzer.
+ * No DOM, no Node APIs: runs on the main thread, in a worker and on the server.
+ */
+export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
+  const motion = MOTIONS[options.motion];
+  const isWrist = motion.joint === "wrist";
+  const gravity = unitGravity(options.gravity);
+  const minScore = options.minScore ?? DEFAULT_MIN_SCORE;
+  const neutralWindowMs = options.neutralWindowMs ?? DEFAULT_NEUTRAL_WINDOW_MS;
+  const maxGapMs = options.maxGapMs ?? DEFAULT_MAX_GAP_MS;
+  const filter = new OneEuroFilter(options.filter);
+  const segmenter = new RepSegmenter(options.reps);
+  const allFramesPlane = new PlaneAccumulator();
+
+  let frames = 0;
+  let usable = 0;
+  let scoreSum = 0;
+  let lastUsableMs = Number.NaN;
+  let neutralSum: Vec3 = [0, 0, 0];
+  let neutralStartMs = Number.NaN;
+  let neutral: Vec3 | null = null;
+  let usedNeutral = false;
+  const method: MeasurementMethod = "world3d";
+
+  function skipped(t: number, score: number, quality: FrameQuality): LiveUpdate {
+    return {
+      t,
+      quality,
+      score,
+      angleDeg: null,
+      imagePlaneDeg: null,
+      smoothedDeg: null,
+      plane: null,
+      rep: { phase: segmenter.phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
+      method,
+      correctionVersion: null,
+    };
+  }
+
+  /** Forearm direction for this frame: the given one, else the neutral built from the first frames of the capture. */
+  function forearmFor(frame: PipelineFrame, longAxis: Vec3): Vec3 | null {
+    if (frame.forearm && isFiniteVec(frame.forearm)) return frame.forearm;
+    usedNeutral = true;
+    if (Number.isNaN(neutralStartMs)) neutralStartMs = frame.t;
+    if (frame.t - neutralStartMs <= neutralWindowMs) {
+      neutralSum = add(neutralSum, longAxis);
+      neutral = normalize(neutralSum);
+    }
+    return neutral;
+  }
+
+  function push(frame: PipelineFrame): LiveUpdate {
+    frames += 1;
+    const score = Number.isFinite(frame.score) ? frame.score : 0;
+    scoreSum += score;
+    if (!frame.hand) return skipped(frame.t, score, "no_hand");
+    if (score < minScore) return skipped(frame.t, score, "low_score");
+    if (!landmarksUsable(frame.hand)) return skipped(frame.t, score, "bad_landmarks");
+    const axes = handAxes(frame.hand, options.side);
+    if (!axes) return skipped(frame.t, score, "degenerate");
+    const forearm = isWrist ? forearmFor(frame, axes.longAxis) : null;
+    const reading = readMotion(options.motion, options.digit, frame.hand, axes, forearm);
+    if (!reading || !Number.isFinite(reading.deg)) return skipped(frame.t, score, "degenerate");
+
+    usable += 1;
+    if (!Number.isNaN(lastUsableMs) && frame.t - lastUsableMs > maxGapMs) filter.reset();
+    lastUsableMs = frame.t;
+    const smoothedDeg = filter.filter(reading.deg, frame.t / 1000);
+    const plane = readPlane(reading.axis, reading.travel, gravity);
+    allFramesPlane.add(plane.axisToGravityDeg, plane.travelAlongGravity);
+    const phase = segmenter.push(frame.t, reading.deg, smoothedDeg, filter.speed, plane.axisToGravityDeg, plane.travelAlongGravity);
+    return {
+      t: frame.t,
+      quality: "ok",
+      score,
+      angleDeg: reading.deg,
+      imagePlaneDeg: Number.isFinite(reading.imagePlaneDeg) ? reading.imagePlaneDeg : null,
+      smoothedDeg,
+      plane: { verdict: plane.verdict, axisToGravityDeg: plane.axisToGravityDeg },
+      rep: { phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
+      method,
+      correctionVersion: null,
+    };
+  }
+
+  function summary(): PipelineSummary {
+    const repetitions = segmenter.snapshot();
+    const repPlane = segmenter.outwardPlane();
+    const warnings: string[] = [];
+    if (isWrist && usedNeutral) {
+      warnings.push(
+        `no forearm direction: neutral wrist position taken from the hand over the first ${neutralWindowMs} ms; angles assume the client started at neutral and kept the forearm still`,
+      );
+    }
+    if (frames > 0 && usable / frames < 0.8) warnings.push(`only ${usable} of ${frames} frames had a usable hand`);
+    if (usable > 0 && repetitions.length === 0) warnings.push("no repetition found: the joint did not move clearly away from its resting angle");
+    if (repetitions.some((r) => !r.complete)) warnings.push("the capture ended before the last repetition returned to rest");
+    return {
+      frames,
+      usableFrames: usable,
+      meanScore: frames ? scoreSum / frames : 0,
+      repetitions,
+      plane: repPlane.frames ? repPlane.result() : allFramesPlane.result(),
+      method,
+      correctionVersion: null,
+      warnings,
+    };
+  }
+
+  return { options, push, summary };
+}
+
