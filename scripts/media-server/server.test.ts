@@ -42,6 +42,9 @@ async function token(
 
 const httpBase = () => server.url.replace(/^ws/, "http");
 
+type ResponseCase = NonNullable<SignalResponse["message"]["case"]>;
+type ResponseValue<K extends ResponseCase> = Extract<SignalResponse["message"], { case: K }>["value"];
+
 /** A bare signalling client: what livekit-client does on the WebSocket, without WebRTC. */
 class SignalClient {
   readonly received: SignalResponse[] = [];
@@ -72,16 +75,12 @@ class SignalClient {
   }
 
   /** The first message of this kind matching `where`, waiting up to 5 s. */
-  async next<K extends NonNullable<SignalResponse["message"]["case"]>>(
-    kind: K,
-    where: (value: Extract<SignalResponse["message"], { case: K }>["value"]) => boolean = () => true,
-  ): Promise<Extract<SignalResponse["message"], { case: K }>["value"]> {
+  async next<K extends ResponseCase>(kind: K, where: (value: ResponseValue<K>) => boolean = () => true): Promise<ResponseValue<K>> {
     const deadline = Date.now() + 5000;
     for (;;) {
-      const found = this.received.find(
-        (response) => response.message.case === kind && where(response.message.value as never),
-      );
-      if (found) return found.message.value as Extract<SignalResponse["message"], { case: K }>["value"];
+      for (const { message } of this.received) {
+        if (message.case === kind && where(message.value as ResponseValue<K>)) return message.value as ResponseValue<K>;
+      }
       if (this.closed || Date.now() > deadline) throw new Error(`no ${kind} message arrived`);
       await new Promise<void>((resolve) => {
         this.waiters.push(resolve);
@@ -137,6 +136,8 @@ describe("token checks (LiveKit access tokens: HS256 JWT signed with the API sec
     // livekit-client 2.23.0 (SignalClient.handleConnectionError): a 404 whose body does not say
     // "requested room does not exist" means "fall back to /rtc".
     expect(v1Probe.status).toBe(404);
+    // The probe comes from the page's origin, not the server's: the browser shows the status only with CORS.
+    expect(v1Probe.headers.get("access-control-allow-origin")).toBe("*");
     expect(await v1Probe.text()).not.toContain("requested room does not exist");
   });
 });

@@ -79,7 +79,9 @@ export async function startMediaServer({ port, apiKey, apiSecret }: MediaServerO
 async function answerHttp(request: IncomingMessage, response: ServerResponse, checkAccess: AccessCheck): Promise<void> {
   const url = new URL(request.url ?? "/", "http://localhost");
   const reply = (status: number, body: string) => {
-    response.writeHead(status, { "content-type": "text/plain; charset=utf-8" });
+    // The probe comes from the app's page, another origin; without this header the browser hides the
+    // status and the client reports the server unreachable instead of falling back.
+    response.writeHead(status, { "content-type": "text/plain; charset=utf-8", "access-control-allow-origin": "*" });
     response.end(body);
   };
   if (request.method !== "GET") return reply(405, "only GET is served");
