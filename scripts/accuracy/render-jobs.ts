@@ -1,0 +1,123 @@
+import { spawn } from "node:child_process";
+import { mkdirSync, writeFileSync } from "node:fs";
+import path from "node:path";
+import type { HandRenderer } from "./renderer";
+import type { HandRig, HandSide } from "./rig";
+import { frameSeeds, randomFrame, type FrameTruth, type RandomFrameOptions } from "./scene";
+import { buildSweepFrames, type SweepOptions } from "./sweep";
+
+/** Frames sent to the page per round trip: enough to hide the trip, few enough to keep memory small. */
+const BATCH_SIZE = 12;
+
+export interface RenderedSetLabel {
+  file: string;
+  seed: number;
+  truth: FrameTruth;
+}
+
+export interface RenderedSet {
+  setSeed: number;
+  folder: string;
+  labelsFile: string;
+  frames: RenderedSetLabel[];
+  msPerFrame: number;
+}
+
+/** Renders `count` random labelled frames from `setSeed` into `folder` (JPEGs plus labels.json). */
+export async function renderRandomSet(
+  renderer: HandRenderer,
+  rigs: Record<HandSide, HandRig>,
+  setSeed: number,
+  count: number,
+  folder: string,
+  options: RandomFrameOptions = {},
+): Promise<RenderedSet> {
+  if (!Number.isInteger(count) || count <= 0) throw new Error(`count: expected a positive whole number; got ${count}`);
+  mkdirSync(path.join(folder, "frames"), { recursive: true });
+  const seeds = frameSeeds(setSeed, count);
+  const labels: RenderedSetLabel[] = [];
+  const started = performance.now();
+  for (let start = 0; start < count; start += BATCH_SIZE) {
+    const batch = seeds.slice(start, start + BATCH_SIZE).map((seed) => randomFrame(rigs, seed, options));
+    const images = await renderer.render(batch.map((frame) => frame.spec));
+    batch.forEach((frame, offset) => {
+      const file = path.join("frames", `${String(start + offset).padStart(6, "0")}.jpg`);
+      writeFileSync(path.join(folder, file), images[offset]);
+      labels.push({ file, seed: frame.seed, truth: frame.truth });
+    });
+  }
+  const msPerFrame = (performance.now() - started) / count;
+  const labelsFile = path.join(folder, "labels.json");
+  writeFileSync(labelsFile, JSON.stringify({ setSeed, count, options, frames: labels }, null, 1));
+  return { setSeed, folder, labelsFile, frames: labels, msPerFrame };
+}
+
+export interface RenderedClip {
+  mjpegFile: string;
+  webmFile: string | null;
+  truthFile: string;
+  frameCount: number;
+  msPerFrame: number;
+}
+
+function runFfmpeg(args: string[], input: Buffer[]): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const child = spawn("ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", ...args], { stdio: ["pipe", "ignore", "pipe"] });
+    let stderr = "";
+    child.stderr.on("data", (chunk) => (stderr += chunk));
+    child.on("error", (error) => reject(new Error(`ffmpeg could not start (is Debian's ffmpeg installed?): ${error.message}`)));
+    child.on("close", (code) => (code === 0 ? resolve() : reject(new Error(`ffmpeg exited with ${code}: ${stderr.trim()}`))));
+    for (const frame of input) child.stdin.write(frame);
+    child.stdin.end();
+  });
+}
+
+/**
+ * Renders a one-joint sweep as a clip: `<name>.mjpeg` (what Chromium's fake camera reads), optionally `<name>.webm`
+ * (what a video element plays), and `<name>.json` with each frame's time and truth.
+ */
+export async function renderSweepClip(
+  renderer: HandRenderer,
+  rig: HandRig,
+  options: SweepOptions,
+  folder: string,
+  name: string,
+  { webm = true }: { webm?: boolean } = {},
+): Promise<RenderedClip> {
+  const frames = buildSweepFrames(rig, options);
+  mkdirSync(folder, { recursive: true });
+  const images: Buffer[] = [];
+  const started = performance.now();
+  for (let start = 0; start < frames.length; start += BATCH_SIZE) {
+    images.push(...(await renderer.render(frames.slice(start, start + BATCH_SIZE).map((frame) => frame.spec))));
+  }
+  const msPerFrame = (performance.now() - started) / frames.length;
+  const mjpegFile = path.join(folder, `${name}.mjpeg`);
+  // Re-muxed by ffmpeg rather than concatenated here, so the file is what ffmpeg itself would call MJPEG.
+  await runFfmpeg(["-f", "image2pipe", "-framerate", String(options.fps), "-c:v", "mjpeg", "-i", "-", "-c:v", "copy", "-f", "mjpeg", mjpegFile], images);
+  let webmFile: string | null = null;
+  if (webm) {
+    webmFile = path.join(folder, `${name}.webm`);
+    await runFfmpeg(
+      ["-f", "image2pipe", "-framerate", String(options.fps), "-c:v", "mjpeg", "-i", "-", "-c:v", "libvpx", "-b:v", "2M",
+        "-deadline", "realtime", "-cpu-used", "8", "-pix_fmt", "yuv420p", webmFile],
+      images,
+    );
+  }
+  const truthFile = path.join(folder, `${name}.json`);
+  const { basePose, ...described } = options;
+  writeFileSync(
+    truthFile,
+    JSON.stringify(
+      {
+        sweep: { ...described, basePose: basePose ?? "rest" },
+        fps: options.fps,
+        frameCount: frames.length,
+        frames: frames.map((frame) => ({ index: frame.index, timeMs: frame.timeMs, truth: frame.truth })),
+      },
+      null,
+      1,
+    ),
+  );
+  return { mjpegFile, webmFile, truthFile, frameCount: frames.length, msPerFrame };
+}

@@ -1,0 +1,110 @@
+import {
+  clonePose,
+  getPoseAngle,
+  POSE_KEYS,
+  poseHand,
+  restPose,
+  setPoseAngle,
+  type HandPose,
+  type PoseKey,
+} from "./hand-pose";
+import type { RenderFrameSpec } from "./render-spec";
+import type { HandRig, HandSide } from "./rig";
+import {
+  buildFrame,
+  CAMERA_VIEWS,
+  handCentre,
+  makeRng,
+  placeCamera,
+  sampleCamera,
+  sampleLook,
+  type CameraView,
+  type FrameTruth,
+} from "./scene";
+
+export interface SweepOptions {
+  joint: PoseKey;
+  fromDeg: number;
+  toDeg: number;
+  cycles: number;
+  cycleSeconds: number;
+  fps: number;
+  view: CameraView;
+  side: HandSide;
+  /** Fixes skin, background, light and the camera's small offsets; the camera stays still for the whole clip. */
+  seed: number;
+  distanceM: number;
+  /** Angles of the joints that do not move; the rest pose when omitted. */
+  basePose?: HandPose;
+}
+
+/** Checks options from the command line or a caller; every message names the field and what it expects. */
+export function validateSweepOptions(options: SweepOptions): SweepOptions {
+  if (!POSE_KEYS.includes(options.joint)) {
+    throw new Error(`joint: expected one of ${POSE_KEYS.join(", ")}; got '${options.joint}'`);
+  }
+  if (!CAMERA_VIEWS.includes(options.view)) throw new Error(`view: expected one of ${CAMERA_VIEWS.join(", ")}; got '${options.view}'`);
+  if (options.side !== "left" && options.side !== "right") throw new Error(`side: expected left or right; got '${options.side}'`);
+  const positive: [keyof SweepOptions, number][] = [
+    ["cycles", options.cycles],
+    ["cycleSeconds", options.cycleSeconds],
+    ["fps", options.fps],
+    ["distanceM", options.distanceM],
+  ];
+  for (const [field, value] of positive) {
+    if (!Number.isFinite(value) || value <= 0) throw new Error(`${field}: expected a positive number; got ${value}`);
+  }
+  if (!Number.isInteger(options.cycles)) throw new Error(`cycles: expected a whole number; got ${options.cycles}`);
+  for (const field of ["fromDeg", "toDeg"] as const) {
+    if (!Number.isFinite(options[field])) throw new Error(`${field}: expected an angle in degrees; got ${options[field]}`);
+  }
+  if (!Number.isInteger(options.seed)) throw new Error(`seed: expected an integer; got ${options.seed}`);
+  return options;
+}
+
+/**
+ * The commanded angle at each frame: from -> to -> from per cycle along a raised cosine, so the joint slows at both
+ * ends as a real movement does and each cycle has one peak, reached exactly at its middle frame when the frames
+ * per cycle are even.
+ */
+export function sweepAnglesDeg(fromDeg: number, toDeg: number, cycles: number, framesPerCycle: number): number[] {
+  const total = cycles * framesPerCycle;
+  return Array.from({ length: total + 1 }, (_, frame) => {
+    const phase = (2 * Math.PI * frame) / framesPerCycle;
+    return fromDeg + ((toDeg - fromDeg) * (1 - Math.cos(phase))) / 2;
+  });
+}
+
+export interface SweepFrame {
+  index: number;
+  timeMs: number;
+  spec: RenderFrameSpec;
+  truth: FrameTruth;
+}
+
+/** Every frame of a one-joint sweep, camera and look fixed from the seed. */
+export function buildSweepFrames(rig: HandRig, rawOptions: SweepOptions): SweepFrame[] {
+  const options = validateSweepOptions(rawOptions);
+  if (rig.side !== options.side) throw new Error(`side: the rig is the ${rig.side} hand but the sweep asks for ${options.side}`);
+  const rng = makeRng(options.seed);
+  const placement = { ...sampleCamera(rng, options.view), distanceM: options.distanceM };
+  const look = sampleLook(rng);
+  const base = options.basePose ? clonePose(options.basePose) : restPose();
+  const framesPerCycle = Math.round(options.cycleSeconds * options.fps);
+  const angles = sweepAnglesDeg(options.fromDeg, options.toDeg, options.cycles, framesPerCycle);
+  // Aim at the hand halfway through the motion so it stays in view at both ends.
+  const middlePose = clonePose(base);
+  setPoseAngle(middlePose, options.joint, (options.fromDeg + options.toDeg) / 2);
+  const camera = placeCamera(options.side, placement, handCentre(poseHand(rig, middlePose)));
+  return angles.map((angleDeg, index) => {
+    const pose = clonePose(base);
+    setPoseAngle(pose, options.joint, angleDeg);
+    const { spec, truth } = buildFrame(rig, pose, camera, placement, look);
+    return { index, timeMs: (index * 1000) / options.fps, spec, truth };
+  });
+}
+
+/** The commanded angle of the swept joint in each frame (for reports and checks). */
+export function sweptAnglesOf(frames: SweepFrame[], joint: PoseKey): number[] {
+  return frames.map((frame) => getPoseAngle(frame.truth.commandedDeg, joint));
+}
