@@ -1,0 +1,161 @@
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Browser, BrowserContext } from "playwright-core";
+import { DEMO_PASSWORD, DEMO_SIGN_INS } from "@/db/seed/demo";
+import { startTestApp, signInWithPassword, type TestApp } from "./support/app";
+import { launchChromium } from "./support/browser";
+
+let app: TestApp;
+let browser: Browser;
+
+beforeAll(async () => {
+  app = await startTestApp("foundation");
+  browser = await launchChromium();
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await app?.stop();
+});
+
+async function signedIn(email: string): Promise<BrowserContext> {
+  const context = await browser.newContext();
+  const page = await context.newPage();
+  await signInWithPassword(page, app.appUrl, email, DEMO_PASSWORD);
+  await page.waitForURL(`${app.appUrl}/home`);
+  return context;
+}
+
+describe("sign-in", () => {
+  const landings: Record<string, RegExp> = {
+    admin: /Saltmarsh Hand Therapy/,
+    therapist: /Good (morning|afternoon|evening), Tomasz/,
+    assistant: /Good (morning|afternoon|evening), Juniper/,
+    client: /Hello, Dorian/,
+  };
+  for (const account of DEMO_SIGN_INS) {
+    it(`${account.role} signs in and lands on their own home`, async () => {
+      const context = await signedIn(account.email);
+      const page = context.pages()[0];
+      await expect(page.getByRole("heading", { level: 1 }).textContent()).resolves.toMatch(landings[account.role]);
+      await expect(page.getByTestId("signed-in-name").textContent()).resolves.toBe(account.name);
+      await context.close();
+    });
+  }
+
+  it("refuses a wrong password with a message and stays on the sign-in page", async () => {
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await signInWithPassword(page, app.appUrl, "therapist@kinarc.test", "not-the-password");
+    const alert = page.getByRole("form", { name: "Sign in with password" }).getByRole("alert");
+    await alert.waitFor();
+    expect(await alert.textContent()).toMatch(/do not match an active Kinarc account/);
+    expect(new URL(page.url()).pathname).toBe("/sign-in");
+    await context.close();
+  });
+
+  it("sends a client a one-time link through the mail catcher, and the link signs them in", async () => {
+    const email = "wren.castellanos@clients.kinarc.test";
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await page.goto(`${app.appUrl}/sign-in`);
+    const form = page.getByRole("form", { name: "E-mail me a sign-in link" });
+    await form.getByLabel("Your e-mail").fill(email);
+    await form.getByRole("button", { name: "E-mail me a link" }).click();
+    await form.getByRole("status").waitFor();
+    const message = await app.mail.waitFor(email, /sign-in link/);
+    const link = message.text.match(/https?:\/\/\S+/)?.[0];
+    expect(link).toBeDefined();
+    expect(new URL(link!).origin).toBe(app.appUrl);
+    await page.goto(link!);
+    await page.waitForURL(`${app.appUrl}/home`);
+    expect(await page.getByRole("heading", { level: 1 }).textContent()).toBe("Hello, Wren");
+    // The link works once.
+    const second = await browser.newContext();
+    const again = await second.newPage();
+    await again.goto(link!);
+    expect(new URL(again.url()).pathname).toBe("/sign-in");
+    await second.close();
+    await context.close();
+  });
+
+  it("sends no link to an address that is not a client, with the same answer", async () => {
+    const before = (await app.mail.list()).length;
+    const context = await browser.newContext();
+    const page = await context.newPage();
+    await page.goto(`${app.appUrl}/sign-in`);
+    const form = page.getByRole("form", { name: "E-mail me a sign-in link" });
+    await form.getByLabel("Your e-mail").fill("therapist@kinarc.test");
+    await form.getByRole("button", { name: "E-mail me a link" }).click();
+    expect(await form.getByRole("status").textContent()).toMatch(/If that address belongs to a Kinarc client/);
+    await new Promise((r) => setTimeout(r, 500));
+    expect((await app.mail.list()).length).toBe(before);
+    await context.close();
+  });
+});
+
+describe("record access", () => {
+  it("a client opening another client's record gets a 404 page and API answer", async () => {
+    const context = await signedIn("client@kinarc.test");
+    const page = context.pages()[0];
+    const other = app.seed.clientIds!.wren;
+    const own = app.seed.clientIds!.dorian;
+    const response = await page.goto(`${app.appUrl}/clients/${other}`);
+    expect(response?.status()).toBe(404);
+    expect(await page.textContent("body")).not.toContain("Castellanos");
+    const api = await context.request.get(`${app.appUrl}/api/v1/clients/${other}`);
+    expect(api.status()).toBe(404);
+    const mine = await context.request.get(`${app.appUrl}/api/v1/clients/${own}`);
+    expect(mine.status()).toBe(200);
+    expect((await mine.json()).familyName).toBe("Vale");
+    // A client cannot list the clinic's clients.
+    expect((await context.request.get(`${app.appUrl}/api/v1/clients`)).status()).toBe(403);
+    await context.close();
+  });
+
+  it("the admin reads but cannot edit a client's clinical data", async () => {
+    const context = await signedIn("admin@kinarc.test");
+    const page = context.pages()[0];
+    const id = app.seed.clientIds!.kofi;
+    const patch = await context.request.patch(`${app.appUrl}/api/v1/clients/${id}`, { data: { diagnosisNote: "changed by admin" } });
+    expect(patch.status()).toBe(403);
+    const edit = await page.goto(`${app.appUrl}/clients/${id}/edit`);
+    expect(edit?.status()).toBe(404);
+    const read = await context.request.get(`${app.appUrl}/api/v1/clients/${id}`);
+    expect((await read.json()).diagnosisNote).not.toBe("changed by admin");
+    await context.close();
+  });
+
+  it("a therapist edits a record through the form, and a bad date is shown inline", async () => {
+    const context = await signedIn("therapist@kinarc.test");
+    const page = context.pages()[0];
+    const id = app.seed.clientIds!.bram;
+    await page.goto(`${app.appUrl}/clients/${id}/edit`);
+    await page.getByLabel("No resisted testing before").fill("2027-03-01");
+    await page.getByRole("button", { name: "Save changes" }).click();
+    const error = page.locator("#precautionFlags-error");
+    await error.waitFor();
+    expect(await error.textContent()).toMatch(/No resisted testing/);
+    await page.getByLabel("No resisted testing (see date)").check();
+    await page.getByRole("button", { name: "Save changes" }).click();
+    await page.waitForURL(`${app.appUrl}/clients/${id}`);
+    expect(await page.textContent("body")).toContain("No resisted testing before 2027-03-01");
+    await context.close();
+  });
+
+  it("the client list sorts, filters and pages through the API", async () => {
+    const context = await signedIn("therapist@kinarc.test");
+    const page = context.pages()[0];
+    await page.goto(`${app.appUrl}/clients`);
+    const table = page.getByTestId("client-table");
+    await table.getByRole("link").first().waitFor();
+    const names = async () => (await table.getByRole("link").allTextContents()).map((n) => n.split(" ").slice(1).join(" "));
+    const ascending = await names();
+    expect(ascending.length).toBe(10);
+    expect([...ascending].sort((a, b) => a.localeCompare(b))).toEqual(ascending);
+    await page.getByRole("button", { name: /Client/ }).click();
+    await expect.poll(async () => (await names())[0]).toBe("Vale");
+    await page.getByLabel("Search").fill("tendon");
+    await expect.poll(async () => (await names()).join(",")).toBe("Castellanos");
+    await context.close();
+  });
+});
