@@ -10,5 +10,7 @@ export default defineConfig({
     environment: "node",
     pool: "forks",
     testTimeout: 30_000,
+    // next-auth imports "next/server" without an extension, which Node's ESM resolver refuses; let Vite resolve it.
+    server: { deps: { inline: ["next-auth"] } },
   },
 });
