@@ -261,6 +261,10 @@ export function buildFrame(
   const posed = poseHand(rig, pose);
   const boneMatrices: Record<string, number[]> = {};
   for (const joint of RIG_JOINT_NAMES) boneMatrices[joint] = posed.jointMatrices[joint].toArray();
+  // The mesh's cuff is skinned to the wrist bone alone; left to turn with the hand it swings out of the forearm
+  // and shows its open end. Holding that bone still (the wrist joint's position does not move either way) lets
+  // the skin between cuff and metacarpals bend instead, as skin over a wrist does.
+  boneMatrices.wrist = new Matrix4().compose(rig.joints.wrist.position, rig.joints.wrist.quaternion, new Vector3(1, 1, 1)).toArray();
   const cameraRotation = new Matrix4().extractRotation(camera.matrixWorld);
   const toWorld = (direction: [number, number, number]) =>
     new Vector3(...direction).normalize().transformDirection(cameraRotation).toArray() as [number, number, number];
