@@ -1,4 +1,4 @@
-import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
+import { MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
 import { createLivePipeline, type LivePipelineOptions, type MeasurementMethod, type PipelineFrame } from "./pipeline";
 import type { PlaneReading } from "./plane";
 import type { Repetition } from "./reps";
@@ -35,7 +35,7 @@ export interface CaptureAnalysis {
   meanScore: number;
   reps: number;
   repetitions: Repetition[];
-  /** Start, peak and arc of the repetition with the highest peak; null when no repetition was found. */
+  /** Start, peak and arc of the best repetition (by the motion's graded measure); null when no repetition was found. */
   startDeg: number | null;
   peakDeg: number | null;
   arcDeg: number | null;
@@ -67,8 +67,10 @@ export function analyzeCapture(capture: CaptureInput, options: AnalyzeOptions = 
   const summary = pipeline.summary();
   const limits = { ...DEFAULT_TRACKING_LIMITS, ...options.tracking };
 
+  // The best repetition is the one that went furthest by the measure the motion is graded on.
+  const measure = MOTIONS[capture.motion].gradedOn === "arc" ? (r: Repetition) => r.arcDeg : (r: Repetition) => r.peakDeg;
   let best: Repetition | null = null;
-  for (const rep of summary.repetitions) if (!best || rep.peakDeg > best.peakDeg) best = rep;
+  for (const rep of summary.repetitions) if (!best || measure(rep) > measure(best)) best = rep;
 
   const warnings = [...summary.warnings];
   const planeAgrees = summary.plane?.verdict === capture.condition;

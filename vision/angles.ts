@@ -1,6 +1,6 @@
 import type { Digit, MotionId, Side } from "@/lib/motions/catalog";
 import { DIGIT_CHAIN, INDEX_MCP, LITTLE_MCP, MIDDLE_MCP, WRIST, type HandLandmarks } from "./landmarks";
-import { RAD_TO_DEG, angleBetweenDeg, cross, dot, imagePlaneAngleDeg, normalize, rejectFrom, scale, sub, type Vec3 } from "./vec";
+import { RAD_TO_DEG, cross, dot, imagePlaneAngleDeg, normalize, rejectFrom, scale, sub, type Vec3 } from "./vec";
 
 /**
  * The hand's own axes, from the wrist and the index, middle and little MCP landmarks.
@@ -54,16 +54,21 @@ interface Hinge {
   travel: Vec3;
 }
 
-/** Flexion at a hinge joint between bone lines `proximal` and `distal` about the hand-level flexion axis `k`. */
+/**
+ * Flexion at a hinge joint: the angle between the bone lines `proximal` and `distal`, taken in the joint's flexion
+ * plane (perpendicular to `k`, the lateral axis, made perpendicular to the proximal bone). For a true hinge this is
+ * the 3-D angle between the bones; measured in the plane, sideways landmark jitter neither inflates it nor flips its
+ * sign near straight.
+ */
 function hingeFlexion(proximal: Vec3, distal: Vec3, k: Vec3): Hinge | null {
   const a = normalize(proximal);
   const b = normalize(distal);
   if (!a || !b) return null;
   const axis = normalize(rejectFrom(k, a));
   if (!axis) return null;
-  const sign = signOf(dot(cross(a, b), axis));
-  const deg = sign * angleBetweenDeg(a, b);
-  return { deg, imagePlaneDeg: sign * imagePlaneAngleDeg(a, b), axis, travel: cross(axis, b) };
+  const palmward = cross(axis, a);
+  const rad = Math.atan2(dot(b, palmward), dot(b, a));
+  return { deg: rad * RAD_TO_DEG, imagePlaneDeg: signOf(rad) * imagePlaneAngleDeg(a, rejectFrom(b, axis)), axis, travel: cross(axis, b) };
 }
 
 /**
@@ -120,9 +125,13 @@ function digitJointFlexion(hand: HandLandmarks, axes: HandAxes, digit: Digit, jo
     return joint === "mcp" ? hingeFlexion(sub(hand[mcp], hand[cmc]), sub(hand[ip], hand[mcp]), k) : hingeFlexion(sub(hand[ip], hand[mcp]), sub(hand[tip], hand[ip]), k);
   }
   const [mcp, pip, dip, tip] = chain;
-  if (joint === "mcp") return fingerMcp(hand, axes, digit)?.flexion ?? null;
-  if (joint === "dip") return hingeFlexion(sub(hand[dip], hand[pip]), sub(hand[tip], hand[dip]), axes.flexionAxis);
-  return hingeFlexion(sub(hand[pip], hand[mcp]), sub(hand[dip], hand[pip]), axes.flexionAxis);
+  // The lateral axis is carried down the finger: the metacarpal's, made perpendicular to each phalanx in turn. Flexion
+  // of a joint doesn't turn the next joint's axis, and sideways spread at the MCP turns it exactly this way.
+  const atMcp = fingerMcp(hand, axes, digit)?.flexion ?? null;
+  if (joint === "mcp" || !atMcp) return atMcp;
+  const atPip = hingeFlexion(sub(hand[pip], hand[mcp]), sub(hand[dip], hand[pip]), atMcp.axis);
+  if (joint === "pip" || !atPip) return atPip;
+  return hingeFlexion(sub(hand[dip], hand[pip]), sub(hand[tip], hand[dip]), atPip.axis);
 }
 
 /**

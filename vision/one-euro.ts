@@ -14,7 +14,7 @@ export interface OneEuroParams {
 
 // Tuned on the synthetic hand with 2 mm landmark noise at 30 fps: a held angle settles within about a degree and
 // a 100 deg/s flexion lags by a few frames. [common practice: the paper's procedure of setting beta last]
-export const DEFAULT_ONE_EURO: OneEuroParams = { minCutoffHz: 1, beta: 0.02, derivativeCutoffHz: 1 };
+export const DEFAULT_ONE_EURO: OneEuroParams = { minCutoffHz: 1, beta: 0.007, derivativeCutoffHz: 1 };
 
 /** Smoothing factor for a first-order low-pass with cutoff `cutoffHz` sampled every `periodS` seconds (paper, eq. for alpha). */
 export function smoothingFactor(periodS: number, cutoffHz: number): number {

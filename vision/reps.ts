@@ -5,6 +5,11 @@ export type RepPhase = "rest" | "move" | "hold" | "return";
 export interface RepParams {
   /** Rise above the resting angle that starts a repetition. */
   enterDeg: number;
+  /**
+   * The enter threshold also grows with the jitter of the resting angle: at least this many times its estimated
+   * standard deviation per sample, so noisy tracking of a short bone does not start repetitions by itself.
+   */
+  enterNoiseFactor: number;
   /** The rise must last this long, so a burst of tracking jitter does not count as a repetition. */
   minMoveMs: number;
   /** Back within this many degrees of rest (or `restFraction` of the excursion, whichever is larger) ends it. */
@@ -19,15 +24,18 @@ export interface RepParams {
   plateauBandFraction: number;
   /** How many resting samples give the start angle (their median). */
   restSamples: number;
-  /** How quickly the resting angle follows slow drift, per sample (exponential weight). */
+  /** How quickly the resting angle follows slow upward drift, per sample (exponential weight). */
   restDriftWeight: number;
+  /** How quickly it follows the angle settling lower, per sample. */
+  restSettleWeight: number;
 }
 
 // Hysteresis with an enter threshold about twice the exit one is the usual way to keep a noisy signal from
 // chattering across a single threshold [common practice]; the values were tuned on the synthetic hand with 2 mm noise.
 export const DEFAULT_REP_PARAMS: RepParams = {
   enterDeg: 6,
-  minMoveMs: 100,
+  enterNoiseFactor: 1.5,
+  minMoveMs: 150,
   exitDeg: 3,
   restFraction: 0.3,
   returnFraction: 0.25,
@@ -35,8 +43,13 @@ export const DEFAULT_REP_PARAMS: RepParams = {
   plateauBandDeg: 4,
   plateauBandFraction: 0.08,
   restSamples: 15,
-  restDriftWeight: 0.05,
+  restDriftWeight: 0.01,
+  restSettleWeight: 0.1,
 };
+
+const JITTER_SAMPLES = 45;
+/** Samples in the running median that finds the hold plateau: about a third of a second at 30 fps. */
+const PLATEAU_WINDOW = 11;
 
 export interface Repetition {
   index: number;
@@ -59,6 +72,49 @@ function median(values: number[]): number {
   return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
 }
 
+/** First and last index whose value reaches `floor` (the whole range if none does). */
+function spanAtLeast(values: number[], floor: number): [number, number] {
+  let first = -1;
+  let last = -1;
+  for (let i = 0; i < values.length; i++) {
+    if (values[i] < floor) continue;
+    if (first < 0) first = i;
+    last = i;
+  }
+  return first < 0 ? [0, values.length - 1] : [first, last];
+}
+
+/** Centred running median; the window shrinks at the ends. */
+function runningMedian(values: number[], window: number): number[] {
+  const half = window >> 1;
+  const out = new Array<number>(values.length);
+  for (let i = 0; i < values.length; i++) {
+    out[i] = median(values.slice(Math.max(0, i - half), Math.min(values.length, i + half + 1)));
+  }
+  return out;
+}
+
+/** Jitter per sample from successive differences of a moving signal (see `restJitterDeg`); motion adds a little. */
+function successiveJitter(values: number[]): number {
+  if (values.length < 3) return 0;
+  const jumps: number[] = [];
+  for (let i = 1; i < values.length; i++) jumps.push(Math.abs(values[i] - values[i - 1]));
+  return median(jumps) / 0.954;
+}
+
+/**
+ * Mean of the middle 60% of the values: nearly as steady as the mean under Gaussian jitter and, like the median,
+ * unmoved by a few wild frames [common practice: the 20% trimmed mean of robust statistics].
+ */
+function trimmedMean(values: number[]): number {
+  const sorted = values.slice().sort((a, b) => a - b);
+  const cut = Math.floor(sorted.length * 0.2);
+  const kept = sorted.length - 2 * cut;
+  let sum = 0;
+  for (let i = cut; i < sorted.length - cut; i++) sum += sorted[i];
+  return sum / kept;
+}
+
 /**
  * Splits a stream of angles into repetitions (rest, move, hold, return). Fed one usable frame at a time by the live
  * pipeline; the whole-capture analyzer feeds the same object, so both report the same repetitions.
@@ -69,6 +125,9 @@ export class RepSegmenter {
   private restLevel = Number.NaN;
   private readonly restRing: number[] = [];
   private restRingNext = 0;
+  private readonly jitterRing: number[] = [];
+  private jitterRingNext = 0;
+  private lastRestRaw = Number.NaN;
   private candidateSinceMs = Number.NaN;
   private repStartMs = 0;
   private repStartDeg = 0;
@@ -102,17 +161,26 @@ export class RepSegmenter {
    */
   push(tMs: number, rawDeg: number, smoothedDeg: number, speedDegPerS: number, axisDeg: number, travelAlongGravity: number): RepPhase {
     const p = this.p;
-    if (Number.isNaN(this.restLevel)) this.restLevel = smoothedDeg;
+    // Until enough resting samples are in, the resting angle is their median (a single first frame may be noisy)
+    // and no repetition can start.
+    if (this.phaseNow === "rest" && this.done.length === 0 && this.restRing.length < this.p.restSamples) {
+      this.remember(rawDeg);
+      this.restLevel = median(this.restRing);
+      return this.phaseNow;
+    }
 
     if (this.phaseNow === "rest") {
-      if (smoothedDeg - this.restLevel > p.enterDeg) {
+      if (smoothedDeg - this.restLevel > p.enterDeg && smoothedDeg - this.restLevel > p.enterNoiseFactor * this.restJitterDeg()) {
         if (Number.isNaN(this.candidateSinceMs)) this.beginCandidate(tMs);
         this.record(tMs, rawDeg, smoothedDeg, axisDeg, travelAlongGravity);
         if (tMs - this.candidateSinceMs >= p.minMoveMs) this.phaseNow = "move";
         return this.phaseNow;
       }
       if (!Number.isNaN(this.candidateSinceMs)) this.dropCandidate();
-      this.restLevel += p.restDriftWeight * (smoothedDeg - this.restLevel);
+      // Follow the resting angle down quickly but up slowly: repetitions go up, and a slow start of one must not
+      // lift the resting angle along with it.
+      const weight = smoothedDeg < this.restLevel ? p.restSettleWeight : p.restDriftWeight;
+      this.restLevel += weight * (smoothedDeg - this.restLevel);
       this.remember(rawDeg);
       return this.phaseNow;
     }
@@ -164,7 +232,24 @@ export class RepSegmenter {
     this.samplesSmooth = [];
   }
 
+  /**
+   * Per-sample jitter of the resting angle from successive differences: their median absolute value is 0.954 sigma
+   * for Gaussian noise (the difference of two samples has sigma x sqrt 2, and a half-normal's median is 0.6745 sigma),
+   * and slow drift barely moves it.
+   */
+  private restJitterDeg(): number {
+    if (this.jitterRing.length < 5) return 0;
+    return median(this.jitterRing) / 0.954;
+  }
+
   private remember(rawDeg: number): void {
+    if (!Number.isNaN(this.lastRestRaw)) {
+      const jump = Math.abs(rawDeg - this.lastRestRaw);
+      if (this.jitterRing.length < JITTER_SAMPLES) this.jitterRing.push(jump);
+      else this.jitterRing[this.jitterRingNext] = jump;
+      this.jitterRingNext = (this.jitterRingNext + 1) % JITTER_SAMPLES;
+    }
+    this.lastRestRaw = rawDeg;
     if (this.restRing.length < this.p.restSamples) this.restRing.push(rawDeg);
     else this.restRing[this.restRingNext] = rawDeg;
     this.restRingNext = (this.restRingNext + 1) % this.p.restSamples;
@@ -183,16 +268,29 @@ export class RepSegmenter {
     const p = this.p;
     const excursion = this.topSmoothed - this.restLevel;
     const floor = this.topSmoothed - Math.max(p.plateauBandDeg, p.plateauBandFraction * excursion);
-    const plateau: number[] = [];
-    let firstMs = Number.NaN;
-    let lastMs = Number.NaN;
-    for (let i = 0; i < this.samplesT.length; i++) {
-      if (this.samplesSmooth[i] < floor) continue;
-      plateau.push(this.samplesRaw[i]);
-      if (Number.isNaN(firstMs)) firstMs = this.samplesT[i];
-      lastMs = this.samplesT[i];
+    // The plateau is found on a running median of the raw angle (a noise spike cannot make its own plateau), with a
+    // band wide enough for the jitter left in that median; the peak is then the trimmed mean of every raw sample from
+    // the plateau's first to its last frame. Choosing samples by how high they read would pick the ones noise pushed
+    // up and read the peak high.
+    const raw = this.samplesRaw;
+    const rolling = runningMedian(raw, PLATEAU_WINDOW);
+    let top = Number.NEGATIVE_INFINITY;
+    for (const v of rolling) if (v > top) top = v;
+    const jitter = this.restJitterDeg() || successiveJitter(raw);
+    const medianJitter = (1.25 * jitter) / Math.sqrt(PLATEAU_WINDOW);
+    const band = Math.max(p.plateauBandDeg, p.plateauBandFraction * excursion, 2.5 * medianJitter);
+    // The top of the running median is itself lifted by noise; re-centre the band on the plateau's level twice so the
+    // span widens to the whole hold instead of the stretch that noise happened to push up.
+    let level = top;
+    let span: [number, number] = [0, raw.length - 1];
+    for (let pass = 0; pass < 3; pass++) {
+      span = spanAtLeast(rolling, Math.min(level, top) - band);
+      level = trimmedMean(raw.slice(span[0], span[1] + 1));
     }
-    const peakDeg = median(plateau);
+    const [first, last] = span;
+    const peakDeg = level;
+    const firstMs = this.samplesT[first];
+    const lastMs = this.samplesT[last];
     return {
       index: this.done.length,
       complete,
@@ -215,6 +313,7 @@ export class RepSegmenter {
     this.restLevel = smoothedDeg;
     this.restRing.length = 0;
     this.restRingNext = 0;
+    this.lastRestRaw = Number.NaN;
     this.samplesT = [];
     this.samplesRaw = [];
     this.samplesSmooth = [];

@@ -33,6 +33,10 @@ export class FrameGovernor {
     this.intervalMs = this.minIntervalMs;
   }
 
+  get busy(): boolean {
+    return this.inFlight;
+  }
+
   /** Call for every frame that arrives; true means process it now (and call `end` when done). */
   tryBegin(nowMs: number): boolean {
     if (this.inFlight || nowMs - this.lastStartMs < this.intervalMs * ARRIVAL_SLACK) {

@@ -35,13 +35,17 @@ const POSE_WRISTS = [15, 16] as const;
 const MIN_ELBOW_VISIBILITY = 0.5;
 
 /**
- * The hand model reports handedness as if the image were a mirror (selfie) view. Camera and file frames are not
- * mirrored (only their on-screen preview is), so the label names the other hand unless the input was mirrored.
+ * The person's side from the hand landmarker's label. @mediapipe/tasks-vision 0.10.35 labels the hand as it is
+ * in an unmirrored image (checked on Debian gcompris-qt-data's photos labelled left/right, every photo, palm and
+ * back, open and fist; the library's maintainers describe the same change from the older solution, which assumed a
+ * mirrored selfie image: google-ai-edge/mediapipe-samples#450). Camera and file frames reach the landmarker
+ * unmirrored (a selfie preview is mirrored only on screen), so the label stands; frames flipped before detection
+ * name the other hand.
  */
 export function correctHandedness(label: string, inputMirrored: boolean): HandSide | null {
   const side = label.toLowerCase();
   if (side !== "left" && side !== "right") return null;
-  if (inputMirrored) return side;
+  if (!inputMirrored) return side;
   return side === "left" ? "right" : "left";
 }
 

@@ -11,6 +11,12 @@ import type { TransferableFrame, WorkerRequest, WorkerResponse } from "./worker-
 
 export interface HandTracker {
   readonly thread: "worker" | "main";
+  /**
+   * Runs one detection on the video's current frame without reporting it: the first detection carries the graph's
+   * start-up cost (hundreds of ms), better paid while the user reads the instructions than on the first real frame.
+   * Call before `start()`.
+   */
+  warmUp(video: HTMLVideoElement): Promise<void>;
   /** Follows the video's frames until `stop()`. The video must be playing (camera stream or clip). */
   start(video: HTMLVideoElement): void;
   stop(): void;
@@ -71,11 +77,24 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
   let framesWithHand = 0;
   let firstHandAfterMs: number | null = null;
 
+  // Set when a frame arrived while another was in flight: the newest frame is then taken as soon as the slot frees,
+  // instead of waiting up to a whole frame period for the next one.
+  let missedWhileBusy = false;
+
   const onVideoFrame = (video: HTMLVideoElement, nowMs: number, mediaTimeS: number | null) => {
     if (!running || running.video !== video) return;
-    const run = running;
-    schedule(run);
-    if (video.readyState < 2 || !governor.tryBegin(nowMs)) return;
+    schedule(running);
+    process(running, nowMs, mediaTimeS);
+  };
+
+  const process = (run: NonNullable<typeof running>, nowMs: number, mediaTimeS: number | null) => {
+    const video = run.video;
+    if (video.readyState < 2) return;
+    if (!governor.tryBegin(nowMs)) {
+      if (governor.busy) missedWhileBusy = true;
+      return;
+    }
+    missedWhileBusy = false;
     // A clip's own clock lets results line up with its frames; a camera has no media time worth keeping.
     const t = video.srcObject || mediaTimeS === null ? nowMs : mediaTimeS * 1000;
     const grabbedAt = performance.now();
@@ -95,6 +114,12 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
       .catch((error: unknown) => {
         governor.abandon();
         console.error("tracking: frame failed", error);
+      })
+      .finally(() => {
+        if (missedWhileBusy && running === run && backend.thread === "worker") {
+          missedWhileBusy = false;
+          process(run, performance.now(), video.currentTime);
+        }
       });
   };
 
@@ -120,6 +145,12 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
 
   return {
     thread: backend.thread,
+    async warmUp(video) {
+      if (governor.processed > 0 || running) throw new Error("warmUp: call it before start()");
+      if (video.readyState < 2) throw new Error("warmUp: the video has no frame yet (wait for loadeddata)");
+      // Time 0 keeps the landmarker's clock below every later frame time, camera or clip.
+      await backend.process(video, 0);
+    },
     start(video) {
       stop();
       running = { video, startedAt: performance.now(), handle: null, generation };

@@ -43,7 +43,7 @@ export interface TrackerOptions {
   poseIntervalMs?: number;
   /** Prefix of `/models` and `/mediapipe/wasm`; default the page's origin. */
   assetBaseUrl?: string;
-  /** True when frames are already mirrored before detection (never the case for raw camera or file frames). */
+  /** True when frames are flipped left-right before detection (never so for raw camera or file frames; a selfie preview is mirrored only on screen). */
   inputMirrored?: boolean;
   /** Upper bound of processed frames per second. Default 30. */
   maxFps?: number;
