@@ -66,7 +66,13 @@ interface JointSpec {
   parent: RigJointName | null;
   /** The joint whose position, seen from this one, is the bone the degrees of freedom move. */
   child: RigJointName;
-  /** Applied in this order as intrinsic rotations: abduction (local Y) first, then flexion about the new X. */
+  /**
+   * Applied in this order as intrinsic rotations. MCP and CMC follow the joint coordinate system of the ISB
+   * recommendation for the hand (Wu et al., J Biomech 2005;38:981-992): flexion about the axis fixed in the proximal
+   * bone first, then abduction about the moved (floating) axis. The wrist turns the other way round (deviation about
+   * the forearm's dorsopalmar axis, then flexion about the hand's own radio-ulnar axis), which is how angles read in
+   * the hand's frame against a forearm line come out exact.
+   */
   dofs: DofSpec[];
 }
 
@@ -80,8 +86,8 @@ function fingerJoints(finger: Finger): JointSpec[] {
       parent: name("metacarpal"),
       child: name("phalanx-intermediate"),
       dofs: [
-        { key: `${finger}.mcpAbductionDeg`, joint: name("phalanx-proximal"), axis: "y", positiveToward: abductionToward },
         { key: `${finger}.mcpFlexionDeg`, joint: name("phalanx-proximal"), axis: "x", positiveToward: "palm" },
+        { key: `${finger}.mcpAbductionDeg`, joint: name("phalanx-proximal"), axis: "y", positiveToward: abductionToward },
       ],
     },
     {
@@ -116,9 +122,9 @@ export const JOINT_CHAIN: readonly JointSpec[] = [
     parent: "wrist",
     child: "thumb-phalanx-proximal",
     dofs: [
-      // The thumb's rig frame is turned: its local Y swings the metacarpal out of the palm plane, X across the palm.
-      { key: "thumb.cmcAbductionDeg", joint: "thumb-metacarpal", axis: "y", positiveToward: "palm" },
+      // The thumb's rig frame is turned: its local X swings the metacarpal across the palm, Y out of the palm plane.
       { key: "thumb.cmcFlexionDeg", joint: "thumb-metacarpal", axis: "x", positiveToward: "ulnar" },
+      { key: "thumb.cmcAbductionDeg", joint: "thumb-metacarpal", axis: "y", positiveToward: "palm" },
     ],
   },
   {
@@ -242,7 +248,7 @@ export interface PosedHand {
   motion: Record<RigJointName, Matrix4>;
 }
 
-/** Local rotation of one joint from its degrees of freedom (intrinsic: abduction about Y, then flexion about X). */
+/** Local rotation of one joint from its degrees of freedom, composed intrinsically in the listed order. */
 function jointLocalRotation(rig: HandRig, spec: JointSpec, pose: HandPose): Quaternion {
   const rotation = new Quaternion();
   for (const dof of spec.dofs) {
@@ -383,8 +389,10 @@ export function recoverPoseFromPositions(rig: HandRig, positions: Record<RigJoin
       const palmMotion = posedFrame.clone().multiply(restFrame.clone().invert());
       const localMatrix = rest.clone().invert().multiply(palmMotion).multiply(rest);
       local = new Quaternion().setFromRotationMatrix(localMatrix);
+      // The wrist's order is deviation (Y) then flexion (X): three's Euler order "YXZ" is exactly that product.
       const euler = new Euler().setFromQuaternion(local, "YXZ");
       const [abduction, flexion] = spec.dofs;
+      if (abduction.axis !== "y" || flexion.axis !== "x") throw new Error("pose model: the wrist must list deviation before flexion");
       setPoseAngle(pose, abduction.key, (euler.y * DEG) / dofSign(rig, spec, abduction));
       setPoseAngle(pose, flexion.key, (euler.x * DEG) / dofSign(rig, spec, flexion));
     } else {
@@ -414,25 +422,22 @@ function solveLocalRotation(rig: HandRig, spec: JointSpec, v: Vector3, w: Vector
     // A turn about X keeps the X component and turns the (y, z) part by the angle.
     flexionRad = Math.atan2(w.z, w.y) - Math.atan2(v.z, v.y);
   } else {
-    // R = Ry(a) Rx(f): Ry keeps y, so w.y = v.y cos f - v.z sin f fixes f up to a mirror; keep the |a| <= 90 branch.
-    const radius = Math.hypot(v.y, v.z);
-    const phase = Math.atan2(v.z, v.y);
-    const base = Math.acos(Math.max(-1, Math.min(1, w.y / radius)));
-    let best: { f: number; a: number } | null = null;
-    for (const f of [base - phase, -base - phase]) {
-      const rx = v.clone().applyAxisAngle(LOCAL_AXES.x, f);
-      const a = Math.atan2(w.x, w.z) - Math.atan2(rx.x, rx.z);
-      const aWrapped = Math.atan2(Math.sin(a), Math.cos(a));
-      if (!best || Math.abs(aWrapped) < Math.abs(best.a)) best = { f, a: aWrapped };
-    }
-    flexionRad = best!.f;
-    abductionRad = best!.a;
-    setPoseAngle(pose, abductionDof.key, (wrapRad(abductionRad) * DEG) / dofSign(rig, spec, abductionDof));
+    if (spec.dofs[0] !== flexionDof) throw new Error(`pose model: ${spec.joint} must list flexion before abduction`);
+    // R = Rx(f) Ry(a): Rx keeps x, so w.x = v.x cos a + v.z sin a fixes a up to a mirror; keep the |a| <= 90 branch,
+    // then f is the turn about X from Ry(a) v to w.
+    const radius = Math.hypot(v.x, v.z);
+    const phase = Math.atan2(v.z, v.x);
+    const spread = Math.acos(Math.max(-1, Math.min(1, w.x / radius)));
+    const candidates = [phase + spread, phase - spread].map(wrapRad);
+    abductionRad = Math.abs(candidates[0]) <= Math.abs(candidates[1]) ? candidates[0] : candidates[1];
+    const u = v.clone().applyAxisAngle(LOCAL_AXES.y, abductionRad);
+    flexionRad = Math.atan2(w.z, w.y) - Math.atan2(u.z, u.y);
+    setPoseAngle(pose, abductionDof.key, (abductionRad * DEG) / dofSign(rig, spec, abductionDof));
   }
   setPoseAngle(pose, flexionDof.key, (wrapRad(flexionRad) * DEG) / dofSign(rig, spec, flexionDof));
   return new Quaternion()
-    .setFromAxisAngle(LOCAL_AXES.y, abductionRad)
-    .multiply(new Quaternion().setFromAxisAngle(LOCAL_AXES.x, wrapRad(flexionRad)));
+    .setFromAxisAngle(LOCAL_AXES.x, wrapRad(flexionRad))
+    .multiply(new Quaternion().setFromAxisAngle(LOCAL_AXES.y, abductionRad));
 }
 
 function wrapRad(angle: number): number {

@@ -243,6 +243,8 @@ export interface FrameTruth {
   landmarksCameraM: [number, number, number][];
   /** The 21 landmarks projected into the image, pixels from the top-left corner. */
   landmarksImagePx: [number, number][];
+  /** Unit vector from elbow to wrist along the forearm capsule, camera axes as `landmarksCameraM`. */
+  forearmCameraDir: [number, number, number];
 }
 
 function round(value: number, digits = 4): number {
@@ -294,6 +296,10 @@ export function buildFrame(
     const ndc = point.clone().project(camera);
     return [round(((ndc.x + 1) / 2) * IMAGE_WIDTH_PX, 2), round(((1 - ndc.y) / 2) * IMAGE_HEIGHT_PX, 2)] as [number, number];
   });
+  const forearmInCamera = forearmFrame(rig)
+    .proximal.negate()
+    .transformDirection(camera.matrixWorldInverse)
+    .applyMatrix4(flipYZ);
   const formula = landmarkAnglesDeg(rig, posed);
   const truth: FrameTruth = {
     side: rig.side,
@@ -309,6 +315,7 @@ export function buildFrame(
     ) as Record<PoseKey, number | null>,
     landmarksCameraM,
     landmarksImagePx,
+    forearmCameraDir: [round(forearmInCamera.x, 6), round(forearmInCamera.y, 6), round(forearmInCamera.z, 6)],
   };
   return { spec, truth };
 }

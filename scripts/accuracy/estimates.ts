@@ -1,0 +1,52 @@
+import type { Digit, MotionId, Side } from "@/lib/motions/catalog";
+import { handAxes, readMotion } from "@/vision/angles";
+import type { Vec3 } from "@/vision/vec";
+import type { PoseKey } from "./hand-pose";
+
+/**
+ * Which of the measurement engine's motions reads each degree of freedom of the pose model, both positive the same
+ * way. Thumb CMC has no motion in the catalog yet and so no row.
+ */
+export const ENGINE_MOTION_FOR: Partial<Record<PoseKey, { motion: MotionId; digit: Digit }>> = {
+  "wrist.flexionDeg": { motion: "wrist.flexion", digit: "middle" },
+  "wrist.radialDeviationDeg": { motion: "wrist.radial_deviation", digit: "middle" },
+  "thumb.mcpFlexionDeg": { motion: "mcp.flexion", digit: "thumb" },
+  "thumb.ipFlexionDeg": { motion: "ip.flexion", digit: "thumb" },
+  ...Object.fromEntries(
+    (["index", "middle", "ring", "little"] as const).flatMap((finger) => [
+      [`${finger}.mcpFlexionDeg`, { motion: "mcp.flexion", digit: finger }],
+      [`${finger}.pipFlexionDeg`, { motion: "pip.flexion", digit: finger }],
+      [`${finger}.dipFlexionDeg`, { motion: "dip.flexion", digit: finger }],
+      // The engine reads the middle finger's spread as whichever way it went; the pose model calls thumb-ward positive.
+      ...(finger === "middle" ? [] : [[`${finger}.mcpAbductionDeg`, { motion: "finger.abduction", digit: finger }]]),
+    ]),
+  ),
+};
+
+export const ESTIMATED_KEYS = Object.keys(ENGINE_MOTION_FOR) as PoseKey[];
+
+export interface AngleEstimate {
+  /** From the 3-D (world) landmarks. */
+  deg: number;
+  /** The same angle as seen in the image plane. */
+  imagePlaneDeg: number;
+}
+
+/**
+ * Every estimable angle of one frame through the measurement engine (`vision/angles`), from 21 landmarks in metres,
+ * camera axes. Wrist angles need the forearm's direction (elbow to wrist); without it they are null.
+ */
+export function estimateAngles(
+  hand: readonly Vec3[],
+  side: Side,
+  forearm: Vec3 | null,
+): Partial<Record<PoseKey, AngleEstimate | null>> {
+  const axes = handAxes(hand, side);
+  const result: Partial<Record<PoseKey, AngleEstimate | null>> = {};
+  for (const key of ESTIMATED_KEYS) {
+    const { motion, digit } = ENGINE_MOTION_FOR[key]!;
+    const reading = axes ? readMotion(motion, digit, hand, axes, forearm) : null;
+    result[key] = reading ? { deg: reading.deg, imagePlaneDeg: reading.imagePlaneDeg } : null;
+  }
+  return result;
+}

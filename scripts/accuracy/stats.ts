@@ -1,0 +1,63 @@
+/** One truth/estimate pair; `estimateDeg` is null when the tracker found no hand (or the angle could not be read). */
+export interface ErrorSample {
+  truthDeg: number;
+  estimateDeg: number | null;
+}
+
+export interface ErrorSummary {
+  samples: number;
+  detected: number;
+  /** detected / samples. */
+  detectionRate: number;
+  /** Mean of estimate - truth over detected samples. */
+  biasDeg: number | null;
+  meanAbsoluteErrorDeg: number | null;
+  /** Least-squares slope of estimate on truth: 1 means changes are read at full size, 0 means not at all. */
+  slope: number | null;
+  intercept: number | null;
+  /** Share of detected samples within 5 and 10 degrees of the truth. */
+  within5: number | null;
+  within10: number | null;
+}
+
+/**
+ * Ordinary least squares of y on x: slope = Sxy / Sxx, intercept = mean(y) - slope * mean(x). Null when x does not
+ * vary (a slope means nothing without a spread of truths).
+ */
+export function leastSquares(x: readonly number[], y: readonly number[]): { slope: number; intercept: number } | null {
+  if (x.length !== y.length) throw new Error(`leastSquares: expected x and y of equal length, got ${x.length} and ${y.length}`);
+  if (x.length < 2) return null;
+  const meanX = x.reduce((a, b) => a + b, 0) / x.length;
+  const meanY = y.reduce((a, b) => a + b, 0) / y.length;
+  let sxy = 0;
+  let sxx = 0;
+  for (let i = 0; i < x.length; i++) {
+    sxy += (x[i] - meanX) * (y[i] - meanY);
+    sxx += (x[i] - meanX) ** 2;
+  }
+  if (sxx < 1e-9) return null;
+  const slope = sxy / sxx;
+  return { slope, intercept: meanY - slope * meanX };
+}
+
+export function summarizeErrors(samples: readonly ErrorSample[]): ErrorSummary {
+  const detected = samples.filter((s): s is { truthDeg: number; estimateDeg: number } => s.estimateDeg !== null);
+  const errors = detected.map((s) => s.estimateDeg - s.truthDeg);
+  const mean = (values: number[]) => (values.length ? values.reduce((a, b) => a + b, 0) / values.length : null);
+  const fit = leastSquares(
+    detected.map((s) => s.truthDeg),
+    detected.map((s) => s.estimateDeg),
+  );
+  const share = (limit: number) => (errors.length ? errors.filter((e) => Math.abs(e) <= limit).length / errors.length : null);
+  return {
+    samples: samples.length,
+    detected: detected.length,
+    detectionRate: samples.length ? detected.length / samples.length : 0,
+    biasDeg: mean(errors),
+    meanAbsoluteErrorDeg: mean(errors.map(Math.abs)),
+    slope: fit?.slope ?? null,
+    intercept: fit?.intercept ?? null,
+    within5: share(5),
+    within10: share(10),
+  };
+}
