@@ -16,6 +16,7 @@ const NAV: Record<Role, { href: string; label: string }[]> = {
     { href: "/home", label: "Overview" },
     { href: "/team", label: "Team" },
     { href: "/clinic", label: "Clinic settings" },
+    { href: "/audit", label: "Access trail" },
     { href: "/clients", label: "Clients" },
   ],
   client: [{ href: "/home", label: "My page" }],

@@ -6,6 +6,9 @@ import { env } from "@/lib/env";
 import * as schema from "./schema";
 
 export type Database = LibSQLDatabase<typeof schema>;
+/** A transaction handle; queries that write take `DbOrTx` so callers can group writes in one transaction. */
+export type Tx = Parameters<Parameters<Database["transaction"]>[0]>[0];
+export type DbOrTx = Database | Tx;
 
 /** Opens a libSQL client for a `file:` URL (creating its folder, which libSQL cannot) or a libSQL server URL. */
 export function openDatabase(url: string, authToken?: string): { db: Database; client: Client } {

@@ -11,10 +11,14 @@ const ERRORS: Record<string, string> = {
   AccessDenied: "That address cannot sign in here. Ask your clinic to check your e-mail on file.",
 };
 
-export default async function SignInPage({ searchParams }: { searchParams: Promise<{ error?: string }> }) {
+export default async function SignInPage({ searchParams }: { searchParams: Promise<{ error?: string; welcome?: string }> }) {
   if (await currentActor()) redirect("/home");
-  const { error } = await searchParams;
-  const notice = error ? (ERRORS[error] ?? "Sign-in did not complete. Please try again.") : undefined;
+  const { error, welcome } = await searchParams;
+  const notice = error
+    ? { message: ERRORS[error] ?? "Sign-in did not complete. Please try again." }
+    : welcome
+      ? { ok: true, message: "Password saved. Sign in with it now." }
+      : undefined;
   return (
     <main className="mx-auto grid min-h-screen max-w-5xl items-center gap-10 px-5 py-10 md:grid-cols-[1.1fr_1fr]">
       <div>

@@ -5,8 +5,8 @@ import { sendClientLink, signInWithPassword, type SignInState } from "@/app/sign
 import { Button } from "@/components/ui/button";
 import { FormMessage, TextField } from "@/components/ui/field";
 
-export function StaffSignInForm({ notice }: { notice?: string }) {
-  const [state, action, pending] = useActionState<SignInState, FormData>(signInWithPassword, notice ? { message: notice } : {});
+export function StaffSignInForm({ notice }: { notice?: SignInState }) {
+  const [state, action, pending] = useActionState<SignInState, FormData>(signInWithPassword, notice ?? {});
   return (
     <form action={action} className="space-y-4" aria-label="Sign in with password">
       <TextField label="E-mail" name="email" type="email" autoComplete="username" required defaultValue={state.email} error={state.fields?.email} />

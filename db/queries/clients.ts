@@ -1,5 +1,5 @@
 import { and, asc, count, desc, eq, isNull, or, sql, type SQL } from "drizzle-orm";
-import type { Database } from "@/db";
+import type { Database, DbOrTx } from "@/db";
 import { clients, users, type Client } from "@/db/schema";
 import type { ClientInput, ClientListQuery, ClientPatch } from "@/lib/validation/client";
 
@@ -91,10 +91,7 @@ export async function getClientByUserId(db: Database, userId: string): Promise<C
   return row ?? null;
 }
 
-type Tx = Parameters<Parameters<Database["transaction"]>[0]>[0];
-type Writer = Database | Tx;
-
-export async function createClientRecord(db: Writer, clinicId: string, input: ClientInput): Promise<Client> {
+export async function createClientRecord(db: DbOrTx, clinicId: string, input: ClientInput): Promise<Client> {
   const [row] = await db
     .insert(clients)
     .values({ ...input, clinicId })
@@ -102,7 +99,7 @@ export async function createClientRecord(db: Writer, clinicId: string, input: Cl
   return row;
 }
 
-export async function updateClientRecord(db: Writer, clinicId: string, clientId: string, patch: ClientPatch): Promise<Client | null> {
+export async function updateClientRecord(db: DbOrTx, clinicId: string, clientId: string, patch: ClientPatch): Promise<Client | null> {
   const [row] = await db
     .update(clients)
     .set({ ...patch, updatedAt: new Date() })

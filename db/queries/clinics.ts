@@ -1,5 +1,5 @@
 import { eq } from "drizzle-orm";
-import type { Database } from "@/db";
+import type { Database, DbOrTx } from "@/db";
 import { clinics, type Clinic } from "@/db/schema";
 
 export async function getClinic(db: Database, clinicId: string): Promise<Clinic | null> {
@@ -8,7 +8,7 @@ export async function getClinic(db: Database, clinicId: string): Promise<Clinic 
 }
 
 export async function updateClinic(
-  db: Database,
+  db: DbOrTx,
   clinicId: string,
   patch: Partial<Pick<Clinic, "name" | "timezone" | "normTable" | "gradeScale" | "fullRangePercent" | "contactEmail">>,
 ) {

@@ -1,5 +1,5 @@
 import { and, asc, eq } from "drizzle-orm";
-import type { Database } from "@/db";
+import type { Database, DbOrTx } from "@/db";
 import { users, type Role, type User } from "@/db/schema";
 
 export type StaffRow = Pick<User, "id" | "name" | "email" | "role" | "active" | "lastSignInAt" | "createdAt"> & {
@@ -48,7 +48,7 @@ export async function getStaffMember(db: Database, clinicId: string, userId: str
 }
 
 export async function updateStaffMember(
-  db: Database,
+  db: DbOrTx,
   clinicId: string,
   userId: string,
   patch: Partial<{ role: Exclude<Role, "client">; active: boolean; name: string }>,

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { AFFECTED_SIDES, PRECAUTION_FLAGS, SEXES, SIDES, type PrecautionFlag } from "@/db/schema";
-import { isoDate, optionalText, todayIso } from "./common";
+import { isoDate, todayIso } from "./common";
 
 /** Plain-language labels for the precaution flags, shown to staff on the form and the record. */
 export const PRECAUTION_LABELS: Record<PrecautionFlag, string> = {

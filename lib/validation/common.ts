@@ -14,16 +14,6 @@ export const isoDate = z
     { error: "expected a real calendar date", abort: true },
   );
 
-/** An optional text input: empty strings become null. */
-export const optionalText = (max: number) =>
-  z
-    .string()
-    .trim()
-    .max(max, `expected at most ${max} characters`)
-    .transform((s) => (s === "" ? null : s))
-    .nullable()
-    .optional();
-
 export const todayIso = (now = new Date()) => now.toISOString().slice(0, 10);
 
 /**

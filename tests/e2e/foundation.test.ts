@@ -159,3 +159,68 @@ describe("record access", () => {
     await context.close();
   });
 });
+
+describe("clinic admin", () => {
+  it("invites a colleague who sets a password from the e-mailed link and signs in; deactivation locks them out", async () => {
+    const admin = await signedIn("admin@kinarc.test");
+    const page = admin.pages()[0];
+    await page.goto(`${app.appUrl}/team`);
+    const invite = page.getByRole("form", { name: "Invite a colleague" });
+    await invite.getByLabel("Name").fill("Rafferty Quinn");
+    await invite.getByLabel("Work e-mail").fill("rafferty@kinarc.test");
+    await invite.getByLabel("Role").selectOption("assistant");
+    await invite.getByRole("button", { name: "Send invitation" }).click();
+    await invite.getByRole("status").waitFor();
+    const mail = await app.mail.waitFor("rafferty@kinarc.test", /invited/);
+    const link = mail.text.match(/https?:\/\/\S+\/welcome\/\S+/)?.[0];
+    expect(link).toBeDefined();
+
+    const newcomer = await browser.newContext();
+    const welcome = await newcomer.newPage();
+    await welcome.goto(link!);
+    await welcome.getByLabel("New password").fill("short");
+    await welcome.getByLabel("The same again").fill("short");
+    await welcome.getByRole("button", { name: "Save password" }).click();
+    expect(await welcome.locator("#password-error").textContent()).toMatch(/at least 10 characters/);
+    await welcome.getByLabel("New password").fill("quiet harbour at dawn");
+    await welcome.getByLabel("The same again").fill("quiet harbour at dawn");
+    await welcome.getByRole("button", { name: "Save password" }).click();
+    await welcome.waitForURL(/\/sign-in\?welcome=1/);
+    await signInWithPassword(welcome, app.appUrl, "rafferty@kinarc.test", "quiet harbour at dawn");
+    await welcome.waitForURL(`${app.appUrl}/home`);
+    expect(await welcome.getByTestId("signed-in-name").textContent()).toBe("Rafferty Quinn");
+    await newcomer.close();
+
+    await page.reload();
+    const row = page.getByTestId("staff-list").getByRole("listitem").filter({ hasText: "rafferty@kinarc.test" });
+    await row.getByRole("button", { name: "Deactivate" }).click();
+    await row.getByRole("button", { name: "Reactivate" }).waitFor();
+    const locked = await browser.newContext();
+    const attempt = await locked.newPage();
+    await signInWithPassword(attempt, app.appUrl, "rafferty@kinarc.test", "quiet harbour at dawn");
+    expect(await attempt.getByRole("form", { name: "Sign in with password" }).getByRole("alert").textContent()).toMatch(/do not match an active/);
+    await locked.close();
+    await admin.close();
+  });
+
+  it("reads the access trail: sign-ins and record reads are listed", async () => {
+    const admin = await signedIn("admin@kinarc.test");
+    const page = admin.pages()[0];
+    await page.goto(`${app.appUrl}/audit?action=client.read`);
+    const actions = await page.getByTestId("audit-table").locator("tbody td:nth-child(3)").allTextContents();
+    expect(actions.length).toBeGreaterThan(0);
+    expect(new Set(actions)).toEqual(new Set(["client.read"]));
+    await page.goto(`${app.appUrl}/audit?action=auth.`);
+    expect(await page.getByTestId("audit-table").textContent()).toContain("auth.sign_in_failed");
+    await admin.close();
+  });
+
+  it("other roles cannot open the admin pages", async () => {
+    const therapist = await signedIn("therapist@kinarc.test");
+    const page = therapist.pages()[0];
+    for (const path of ["/team", "/clinic", "/audit"]) {
+      expect((await page.goto(`${app.appUrl}${path}`))?.status()).toBe(404);
+    }
+    await therapist.close();
+  });
+});
