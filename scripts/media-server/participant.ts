@@ -40,6 +40,8 @@ export interface ParticipantRoom {
 // Sent in the JoinResponse; livekit-client pings every PING_INTERVAL_S and gives up after PING_TIMEOUT_S.
 export const PING_INTERVAL_S = 5;
 export const PING_TIMEOUT_S = 15;
+// Well inside the reissued tokens' ten-minute lifetime.
+const TOKEN_REFRESH_INTERVAL_MS = 5 * 60 * 1000;
 
 type SignalMessage = SignalResponse["message"];
 
@@ -67,12 +69,14 @@ export class Participant {
   private pending: Promise<void> = Promise.resolve();
   private lastPingAtMs = Date.now();
   private readonly pingWatch: NodeJS.Timeout;
+  private readonly tokenRefresh: NodeJS.Timeout;
   private ended = false;
 
   constructor(
     private readonly socket: WebSocket,
     readonly access: RoomAccess,
     private readonly room: ParticipantRoom,
+    private readonly reissueToken: () => Promise<string>,
   ) {
     this.uplink = new Uplink({
       candidate: (candidateInit) => this.trickle(candidateInit, SignalTarget.PUBLISHER),
@@ -85,8 +89,14 @@ export class Participant {
         this.signal({ case: "offer", value: new SessionDescription({ type: "offer", sdp, id, midToTrackId }) }),
     });
     socket.on("message", (data, isBinary) => {
-      if (!isBinary) return;
-      const request = SignalRequest.fromBinary(new Uint8Array(data as Buffer));
+      let request: SignalRequest;
+      try {
+        if (!isBinary) throw new Error("text frame");
+        request = SignalRequest.fromBinary(new Uint8Array(data as Buffer));
+      } catch {
+        console.warn(`media-server: ${this.identity} sent a frame that is not a binary SignalRequest; ignored`);
+        return;
+      }
       // Requests are handled one after another: an answer must not overtake the offer it answers.
       this.pending = this.pending
         .then(() => this.handle(request))
@@ -97,6 +107,7 @@ export class Participant {
     this.pingWatch = setInterval(() => {
       if (Date.now() - this.lastPingAtMs > PING_TIMEOUT_S * 1000) socket.terminate();
     }, PING_INTERVAL_S * 1000);
+    this.tokenRefresh = setInterval(() => this.refreshToken(), TOKEN_REFRESH_INTERVAL_MS);
   }
 
   get identity(): string {
@@ -146,6 +157,8 @@ export class Participant {
         pingInterval: PING_INTERVAL_S,
       }),
     });
+    // At once too: the token the client came with may be about to expire.
+    this.refreshToken();
   }
 
   sendUpdate(participants: ParticipantInfo[]): void {
@@ -178,6 +191,7 @@ export class Participant {
     if (this.ended) return;
     this.ended = true;
     clearInterval(this.pingWatch);
+    clearInterval(this.tokenRefresh);
     this.state = ParticipantInfo_State.DISCONNECTED;
     this.version += 1;
     this.room.remove(this);
@@ -293,6 +307,13 @@ export class Participant {
 
   private trackInfo(trackSid: string): TrackInfo | undefined {
     return [...this.requestedTracks.values()].find(({ info }) => info.sid === trackSid)?.info;
+  }
+
+  private refreshToken(): void {
+    this.reissueToken().then(
+      (token) => this.signal({ case: "refreshToken", value: token }),
+      (error: unknown) => console.error(`media-server: ${this.identity}: token refresh failed`, error),
+    );
   }
 
   private trickle(candidateInit: string, target: SignalTarget): void {

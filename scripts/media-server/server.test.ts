@@ -7,7 +7,7 @@ import {
   SignalRequest,
   SignalResponse,
 } from "@livekit/protocol";
-import { AccessToken, type VideoGrant } from "livekit-server-sdk";
+import { AccessToken, TokenVerifier, type VideoGrant } from "livekit-server-sdk";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { WebSocket } from "ws";
 import { type MediaServer, startMediaServer } from "./server";
@@ -176,6 +176,16 @@ describe("signalling: join, roster, keepalive, rejoin", () => {
     client.send({ case: "pingReq", value: new Ping({ timestamp: 987654321n, rtt: 20n }) });
     const pong = await client.next("pongResp");
     expect(pong.lastPingTimestamp).toBe(987654321n);
+    client.socket.close();
+  });
+
+  it("hands the client a fresh token for the same identity and room, for rejoining after its own expires", async () => {
+    const client = await SignalClient.open(await token("ana", { roomJoin: true, room: "refresh" }, { ttl: "1m" }));
+    await client.next("join");
+    const fresh = await new TokenVerifier(API_KEY, API_SECRET).verify(await client.next("refreshToken"));
+    expect(fresh.sub).toBe("ana");
+    expect(fresh.video).toMatchObject({ roomJoin: true, room: "refresh" });
+    expect(fresh.exp! * 1000).toBeGreaterThan(Date.now() + 5 * 60 * 1000);
     client.socket.close();
   });
 

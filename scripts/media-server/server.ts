@@ -2,7 +2,7 @@ import { STATUS_CODES, createServer, type IncomingMessage, type ServerResponse }
 import type { Duplex } from "node:stream";
 import { DisconnectReason, LeaveRequest, LeaveRequest_Action, SignalResponse } from "@livekit/protocol";
 import { type WebSocket, WebSocketServer } from "ws";
-import { AccessRefused, type AccessCheck, type RoomAccess, createAccessCheck } from "./access";
+import { type AccessControl, AccessRefused, type RoomAccess, createAccessControl } from "./access";
 import { Participant } from "./participant";
 import { Room } from "./room";
 
@@ -25,27 +25,27 @@ const SINGLE_CONNECTION_PATH = "/rtc/v1";
 
 /** Starts the development stand-in for a LiveKit server on all interfaces. */
 export async function startMediaServer({ port, apiKey, apiSecret }: MediaServerOptions): Promise<MediaServer> {
-  const checkAccess = createAccessCheck(apiKey, apiSecret);
+  const access = createAccessControl(apiKey, apiSecret);
   const rooms = new Map<string, Room>();
   const sockets = new WebSocketServer({ noServer: true });
 
-  const admit = (socket: WebSocket, access: RoomAccess, query: URLSearchParams) => {
+  const admit = (socket: WebSocket, granted: RoomAccess, query: URLSearchParams) => {
     if (query.get("reconnect") === "1") {
       // Resuming a session (keeping the peer connections across a new socket) is not supported: tell the
       // client to rejoin from scratch, which livekit-client does at once.
       refuseResume(socket);
       return;
     }
-    let room = rooms.get(access.roomName);
+    let room = rooms.get(granted.roomName);
     if (!room) {
-      room = new Room(access.roomName, (empty) => rooms.delete(empty.name));
-      rooms.set(access.roomName, room);
+      room = new Room(granted.roomName, (empty) => rooms.delete(empty.name));
+      rooms.set(granted.roomName, room);
     }
-    room.join(new Participant(socket, access, room));
+    room.join(new Participant(socket, granted, room, () => access.reissue(granted)));
   };
 
   const http = createServer((request, response) => {
-    void answerHttp(request, response, checkAccess);
+    void answerHttp(request, response, access);
   });
   http.on("upgrade", (request: IncomingMessage, stream: Duplex, head: Buffer) => {
     const url = new URL(request.url ?? "/", "http://localhost");
@@ -53,8 +53,8 @@ export async function startMediaServer({ port, apiKey, apiSecret }: MediaServerO
       rejectUpgrade(stream, 404, `no signalling on ${url.pathname}; livekit-client falls back to ${SIGNAL_PATH}`);
       return;
     }
-    checkAccess(url.searchParams.get("access_token")).then(
-      (access) => sockets.handleUpgrade(request, stream, head, (socket) => admit(socket, access, url.searchParams)),
+    access.check(url.searchParams.get("access_token")).then(
+      (granted) => sockets.handleUpgrade(request, stream, head, (socket) => admit(socket, granted, url.searchParams)),
       (error: unknown) => rejectUpgrade(stream, ...refusal(error)),
     );
   });
@@ -76,7 +76,7 @@ export async function startMediaServer({ port, apiKey, apiSecret }: MediaServerO
 }
 
 /** GET …/validate: what livekit-client asks after a failed upgrade, to learn why it failed. */
-async function answerHttp(request: IncomingMessage, response: ServerResponse, checkAccess: AccessCheck): Promise<void> {
+async function answerHttp(request: IncomingMessage, response: ServerResponse, access: AccessControl): Promise<void> {
   const url = new URL(request.url ?? "/", "http://localhost");
   const reply = (status: number, body: string) => {
     // The probe comes from the app's page, another origin; without this header the browser hides the
@@ -90,7 +90,7 @@ async function answerHttp(request: IncomingMessage, response: ServerResponse, ch
     return reply(404, "not found");
   }
   try {
-    await checkAccess(url.searchParams.get("access_token"));
+    await access.check(url.searchParams.get("access_token"));
   } catch (error) {
     return reply(...refusal(error));
   }

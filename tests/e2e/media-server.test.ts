@@ -66,7 +66,7 @@ async function until(page: Page, what: string, accept: (state: HarnessState) => 
 }
 
 describe("development media server with livekit-client in two Chromium pages", () => {
-  it("carries camera, microphone, data and the roster from one page to the other", async () => {
+  it("carries camera, microphone, data, mute, unpublish and leave from one page to the other", async () => {
     const therapist = await openPage();
     const client = await openPage();
     // The client page takes livekit-client's default single-connection path first and must fall back.
@@ -94,6 +94,16 @@ describe("development media server with livekit-client in two Chromium pages", (
     expect(messaged.messages).toContainEqual({ fromIdentity: "client-a", text: "reliable hello", topic: "telemetry" });
     expect(messaged.messages).toContainEqual({ fromIdentity: "client-a", text: "lossy hello", topic: undefined });
     expect(messaged.messages.map((m) => m.text)).not.toContain("not for you");
+
+    await client.evaluate(() => window.videoHarness.setCameraMuted(true));
+    await until(therapist, "the camera muted", (s) => (s.mutedKindsByIdentity["client-a"] ?? []).includes("video"));
+    await client.evaluate(() => window.videoHarness.setCameraMuted(false));
+    await until(therapist, "the camera unmuted", (s) => !(s.mutedKindsByIdentity["client-a"] ?? []).includes("video"));
+    await client.evaluate(() => window.videoHarness.unpublishMicrophone());
+    const unpublished = await until(therapist, "the microphone unpublished", (s) =>
+      (s.unpublishedKindsByIdentity["client-a"] ?? []).includes("audio"),
+    );
+    expect(unpublished.unpublishedKindsByIdentity["client-a"]).toEqual(["audio"]);
 
     await client.evaluate(() => window.videoHarness.leave());
     const departed = await until(therapist, "the client to leave", (s) => s.departedIdentities.includes("client-a"));

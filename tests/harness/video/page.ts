@@ -23,6 +23,9 @@ export interface HarnessState {
   /** `currentTime` of each remote identity's <video>, in seconds. */
   videoTimeSByIdentity: Record<string, number>;
   subscribedKindsByIdentity: Record<string, string[]>;
+  /** Kinds of each remote identity's tracks that are muted now. */
+  mutedKindsByIdentity: Record<string, string[]>;
+  unpublishedKindsByIdentity: Record<string, string[]>;
   reconnections: number;
 }
 
@@ -40,6 +43,8 @@ const state: HarnessState = {
   videoFramesByIdentity: {},
   videoTimeSByIdentity: {},
   subscribedKindsByIdentity: {},
+  mutedKindsByIdentity: {},
+  unpublishedKindsByIdentity: {},
   reconnections: 0,
 };
 const videos = new Map<string, HTMLVideoElement>();
@@ -53,9 +58,13 @@ function countFrames(identity: string, video: HTMLVideoElement): void {
   video.requestVideoFrameCallback(onFrame);
 }
 
+function addKind(byIdentity: Record<string, string[]>, participant: Participant, kind: string): void {
+  byIdentity[participant.identity] = [...(byIdentity[participant.identity] ?? []), kind];
+}
+
 function attach(track: RemoteTrack, participant: Participant): void {
   const identity = participant.identity;
-  state.subscribedKindsByIdentity[identity] = [...(state.subscribedKindsByIdentity[identity] ?? []), track.kind];
+  addKind(state.subscribedKindsByIdentity, participant, track.kind);
   const element = track.attach();
   element.dataset.identity = identity;
   document.body.append(element);
@@ -89,6 +98,14 @@ async function join(url: string, token: string, options: JoinOptions): Promise<s
       state.remoteIdentities = state.remoteIdentities.filter((identity) => identity !== participant.identity);
     })
     .on(RoomEvent.TrackSubscribed, (track, _publication, participant) => attach(track, participant))
+    .on(RoomEvent.TrackMuted, (publication, participant) => addKind(state.mutedKindsByIdentity, participant, publication.kind))
+    .on(RoomEvent.TrackUnmuted, (publication, participant) => {
+      const muted = state.mutedKindsByIdentity[participant.identity] ?? [];
+      state.mutedKindsByIdentity[participant.identity] = muted.filter((kind) => kind !== publication.kind);
+    })
+    .on(RoomEvent.TrackUnpublished, (publication, participant) =>
+      addKind(state.unpublishedKindsByIdentity, participant, publication.kind),
+    )
     .on(RoomEvent.DataReceived, (payload, participant, _kind, topic) => {
       state.messages.push({ fromIdentity: participant?.identity, text: new TextDecoder().decode(payload), topic });
     });
@@ -106,6 +123,16 @@ function connected(): Room {
 
 async function publishCameraAndMicrophone(): Promise<void> {
   await connected().localParticipant.enableCameraAndMicrophone();
+}
+
+async function setCameraMuted(muted: boolean): Promise<void> {
+  await connected().localParticipant.setCameraEnabled(!muted);
+}
+
+async function unpublishMicrophone(): Promise<void> {
+  const microphone = connected().localParticipant.getTrackPublication(Track.Source.Microphone)?.track;
+  if (!microphone) throw new Error("videoHarness: no microphone published");
+  await connected().localParticipant.unpublishTrack(microphone);
 }
 
 async function sendText(
@@ -128,7 +155,16 @@ async function leave(): Promise<void> {
   await connected().disconnect();
 }
 
-const api = { join, publishCameraAndMicrophone, sendText, snapshot, dropSignalConnection, leave };
+const api = {
+  join,
+  publishCameraAndMicrophone,
+  setCameraMuted,
+  unpublishMicrophone,
+  sendText,
+  snapshot,
+  dropSignalConnection,
+  leave,
+};
 export type VideoHarness = typeof api;
 
 declare global {
