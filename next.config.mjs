@@ -44,6 +44,8 @@ const securityHeaders = [
 const nextConfig = {
   reactStrictMode: true,
   poweredByHeader: false,
+  // Types are checked once for the whole repository by `npm run typecheck` (a step of `npm test`), not again here.
+  typescript: { ignoreBuildErrors: true },
   serverExternalPackages: ["@libsql/client", "libsql", "@node-rs/argon2", "werift"],
   async headers() {
     return [{ source: "/:path*", headers: securityHeaders }];
