@@ -126,6 +126,32 @@ describe("live tracking on Chromium's fake camera (open hand and fist, looping)"
     expect(high - low).toBeGreaterThan(25);
     await page.close();
   });
+  it("falls back to the main thread and keeps it to about half the time", async () => {
+    const page = await openHarnessPage(browser, server, { thread: "main" });
+    const state = await waitForFrames(page, 30);
+    expect(state.thread).toBe("main");
+    expect(state.frames.filter((f) => f.hand).length / state.frames.length).toBeGreaterThanOrEqual(MIN_DETECTION_RATE);
+    // The governor spaces frames by at least twice their cost on the main thread (MAIN_THREAD_BUSY_SHARE = 0.5).
+    const landmarks = state.timings.slice(-10).map((t) => t.landmarksMs);
+    expect(state.stats!.frameIntervalMs).toBeGreaterThanOrEqual(Math.min(...landmarks) * 2 * 0.8);
+    await page.close();
+  });
+
+  it("with the forearm on, also runs the pose model at a lower rate in the worker, and reports no forearm without an elbow", async () => {
+    const page = await openHarnessPage(browser, server, { forearm: true });
+    const state = await waitForFrames(page, 45);
+    expect(state.thread).toBe("worker");
+    expect(state.frames.filter((f) => f.hand).length / state.frames.length).toBeGreaterThanOrEqual(MIN_DETECTION_RATE);
+    const poseRuns = state.timings.filter((t) => t.poseMs !== null);
+    expect(poseRuns.length).toBeGreaterThanOrEqual(2);
+    // Default pose spacing is 200 ms; camera frame times come from the page clock.
+    for (let i = 1; i < poseRuns.length; i++) expect(poseRuns[i].t - poseRuns[i - 1].t).toBeGreaterThanOrEqual(200);
+    expect(poseRuns.length).toBeLessThan(state.timings.length);
+    // The photos end at the forearm's middle: no elbow, so no forearm direction may be claimed.
+    expect(state.frames.filter((f) => f.forearm)).toHaveLength(0);
+    console.log(`forearm mode: ${poseRuns.length} pose runs over ${state.timings.length} frames, pose median ${medianOf(poseRuns.map((t) => t.poseMs!)).toFixed(1)} ms`);
+    await page.close();
+  });
 });
 
 describe("live tracking on a clip of every photo (one second each)", () => {

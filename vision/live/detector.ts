@@ -3,6 +3,8 @@
  * Models and wasm are served by the app itself (built by `npm run models`); nothing is fetched from elsewhere.
  */
 import { FilesetResolver, HandLandmarker, PoseLandmarker } from "@mediapipe/tasks-vision";
+
+type WasmFileset = Awaited<ReturnType<typeof FilesetResolver.forVisionTasks>>;
 import { forearmDirection, handFrame } from "./landmark-results";
 import type { LandmarkXYZ, ModelVariant, TrackedFrame } from "./types";
 
@@ -40,8 +42,32 @@ export function modelUrls(assetBaseUrl: string, handModel: ModelVariant, poseMod
 // A forearm reading older than this no longer describes the arm in the current frame.
 const FOREARM_STALE_AFTER_INTERVALS = 2.5;
 
-export async function createDetector(config: DetectorConfig): Promise<Detector> {
+/**
+ * The wasm fileset, plus a hook to run before creating each task. In a module worker the library would load its
+ * loader with `import(url)`: bundlers may rewrite such a call, and a module runs only once, while the library clears
+ * the loader's global `ModuleFactory` after each task, so a second task (pose) would find none. So the loader module
+ * is imported here once, untouched by bundlers, and its factory put back before each task is created.
+ */
+async function loadFileset(config: DetectorConfig): Promise<{ fileset: WasmFileset; beforeCreate: () => void }> {
   const fileset = await FilesetResolver.forVisionTasks(config.wasmBaseUrl, config.wasmAsModule);
+  if (!config.wasmAsModule) return { fileset, beforeCreate: () => {} };
+  const loader = (await import(/* webpackIgnore: true */ /* turbopackIgnore: true */ /* @vite-ignore */ fileset.wasmLoaderPath)) as {
+    default?: unknown;
+  };
+  if (typeof loader.default !== "function") throw new Error(`${fileset.wasmLoaderPath}: expected a module whose default export is the wasm factory`);
+  const factory = loader.default;
+  return {
+    // An empty loader path tells the library the factory is already in place.
+    fileset: { ...fileset, wasmLoaderPath: "" },
+    beforeCreate: () => {
+      (globalThis as { ModuleFactory?: unknown }).ModuleFactory = factory;
+    },
+  };
+}
+
+export async function createDetector(config: DetectorConfig): Promise<Detector> {
+  const { fileset, beforeCreate } = await loadFileset(config);
+  beforeCreate();
   // CPU: the GPU delegate falls back to software WebGL on many machines and is then 10x slower (hand-models notes).
   // One hand: asking for more than are in view runs the palm detector on every frame.
   const hands = await HandLandmarker.createFromOptions(fileset, {
@@ -49,6 +75,7 @@ export async function createDetector(config: DetectorConfig): Promise<Detector> 
     runningMode: "VIDEO",
     numHands: 1,
   });
+  beforeCreate();
   const pose = config.poseModelUrl
     ? await PoseLandmarker.createFromOptions(fileset, {
         baseOptions: { modelAssetPath: config.poseModelUrl, delegate: "CPU" },
