@@ -1,9 +1,10 @@
 /**
  * Media server benchmark: two headless Chromium pages (livekit-client, Chromium's fake camera and microphone)
  * join one room on the development media server; one publishes camera and microphone, the other receives.
- * Prints each page's join time, the time from publishing to the first frame on the other page, and the
- * server's CPU and memory while it forwards. Figures only; the server runs in its own process so its CPU
- * is not mixed with the browser driver's.
+ * Prints each page's join time (the publisher takes livekit-client's default single-connection path first and
+ * falls back; the receiver goes straight to the two-connection path), the time from publishing to the first
+ * frame on the other page, and the server's CPU and memory while it forwards. Figures only; the server runs in
+ * its own process so its CPU is not mixed with the browser driver's.
  *
  *   npx tsx scripts/bench/media.ts [--seconds 10]
  */
@@ -69,7 +70,7 @@ async function main(): Promise<void> {
     extraArgs: ["--use-fake-device-for-media-stream", "--use-fake-ui-for-media-stream"],
   });
   try {
-    const openPage = async (identity: string) => {
+    const openPage = async (identity: string, singlePeerConnection: boolean) => {
       const page = await (await browser.newContext()).newPage();
       await page.goto(site.url);
       await page.waitForFunction(() => "videoHarness" in window);
@@ -77,16 +78,16 @@ async function main(): Promise<void> {
       accessToken.addGrant({ roomJoin: true, room: ROOM });
       const jwt = await accessToken.toJwt();
       await page.evaluate(
-        ([url, token]) => window.videoHarness.join(url, token, { singlePeerConnection: false }),
-        [`ws://localhost:${MEDIA_PORT}`, jwt] as const,
+        ([url, token, single]) => window.videoHarness.join(url, token, { singlePeerConnection: single }),
+        [`ws://localhost:${MEDIA_PORT}`, jwt, singlePeerConnection] as const,
       );
       return page;
     };
     const snapshot = (page: Page): Promise<HarnessState> => page.evaluate(() => window.videoHarness.snapshot());
 
     const idle = await usage();
-    const publisher = await openPage("bench-publisher");
-    const receiver = await openPage("bench-receiver");
+    const publisher = await openPage("bench-publisher", true);
+    const receiver = await openPage("bench-receiver", false);
     const publishedAt = performance.now();
     await publisher.evaluate(() => window.videoHarness.publishCameraAndMicrophone());
     await receiver.waitForFunction(() => (window.videoHarness.snapshot().videoFramesByIdentity["bench-publisher"] ?? 0) > 0, null, {
@@ -104,8 +105,8 @@ async function main(): Promise<void> {
 
     const mb = (bytes: number) => (bytes / 1024 / 1024).toFixed(0);
     console.log("Development media server, two participants (one publishes camera + microphone, one receives)");
-    console.log(`  join time, publisher page:           ${(await snapshot(publisher)).joinMs?.toFixed(0)} ms`);
-    console.log(`  join time, receiver page:            ${(await snapshot(receiver)).joinMs?.toFixed(0)} ms`);
+    console.log(`  join time, publisher (falls back):   ${(await snapshot(publisher)).joinMs?.toFixed(0)} ms`);
+    console.log(`  join time, receiver (/rtc directly): ${(await snapshot(receiver)).joinMs?.toFixed(0)} ms`);
     console.log(`  publish to first frame on receiver:  ${firstFrameMs.toFixed(0)} ms`);
     console.log(`  frames shown on receiver:            ${(((to.frames - from.frames) * 1000) / wallMs).toFixed(1)} per second`);
     console.log(`  server CPU while forwarding:         ${(((to.usage.cpuMicros - from.usage.cpuMicros) / 1000 / wallMs) * 100).toFixed(1)} % of one core over ${(wallMs / 1000).toFixed(0)} s`);

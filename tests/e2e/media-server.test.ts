@@ -77,6 +77,7 @@ describe("development media server with livekit-client in two Chromium pages", (
     await client.evaluate(() => window.videoHarness.publishCameraAndMicrophone());
     const playing = await until(therapist, "the client's video frames", (s) => (s.videoFramesByIdentity["client-a"] ?? 0) >= 30);
     expect(playing.subscribedKindsByIdentity["client-a"]?.sort()).toEqual(["audio", "video"]);
+    expect(playing.videoMimeTypeByIdentity["client-a"]?.toLowerCase()).toBe("video/vp8");
     // currentTime advancing is the picture moving, not just one decoded frame.
     const timeBeforeS = playing.videoTimeSByIdentity["client-a"];
     await new Promise((resolve) => setTimeout(resolve, 1500));
@@ -115,8 +116,10 @@ describe("development media server with livekit-client in two Chromium pages", (
     const client = await openPage();
     await joinAs(client, "visit-2", "client-a", false);
     await joinAs(therapist, "visit-2", "therapist-b", false);
-    await client.evaluate(() => window.videoHarness.publishCameraAndMicrophone());
-    await until(therapist, "the client's video frames", (s) => (s.videoFramesByIdentity["client-a"] ?? 0) >= 10);
+    // H264 this time: the server must answer with the codec the client asked for, not its own first choice.
+    await client.evaluate(() => window.videoHarness.publishCameraAndMicrophone("h264"));
+    const playing = await until(therapist, "the client's video frames", (s) => (s.videoFramesByIdentity["client-a"] ?? 0) >= 10);
+    expect(playing.videoMimeTypeByIdentity["client-a"]?.toLowerCase()).toBe("video/h264");
 
     await therapist.evaluate(() => window.videoHarness.dropSignalConnection());
     const rejoined = await until(therapist, "the reconnection", (s) => s.reconnections >= 1 && s.connectionState === "connected");

@@ -26,6 +26,8 @@ export interface HarnessState {
   /** Kinds of each remote identity's tracks that are muted now. */
   mutedKindsByIdentity: Record<string, string[]>;
   unpublishedKindsByIdentity: Record<string, string[]>;
+  /** The video codec each remote identity's camera is announced with (TrackInfo.mimeType). */
+  videoMimeTypeByIdentity: Record<string, string>;
   reconnections: number;
 }
 
@@ -45,6 +47,7 @@ const state: HarnessState = {
   subscribedKindsByIdentity: {},
   mutedKindsByIdentity: {},
   unpublishedKindsByIdentity: {},
+  videoMimeTypeByIdentity: {},
   reconnections: 0,
 };
 const videos = new Map<string, HTMLVideoElement>();
@@ -97,7 +100,12 @@ async function join(url: string, token: string, options: JoinOptions): Promise<s
       state.departedIdentities.push(participant.identity);
       state.remoteIdentities = state.remoteIdentities.filter((identity) => identity !== participant.identity);
     })
-    .on(RoomEvent.TrackSubscribed, (track, _publication, participant) => attach(track, participant))
+    .on(RoomEvent.TrackSubscribed, (track, publication, participant) => {
+      if (track.kind === Track.Kind.Video && publication.mimeType) {
+        state.videoMimeTypeByIdentity[participant.identity] = publication.mimeType;
+      }
+      attach(track, participant);
+    })
     .on(RoomEvent.TrackMuted, (publication, participant) => addKind(state.mutedKindsByIdentity, participant, publication.kind))
     .on(RoomEvent.TrackUnmuted, (publication, participant) => {
       const muted = state.mutedKindsByIdentity[participant.identity] ?? [];
@@ -121,8 +129,9 @@ function connected(): Room {
   return room;
 }
 
-async function publishCameraAndMicrophone(): Promise<void> {
-  await connected().localParticipant.enableCameraAndMicrophone();
+async function publishCameraAndMicrophone(videoCodec: "vp8" | "h264" = "vp8"): Promise<void> {
+  await connected().localParticipant.setCameraEnabled(true, undefined, { videoCodec });
+  await connected().localParticipant.setMicrophoneEnabled(true);
 }
 
 async function setCameraMuted(muted: boolean): Promise<void> {
