@@ -1,5 +1,5 @@
 import { relations, sql } from "drizzle-orm";
-import { index, integer, primaryKey, sqliteTable, text } from "drizzle-orm/sqlite-core";
+import { blob, index, integer, primaryKey, real, sqliteTable, text } from "drizzle-orm/sqlite-core";
 
 // Every timestamp is stored as UTC milliseconds since the epoch; dates without a time (birth dates, precaution
 // windows) are ISO 8601 `YYYY-MM-DD` strings.
@@ -205,6 +205,207 @@ export const auditEvents = sqliteTable(
   ],
 );
 
+// ---------------------------------------------------------------------------------------------------------------
+// Clinical measurements. Motion ids, digits and conditions are those of lib/motions/catalog.ts.
+
+export const CONDITIONS = ["against_gravity", "gravity_minimized"] as const;
+export const DIGIT_NAMES = ["thumb", "index", "middle", "ring", "little"] as const;
+export const ATTEMPT_SOURCES = ["self_check", "visit", "practice", "upload"] as const;
+export const VISIT_KINDS = ["video", "in_person"] as const;
+export const VISIT_STATUSES = ["scheduled", "waiting", "in_progress", "finished", "cancelled", "missed"] as const;
+export type VisitStatus = (typeof VISIT_STATUSES)[number];
+
+/** Telehealth and in-person visits. A video visit's room name is derived from its id, never chosen by a caller. */
+export const visits = sqliteTable(
+  "visits",
+  {
+    id: id(),
+    clinicId: text("clinic_id")
+      .notNull()
+      .references(() => clinics.id, { onDelete: "restrict" }),
+    clientId: text("client_id")
+      .notNull()
+      .references(() => clients.id, { onDelete: "restrict" }),
+    therapistId: text("therapist_id")
+      .notNull()
+      .references(() => users.id, { onDelete: "restrict" }),
+    kind: text("kind", { enum: VISIT_KINDS }).notNull().default("video"),
+    startsAt: integer("starts_at", { mode: "timestamp_ms" }).notNull(),
+    durationMin: integer("duration_min").notNull().default(45),
+    reason: text("reason").notNull().default(""),
+    /** In-person visits: where. */
+    location: text("location"),
+    /** In-person follow-up tests: which motions to test, as `{motion, side, digit}` objects. */
+    plannedTests: text("planned_tests", { mode: "json" }).$type<{ motion: string; side: string; digit: string | null }[]>(),
+    status: text("status", { enum: VISIT_STATUSES }).notNull().default("scheduled"),
+    invitationSentAt: integer("invitation_sent_at", { mode: "timestamp_ms" }),
+    reminderSentAt: integer("reminder_sent_at", { mode: "timestamp_ms" }),
+    startedAt: integer("started_at", { mode: "timestamp_ms" }),
+    endedAt: integer("ended_at", { mode: "timestamp_ms" }),
+    notes: text("notes").notNull().default(""),
+    summary: text("summary", { mode: "json" }).$type<Record<string, unknown>>(),
+    createdByUserId: text("created_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    index("visits_clinic_starts_idx").on(t.clinicId, t.startsAt),
+    index("visits_client_idx").on(t.clientId),
+    index("visits_therapist_starts_idx").on(t.therapistId, t.startsAt),
+  ],
+);
+
+/** Signed consents (e.g. telehealth) with the exact version of the text that was shown. */
+export const consents = sqliteTable(
+  "consents",
+  {
+    id: id(),
+    clientId: text("client_id")
+      .notNull()
+      .references(() => clients.id, { onDelete: "cascade" }),
+    kind: text("kind", { enum: ["telehealth"] }).notNull(),
+    version: text("version").notNull(),
+    /** SHA-256 of the text shown, so the wording agreed to can be proven later. */
+    textSha256: text("text_sha256").notNull(),
+    signedName: text("signed_name").notNull(),
+    signedByUserId: text("signed_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    signedAt: integer("signed_at", { mode: "timestamp_ms" }).notNull(),
+    address: text("address"),
+  },
+  (t) => [index("consents_client_idx").on(t.clientId)],
+);
+
+/**
+ * One recorded attempt at a motion. Every number here is computed on the server from the raw capture with the
+ * measurement engine; the browser's own numbers are never stored. `captureUid` is chosen by the recording browser
+ * and makes retries idempotent: the same capture sent twice is stored once.
+ */
+export const attempts = sqliteTable(
+  "attempts",
+  {
+    id: id(),
+    captureUid: text("capture_uid").notNull().unique(),
+    clinicId: text("clinic_id")
+      .notNull()
+      .references(() => clinics.id, { onDelete: "restrict" }),
+    clientId: text("client_id")
+      .notNull()
+      .references(() => clients.id, { onDelete: "cascade" }),
+    motion: text("motion").notNull(),
+    side: text("side", { enum: SIDES }).notNull(),
+    digit: text("digit", { enum: DIGIT_NAMES }),
+    condition: text("condition", { enum: CONDITIONS }).notNull(),
+    source: text("source", { enum: ATTEMPT_SOURCES }).notNull(),
+    visitId: text("visit_id").references(() => visits.id, { onDelete: "set null" }),
+    practiceSessionId: text("practice_session_id"),
+    recordedByUserId: text("recorded_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    recordedAt: integer("recorded_at", { mode: "timestamp_ms" }).notNull(),
+    frames: integer("frames").notNull(),
+    usableFrames: integer("usable_frames").notNull(),
+    reps: integer("reps").notNull(),
+    startDeg: real("start_deg"),
+    peakDeg: real("peak_deg"),
+    arcDeg: real("arc_deg"),
+    /** ± degrees, from the validation error for this joint and view and from tracking confidence. */
+    uncertaintyDeg: real("uncertainty_deg"),
+    planeVerdict: text("plane_verdict").notNull(),
+    axisToGravityDeg: real("axis_to_gravity_deg"),
+    /** The plane check agreed with the declared condition. */
+    planeVerified: integer("plane_verified", { mode: "boolean" }).notNull(),
+    method: text("method"),
+    engineVersion: text("engine_version").notNull(),
+    correctionVersion: text("correction_version"),
+    warnings: text("warnings", { mode: "json" }).$type<string[]>().notNull().default(sql`'[]'`),
+    /** The therapist kept this attempt as counting towards a grade. */
+    keptAt: integer("kept_at", { mode: "timestamp_ms" }),
+    keptByUserId: text("kept_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index("attempts_client_motion_idx").on(t.clientId, t.motion, t.side, t.digit),
+    index("attempts_clinic_idx").on(t.clinicId),
+    index("attempts_visit_idx").on(t.visitId),
+  ],
+);
+
+/** The raw capture file (gzip of the JSON), kept so any attempt can be re-analyzed by a later engine. */
+export const attemptCaptures = sqliteTable("attempt_captures", {
+  attemptId: text("attempt_id")
+    .primaryKey()
+    .references(() => attempts.id, { onDelete: "cascade" }),
+  gzip: blob("gzip", { mode: "buffer" }).notNull(),
+  sha256: text("sha256").notNull(),
+  bytes: integer("bytes").notNull(),
+});
+
+/** Passive range measured by the therapist (goniometer); becomes the reference for "full range". */
+export const passiveRanges = sqliteTable(
+  "passive_ranges",
+  {
+    id: id(),
+    clinicId: text("clinic_id")
+      .notNull()
+      .references(() => clinics.id, { onDelete: "restrict" }),
+    clientId: text("client_id")
+      .notNull()
+      .references(() => clients.id, { onDelete: "cascade" }),
+    motion: text("motion").notNull(),
+    side: text("side", { enum: SIDES }).notNull(),
+    digit: text("digit", { enum: DIGIT_NAMES }),
+    valueDeg: real("value_deg").notNull(),
+    measuredAt: integer("measured_at", { mode: "timestamp_ms" }).notNull(),
+    measuredByUserId: text("measured_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    note: text("note").notNull().default(""),
+    createdAt: createdAt(),
+  },
+  (t) => [index("passive_ranges_client_motion_idx").on(t.clientId, t.motion, t.side, t.digit)],
+);
+
+export const GRADE_METHODS = ["remote_range", "in_person_resisted", "in_person_palpation"] as const;
+export const GRADE_STATUSES = ["awaiting_cosign", "signed"] as const;
+
+/**
+ * A muscle grade as recorded. Never edited once signed: a correction is a new row whose `replacesId` points at the
+ * row it corrects, and both stay visible.
+ */
+export const gradeEntries = sqliteTable(
+  "grade_entries",
+  {
+    id: id(),
+    clinicId: text("clinic_id")
+      .notNull()
+      .references(() => clinics.id, { onDelete: "restrict" }),
+    clientId: text("client_id")
+      .notNull()
+      .references(() => clients.id, { onDelete: "cascade" }),
+    motion: text("motion").notNull(),
+    side: text("side", { enum: SIDES }).notNull(),
+    digit: text("digit", { enum: DIGIT_NAMES }),
+    scale: text("scale", { enum: ["daniels", "mrc", "intrinsic"] }).notNull(),
+    /** e.g. "3-", "4", "0"; null when no grade could be given (no motion seen remotely). */
+    value: text("value"),
+    method: text("method", { enum: GRADE_METHODS }).notNull(),
+    /** What the grade rests on: attempt ids, reference end-range and its source, thresholds. */
+    basis: text("basis", { mode: "json" }).$type<Record<string, unknown>>(),
+    /** Reasons an in-person test is still needed when this grade was made (resistance, palpation, …). */
+    inPersonReasons: text("in_person_reasons", { mode: "json" }).$type<string[]>().notNull().default(sql`'[]'`),
+    visitId: text("visit_id").references(() => visits.id, { onDelete: "set null" }),
+    note: text("note").notNull().default(""),
+    recordedByUserId: text("recorded_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    recordedByRole: text("recorded_by_role").notNull(),
+    recordedAt: integer("recorded_at", { mode: "timestamp_ms" }).notNull(),
+    status: text("status", { enum: GRADE_STATUSES }).notNull(),
+    signedByUserId: text("signed_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    signedAt: integer("signed_at", { mode: "timestamp_ms" }),
+    replacesId: text("replaces_id"),
+  },
+  (t) => [
+    index("grades_client_motion_idx").on(t.clientId, t.motion, t.side, t.digit),
+    index("grades_clinic_status_idx").on(t.clinicId, t.status),
+    index("grades_replaces_idx").on(t.replacesId),
+  ],
+);
+
 export const clinicsRelations = relations(clinics, ({ many }) => ({ users: many(users), clients: many(clients) }));
 export const usersRelations = relations(users, ({ one }) => ({
   clinic: one(clinics, { fields: [users.clinicId], references: [clinics.id] }),
@@ -222,3 +423,10 @@ export type Client = typeof clients.$inferSelect;
 export type NewClient = typeof clients.$inferInsert;
 export type AuditEvent = typeof auditEvents.$inferSelect;
 
+
+export type Visit = typeof visits.$inferSelect;
+export type Attempt = typeof attempts.$inferSelect;
+export type NewAttempt = typeof attempts.$inferInsert;
+export type GradeEntry = typeof gradeEntries.$inferSelect;
+export type PassiveRange = typeof passiveRanges.$inferSelect;
+export type Consent = typeof consents.$inferSelect;
