@@ -188,7 +188,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       usableFrames: usable,
       meanScore: frames ? scoreSum / frames : 0,
       repetitions,
-      plane: repPlane.frames ? repPlane.result() : allFramesPlane.result(),
+      plane: repPlane.empty ? allFramesPlane.result() : repPlane.result(),
       method,
       correctionVersion: null,
       warnings,

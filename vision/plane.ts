@@ -41,31 +41,32 @@ export function readPlane(axis: Vec3, travel: Vec3, gravityUnit: Vec3): PlaneRea
   return { verdict: planeVerdict(axisDeg, travelAlongGravity), axisToGravityDeg: axisDeg, travelAlongGravity };
 }
 
-/** Running mean of plane readings over the frames that matter (the moving part of each repetition). */
+/** Weighted running mean of plane readings over the frames that matter (the outward arc of each repetition). */
 export class PlaneAccumulator {
-  private count = 0;
+  private weight = 0;
   private sumAxisDeg = 0;
   private sumTravel = 0;
 
-  add(axisDeg: number, travelAlongGravity: number): void {
-    this.count += 1;
-    this.sumAxisDeg += axisDeg;
-    this.sumTravel += travelAlongGravity;
+  add(axisDeg: number, travelAlongGravity: number, weight = 1): void {
+    if (!(weight > 0)) return;
+    this.weight += weight;
+    this.sumAxisDeg += weight * axisDeg;
+    this.sumTravel += weight * travelAlongGravity;
   }
 
   merge(other: PlaneAccumulator): void {
-    this.count += other.count;
+    this.weight += other.weight;
     this.sumAxisDeg += other.sumAxisDeg;
     this.sumTravel += other.sumTravel;
   }
 
-  get frames(): number {
-    return this.count;
+  get empty(): boolean {
+    return this.weight === 0;
   }
 
   result(): PlaneReading | null {
-    if (this.count === 0) return null;
-    const axisDeg = this.sumAxisDeg / this.count;
-    return { verdict: planeVerdict(axisDeg, this.sumTravel / this.count), axisToGravityDeg: axisDeg };
+    if (this.weight === 0) return null;
+    const axisDeg = this.sumAxisDeg / this.weight;
+    return { verdict: planeVerdict(axisDeg, this.sumTravel / this.weight), axisToGravityDeg: axisDeg };
   }
 }

@@ -22,7 +22,7 @@ export interface RepParams {
   /** Samples within max(plateauBandDeg, plateauBandFraction x excursion) of the top form the hold plateau. */
   plateauBandDeg: number;
   plateauBandFraction: number;
-  /** How many resting samples give the start angle (their median). */
+  /** How many of the latest resting samples give the start angle (their trimmed mean). */
   restSamples: number;
   /** How quickly the resting angle follows slow upward drift, per sample (exponential weight). */
   restDriftWeight: number;
@@ -37,19 +37,21 @@ export const DEFAULT_REP_PARAMS: RepParams = {
   enterNoiseFactor: 1.5,
   minMoveMs: 150,
   exitDeg: 3,
-  restFraction: 0.3,
+  restFraction: 0.2,
   returnFraction: 0.25,
   holdSpeedDegPerS: 20,
   plateauBandDeg: 4,
   plateauBandFraction: 0.08,
-  restSamples: 15,
+  restSamples: 20,
   restDriftWeight: 0.01,
   restSettleWeight: 0.1,
 };
 
 const JITTER_SAMPLES = 45;
-/** Samples in the running median that finds the hold plateau: about a third of a second at 30 fps. */
-const PLATEAU_WINDOW = 11;
+/** Resting samples needed before the first repetition may start (a third of a second at 30 fps). */
+const MIN_REST_SAMPLES = 10;
+/** Samples in the running mean that finds the hold plateau: half a second at 30 fps. */
+const PLATEAU_WINDOW = 15;
 
 export interface Repetition {
   index: number;
@@ -84,12 +86,16 @@ function spanAtLeast(values: number[], floor: number): [number, number] {
   return first < 0 ? [0, values.length - 1] : [first, last];
 }
 
-/** Centred running median; the window shrinks at the ends. */
-function runningMedian(values: number[], window: number): number[] {
+/** Centred running mean; the window shrinks at the ends. Low-score frames are already gated out upstream. */
+function runningMean(values: number[], window: number): number[] {
   const half = window >> 1;
   const out = new Array<number>(values.length);
   for (let i = 0; i < values.length; i++) {
-    out[i] = median(values.slice(Math.max(0, i - half), Math.min(values.length, i + half + 1)));
+    const lo = Math.max(0, i - half);
+    const hi = Math.min(values.length, i + half + 1);
+    let sum = 0;
+    for (let j = lo; j < hi; j++) sum += values[j];
+    out[i] = sum / (hi - lo);
   }
   return out;
 }
@@ -132,6 +138,7 @@ export class RepSegmenter {
   private repStartMs = 0;
   private repStartDeg = 0;
   private topSmoothed = Number.NEGATIVE_INFINITY;
+  private lastSmoothed = Number.NaN;
   private samplesT: number[] = [];
   private samplesRaw: number[] = [];
   private samplesSmooth: number[] = [];
@@ -163,7 +170,7 @@ export class RepSegmenter {
     const p = this.p;
     // Until enough resting samples are in, the resting angle is their median (a single first frame may be noisy)
     // and no repetition can start.
-    if (this.phaseNow === "rest" && this.done.length === 0 && this.restRing.length < this.p.restSamples) {
+    if (this.phaseNow === "rest" && this.done.length === 0 && this.restRing.length < MIN_REST_SAMPLES) {
       this.remember(rawDeg);
       this.restLevel = median(this.restRing);
       return this.phaseNow;
@@ -181,6 +188,7 @@ export class RepSegmenter {
       // lift the resting angle along with it.
       const weight = smoothedDeg < this.restLevel ? p.restSettleWeight : p.restDriftWeight;
       this.restLevel += weight * (smoothedDeg - this.restLevel);
+      this.lastSmoothed = smoothedDeg;
       this.remember(rawDeg);
       return this.phaseNow;
     }
@@ -217,7 +225,7 @@ export class RepSegmenter {
   private beginCandidate(tMs: number): void {
     this.candidateSinceMs = tMs;
     this.repStartMs = tMs;
-    this.repStartDeg = this.restRing.length ? median(this.restRing) : this.restLevel;
+    this.repStartDeg = this.restRing.length ? trimmedMean(this.settledRest()) : this.restLevel;
     this.topSmoothed = Number.NEGATIVE_INFINITY;
     this.samplesT = [];
     this.samplesRaw = [];
@@ -242,6 +250,19 @@ export class RepSegmenter {
     return median(this.jitterRing) / 0.954;
   }
 
+  /**
+   * The resting samples without the newest quarter: the smoother's lag lets the first frames of a rise in as resting
+   * ones, and those would read the start high.
+   */
+  private settledRest(): number[] {
+    const n = this.restRing.length;
+    const ordered: number[] = [];
+    // The ring's oldest entry sits at restRingNext once it is full.
+    for (let i = 0; i < n; i++) ordered.push(this.restRing[(this.restRingNext - n + i + n * 2) % Math.max(n, 1)]);
+    const keep = n - Math.floor(n / 4);
+    return ordered.slice(0, Math.max(1, keep));
+  }
+
   private remember(rawDeg: number): void {
     if (!Number.isNaN(this.lastRestRaw)) {
       const jump = Math.abs(rawDeg - this.lastRestRaw);
@@ -259,26 +280,29 @@ export class RepSegmenter {
     this.samplesT.push(tMs);
     this.samplesRaw.push(rawDeg);
     this.samplesSmooth.push(smoothedDeg);
+    // Only the outward arc says which way the part works against gravity, each frame weighted by how far the angle
+    // rose: an integral over the arc, so a long hold at the top does not outvote the movement itself.
+    const rise = smoothedDeg - this.lastSmoothed;
+    if (this.phaseNow !== "return" && rise > 0 && !Number.isNaN(this.lastSmoothed)) this.plane.add(axisDeg, travel, rise);
+    this.lastSmoothed = smoothedDeg;
     if (smoothedDeg > this.topSmoothed) this.topSmoothed = smoothedDeg;
-    // Only the outward part of the movement says which way the part works against gravity.
-    if (this.phaseNow !== "return") this.plane.add(axisDeg, travel);
   }
 
   private build(complete: boolean, endMs: number): Repetition {
     const p = this.p;
     const excursion = this.topSmoothed - this.restLevel;
     const floor = this.topSmoothed - Math.max(p.plateauBandDeg, p.plateauBandFraction * excursion);
-    // The plateau is found on a running median of the raw angle (a noise spike cannot make its own plateau), with a
-    // band wide enough for the jitter left in that median; the peak is then the trimmed mean of every raw sample from
+    // The plateau is found on a centred running mean of the raw angle (zero lag, unlike the live smoother), with a
+    // band wide enough for the jitter left in that mean; the peak is then the trimmed mean of every raw sample from
     // the plateau's first to its last frame. Choosing samples by how high they read would pick the ones noise pushed
     // up and read the peak high.
     const raw = this.samplesRaw;
-    const rolling = runningMedian(raw, PLATEAU_WINDOW);
+    const rolling = runningMean(raw, PLATEAU_WINDOW);
     let top = Number.NEGATIVE_INFINITY;
     for (const v of rolling) if (v > top) top = v;
     const jitter = this.restJitterDeg() || successiveJitter(raw);
-    const medianJitter = (1.25 * jitter) / Math.sqrt(PLATEAU_WINDOW);
-    const band = Math.max(p.plateauBandDeg, p.plateauBandFraction * excursion, 2.5 * medianJitter);
+    const rollingJitter = jitter / Math.sqrt(PLATEAU_WINDOW);
+    const band = Math.max(p.plateauBandDeg, p.plateauBandFraction * excursion, 2.5 * rollingJitter);
     // The top of the running median is itself lifted by noise; re-centre the band on the plateau's level twice so the
     // span widens to the whole hold instead of the stretch that noise happened to push up.
     let level = top;

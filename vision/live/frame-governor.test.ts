@@ -34,6 +34,14 @@ describe("FrameGovernor", () => {
     expect(governor.tryBegin(100)).toBe(true);
   });
 
+  it("in a worker, takes the next frame as soon as the previous one is done, whatever it cost", () => {
+    const governor = new FrameGovernor({ maxFps: 30, maxBusyShare: 1 });
+    expect(governor.tryBegin(0)).toBe(true);
+    governor.end(45);
+    expect(governor.intervalMs).toBeCloseTo(1000 / 30, 6);
+    expect(governor.tryBegin(45)).toBe(true);
+  });
+
   it("caps the frame rate for a faster camera", () => {
     const governor = new FrameGovernor({ maxFps: 15, maxBusyShare: 1 });
     simulate(governor, 60, 5, 10);

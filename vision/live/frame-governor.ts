@@ -53,7 +53,9 @@ export class FrameGovernor {
     this.inFlight = false;
     this.processed++;
     this.costMs = this.costMs === null ? busyMs : this.costMs + COST_SMOOTHING * (busyMs - this.costMs);
-    this.intervalMs = Math.max(this.minIntervalMs, this.costMs / this.maxBusyShare);
+    // With a thread of its own, the one-frame-in-flight rule already paces detection; spacing by cost as well would
+    // drop every other camera frame as soon as a frame costs a little more than the camera's period.
+    this.intervalMs = this.maxBusyShare < 1 ? Math.max(this.minIntervalMs, this.costMs / this.maxBusyShare) : this.minIntervalMs;
   }
 
   /** A frame that failed or was abandoned frees the slot without counting as processed. */
