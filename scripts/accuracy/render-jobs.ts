@@ -1,6 +1,7 @@
 import { spawn } from "node:child_process";
 import { mkdirSync, writeFileSync } from "node:fs";
 import path from "node:path";
+import type { RenderFrameSpec } from "./render-spec";
 import type { HandRenderer } from "./renderer";
 import type { HandRig, HandSide } from "./rig";
 import { frameSeeds, randomFrame, type FrameTruth, type RandomFrameOptions } from "./scene";
@@ -120,4 +121,32 @@ export async function renderSweepClip(
     ),
   );
   return { mjpegFile, webmFile, truthFile, frameCount: frames.length, msPerFrame };
+}
+
+/**
+ * Renders stills into one webm clip, each held for `holdMs` of media time (so a tracker that reads the clip's clock
+ * can tell which still a result belongs to: still = floor(t / holdMs)). Held over several video frames so a
+ * tracker that follows the hand from frame to frame gets a settled result on the later ones.
+ */
+export async function renderStillsClip(
+  renderer: HandRenderer,
+  specs: RenderFrameSpec[],
+  file: string,
+  { holdMs, fps }: { holdMs: number; fps: number },
+): Promise<{ msPerFrame: number }> {
+  if (!(holdMs > 0) || !(fps > 0)) throw new Error(`holdMs and fps: expected positive numbers, got ${holdMs} and ${fps}`);
+  mkdirSync(path.dirname(file), { recursive: true });
+  const images: Buffer[] = [];
+  const started = performance.now();
+  for (let start = 0; start < specs.length; start += BATCH_SIZE) {
+    images.push(...(await renderer.render(specs.slice(start, start + BATCH_SIZE))));
+  }
+  const msPerFrame = (performance.now() - started) / specs.length;
+  await runFfmpeg(
+    // Constant frame rate: webm defaults to variable, which would drop the repeats that hold each still.
+    ["-f", "image2pipe", "-framerate", `1000/${holdMs}`, "-c:v", "mjpeg", "-i", "-", "-fps_mode", "cfr", "-r", String(fps), "-c:v", "libvpx",
+      "-b:v", "3M", "-deadline", "realtime", "-cpu-used", "8", "-pix_fmt", "yuv420p", file],
+    images,
+  );
+  return { msPerFrame };
 }

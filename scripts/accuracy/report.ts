@@ -1,0 +1,132 @@
+import type { Vec3 } from "@/vision/vec";
+import { estimateAngles, type AngleEstimate } from "./estimates";
+import { getPoseAngle, type PoseKey } from "./hand-pose";
+import { CAMERA_VIEWS, type CameraView, type FrameTruth } from "./scene";
+import { summarizeErrors, type ErrorSummary } from "./stats";
+
+/** Joints pooled into one row: the four fingers share a row per joint, as a report per finger would be 4x longer. */
+export const JOINT_GROUPS: readonly { label: string; keys: readonly PoseKey[] }[] = [
+  { label: "MCP flexion", keys: ["index.mcpFlexionDeg", "middle.mcpFlexionDeg", "ring.mcpFlexionDeg", "little.mcpFlexionDeg"] },
+  { label: "PIP flexion", keys: ["index.pipFlexionDeg", "middle.pipFlexionDeg", "ring.pipFlexionDeg", "little.pipFlexionDeg"] },
+  { label: "DIP flexion", keys: ["index.dipFlexionDeg", "middle.dipFlexionDeg", "ring.dipFlexionDeg", "little.dipFlexionDeg"] },
+  { label: "finger abduction", keys: ["index.mcpAbductionDeg", "ring.mcpAbductionDeg", "little.mcpAbductionDeg"] },
+  { label: "thumb MCP flexion", keys: ["thumb.mcpFlexionDeg"] },
+  { label: "thumb IP flexion", keys: ["thumb.ipFlexionDeg"] },
+  { label: "wrist flexion (+) / extension (-)", keys: ["wrist.flexionDeg"] },
+  { label: "wrist radial (+) / ulnar (-) deviation", keys: ["wrist.radialDeviationDeg"] },
+];
+
+export type AngleMethod = "3-D" | "image plane";
+
+/** One still as a tracker saw it. `hand` is null when no hand was found. */
+export interface TrackedStill {
+  truth: FrameTruth;
+  model: string;
+  hand: Vec3[] | null;
+  score: number;
+}
+
+export interface AccuracyRow {
+  joint: string;
+  view: CameraView;
+  model: string;
+  method: AngleMethod;
+  summary: ErrorSummary;
+  /** Mean error of the engine on the exact landmarks: the part of the bias owed to the rig's landmark convention. */
+  perfectTrackerBiasDeg: number | null;
+}
+
+function pick(estimate: AngleEstimate | null | undefined, method: AngleMethod): number | null {
+  if (!estimate) return null;
+  return method === "3-D" ? estimate.deg : estimate.imagePlaneDeg;
+}
+
+/**
+ * Rows per joint group, view, model and method. The forearm line given to the engine for wrist angles is the
+ * render's true one, so wrist rows measure the hand's landmarks only.
+ */
+export function accuracyRows(stills: readonly TrackedStill[]): AccuracyRow[] {
+  const models = [...new Set(stills.map((s) => s.model))];
+  const estimated = stills.map((still) => ({
+    still,
+    tracked: still.hand ? estimateAngles(still.hand, still.truth.side, still.truth.forearmCameraDir) : null,
+    perfect: estimateAngles(still.truth.landmarksCameraM, still.truth.side, still.truth.forearmCameraDir),
+  }));
+  const rows: AccuracyRow[] = [];
+  for (const method of ["3-D", "image plane"] as const) {
+    for (const group of JOINT_GROUPS) {
+      for (const view of CAMERA_VIEWS) {
+        for (const model of models) {
+          const inCell = estimated.filter((e) => e.still.model === model && e.still.truth.view === view);
+          if (inCell.length === 0) continue;
+          const samples = inCell.flatMap((e) =>
+            group.keys.map((key) => ({
+              truthDeg: getPoseAngle(e.still.truth.commandedDeg, key),
+              estimateDeg: e.tracked ? pick(e.tracked[key], method) : null,
+            })),
+          );
+          const perfect = summarizeErrors(
+            inCell.flatMap((e) =>
+              group.keys.map((key) => ({ truthDeg: getPoseAngle(e.still.truth.commandedDeg, key), estimateDeg: pick(e.perfect[key], method) })),
+            ),
+          );
+          rows.push({ joint: group.label, view, model, method, summary: summarizeErrors(samples), perfectTrackerBiasDeg: perfect.biasDeg });
+        }
+      }
+    }
+  }
+  return rows;
+}
+
+function fixed(value: number | null, digits = 1): string {
+  return value === null ? "-" : value.toFixed(digits);
+}
+
+function percent(value: number | null): string {
+  return value === null ? "-" : `${Math.round(value * 100)}%`;
+}
+
+/** A Markdown table per angle method. */
+export function accuracyMarkdown(rows: readonly AccuracyRow[]): string {
+  const sections: string[] = [];
+  for (const method of ["3-D", "image plane"] as const) {
+    const lines = [
+      `### Raw landmarks, ${method} angles`,
+      "",
+      "| joint | view | model | samples | detected | bias ° | MAE ° | slope | within 5° | within 10° | perfect-tracker bias ° |",
+      "| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
+    ];
+    for (const row of rows.filter((r) => r.method === method)) {
+      const s = row.summary;
+      lines.push(
+        `| ${row.joint} | ${row.view} | ${row.model} | ${s.samples} | ${percent(s.detectionRate)} | ${fixed(s.biasDeg)} | ` +
+          `${fixed(s.meanAbsoluteErrorDeg)} | ${fixed(s.slope, 2)} | ${percent(s.within5)} | ${percent(s.within10)} | ${fixed(row.perfectTrackerBiasDeg)} |`,
+      );
+    }
+    sections.push(lines.join("\n"));
+  }
+  return sections.join("\n\n");
+}
+
+/**
+ * The tracked frame that stands for each still of a stills clip: still i covers media time [i*holdMs, (i+1)*holdMs).
+ * The first video frame of a still is skipped when later ones were processed, because a tracker that follows the
+ * hand between frames may still be looking where the previous still's hand was. Among the rest, the last with a
+ * hand is taken.
+ */
+export function framesForStills<F extends { t: number; hand: unknown | null }>(
+  frames: readonly F[],
+  stillCount: number,
+  holdMs: number,
+  fps: number,
+): (F | null)[] {
+  const framePeriodMs = 1000 / fps;
+  return Array.from({ length: stillCount }, (_, still) => {
+    const start = still * holdMs;
+    const inWindow = frames.filter((f) => f.t >= start - 0.5 && f.t < start + holdMs - 0.5);
+    const settled = inWindow.filter((f) => f.t >= start + framePeriodMs - 0.5);
+    const candidates = settled.length ? settled : inWindow;
+    const withHand = candidates.filter((f) => f.hand !== null);
+    return withHand.length ? withHand[withHand.length - 1] : null;
+  });
+}
