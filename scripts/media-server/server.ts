@@ -23,7 +23,10 @@ export interface MediaServer {
 const SIGNAL_PATH = "/rtc";
 const SINGLE_CONNECTION_PATH = "/rtc/v1";
 
-/** Starts the development stand-in for a LiveKit server on all interfaces. */
+/**
+ * Starts the development stand-in for a LiveKit server on the loopback interface only: its development secret
+ * is in the repository, so anyone who could reach it could mint tokens and watch a developer's camera.
+ */
 export async function startMediaServer({ port, apiKey, apiSecret }: MediaServerOptions): Promise<MediaServer> {
   const access = createAccessControl(apiKey, apiSecret);
   const rooms = new Map<string, Room>();
@@ -61,7 +64,7 @@ export async function startMediaServer({ port, apiKey, apiSecret }: MediaServerO
 
   await new Promise<void>((resolve, reject) => {
     http.once("error", reject);
-    http.listen(port, () => resolve());
+    http.listen(port, "127.0.0.1", () => resolve());
   });
 
   return {
