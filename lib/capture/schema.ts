@@ -1,0 +1,59 @@
+import { z } from "zod";
+import { CONDITIONS, DIGITS, MOTIONS, MOTION_IDS, SIDES, digitAllowed } from "@/lib/motions/catalog";
+
+// Capture file, format version 1: the one format for recorded attempts (browser recorder, uploads, fixtures, CLI).
+// Landmarks are the tracker's world coordinates in metres, camera axes: x right, y down, z away from the camera, as
+// seen in an unmirrored image (a mirrored selfie preview must be flipped back, x -> -x, before saving).
+
+export const CAPTURE_FORMAT = "kinarc.capture";
+export const CAPTURE_VERSION = 1;
+
+const coordinate = z.number({ error: "expected a finite number" });
+const point = z.tuple([coordinate, coordinate, coordinate], { error: "expected [x, y, z]" });
+
+function nonZero(v: readonly number[]): boolean {
+  return Math.hypot(v[0], v[1], v[2]) > 1e-9;
+}
+
+export const captureFrameSchema = z.object({
+  t: z.number({ error: "expected milliseconds since the capture started" }).min(0, { error: "expected milliseconds >= 0" }),
+  score: z.number({ error: "expected a tracker score from 0 to 1" }).min(0, { error: "expected a score from 0 to 1" }).max(1, { error: "expected a score from 0 to 1" }),
+  hand: z.array(point, { error: "expected 21 landmarks [x, y, z] or null" }).length(21, { error: "expected 21 landmarks [x, y, z]" }).nullable(),
+  forearm: point.refine(nonZero, { error: "expected a non-zero elbow-to-wrist direction" }).optional(),
+});
+
+export const captureSchema = z
+  .object({
+    format: z.literal(CAPTURE_FORMAT, { error: `expected "${CAPTURE_FORMAT}"` }),
+    version: z.literal(CAPTURE_VERSION, { error: `expected version ${CAPTURE_VERSION}` }),
+    motion: z.enum(MOTION_IDS, { error: `expected one of ${MOTION_IDS.join(", ")}` }),
+    side: z.enum(SIDES, { error: 'expected "left" or "right"' }),
+    digit: z.enum(DIGITS, { error: `expected one of ${DIGITS.join(", ")} or null` }).nullable(),
+    condition: z.enum(CONDITIONS, { error: 'expected "against_gravity" or "gravity_minimized"' }),
+    gravity: point.refine(nonZero, { error: "expected a non-zero gravity direction" }).optional(),
+    passiveRangeDeg: z
+      .number({ error: "expected degrees" })
+      .gt(0, { error: "expected degrees above 0" })
+      .max(180, { error: "expected degrees up to 180" })
+      .optional(),
+    frames: z.array(captureFrameSchema, { error: "expected an array of frames" }).min(1, { error: "expected at least one frame" }),
+  })
+  .superRefine((capture, ctx) => {
+    if (!digitAllowed(capture.motion, capture.digit)) {
+      const def = MOTIONS[capture.motion];
+      ctx.addIssue({
+        code: "custom",
+        path: ["digit"],
+        message: def.joint === "wrist" ? `expected null for ${capture.motion}` : `expected one of ${def.digits.join(", ")} for ${capture.motion}`,
+      });
+    }
+    for (let i = 1; i < capture.frames.length; i++) {
+      if (capture.frames[i].t < capture.frames[i - 1].t) {
+        ctx.addIssue({ code: "custom", path: ["frames", i, "t"], message: `expected time not earlier than the previous frame (${capture.frames[i - 1].t})` });
+        break;
+      }
+    }
+  });
+
+export type CaptureFile = z.infer<typeof captureSchema>;
+export type CaptureFrame = z.infer<typeof captureFrameSchema>;
