@@ -10,6 +10,8 @@ import { MODEL_BUNDLES } from "../../scripts/models/recipe";
 import { buildModels } from "../../scripts/models/build";
 import { STANDARD_CLIPS, makeHandClip, type PhotoId } from "../../scripts/fixtures/hand-photos";
 import type { LandmarkXYZ, TrackedFrame } from "../../vision/live";
+import { handAxes, readMotion } from "../../vision/angles";
+import { FINGERS, type MotionId } from "../../lib/motions/catalog";
 import {
   launchChromium,
   launchWithFakeCamera,
@@ -198,6 +200,22 @@ describe("live tracking on a clip of every photo (one second each)", () => {
       rows.push(`${id.padEnd(16)} MCP ${s.mcp.toFixed(0).padStart(3)}°  PIP ${s.pip.toFixed(0).padStart(3)}°  DIP ${s.dip.toFixed(0).padStart(3)}°`);
     }
     console.log(`naive world-landmark flexion, median over frames, mean of index-little (test-only helper):\n${rows.join("\n")}`);
+    // For the record, the measurement engine's raw readings on the same frames (3-D / image plane); their accuracy
+    // is judged by the engine's own tests and the accuracy work, not here.
+    const engineRows = photos.map((id, index) => {
+      const side = id.startsWith("left") ? "left" : "right";
+      const read = (motion: MotionId) => {
+        const values = framesOf(index).flatMap((f) => {
+          const axes = f.hand ? handAxes(f.hand, side) : null;
+          if (!f.hand || !axes) return [];
+          const readings = FINGERS.map((digit) => readMotion(motion, digit, f.hand!, axes, null)).filter((r) => r !== null);
+          return readings.length ? [[mean(readings.map((r) => r.deg)), mean(readings.map((r) => r.imagePlaneDeg))]] : [];
+        });
+        return `${medianOf(values.map((v) => v[0])).toFixed(0).padStart(4)}°/${medianOf(values.map((v) => v[1])).toFixed(0).padStart(4)}°`;
+      };
+      return `${id.padEnd(16)} MCP ${read("mcp.flexion")}  PIP ${read("pip.flexion")}  DIP ${read("dip.flexion")}`;
+    });
+    console.log(`engine readMotion, median over frames, mean of index-little (3-D / image plane):\n${engineRows.join("\n")}`);
     for (const side of ["left", "right"] as const) {
       for (const view of ["palm", "back"] as const) {
         const open = summary.get(`${side}-open-${view}`)!;
@@ -244,6 +262,10 @@ function meanFingerFlexion(hand: LandmarkXYZ[]): { mcp: number; pip: number; dip
     pip: mean((m) => bend(m, m + 1, m + 2)),
     dip: mean((m) => bend(m + 1, m + 2, m + 3)),
   };
+}
+
+function mean(values: number[]): number {
+  return values.reduce((a, b) => a + b, 0) / values.length;
 }
 
 function medianOf(values: number[]): number {
