@@ -406,6 +406,42 @@ export const gradeEntries = sqliteTable(
   ],
 );
 
+export const STRENGTH_TESTS = ["grip", "tip_pinch", "key_pinch", "palmar_pinch"] as const;
+export type StrengthTest = (typeof STRENGTH_TESTS)[number];
+
+/**
+ * In-person dynamometer (grip) and pinch-gauge readings. Stored in kilograms-force, the mean of the trials as the
+ * norms are (Mathiowetz et al. 1985: mean of three trials); the trials are kept so the mean can be checked.
+ */
+export const strengthReadings = sqliteTable(
+  "strength_readings",
+  {
+    id: id(),
+    clinicId: text("clinic_id")
+      .notNull()
+      .references(() => clinics.id, { onDelete: "restrict" }),
+    clientId: text("client_id")
+      .notNull()
+      .references(() => clients.id, { onDelete: "cascade" }),
+    test: text("test", { enum: STRENGTH_TESTS }).notNull(),
+    side: text("side", { enum: SIDES }).notNull(),
+    trialsKg: text("trials_kg", { mode: "json" }).$type<number[]>().notNull(),
+    meanKg: real("mean_kg").notNull(),
+    /** Dynamometer handle position (1-5); the norms use position 2. */
+    handlePosition: integer("handle_position"),
+    visitId: text("visit_id").references(() => visits.id, { onDelete: "set null" }),
+    note: text("note").notNull().default(""),
+    recordedByUserId: text("recorded_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    recordedAt: integer("recorded_at", { mode: "timestamp_ms" }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index("strength_readings_client_idx").on(t.clientId, t.test, t.side),
+    index("strength_readings_clinic_idx").on(t.clinicId),
+    index("strength_readings_visit_idx").on(t.visitId),
+  ],
+);
+
 export const clinicsRelations = relations(clinics, ({ many }) => ({ users: many(users), clients: many(clients) }));
 export const usersRelations = relations(users, ({ one }) => ({
   clinic: one(clinics, { fields: [users.clinicId], references: [clinics.id] }),
@@ -430,3 +466,4 @@ export type NewAttempt = typeof attempts.$inferInsert;
 export type GradeEntry = typeof gradeEntries.$inferSelect;
 export type PassiveRange = typeof passiveRanges.$inferSelect;
 export type Consent = typeof consents.$inferSelect;
+export type StrengthReading = typeof strengthReadings.$inferSelect;
