@@ -1,0 +1,91 @@
+import { spawnSync } from "node:child_process";
+import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import { afterAll, describe, expect, it } from "vitest";
+import { CaptureFormatError } from "@/lib/capture/parse";
+import { buildSyntheticCapture, type SyntheticCapture } from "@/vision/testing/synthetic-hand";
+import { UsageError, analyzeFiles } from "./analyze";
+
+// Forearm level, palm up: wrist flexion works against gravity; thumb up: the same motion is gravity-minimized
+// (test positions in shared/notes/clinical-references.md). Right hand: a left hand lies mirrored.
+const palmUp = { forearmDistal: [1, 0, 0] as const, forearmRadial: [0, 0, -1] as const, wrist: [0, 0, 0.5] as const };
+const thumbUp = { forearmDistal: [1, 0, 0] as const, forearmRadial: [0, -1, 0] as const, wrist: [0, 0, 0.5] as const };
+
+function capture(peakDeg: number, condition: "against_gravity" | "gravity_minimized", extra: Partial<SyntheticCapture> = {}): SyntheticCapture {
+  const placement = condition === "against_gravity" ? palmUp : thumbUp;
+  return { ...buildSyntheticCapture({ motion: "wrist.flexion", side: "right", digit: null, condition, placement, reps: [{ peakDeg }, { peakDeg }], noiseMm: 1, seed: peakDeg }), ...extra };
+}
+
+function run(files: Record<string, unknown>, args: string[] = []) {
+  const texts = Object.fromEntries(Object.entries(files).map(([name, value]) => [name, typeof value === "string" ? value : JSON.stringify(value)]));
+  return analyzeFiles([...args, ...Object.keys(files)], (f) => {
+    if (!(f in texts)) throw Object.assign(new Error("missing"), { code: "ENOENT" });
+    return texts[f];
+  });
+}
+
+describe("analyze command", () => {
+  it("reports each capture and grades the set: 60 of 80 deg against gravity is 3- (Daniels: more than half)", () => {
+    const out = run({ "ag.json": capture(60, "against_gravity"), "gm.json": capture(78, "gravity_minimized") });
+    expect(out.captures).toHaveLength(2);
+    expect(out.captures[0]).toMatchObject({ file: "ag.json", motion: "wrist.flexion", side: "right", digit: null, reps: 2, plane: { verdict: "against_gravity" } });
+    expect(Math.abs(out.captures[0].peakDeg! - 60)).toBeLessThan(3);
+    expect(out.captures[1].plane!.verdict).toBe("gravity_minimized");
+    expect(out.reference.endRangeDeg).toBe(80);
+    expect(out.grade).toMatchObject({ scale: "daniels", value: "3-", ceiling: false });
+  });
+
+  it("uses --reference over the table, and the capture's passive range when given", () => {
+    expect(run({ "ag.json": capture(60, "against_gravity") }, ["--reference", "64"]).grade.value).toBe("3");
+    expect(run({ "ag.json": capture(60, "against_gravity", { passiveRangeDeg: 64 } as Partial<SyntheticCapture>) }).reference.endRangeDeg).toBe(64);
+    expect(run({ "ag.json": capture(60, "against_gravity") }, ["--scale", "mrc"]).grade).toMatchObject({ scale: "mrc", value: "2" });
+  });
+
+  it("rejects mixed motions naming the second file and the field", () => {
+    const other = { ...capture(40, "against_gravity"), motion: "wrist.extension" };
+    expect(() => run({ "a.json": capture(60, "against_gravity"), "b.json": other })).toThrow(
+      new CaptureFormatError("b.json", null, "motion", 'expected "wrist.flexion" like a.json, got "wrist.extension"'),
+    );
+  });
+
+  it("rejects bad options", () => {
+    expect(() => run({ "a.json": capture(60, "against_gravity") }, ["--scale", "kendall"])).toThrow(UsageError);
+    expect(() => run({ "a.json": capture(60, "against_gravity") }, ["--reference", "-3"])).toThrow(/--reference: expected degrees/);
+  });
+});
+
+describe("analyze command as a process", () => {
+  const dir = mkdtempSync(path.join(tmpdir(), "kinarc-analyze-"));
+  afterAll(() => rmSync(dir, { recursive: true, force: true }));
+  const cli = (...files: string[]) =>
+    spawnSync(process.execPath, ["--import", "tsx", path.join(__dirname, "analyze.ts"), ...files], {
+      cwd: path.join(__dirname, ".."),
+      encoding: "utf8",
+      env: { ...process.env, VITEST: "" },
+    });
+
+  it("exits 0 with one JSON object on stdout for good input, and 2 with one stderr line and no stdout for bad input", () => {
+    const good = path.join(dir, "good.json");
+    writeFileSync(good, JSON.stringify(capture(60, "against_gravity")));
+    const ok = cli(good);
+    expect(ok.status).toBe(0);
+    expect(JSON.parse(ok.stdout).grade.value).toBe("3-");
+
+    const broken = capture(60, "against_gravity");
+    broken.frames[7].hand = broken.frames[7].hand!.slice(0, 20);
+    const bad = path.join(dir, "bad.json");
+    writeFileSync(bad, JSON.stringify(broken));
+    const result = cli(good, bad);
+    expect(result.status).toBe(2);
+    expect(result.stdout).toBe("");
+    expect(result.stderr.trim().split("\n")).toEqual([`${bad}: frames[7].hand: expected 21 landmarks [x, y, z], got an array of 20`]);
+
+    const notJson = path.join(dir, "not.json");
+    writeFileSync(notJson, "{");
+    const r2 = cli(notJson);
+    expect(r2.status).toBe(2);
+    expect(r2.stdout).toBe("");
+    expect(r2.stderr.trim().split("\n")).toHaveLength(1);
+  });
+});
