@@ -19,6 +19,11 @@ export interface IncomingMedia {
   requestKeyframe(): void;
 }
 
+// livekit-client's ordered, retransmitted data channel.
+const RELIABLE_CHANNEL_LABEL = "_reliable";
+// Enough for the moments between a participant appearing to the others and its channels opening.
+const MAX_HELD_RELIABLE_MESSAGES = 256;
+
 export interface UplinkEvents {
   candidate(candidateInit: string): void;
   media(incoming: IncomingMedia): void;
@@ -33,6 +38,11 @@ export interface UplinkEvents {
 export class Uplink {
   private readonly pc: RTCPeerConnection;
   private readonly channels = new Map<string, RTCDataChannel>();
+  /**
+   * Reliable messages for this client that arrived before its reliable channel opened. Others see a
+   * participant as soon as it joins, and a prompt sent at that moment must not be lost.
+   */
+  private readonly heldReliable: Buffer[] = [];
   // werift raises a track again on every renegotiation of the same transceiver.
   private readonly acceptedTransceivers = new Set<string>();
   private sendingCidByMid = new Map<string, string>();
@@ -41,6 +51,12 @@ export class Uplink {
     this.pc = createPeer(events.candidate);
     this.pc.onDataChannel.subscribe((channel) => {
       this.channels.set(channel.label, channel);
+      if (channel.label === RELIABLE_CHANNEL_LABEL) {
+        if (channel.readyState === "open") this.releaseHeld(channel);
+        channel.stateChanged.subscribe((state) => {
+          if (state === "open") this.releaseHeld(channel);
+        });
+      }
       channel.onMessage.subscribe((message) => {
         if (typeof message !== "string") events.data(channel.label, message);
       });
@@ -76,11 +92,19 @@ export class Uplink {
 
   send(channelLabel: string, payload: Uint8Array): void {
     const channel = this.channels.get(channelLabel);
-    if (channel?.readyState === "open") channel.send(Buffer.from(payload));
+    if (channel?.readyState === "open") {
+      channel.send(Buffer.from(payload));
+    } else if (channelLabel === RELIABLE_CHANNEL_LABEL && this.heldReliable.length < MAX_HELD_RELIABLE_MESSAGES) {
+      this.heldReliable.push(Buffer.from(payload));
+    }
   }
 
   close(): Promise<void> {
     return this.pc.close();
+  }
+
+  private releaseHeld(channel: RTCDataChannel): void {
+    for (const payload of this.heldReliable.splice(0)) channel.send(payload);
   }
 
   private accept(track: MediaStreamTrack, transceiver: RTCRtpTransceiver): void {

@@ -4,7 +4,7 @@ import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { type MediaServer, startMediaServer } from "@/scripts/media-server/server";
 import { type HarnessSite, serveVideoHarness } from "@/tests/harness/video/serve";
-import type { HarnessState } from "@/tests/harness/video/page";
+import type { HarnessState, JoinOptions } from "@/tests/harness/video/page";
 import { launchChromium } from "./support/browser";
 
 // Two headless Chromium pages run the unmodified livekit-client 2.23.0 (registry package) against the
@@ -41,13 +41,13 @@ async function openPage(): Promise<Page> {
   return page;
 }
 
-async function joinAs(page: Page, room: string, identity: string, singlePeerConnection: boolean): Promise<void> {
+async function joinAs(page: Page, room: string, identity: string, options: JoinOptions): Promise<void> {
   const accessToken = new AccessToken(API_KEY, API_SECRET, { identity, ttl: "10m" });
   accessToken.addGrant({ roomJoin: true, room });
   const jwt = await accessToken.toJwt();
   await page.evaluate(
-    ([url, token, single]) => window.videoHarness.join(url, token, { singlePeerConnection: single }),
-    [media.url, jwt, singlePeerConnection] as const,
+    ([url, token, joinOptions]) => window.videoHarness.join(url, token, joinOptions),
+    [media.url, jwt, options] as const,
   );
 }
 
@@ -69,10 +69,13 @@ describe("development media server with livekit-client in two Chromium pages", (
   it("carries camera, microphone, data, mute, unpublish and leave from one page to the other", async () => {
     const therapist = await openPage();
     const client = await openPage();
+    // The therapist greets the client the moment it appears, before the client's data channels are open.
+    await joinAs(therapist, "visit-1", "therapist-b", { singlePeerConnection: false, greeting: "welcome" });
     // The client page takes livekit-client's default single-connection path first and must fall back.
-    await joinAs(client, "visit-1", "client-a", true);
-    await joinAs(therapist, "visit-1", "therapist-b", false);
+    await joinAs(client, "visit-1", "client-a", { singlePeerConnection: true });
     await until(client, "the client to see the therapist", (s) => s.remoteIdentities.includes("therapist-b"));
+    const greeted = await until(client, "the therapist's greeting", (s) => s.messages.length > 0);
+    expect(greeted.messages).toEqual([{ fromIdentity: "therapist-b", text: "welcome", topic: undefined }]);
 
     await client.evaluate(() => window.videoHarness.publishCameraAndMicrophone());
     const playing = await until(therapist, "the client's video frames", (s) => (s.videoFramesByIdentity["client-a"] ?? 0) >= 30);
@@ -114,8 +117,8 @@ describe("development media server with livekit-client in two Chromium pages", (
   it("lets a page whose signalling socket dropped rejoin and receive the picture again", async () => {
     const therapist = await openPage();
     const client = await openPage();
-    await joinAs(client, "visit-2", "client-a", false);
-    await joinAs(therapist, "visit-2", "therapist-b", false);
+    await joinAs(client, "visit-2", "client-a", { singlePeerConnection: false });
+    await joinAs(therapist, "visit-2", "therapist-b", { singlePeerConnection: false });
     // H264 this time: the server must answer with the codec the client asked for, not its own first choice.
     await client.evaluate(() => window.videoHarness.publishCameraAndMicrophone("h264"));
     const playing = await until(therapist, "the client's video frames", (s) => (s.videoFramesByIdentity["client-a"] ?? 0) >= 10);

@@ -34,6 +34,8 @@ export interface HarnessState {
 export interface JoinOptions {
   /** false goes straight to the two-connection signalling path; true tries /rtc/v1 first and falls back. */
   singlePeerConnection: boolean;
+  /** A reliable message to send each participant the moment it appears, as a prompt would be. */
+  greeting?: string;
 }
 
 const state: HarnessState = {
@@ -95,6 +97,9 @@ async function join(url: string, token: string, options: JoinOptions): Promise<s
     })
     .on(RoomEvent.ParticipantConnected, (participant) => {
       state.remoteIdentities = [...new Set([...state.remoteIdentities, participant.identity])];
+      if (options.greeting) {
+        void sendText(options.greeting, { reliable: true, destinationIdentities: [participant.identity] });
+      }
     })
     .on(RoomEvent.ParticipantDisconnected, (participant) => {
       state.departedIdentities.push(participant.identity);
