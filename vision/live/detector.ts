@@ -6,7 +6,7 @@ import { FilesetResolver, HandLandmarker, PoseLandmarker } from "@mediapipe/task
 
 type WasmFileset = Awaited<ReturnType<typeof FilesetResolver.forVisionTasks>>;
 import { forearmDirection, handFrame } from "./landmark-results";
-import type { LandmarkXYZ, ModelVariant, TrackedFrame } from "./types";
+import type { LandmarkXYZ, TrackedFrame } from "./types";
 
 export interface DetectorConfig {
   /** Absolute URLs: a worker resolves relative ones against its own script, not the page. */
@@ -28,15 +28,6 @@ export interface DetectionStep {
 export interface Detector {
   detect(image: TexImageSource, t: number): DetectionStep;
   close(): void;
-}
-
-export function modelUrls(assetBaseUrl: string, handModel: ModelVariant, poseModel: ModelVariant | null) {
-  const base = assetBaseUrl.replace(/\/$/, "");
-  return {
-    wasmBaseUrl: `${base}/mediapipe/wasm`,
-    handModelUrl: `${base}/models/hand_landmarker_${handModel}.task`,
-    poseModelUrl: poseModel ? `${base}/models/pose_landmarker_${poseModel}.task` : null,
-  };
 }
 
 // A forearm reading older than this no longer describes the arm in the current frame.

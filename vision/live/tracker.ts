@@ -4,8 +4,9 @@
  * a frame budget. Browser-only; consumers (the measurement engine's live pipeline, the overlay, the harness)
  * subscribe to `TrackedFrame`s and never touch the landmarkers.
  */
-import { createDetector, modelUrls, type DetectionStep, type Detector, type DetectorConfig } from "./detector";
+import type { DetectionStep, DetectorConfig } from "./detector";
 import { FrameGovernor } from "./frame-governor";
+import { modelUrls } from "./model-urls";
 import type { FrameTiming, TrackedFrame, TrackerOptions, TrackerStats } from "./types";
 import type { TransferableFrame, WorkerRequest, WorkerResponse } from "./worker-protocol";
 
@@ -181,7 +182,9 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
 }
 
 async function mainThreadBackend(config: Omit<DetectorConfig, "wasmAsModule">): Promise<Backend> {
-  const detector: Detector = await createDetector({ ...config, wasmAsModule: false });
+  // Loaded only here: when the worker runs, the page never downloads the tasks library itself.
+  const { createDetector } = await import("./detector");
+  const detector = await createDetector({ ...config, wasmAsModule: false });
   return {
     thread: "main",
     process: async (video, t) => detector.detect(video, t),
