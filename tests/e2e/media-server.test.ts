@@ -114,7 +114,7 @@ describe("development media server with livekit-client in two Chromium pages", (
     expect(departed.remoteIdentities).not.toContain("client-a");
   });
 
-  it("lets a page whose signalling socket dropped rejoin and receive the picture again", async () => {
+  it("lets a page whose signalling socket dropped rejoin, on the receiving and on the publishing side", async () => {
     const therapist = await openPage();
     const client = await openPage();
     await joinAs(client, "visit-2", "client-a", { singlePeerConnection: false });
@@ -130,6 +130,15 @@ describe("development media server with livekit-client in two Chromium pages", (
     await until(client, "the therapist's return", (s) => s.departedIdentities.includes("therapist-b") && s.remoteIdentities.includes("therapist-b"));
     const framesAtRejoin = rejoined.videoFramesByIdentity["client-a"] ?? 0;
     await until(therapist, "frames after the rejoin", (s) => (s.videoFramesByIdentity["client-a"] ?? 0) >= framesAtRejoin + 30);
+
+    // Now the publishing side drops: it rejoins and publishes again, and the picture comes back.
+    await client.evaluate(() => window.videoHarness.dropSignalConnection());
+    await until(client, "the client's reconnection", (s) => s.reconnections >= 1 && s.connectionState === "connected");
+    const republished = await until(therapist, "the client's second camera track", (s) =>
+      (s.subscribedKindsByIdentity["client-a"] ?? []).filter((kind) => kind === "video").length >= 2,
+    );
+    const framesAtRepublish = republished.videoFramesByIdentity["client-a"] ?? 0;
+    await until(therapist, "frames from the republished camera", (s) => (s.videoFramesByIdentity["client-a"] ?? 0) >= framesAtRepublish + 30);
 
     await therapist.evaluate(() => window.videoHarness.leave());
     await until(client, "the therapist to leave", (s) => !s.remoteIdentities.includes("therapist-b"));
