@@ -6,15 +6,18 @@ import { KinarcMark } from "@/components/kinarc-mark";
 const NAV: Record<Role, { href: string; label: string }[]> = {
   therapist: [
     { href: "/home", label: "Today" },
+    { href: "/visits", label: "Visits" },
     { href: "/clients", label: "Clients" },
   ],
   assistant: [
     { href: "/home", label: "My list" },
+    { href: "/visits", label: "Visits" },
     { href: "/clients", label: "Clients" },
   ],
   admin: [
     { href: "/home", label: "Overview" },
     { href: "/team", label: "Team" },
+    { href: "/visits", label: "Visits" },
     { href: "/clinic", label: "Clinic settings" },
     { href: "/audit", label: "Access trail" },
     { href: "/clients", label: "Clients" },

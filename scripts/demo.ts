@@ -1,5 +1,6 @@
 import { LOCAL_DEFAULTS } from "@/lib/env";
 import { localEnv, runCommand, startLocalStack } from "./lib/local-stack";
+import { startJobLoop } from "./jobs";
 import { printSignIns } from "./seed";
 
 /**
@@ -25,12 +26,15 @@ async function main() {
   await step("models", ["node_modules/tsx/dist/cli.mjs", "scripts/build-models.ts"]);
   await step("build", ["node_modules/next/dist/bin/next", "build"]);
   const stack = await startLocalStack(opts);
+  // Reminders and missed visits, once a minute (production runs `npm run jobs` from cron instead).
+  const stopJobs = startJobLoop(60);
   console.log(`\nKinarc is running at ${stack.appUrl}`);
   console.log(`  Local mail (development stand-in):  ${stack.mailUrl}`);
   console.log(`  Local media server (development stand-in): ${stack.mediaUrl}  key ${LOCAL_DEFAULTS.DEV_LIVEKIT_KEY}`);
   printSignIns(stack.appUrl);
   console.log("\nPress Ctrl+C to stop.");
   const shutdown = () => {
+    stopJobs();
     stack.stop().finally(() => process.exit(0));
   };
   process.on("SIGINT", shutdown);

@@ -1,6 +1,10 @@
 import Link from "next/link";
 import { getDb } from "@/db";
+import { getClinic } from "@/db/queries/clinics";
 import { listClients } from "@/db/queries/clients";
+import { listVisits } from "@/db/queries/visits";
+import { VisitStatusBadge } from "@/components/visits/visit-status";
+import { formatInZone } from "@/lib/visits/time";
 import { ButtonLink } from "@/components/ui/button";
 import { Badge, Card, PageTitle } from "@/components/ui/card";
 import type { Actor } from "@/lib/auth/guard";
@@ -21,6 +25,16 @@ export async function ClinicianHome({ actor }: { actor: Actor }) {
     page: 1,
     pageSize: 50,
   });
+  const clinic = await getClinic(db, actor.clinicId);
+  const zone = clinic?.timezone ?? "UTC";
+  // "Today" in the clinic's zone would need its midnight; the next 24 hours from now serve a working day well enough.
+  const today = await listVisits(db, {
+    clinicId: actor.clinicId,
+    therapistId: actor.role === "therapist" ? actor.userId : undefined,
+    from: new Date(Date.now() - 3 * 3600_000),
+    to: new Date(Date.now() + 24 * 3600_000),
+    statuses: ["scheduled", "waiting", "in_progress"],
+  });
   const first = actor.name.split(" ")[0];
   return (
     <div className="space-y-6">
@@ -33,6 +47,29 @@ export async function ClinicianHome({ actor }: { actor: Actor }) {
           </ButtonLink>
         }
       />
+      <Card title="Visits in the next 24 hours" action={<Link href="/visits" className="text-sm text-tide-700 hover:underline">All visits</Link>}>
+        {today.length === 0 ? (
+          <p className="text-sm text-ink-soft">No visits booked for the next 24 hours.</p>
+        ) : (
+          <ul className="divide-y divide-sand-100" data-testid="todays-visits">
+            {today.map((v) => (
+              <li key={v.id} className="flex flex-wrap items-center justify-between gap-2 py-3">
+                <div>
+                  <p className="font-medium">
+                    {v.clientName} {v.clientFamily} <VisitStatusBadge status={v.status} />
+                  </p>
+                  <p className="text-sm text-ink-soft">
+                    {formatInZone(v.startsAt, zone)} · {v.kind === "video" ? "video" : "in the clinic"} · {v.reason}
+                  </p>
+                </div>
+                {v.kind === "video" && v.therapistId === actor.userId ? (
+                  <ButtonLink href={`/visits/${v.id}`}>{v.status === "waiting" ? "Client is waiting: join" : "Open visit"}</ButtonLink>
+                ) : null}
+              </li>
+            ))}
+          </ul>
+        )}
+      </Card>
       <Card title={actor.role === "therapist" ? "Your clients" : "Clinic clients"}>
         {mine.rows.length === 0 ? (
           <p className="text-sm text-ink-soft">No clients assigned to you yet.</p>
