@@ -8,7 +8,7 @@ import {
   SignalResponse,
 } from "@livekit/protocol";
 import { AccessToken, TokenVerifier, type VideoGrant } from "livekit-server-sdk";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, beforeAll, describe, expect, it, vi } from "vitest";
 import { WebSocket } from "ws";
 import { type MediaServer, startMediaServer } from "./server";
 
@@ -177,6 +177,27 @@ describe("signalling: join, roster, keepalive, rejoin", () => {
     const pong = await client.next("pongResp");
     expect(pong.lastPingTimestamp).toBe(987654321n);
     client.socket.close();
+  });
+
+  it("ends a session whose client stops pinging for longer than the ping timeout it was given", async () => {
+    // Only the interval timers and the clock are faked; the sockets run for real.
+    vi.useFakeTimers({ toFake: ["setInterval", "Date"] });
+    try {
+      const client = await SignalClient.open(await token("ana", { roomJoin: true, room: "silent" }));
+      const { pingTimeout } = await client.next("join");
+      vi.advanceTimersByTime((pingTimeout - 5) * 1000);
+      client.send({ case: "ping", value: BigInt(Date.now()) });
+      await client.next("pong");
+      vi.advanceTimersByTime((pingTimeout - 5) * 1000);
+      // Long enough for a close to travel back over loopback, had the server ended the session.
+      await new Promise((resolve) => setTimeout(resolve, 300));
+      expect(client.closed).toBe(false);
+      vi.advanceTimersByTime(10 * 1000);
+      await client.waitClosed();
+      expect(client.closed).toBe(true);
+    } finally {
+      vi.useRealTimers();
+    }
   });
 
   it("hands the client a fresh token for the same identity and room, for rejoining after its own expires", async () => {
