@@ -291,7 +291,6 @@ export class RepSegmenter {
   private build(complete: boolean, endMs: number): Repetition {
     const p = this.p;
     const excursion = this.topSmoothed - this.restLevel;
-    const floor = this.topSmoothed - Math.max(p.plateauBandDeg, p.plateauBandFraction * excursion);
     // The plateau is found on a centred running mean of the raw angle (zero lag, unlike the live smoother), with a
     // band wide enough for the jitter left in that mean; the peak is then the trimmed mean of every raw sample from
     // the plateau's first to its last frame. Choosing samples by how high they read would pick the ones noise pushed
@@ -303,8 +302,8 @@ export class RepSegmenter {
     const jitter = this.restJitterDeg() || successiveJitter(raw);
     const rollingJitter = jitter / Math.sqrt(PLATEAU_WINDOW);
     const band = Math.max(p.plateauBandDeg, p.plateauBandFraction * excursion, 2.5 * rollingJitter);
-    // The top of the running median is itself lifted by noise; re-centre the band on the plateau's level twice so the
-    // span widens to the whole hold instead of the stretch that noise happened to push up.
+    // The top of the running mean is itself lifted by noise; re-centre the band on the plateau's level a few times so
+    // the span widens to the whole hold instead of the stretch that noise happened to push up.
     let level = top;
     let span: [number, number] = [0, raw.length - 1];
     for (let pass = 0; pass < 3; pass++) {

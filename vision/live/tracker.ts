@@ -18,6 +18,12 @@ export interface HandTracker {
    * Call before `start()`.
    */
   warmUp(video: HTMLVideoElement): Promise<void>;
+  /**
+   * Detects on the video's current frame now and reports it like any other frame; for stepping through a clip frame
+   * by frame (analysis of a file, where every frame counts and nothing runs in real time). Not while `start()`ed.
+   * `t` must grow from call to call.
+   */
+  processFrame(video: HTMLVideoElement, t: number): Promise<TrackedFrame | null>;
   /** Follows the video's frames until `stop()`. The video must be playing (camera stream or clip). */
   start(video: HTMLVideoElement): void;
   stop(): void;
@@ -82,6 +88,12 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
   // instead of waiting up to a whole frame period for the next one.
   let missedWhileBusy = false;
 
+  const emit = (step: DetectionStep, t: number, grabbedAt: number) => {
+    const timing: FrameTiming = { t, landmarksMs: step.landmarksMs, poseMs: step.poseMs, roundTripMs: performance.now() - grabbedAt };
+    for (const listener of frameListeners) listener(step.frame);
+    for (const listener of timingListeners) listener(timing);
+  };
+
   const onVideoFrame = (video: HTMLVideoElement, nowMs: number, mediaTimeS: number | null) => {
     if (!running || running.video !== video) return;
     schedule(running);
@@ -108,9 +120,7 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
           framesWithHand++;
           if (firstHandAfterMs === null) firstHandAfterMs = performance.now() - run.startedAt;
         }
-        const timing: FrameTiming = { t, landmarksMs: step.landmarksMs, poseMs: step.poseMs, roundTripMs: performance.now() - grabbedAt };
-        for (const listener of frameListeners) listener(step.frame);
-        for (const listener of timingListeners) listener(timing);
+        emit(step, t, grabbedAt);
       })
       .catch((error: unknown) => {
         governor.abandon();
@@ -151,6 +161,17 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
       if (video.readyState < 2) throw new Error("warmUp: the video has no frame yet (wait for loadeddata)");
       // Time 0 keeps the landmarker's clock below every later frame time, camera or clip.
       await backend.process(video, 0);
+    },
+    async processFrame(video, t) {
+      if (running) throw new Error("processFrame: the tracker is following a video; stop() it first");
+      if (video.readyState < 2) throw new Error("processFrame: the video has no frame at its current time");
+      const grabbedAt = performance.now();
+      const step = await backend.process(video, t);
+      if (!step) return null;
+      governor.end(performance.now() - grabbedAt);
+      if (step.frame.hand) framesWithHand++;
+      emit(step, t, grabbedAt);
+      return step.frame;
     },
     start(video) {
       stop();

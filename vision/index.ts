@@ -1,0 +1,20 @@
+// The measurement engine's public surface: framework-free, no DOM and no Node APIs, for the main thread, a Web Worker,
+// route handlers and the CLI alike.
+export { analyzeCapture, DEFAULT_TRACKING_LIMITS, type AnalyzeOptions, type CaptureAnalysis, type CaptureInput, type TrackingLimits } from "./analyze-capture";
+export { handAxes, readMotion, wristAngles, type AngleReading, type HandAxes, type MotionReading } from "./angles";
+export { DIGIT_CHAIN, LANDMARK_COUNT, type HandLandmarks } from "./landmarks";
+export { DEFAULT_ONE_EURO, OneEuroFilter, type OneEuroParams } from "./one-euro";
+export {
+  createLivePipeline,
+  DEFAULT_MIN_SCORE,
+  type FrameQuality,
+  type LivePipeline,
+  type LivePipelineOptions,
+  type LiveUpdate,
+  type MeasurementMethod,
+  type PipelineFrame,
+  type PipelineSummary,
+} from "./pipeline";
+export { IMAGE_DOWN, PLANE_LIMITS, planeVerdict, readPlane, type PlaneReading, type PlaneVerdict } from "./plane";
+export { DEFAULT_REP_PARAMS, RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
+export type { Vec3 } from "./vec";

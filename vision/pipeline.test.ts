@@ -1,0 +1,48 @@
+import { describe, expect, it } from "vitest";
+import { DIGIT_CHAIN, LANDMARK_COUNT } from "./landmarks";
+import { createLivePipeline } from "./pipeline";
+import { neutralPose, poseHand, withMotionAngle } from "./testing/synthetic-hand";
+
+// Forearm level along x, palm up for a right hand (see plane.test.ts): PIP flexion here works against gravity.
+const palmUp = { forearmDistal: [1, 0, 0] as const, forearmRadial: [0, 0, -1] as const, wrist: [0, 0, 0.5] as const };
+const handAt = (deg: number) => poseHand(withMotionAngle(neutralPose(), "pip.flexion", "ring", deg), "right", palmUp).landmarks;
+
+describe("live pipeline, frame by frame", () => {
+  it("returns the angle, smoothed angle, plane and repetition state of a usable frame", () => {
+    const pipeline = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "ring", condition: "against_gravity" });
+    const update = pipeline.push({ t: 0, score: 0.9, hand: handAt(30) });
+    expect(update.quality).toBe("ok");
+    expect(update.angleDeg).toBeCloseTo(30, 6);
+    expect(update.smoothedDeg).toBeCloseTo(30, 6);
+    expect(update.plane).toEqual({ verdict: "against_gravity", axisToGravityDeg: expect.closeTo(90, 3) });
+    expect(update.rep).toEqual({ phase: "rest", count: 0, currentTopDeg: null });
+    expect(update.method).toBe("world3d");
+    expect(update.correctionVersion).toBeNull();
+    expect(update.uncertaintyDeg).toBeUndefined();
+  });
+
+  it("skips frames with no hand, a low score, 20 landmarks or a NaN, and says why", () => {
+    const pipeline = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "ring", condition: "against_gravity" });
+    const good = handAt(30);
+    const withNaN = good.map((p, i) => (i === 14 ? ([Number.NaN, p[1], p[2]] as const) : p));
+    expect(pipeline.push({ t: 0, score: 0.9, hand: null }).quality).toBe("no_hand");
+    expect(pipeline.push({ t: 33, score: 0.2, hand: good }).quality).toBe("low_score");
+    expect(pipeline.push({ t: 66, score: 0.9, hand: good.slice(0, 20) }).quality).toBe("bad_landmarks");
+    expect(pipeline.push({ t: 99, score: 0.9, hand: withNaN }).quality).toBe("bad_landmarks");
+    const summary = pipeline.summary();
+    expect(summary.frames).toBe(4);
+    expect(summary.usableFrames).toBe(0);
+  });
+
+  it("restarts the smoother after a long gap instead of gliding across it", () => {
+    const pipeline = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "ring", condition: "against_gravity" });
+    for (let i = 0; i < 10; i++) pipeline.push({ t: i * 33, score: 0.9, hand: handAt(10) });
+    const after = pipeline.push({ t: 5000, score: 0.9, hand: handAt(70) });
+    expect(after.smoothedDeg).toBeCloseTo(70, 6);
+  });
+
+  it("the landmark chains name every point but the wrist exactly once", () => {
+    const all = Object.values(DIGIT_CHAIN).flat().sort((a, b) => a - b);
+    expect(all).toEqual(Array.from({ length: LANDMARK_COUNT - 1 }, (_, i) => i + 1));
+  });
+});

@@ -1,0 +1,62 @@
+import { describe, expect, it } from "vitest";
+import { OneEuroFilter } from "./one-euro";
+import { RepSegmenter } from "./reps";
+
+// Hand-built angle signals (no hand model): a trapezoid movement sampled at 30 Hz, to check the hysteresis and the
+// hold-plateau peak on their own.
+
+function feed(signal: (tMs: number) => number, durationMs: number, segmenter = new RepSegmenter()) {
+  const filter = new OneEuroFilter();
+  for (let t = 0; t <= durationMs; t += 1000 / 30) {
+    const raw = signal(t);
+    const smoothed = filter.filter(raw, t / 1000);
+    segmenter.push(t, raw, smoothed, filter.speed, 90, -1);
+  }
+  return segmenter;
+}
+
+/** Rest at 0, rise to `peak` over 0.5 s, hold 1 s, back over 0.5 s, rest; one every 3 s starting at 1 s. */
+function trapezoid(peak: number, count: number) {
+  return (t: number) => {
+    const k = Math.floor((t - 1000) / 3000);
+    if (t < 1000 || k >= count) return 0;
+    const x = (t - 1000) % 3000;
+    if (x < 500) return (peak * x) / 500;
+    if (x < 1500) return peak;
+    if (x < 2000) return peak * (1 - (x - 1500) / 500);
+    return 0;
+  };
+}
+
+describe("repetition segmentation", () => {
+  it("counts each rise-hold-return once and reads the held peak", () => {
+    const reps = feed(trapezoid(60, 4), 14_000).snapshot();
+    expect(reps).toHaveLength(4);
+    for (const rep of reps) {
+      expect(rep.complete).toBe(true);
+      expect(rep.peakDeg).toBeCloseTo(60, 6);
+      expect(rep.startDeg).toBeCloseTo(0, 6);
+      // The plateau is found on a half-second running mean, which rounds off about a tenth of a second at each edge.
+      expect(rep.holdMs).toBeGreaterThan(800);
+      expect(rep.holdMs).toBeLessThanOrEqual(1000);
+    }
+  });
+
+  it("does not chatter: a signal wobbling around the enter threshold gives no repetition", () => {
+    // 6 deg is the default enter threshold; +/- 2 deg of wobble around 5 deg must not cross in and out repeatedly.
+    const reps = feed((t) => 5 + 2 * Math.sin(t / 50), 10_000).snapshot();
+    expect(reps).toHaveLength(0);
+  });
+
+  it("a single wild frame on the hold neither splits the repetition nor sets its peak", () => {
+    const base = trapezoid(50, 1);
+    const reps = feed((t) => (Math.abs(t - 2000) < 20 ? 120 : base(t)), 5000).snapshot();
+    expect(reps).toHaveLength(1);
+    expect(reps[0].peakDeg).toBeCloseTo(50, 0);
+  });
+
+  it("a movement smaller than the enter threshold is no repetition; a brief blip shorter than the debounce neither", () => {
+    expect(feed(trapezoid(4, 2), 8000).snapshot()).toHaveLength(0);
+    expect(feed((t) => (t > 2000 && t < 2060 ? 30 : 0), 4000).snapshot()).toHaveLength(0);
+  });
+});
