@@ -1,4 +1,10 @@
-import { MediaStream, MediaStreamTrack, type RTCPeerConnection, type RTCRtpTransceiver } from "werift";
+import {
+  MediaStream,
+  MediaStreamTrack,
+  RTCRtpCodecParameters,
+  type RTCPeerConnection,
+  type RTCRtpTransceiver,
+} from "werift";
 import type { IncomingMedia } from "./uplink";
 import { addTrickledCandidate, createPeer } from "./peer";
 
@@ -43,8 +49,9 @@ export class Downlink {
   add({ trackSid, participantSid, media }: ForwardedTrack): void {
     if (this.closed || this.forwardings.has(trackSid)) return;
     const transceiver = this.pc.addTransceiver(media.track.kind, { direction: "sendonly" });
-    // Pinned to the codec the publisher really sends, so packets pass through without transcoding.
-    transceiver.codecs = [media.codec];
+    // Packets pass through as they are, so the section offers exactly the codec the publisher sends, with
+    // its payload type. A copy: werift writes negotiated values into the codec objects of a connection.
+    transceiver.codecs = [new RTCRtpCodecParameters({ ...media.codec })];
     // livekit-client finds the participant and track from the stream id "PA_…|TR_…".
     transceiver.sender.setStreams([new MediaStream({ id: `${participantSid}|${trackSid}` })]);
     const outgoing = new MediaStreamTrack({ kind: media.track.kind });
