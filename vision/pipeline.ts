@@ -49,6 +49,8 @@ export interface LiveUpdate {
   imagePlaneDeg: number | null;
   smoothedDeg: number | null;
   plane: PlaneReading | null;
+  /** Whether this frame's plane reading agrees with the condition under test (null when the frame was skipped). */
+  planeMatchesCondition: boolean | null;
   rep: { phase: RepPhase; count: number; currentTopDeg: number | null };
   method: MeasurementMethod;
   uncertaintyDeg?: number;
@@ -119,6 +121,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       imagePlaneDeg: null,
       smoothedDeg: null,
       plane: null,
+      planeMatchesCondition: null,
       rep: { phase: segmenter.phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
       method,
       correctionVersion: null,
@@ -165,6 +168,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       imagePlaneDeg: Number.isFinite(reading.imagePlaneDeg) ? reading.imagePlaneDeg : null,
       smoothedDeg,
       plane: { verdict: plane.verdict, axisToGravityDeg: plane.axisToGravityDeg },
+      planeMatchesCondition: plane.verdict === options.condition,
       rep: { phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
       method,
       correctionVersion: null,
