@@ -1,0 +1,174 @@
+/**
+ * Server side of saving an attempt: the capture is validated with the measurement engine's schema and analyzed again
+ * here with the same engine, so no number the browser computed is ever stored. Server-only (node:zlib, node:crypto).
+ */
+import { createHash } from "node:crypto";
+import { gzipSync } from "node:zlib";
+import { and, eq } from "drizzle-orm";
+import type { Database } from "@/db";
+import { getAttemptByCaptureUid, insertAttemptWithCapture } from "@/db/queries/captures";
+import { visits, type Attempt, type Client } from "@/db/schema";
+import { recordAudit } from "@/lib/audit";
+import { AccessError, NOT_FOUND, type Actor } from "@/lib/auth/guard";
+import { CaptureFormatError, parseCapture } from "@/lib/capture/parse";
+import { BadRequest } from "@/lib/http";
+import { analyzeCapture } from "@/vision/analyze-capture";
+import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } from "./upload";
+
+/**
+ * Stored with every attempt so a later engine can tell which analysis produced its numbers. The engine has no version
+ * constant of its own yet; this names the capture format and the analysis generation.
+ */
+export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-1";
+
+/**
+ * A visit accepts attempts while it runs, and for a while after it ends: an attempt recorded near the end may reach
+ * the server late from the browser's outbox after a dropped connection, and must not be lost.
+ */
+const VISIT_LATE_UPLOAD_MS = 12 * 60 * 60_000;
+
+export class CaptureConflict extends Error {}
+
+export function attemptJson(a: Attempt): StoredAttempt {
+  return {
+    id: a.id,
+    captureUid: a.captureUid,
+    clientId: a.clientId,
+    source: a.source,
+    visitId: a.visitId,
+    motion: a.motion,
+    side: a.side,
+    digit: a.digit,
+    condition: a.condition,
+    recordedAt: a.recordedAt.toISOString(),
+    frames: a.frames,
+    usableFrames: a.usableFrames,
+    reps: a.reps,
+    startDeg: a.startDeg,
+    peakDeg: a.peakDeg,
+    arcDeg: a.arcDeg,
+    planeVerdict: a.planeVerdict,
+    planeVerified: a.planeVerified,
+    axisToGravityDeg: a.axisToGravityDeg,
+    method: a.method,
+    engineVersion: a.engineVersion,
+    warnings: a.warnings,
+  };
+}
+
+function existingFor(found: Attempt, client: Client): CaptureSaveResponse {
+  // The same id under another client is a client-side bug or a guess: never reveal or merge the other attempt.
+  if (found.clientId !== client.id) throw new CaptureConflict("This capture id is already used by another attempt; record the attempt again.");
+  return { attempt: attemptJson(found), created: false };
+}
+
+async function checkVisit(db: Database, client: Client, visitId: string, now: Date): Promise<void> {
+  const [visit] = await db
+    .select()
+    .from(visits)
+    .where(and(eq(visits.id, visitId), eq(visits.clinicId, client.clinicId), eq(visits.clientId, client.id)));
+  // Someone else's visit answers like a missing one, so visit ids cannot be probed.
+  if (!visit) throw new AccessError(404, "No such visit for this client.");
+  if (visit.status === "waiting" || visit.status === "in_progress") return;
+  if (visit.status === "finished" && visit.endedAt && now.getTime() - visit.endedAt.getTime() <= VISIT_LATE_UPLOAD_MS) return;
+  throw new BadRequest(`This visit is ${visit.status.replace("_", " ")}; attempts can be added only while it is open.`, { visitId: "expected an open visit" });
+}
+
+/**
+ * Validates, re-analyzes and stores one attempt. `client` must already have passed the access guard
+ * (`requireClientRecord`) for `actor`. A capture id seen before returns the stored attempt (`created: false`).
+ */
+export function saveCapture(db: Database, actor: Actor, client: Client, rawBody: unknown, options: SaveOptions = {}): Promise<CaptureSaveResponse> {
+  // libSQL's local driver is synchronous: a second transaction in this process waiting on the first's write lock
+  // blocks the event loop the first needs to finish, and fails with SQLITE_BUSY after the busy timeout. Saves are
+  // therefore taken one at a time per process; the unique capture id still guards across processes.
+  const run = saveQueue.then(() => saveNow(db, actor, client, rawBody, options));
+  saveQueue = run.catch(() => undefined);
+  return run;
+}
+
+interface SaveOptions {
+  address?: string | null;
+  now?: Date;
+}
+
+let saveQueue: Promise<unknown> = Promise.resolve();
+
+async function saveNow(db: Database, actor: Actor, client: Client, rawBody: unknown, options: SaveOptions): Promise<CaptureSaveResponse> {
+  const now = options.now ?? new Date();
+  const body = captureUploadSchema.parse(rawBody);
+  if (body.clientId !== client.id) throw new AccessError(404, NOT_FOUND);
+
+  const earlier = await getAttemptByCaptureUid(db, body.captureUid);
+  if (earlier) return existingFor(earlier, client);
+
+  let capture;
+  try {
+    capture = parseCapture(body.capture, "capture");
+  } catch (error) {
+    if (error instanceof CaptureFormatError) {
+      const field = error.field ? `capture.${error.field}` : "capture";
+      throw new BadRequest(`The capture file is not valid: ${error.message}`, { [field]: error.message.replace(/^capture: /, "") });
+    }
+    throw error;
+  }
+  if (body.visitId) await checkVisit(db, client, body.visitId, now);
+
+  const analysis = analyzeCapture(capture);
+  const json = JSON.stringify(capture);
+  const stored = { gzip: gzipSync(json), sha256: createHash("sha256").update(json).digest("hex"), bytes: Buffer.byteLength(json) };
+
+  try {
+    const attempt = await db.transaction(async (tx) => {
+      const created = await insertAttemptWithCapture(
+        tx,
+        {
+          captureUid: body.captureUid,
+          clinicId: client.clinicId,
+          clientId: client.id,
+          motion: analysis.motion,
+          side: analysis.side,
+          digit: analysis.digit,
+          condition: analysis.condition,
+          source: body.source,
+          visitId: body.visitId ?? null,
+          recordedByUserId: actor.userId,
+          recordedAt: new Date(body.recordedAt ?? now.getTime()),
+          frames: analysis.frames,
+          usableFrames: analysis.usableFrames,
+          reps: analysis.reps,
+          startDeg: analysis.startDeg,
+          peakDeg: analysis.peakDeg,
+          arcDeg: analysis.arcDeg,
+          uncertaintyDeg: analysis.uncertaintyDeg ?? null,
+          planeVerdict: analysis.plane?.verdict ?? "unclear",
+          axisToGravityDeg: analysis.plane?.axisToGravityDeg ?? null,
+          planeVerified: analysis.planeAgrees,
+          method: analysis.method,
+          engineVersion: ENGINE_VERSION,
+          correctionVersion: analysis.correctionVersion,
+          warnings: analysis.warnings,
+        },
+        stored,
+      );
+      await recordAudit(tx, {
+        action: "attempt.create",
+        clinicId: client.clinicId,
+        actorUserId: actor.userId,
+        actorRole: actor.role,
+        subjectType: "attempt",
+        subjectId: created.id,
+        clientId: client.id,
+        address: options.address ?? null,
+        detail: { source: body.source, motion: created.motion, side: created.side, digit: created.digit, visitId: created.visitId, captureBytes: stored.bytes },
+      });
+      return created;
+    });
+    return { attempt: attemptJson(attempt), created: true };
+  } catch (error) {
+    // Two deliveries of one capture raced: the loser finds the winner's row.
+    const raced = await getAttemptByCaptureUid(db, body.captureUid);
+    if (raced) return existingFor(raced, client);
+    throw error;
+  }
+}

@@ -1,0 +1,68 @@
+/**
+ * The body of `POST /api/v1/captures`, shared by the browser (outbox) and the server. The capture itself is checked
+ * by the measurement engine's own schema (lib/capture) on the server; here it is only carried.
+ */
+import { z } from "zod";
+import type { CaptureFile } from "@/lib/capture/schema";
+
+export const ATTEMPT_SOURCES = ["self_check", "visit", "practice", "upload"] as const;
+export type AttemptSource = (typeof ATTEMPT_SOURCES)[number];
+
+/**
+ * Largest accepted request body. A 60-second attempt at 30 frames per second is about 1,800 frames of 21 points, some
+ * 2.5 MB of JSON; 8 MB leaves room for slower clients' longer attempts without letting one request fill the server.
+ */
+export const CAPTURE_BODY_LIMIT_BYTES = 8 * 1024 * 1024;
+
+// Chosen by the recording browser (crypto.randomUUID or similar); letters, digits, - and _ only so it is safe in logs.
+const CAPTURE_UID = /^[A-Za-z0-9_-]{16,64}$/;
+
+export const captureUploadSchema = z
+  .object({
+    captureUid: z.string({ error: "expected a capture id" }).regex(CAPTURE_UID, { error: "expected 16-64 letters, digits, - or _" }),
+    source: z.enum(ATTEMPT_SOURCES, { error: `expected one of ${ATTEMPT_SOURCES.join(", ")}` }),
+    clientId: z.uuid({ error: "expected the client's id (a UUID)" }),
+    visitId: z.uuid({ error: "expected a visit id (a UUID)" }).optional(),
+    /** When the attempt was recorded, UTC milliseconds (the browser's clock); the server's time when absent. */
+    recordedAt: z.number({ error: "expected UTC milliseconds" }).int({ error: "expected whole milliseconds" }).positive({ error: "expected UTC milliseconds" }).optional(),
+    capture: z.unknown(),
+  })
+  .superRefine((body, ctx) => {
+    if (body.source === "visit" && !body.visitId) ctx.addIssue({ code: "custom", path: ["visitId"], message: 'expected the visit\'s id when source is "visit"' });
+    if (body.source !== "visit" && body.visitId) ctx.addIssue({ code: "custom", path: ["visitId"], message: 'expected no visit id unless source is "visit"' });
+    if (body.capture === undefined) ctx.addIssue({ code: "custom", path: ["capture"], message: "expected a capture file (format kinarc.capture, version 1)" });
+  });
+
+export type CaptureUpload = Omit<z.infer<typeof captureUploadSchema>, "capture"> & { capture: CaptureFile };
+
+/** What the server answers for a stored attempt (201 first time, 200 for a retry of the same capture id). */
+export interface StoredAttempt {
+  id: string;
+  captureUid: string;
+  clientId: string;
+  source: AttemptSource;
+  visitId: string | null;
+  motion: string;
+  side: "left" | "right";
+  digit: string | null;
+  condition: "against_gravity" | "gravity_minimized";
+  recordedAt: string;
+  frames: number;
+  usableFrames: number;
+  reps: number;
+  startDeg: number | null;
+  peakDeg: number | null;
+  arcDeg: number | null;
+  planeVerdict: string;
+  planeVerified: boolean;
+  axisToGravityDeg: number | null;
+  method: string | null;
+  engineVersion: string;
+  warnings: string[];
+}
+
+export interface CaptureSaveResponse {
+  attempt: StoredAttempt;
+  /** False when this capture id had been stored before (a retry). */
+  created: boolean;
+}
