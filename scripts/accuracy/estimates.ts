@@ -30,6 +30,11 @@ export interface AngleEstimate {
   deg: number;
   /** The same angle as seen in the image plane. */
   imagePlaneDeg: number;
+  /**
+   * |cos| of the angle between the joint's axis and the camera's line of sight: 1 when the motion's plane lies in
+   * the image (the angle is all in view), 0 when it is edge-on (the angle is all in depth).
+   */
+  planeFacing: number;
 }
 
 /**
@@ -46,7 +51,7 @@ export function estimateAngles(
   for (const key of ESTIMATED_KEYS) {
     const { motion, digit } = ENGINE_MOTION_FOR[key]!;
     const reading = axes ? readMotion(motion, digit, hand, axes, forearm) : null;
-    result[key] = reading ? { deg: reading.deg, imagePlaneDeg: reading.imagePlaneDeg } : null;
+    result[key] = reading ? { deg: reading.deg, imagePlaneDeg: reading.imagePlaneDeg, planeFacing: Math.abs(reading.axis[2]) } : null;
   }
   return result;
 }

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { accuracyMarkdown, accuracyRows, framesForStills, JOINT_GROUPS, type TrackedStill } from "./report";
+import { JOINT_GROUPS } from "./joint-groups";
+import { accuracyMarkdown, accuracyRows, framesForStills, type TrackedStill } from "./report";
 import { loadHandRig } from "./rig-files";
 import { CAMERA_VIEWS, frameSeeds, randomFrame } from "./scene";
 

@@ -1,28 +1,20 @@
 import type { Vec3 } from "@/vision/vec";
+import { applyCorrection, type CorrectionModel } from "./correction";
 import { estimateAngles, type AngleEstimate } from "./estimates";
 import { getPoseAngle, type PoseKey } from "./hand-pose";
+import { JOINT_GROUPS } from "./joint-groups";
 import { CAMERA_VIEWS, type CameraView, type FrameTruth } from "./scene";
 import { summarizeErrors, type ErrorSummary } from "./stats";
 
-/** Joints pooled into one row: the four fingers share a row per joint, as a report per finger would be 4x longer. */
-export const JOINT_GROUPS: readonly { label: string; keys: readonly PoseKey[] }[] = [
-  { label: "MCP flexion", keys: ["index.mcpFlexionDeg", "middle.mcpFlexionDeg", "ring.mcpFlexionDeg", "little.mcpFlexionDeg"] },
-  { label: "PIP flexion", keys: ["index.pipFlexionDeg", "middle.pipFlexionDeg", "ring.pipFlexionDeg", "little.pipFlexionDeg"] },
-  { label: "DIP flexion", keys: ["index.dipFlexionDeg", "middle.dipFlexionDeg", "ring.dipFlexionDeg", "little.dipFlexionDeg"] },
-  { label: "finger abduction", keys: ["index.mcpAbductionDeg", "ring.mcpAbductionDeg", "little.mcpAbductionDeg"] },
-  { label: "thumb MCP flexion", keys: ["thumb.mcpFlexionDeg"] },
-  { label: "thumb IP flexion", keys: ["thumb.ipFlexionDeg"] },
-  { label: "wrist flexion (+) / extension (-)", keys: ["wrist.flexionDeg"] },
-  { label: "wrist radial (+) / ulnar (-) deviation", keys: ["wrist.radialDeviationDeg"] },
-];
-
-export type AngleMethod = "3-D" | "image plane";
+export type AngleMethod = "3-D" | "image plane" | "corrected";
 
 /** One still as a tracker saw it. `hand` is null when no hand was found. */
 export interface TrackedStill {
   truth: FrameTruth;
   model: string;
   hand: Vec3[] | null;
+  /** The same landmarks in the image: x, y in 0-1 of width and height. Absent in sets saved before it was kept. */
+  image?: Vec3[] | null;
   score: number;
 }
 
@@ -36,16 +28,21 @@ export interface AccuracyRow {
   perfectTrackerBiasDeg: number | null;
 }
 
-function pick(estimate: AngleEstimate | null | undefined, method: AngleMethod): number | null {
+function pick(
+  estimate: AngleEstimate | null | undefined,
+  method: AngleMethod,
+  correct: (estimate: AngleEstimate) => number | null,
+): number | null {
   if (!estimate) return null;
+  if (method === "corrected") return correct(estimate);
   return method === "3-D" ? estimate.deg : estimate.imagePlaneDeg;
 }
 
 /**
- * Rows per joint group, view, model and method. The forearm line given to the engine for wrist angles is the
- * render's true one, so wrist rows measure the hand's landmarks only.
+ * Rows per joint group, view, model and method ("corrected" too when a correction is given). The forearm line given
+ * to the engine for wrist angles is the render's true one, so wrist rows measure the hand's landmarks only.
  */
-export function accuracyRows(stills: readonly TrackedStill[]): AccuracyRow[] {
+export function accuracyRows(stills: readonly TrackedStill[], correction: CorrectionModel | null = null): AccuracyRow[] {
   const models = [...new Set(stills.map((s) => s.model))];
   const estimated = stills.map((still) => ({
     still,
@@ -53,22 +50,31 @@ export function accuracyRows(stills: readonly TrackedStill[]): AccuracyRow[] {
     perfect: estimateAngles(still.truth.landmarksCameraM, still.truth.side, still.truth.forearmCameraDir),
   }));
   const rows: AccuracyRow[] = [];
-  for (const method of ["3-D", "image plane"] as const) {
+  const methods: AngleMethod[] = correction ? ["3-D", "image plane", "corrected"] : ["3-D", "image plane"];
+  for (const method of methods) {
     for (const group of JOINT_GROUPS) {
       for (const view of CAMERA_VIEWS) {
         for (const model of models) {
           const inCell = estimated.filter((e) => e.still.model === model && e.still.truth.view === view);
           if (inCell.length === 0) continue;
+          const corrector = (key: PoseKey) => (estimate: AngleEstimate) =>
+            correction ? applyCorrection(correction, model, key, estimate) : null;
           const samples = inCell.flatMap((e) =>
             group.keys.map((key) => ({
               truthDeg: getPoseAngle(e.still.truth.commandedDeg, key),
-              estimateDeg: e.tracked ? pick(e.tracked[key], method) : null,
+              estimateDeg: e.tracked ? pick(e.tracked[key], method, corrector(key)) : null,
             })),
           );
+          // A perfect tracker has no corrected reading of its own (the correction is fitted to a real one).
           const perfect = summarizeErrors(
-            inCell.flatMap((e) =>
-              group.keys.map((key) => ({ truthDeg: getPoseAngle(e.still.truth.commandedDeg, key), estimateDeg: pick(e.perfect[key], method) })),
-            ),
+            method === "corrected"
+              ? []
+              : inCell.flatMap((e) =>
+                  group.keys.map((key) => ({
+                    truthDeg: getPoseAngle(e.still.truth.commandedDeg, key),
+                    estimateDeg: pick(e.perfect[key], method, corrector(key)),
+                  })),
+                ),
           );
           rows.push({ joint: group.label, view, model, method, summary: summarizeErrors(samples), perfectTrackerBiasDeg: perfect.biasDeg });
         }
@@ -89,9 +95,9 @@ function percent(value: number | null): string {
 /** A Markdown table per angle method. */
 export function accuracyMarkdown(rows: readonly AccuracyRow[]): string {
   const sections: string[] = [];
-  for (const method of ["3-D", "image plane"] as const) {
+  for (const method of [...new Set(rows.map((row) => row.method))]) {
     const lines = [
-      `### Raw landmarks, ${method} angles`,
+      method === "corrected" ? "### After correction" : `### Raw landmarks, ${method} angles`,
       "",
       "| joint | view | model | samples | detected | bias ° | MAE ° | slope | within 5° | within 10° | perfect-tracker bias ° |",
       "| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",

@@ -1,92 +1,54 @@
 /**
  * `npm run accuracy`: renders the validation set, runs the app's own tracking code on it (tests/harness/tracking,
  * which imports vision/live unchanged) with each hand model, reads angles with the measurement engine
- * (vision/angles) and prints the raw-landmark error table per joint, view and model; writes it to
- * scripts/accuracy/report.md. Per-still landmarks are kept under tests/.cache/renders/accuracy/ for fitting a
- * correction later (training sets must use other seeds than VALIDATION_SEED).
+ * (vision/angles) and prints the error table per joint, view and model, raw and (when a fitted correction is in
+ * scripts/accuracy/correction.json) corrected; writes it to scripts/accuracy/report.md.
+ *
+ *   npm run -s accuracy -- [--per-view 40] [--models lite,full] [--reuse]
  */
-import { mkdirSync, writeFileSync } from "node:fs";
+import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { parseArgs } from "node:util";
-import type { TrackedFrame } from "@/vision/live";
-import type { Vec3 } from "@/vision/vec";
-import { launchChromium, openHarnessPage, startHarnessServer, waitForFrames } from "../../tests/harness/tracking-harness";
-import { renderStillsClip } from "./render-jobs";
-import { HandRenderer, RENDER_OUTPUT_ROOT } from "./renderer";
-import { accuracyMarkdown, accuracyRows, framesForStills, type TrackedStill } from "./report";
-import { loadHandRig } from "./rig-files";
-import { CAMERA_VIEWS, frameSeeds, randomFrame } from "./scene";
+import type { CorrectionModel } from "./correction";
+import { accuracyMarkdown, accuracyRows } from "./report";
+import { CAMERA_VIEWS } from "./scene";
+import { CLIP_FPS, HOLD_MS, PLAYBACK_RATE, trackRenderedSet, type HandModelVariant } from "./tracked-set";
 
-/** Validation renders come from this seed only; a correction must be fitted on renders from other seeds. */
-export const VALIDATION_SEED = 20_261_202;
-/** Ports 4320-4329 belong to the render and accuracy tools. */
-const HARNESS_PORT = Number(process.env.KINARC_ACCURACY_PORT ?? 4321);
-const HOLD_MS = 200;
-const CLIP_FPS = 15;
-/**
- * Slow playback leaves the tracker time for two or more video frames of every still even when the frame governor
- * widens its interval on a loaded machine (seen here: 270 ms between processed frames with other jobs running).
- */
-const PLAYBACK_RATE = 0.3;
+/** Validation renders come from this seed only; the correction is fitted on renders from other seeds. */
+export const VALIDATION_SEED: number = 20_261_202;
 
-const REPORT_FILE = path.join(path.dirname(fileURLToPath(import.meta.url)), "report.md");
+const HERE = path.dirname(fileURLToPath(import.meta.url));
+const REPORT_FILE = path.join(HERE, "report.md");
+export const CORRECTION_FILE = path.join(HERE, "correction.json");
 
-async function trackClip(clipFile: string, model: "lite" | "full", expectedMs: number): Promise<TrackedFrame[]> {
-  const server = await startHarnessServer(HARNESS_PORT);
-  const browser = await launchChromium();
-  try {
-    const page = await openHarnessPage(browser, server, { clip: server.fileUrl(clipFile), rate: PLAYBACK_RATE, model, thread: "worker" });
-    await waitForFrames(page, Number.MAX_SAFE_INTEGER, expectedMs / PLAYBACK_RATE + 120_000);
-    // Results of the last frames arrive just after the clip ends.
-    await page.waitForTimeout(1000);
-    return await page.evaluate(() => window.kinarcHarness.frames);
-  } finally {
-    await browser.close();
-    await server.close();
-  }
+export function parseModels(raw: string | undefined): HandModelVariant[] {
+  const models = (raw ?? "lite,full").split(",");
+  for (const model of models) if (model !== "lite" && model !== "full") throw new Error(`--models: expected lite and/or full; got '${model}'`);
+  return models as HandModelVariant[];
+}
+
+export function parsePerView(raw: string | undefined, fallback: number): number {
+  const perView = Number(raw ?? fallback);
+  if (!Number.isInteger(perView) || perView <= 0) throw new Error(`--per-view: expected a positive whole number; got ${raw}`);
+  return perView;
 }
 
 async function main(): Promise<void> {
-  const { values } = parseArgs({ options: { "per-view": { type: "string" }, models: { type: "string" } } });
-  const perView = Number(values["per-view"] ?? 40);
-  if (!Number.isInteger(perView) || perView <= 0) throw new Error(`--per-view: expected a positive whole number; got ${values["per-view"]}`);
-  const models = (values.models ?? "lite,full").split(",");
-  for (const model of models) if (model !== "lite" && model !== "full") throw new Error(`--models: expected lite and/or full; got '${model}'`);
-
-  const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
+  const { values } = parseArgs({ options: { "per-view": { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" } } });
+  const perView = parsePerView(values["per-view"], 40);
+  const models = parseModels(values.models);
   const count = perView * CAMERA_VIEWS.length;
-  const frames = frameSeeds(VALIDATION_SEED, count).map((seed, i) => randomFrame(rigs, seed, { views: [CAMERA_VIEWS[i % CAMERA_VIEWS.length]] }));
-  const folder = path.join(RENDER_OUTPUT_ROOT, "accuracy");
-  mkdirSync(folder, { recursive: true });
-  const clipFile = path.join(folder, `validation-${VALIDATION_SEED}-${count}.webm`);
+  const set = await trackRenderedSet(VALIDATION_SEED, count, models, { reuse: values.reuse });
 
-  const renderer = await HandRenderer.start();
-  let glName: string;
-  let msPerFrame: number;
-  try {
-    glName = await renderer.glRenderer();
-    ({ msPerFrame } = await renderStillsClip(renderer, frames.map((f) => f.spec), clipFile, { holdMs: HOLD_MS, fps: CLIP_FPS }));
-  } finally {
-    await renderer.close();
+  let correction: CorrectionModel | null = null;
+  if (existsSync(CORRECTION_FILE)) {
+    correction = JSON.parse(readFileSync(CORRECTION_FILE, "utf8")) as CorrectionModel;
+    if (correction.trainingSeed === VALIDATION_SEED) throw new Error(`${CORRECTION_FILE}: fitted on the validation seed; refit on another seed`);
   }
-  console.error(`rendered ${count} stills (${msPerFrame.toFixed(1)} ms a frame) -> ${clipFile}`);
-
-  const stills: TrackedStill[] = [];
-  for (const model of models as ("lite" | "full")[]) {
-    const started = Date.now();
-    const tracked = await trackClip(clipFile, model, count * HOLD_MS);
-    const chosen = framesForStills(tracked, count, HOLD_MS, CLIP_FPS);
-    chosen.forEach((frame, i) =>
-      stills.push({ truth: frames[i].truth, model, hand: (frame?.hand as Vec3[] | null) ?? null, score: frame?.score ?? 0 }),
-    );
-    console.error(`${model}: ${tracked.length} frames tracked, ${chosen.filter(Boolean).length}/${count} stills with a hand (${((Date.now() - started) / 1000).toFixed(0)} s)`);
-  }
-  writeFileSync(path.join(folder, `validation-${VALIDATION_SEED}-${count}.json`), JSON.stringify({ seed: VALIDATION_SEED, stills }));
-
-  const table = accuracyMarkdown(accuracyRows(stills));
+  const table = accuracyMarkdown(accuracyRows(set.stills, correction));
   const report = [
-    "# Raw-landmark angle accuracy on rendered hands",
+    "# Angle accuracy on rendered hands",
     "",
     "Written by `npm run accuracy` (scripts/accuracy/run-accuracy.ts); do not edit by hand.",
     "",
@@ -95,12 +57,16 @@ async function main(): Promise<void> {
     "- Truth: the commanded joint angle of the pose model (zero = the rig's rest pose).",
     "- Estimate: the app's tracking code (vision/live via tests/harness/tracking, VIDEO mode, CPU) on a webm of the stills, each held " +
       `${HOLD_MS} ms at ${CLIP_FPS} fps and played at ${PLAYBACK_RATE}x; angles from the measurement engine (vision/angles, readMotion) ` +
-      "on the 3-D world landmarks or their image-plane counterpart. No correction.",
+      "on the 3-D world landmarks or their image-plane counterpart.",
+    correction
+      ? `- Correction: ${correction.version}, fitted on seed ${correction.trainingSeed} (${correction.trainingStills} stills, never the validation seed) by scripts/accuracy/fit-correction.ts; coefficients in scripts/accuracy/correction.json.`
+      : "- Correction: none fitted yet (run scripts/accuracy/fit-correction.ts).",
     "- Wrist rows use the render's true forearm line (the pose landmarker cannot see an upper body here): they measure the hand landmarks only.",
     "- Perfect-tracker bias: the same engine on the exact rig landmarks; the rig places wrist and MCP points a little off the " +
-      "landmark model's convention, so part of every bias is convention, not tracking.",
+      "landmark model's convention and its rest pose is not straight, so part of every raw bias is convention, not tracking.",
     "- Detected: share of stills where the tracker returned a hand. Slope: least-squares slope of estimate on truth (1 = full size).",
-    `- Renderer: ${glName}, ${msPerFrame.toFixed(1)} ms a frame. Models: ${models.join(", ")}.`,
+    "- Views are of random poses, so most motions are not in their recommended view here; read a row as that view's figure for all poses.",
+    `- Renderer: ${set.renderer}, ${set.msPerFrame.toFixed(1)} ms a frame. Models: ${models.join(", ")}.`,
     "",
     table,
     "",
@@ -110,7 +76,10 @@ async function main(): Promise<void> {
   console.error(`report -> ${REPORT_FILE}`);
 }
 
-main().catch((error: unknown) => {
-  console.error(error instanceof Error ? error.message : error);
-  process.exitCode = 2;
-});
+// Only when run as the script: the fit imports the seed and parsers from here.
+if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
+  main().catch((error: unknown) => {
+    console.error(error instanceof Error ? error.message : error);
+    process.exitCode = 2;
+  });
+}

@@ -1,0 +1,55 @@
+import { describe, expect, it } from "vitest";
+import { applyCorrection, fitCorrection, ridgeFit, type CorrectionSample } from "./correction";
+
+describe("ridge least squares", () => {
+  it("with no penalty is ordinary least squares: Anscombe's set I gives y = 3.00 + 0.500 x", () => {
+    // Anscombe, The American Statistician 1973;27(1):17-21. Data values of set I [from memory].
+    const x = [10, 8, 13, 9, 11, 14, 6, 4, 12, 7, 5];
+    const y = [8.04, 6.95, 7.58, 8.81, 8.33, 9.96, 7.24, 4.26, 10.84, 4.82, 5.68];
+    const [intercept, slope] = ridgeFit(x.map((v) => [1, v]), y, 0);
+    expect(slope).toBeCloseTo(0.5, 3);
+    expect(intercept).toBeCloseTo(3.0, 2);
+  });
+
+  it("shrinks the slope toward zero as the penalty grows (Hoerl & Kennard, Technometrics 1970;12:55-67)", () => {
+    const rows = [1, 2, 3, 4, 5, 6].map((v) => [1, v]);
+    const targets = [2, 4, 6, 8, 10, 12];
+    const slopes = [0, 1, 10, 100].map((lambda) => ridgeFit(rows, targets, lambda)[1]);
+    expect(slopes[0]).toBeCloseTo(2, 9);
+    for (let i = 1; i < slopes.length; i++) expect(slopes[i]).toBeLessThan(slopes[i - 1]);
+  });
+
+  it("names the problem when rows and targets disagree", () => {
+    expect(() => ridgeFit([[1, 2]], [1, 2], 0)).toThrow(/one target per row/);
+  });
+});
+
+describe("correction model", () => {
+  // Raw readings that under-read a PIP by 40% with a 5 degree offset: a fitted correction must undo that.
+  const samples: CorrectionSample[] = Array.from({ length: 80 }, (_, i) => {
+    const truthDeg = (i * 97) % 100;
+    const facing = (i % 10) / 9;
+    return {
+      model: "lite",
+      key: i % 2 ? "index.pipFlexionDeg" : "ring.pipFlexionDeg",
+      truthDeg,
+      estimate: { deg: 5 + 0.6 * truthDeg, imagePlaneDeg: 0.9 * truthDeg * facing, planeFacing: facing },
+    };
+  });
+
+  it("recovers the truth from readings that follow a linear law in its features", () => {
+    const model = fitCorrection(samples, { trainingSeed: 1, trainingStills: 80, ridgeLambda: 0 });
+    expect(model.groups.lite["PIP flexion"].trainingSamples).toBe(80);
+    expect(model.groups.lite["PIP flexion"].trainingMaeDeg).toBeLessThan(1e-6);
+    const corrected = applyCorrection(model, "lite", "middle.pipFlexionDeg", { deg: 5 + 0.6 * 70, imagePlaneDeg: 0, planeFacing: 0 });
+    expect(corrected).toBeCloseTo(70, 6);
+  });
+
+  it("leaves joints and models without enough training samples uncorrected", () => {
+    const model = fitCorrection(samples.slice(0, 20), { trainingSeed: 1, trainingStills: 20 });
+    expect(model.groups.lite).toBeUndefined();
+    expect(applyCorrection(model, "lite", "index.pipFlexionDeg", samples[0].estimate)).toBeNull();
+    const full = fitCorrection(samples, { trainingSeed: 1, trainingStills: 80 });
+    expect(applyCorrection(full, "full", "index.pipFlexionDeg", samples[0].estimate)).toBeNull();
+  });
+});

@@ -1,0 +1,102 @@
+import { Matrix, solve } from "ml-matrix";
+import type { AngleEstimate } from "./estimates";
+import type { PoseKey } from "./hand-pose";
+import { JOINT_GROUPS } from "./joint-groups";
+
+/**
+ * Kinarc's angle correction, version 1: per joint group and hand model, a linear map from what the raw landmarks
+ * give to the joint angle,
+ *
+ *   angle = b0 + b1*deg + b2*imagePlaneDeg + b3*facing + b4*deg*facing + b5*imagePlaneDeg*facing
+ *
+ * where `deg` is the engine's 3-D reading, `imagePlaneDeg` its image-plane counterpart and `facing` how squarely
+ * the joint's plane faces the camera (1 = in the image). The products let the fit lean on the image-plane angle when
+ * the plane faces the camera and on the 3-D one when it does not. Fitted by ridge least squares (a small penalty
+ * keeps the map tame where one view dominates); deterministic for a given training set.
+ */
+export const CORRECTION_FEATURES = ["1", "deg", "imagePlaneDeg", "facing", "deg*facing", "imagePlaneDeg*facing"] as const;
+
+export interface CorrectionGroupFit {
+  coefficients: number[];
+  trainingSamples: number;
+  /** Mean absolute error of the fit on its own training samples (not a validation figure). */
+  trainingMaeDeg: number;
+}
+
+export interface CorrectionModel {
+  version: string;
+  features: readonly string[];
+  trainingSeed: number;
+  trainingStills: number;
+  ridgeLambda: number;
+  /** By hand model ("lite", "full"), then joint group label. */
+  groups: Record<string, Record<string, CorrectionGroupFit>>;
+}
+
+export const CORRECTION_VERSION = "kinarc-correction-1";
+
+export function correctionFeatures(estimate: AngleEstimate): number[] {
+  const { deg, imagePlaneDeg: ip, planeFacing: c } = estimate;
+  return [1, deg, ip, c, deg * c, ip * c];
+}
+
+export interface CorrectionSample {
+  model: string;
+  key: PoseKey;
+  estimate: AngleEstimate;
+  truthDeg: number;
+}
+
+const GROUP_OF = new Map<PoseKey, string>(JOINT_GROUPS.flatMap((group) => group.keys.map((key) => [key, group.label] as const)));
+
+export function jointGroupOf(key: PoseKey): string | null {
+  return GROUP_OF.get(key) ?? null;
+}
+
+/** Ridge least squares: (X'X + lambda*I') b = X'y, the intercept left unpenalised. */
+export function ridgeFit(rows: number[][], targets: number[], lambda: number): number[] {
+  if (rows.length !== targets.length) throw new Error(`ridgeFit: expected one target per row, got ${rows.length} rows and ${targets.length} targets`);
+  if (rows.length === 0) throw new Error("ridgeFit: expected at least one row");
+  const x = new Matrix(rows);
+  const xt = x.transpose();
+  const normal = xt.mmul(x);
+  for (let i = 1; i < normal.columns; i++) normal.set(i, i, normal.get(i, i) + lambda);
+  const rhs = xt.mmul(Matrix.columnVector(targets));
+  return solve(normal, rhs).getColumn(0);
+}
+
+/** Fits every joint group of every hand model found in `samples`. */
+export function fitCorrection(
+  samples: readonly CorrectionSample[],
+  { trainingSeed, trainingStills, ridgeLambda = 1 }: { trainingSeed: number; trainingStills: number; ridgeLambda?: number },
+): CorrectionModel {
+  const groups: CorrectionModel["groups"] = {};
+  const byCell = new Map<string, CorrectionSample[]>();
+  for (const sample of samples) {
+    const group = jointGroupOf(sample.key);
+    if (!group) continue;
+    const cell = `${sample.model}\u0000${group}`;
+    byCell.set(cell, [...(byCell.get(cell) ?? []), sample]);
+  }
+  for (const [cell, cellSamples] of [...byCell].sort(([a], [b]) => a.localeCompare(b))) {
+    const [model, group] = cell.split("\u0000");
+    // Six coefficients need clearly more than six samples; a thin cell stays uncorrected rather than overfitted.
+    if (cellSamples.length < 30) continue;
+    const rows = cellSamples.map((s) => correctionFeatures(s.estimate));
+    const targets = cellSamples.map((s) => s.truthDeg);
+    const coefficients = ridgeFit(rows, targets, ridgeLambda);
+    const predictions = rows.map((row) => row.reduce((sum, value, i) => sum + value * coefficients[i], 0));
+    const trainingMaeDeg = predictions.reduce((sum, p, i) => sum + Math.abs(p - targets[i]), 0) / predictions.length;
+    groups[model] ??= {};
+    groups[model][group] = { coefficients, trainingSamples: cellSamples.length, trainingMaeDeg };
+  }
+  return { version: CORRECTION_VERSION, features: CORRECTION_FEATURES, trainingSeed, trainingStills, ridgeLambda, groups };
+}
+
+/** The corrected angle, or null when the model has no fit for this joint and hand model. */
+export function applyCorrection(model: CorrectionModel, handModel: string, key: PoseKey, estimate: AngleEstimate): number | null {
+  const group = jointGroupOf(key);
+  const fit = group ? model.groups[handModel]?.[group] : undefined;
+  if (!fit) return null;
+  return correctionFeatures(estimate).reduce((sum, value, i) => sum + value * fit.coefficients[i], 0);
+}
