@@ -161,11 +161,11 @@ describe("live tracking on a clip of every photo (one second each)", () => {
   let frames: TrackedFrame[];
   beforeAll(async () => {
     browser = await launchChromium();
-    // Half speed: the first detection carries the graph's start-up cost and the machine is shared, so at full speed
-    // the first photo could pass with too few frames to judge. The clip is 8 s (16 s at this rate); wait for its end.
-    const page = await openHarnessPage(browser, server, { clip: server.fileUrl(photosClip), rate: 0.5 });
+    // Frame by frame (the harness seeks to each frame): every one of the 240 frames is judged, however busy the
+    // machine; real-time following of a video is covered by the fake-camera checks above.
+    const page = await openHarnessPage(browser, server, { clip: server.fileUrl(photosClip), step: true, fps: 30 });
     await page.waitForFunction(() => window.kinarcHarness?.status === "ended" || window.kinarcHarness?.status === "failed", null, {
-      timeout: 60_000,
+      timeout: 110_000,
       polling: 200,
     });
     const state = await page.evaluate(() => window.kinarcHarness);
@@ -177,14 +177,15 @@ describe("live tracking on a clip of every photo (one second each)", () => {
   });
 
   const photos = STANDARD_CLIPS.allPhotosVideo.photos as readonly PhotoId[];
-  const framesOf = (index: number) =>
-    // Leave out frames near a cut: the decoder's frame time and the picture on screen can differ by a frame.
-    frames.filter((f) => f.t >= index * 1000 + 100 && f.t < (index + 1) * 1000 - 100);
+  // Leave out the frames next to a cut: the encoder may blend or shift a frame there.
+  const framesOf = (index: number) => frames.filter((f) => f.t >= index * 1000 + 50 && f.t < (index + 1) * 1000 - 50);
 
-  it("finds the hand on at least 90% of frames of every photo", () => {
+  it("processes every frame of the clip in order, and finds the hand on at least 90% of frames of every photo", () => {
+    expect(frames).toHaveLength(240);
+    expect(frames.map((f) => Math.round((f.t * 30) / 1000))).toEqual(Array.from({ length: 240 }, (_, i) => i));
     for (const [index, id] of photos.entries()) {
       const own = framesOf(index);
-      expect(own.length, `${id}: frames processed`).toBeGreaterThanOrEqual(5);
+      expect(own.length, `${id}: frames processed`).toBeGreaterThanOrEqual(25);
       expect(own.filter((f) => f.hand).length / own.length, `${id}: detection rate`).toBeGreaterThanOrEqual(MIN_DETECTION_RATE);
     }
   });

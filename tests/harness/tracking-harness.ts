@@ -59,6 +59,9 @@ export async function startHarnessServer(port = HARNESS_PORT): Promise<HarnessSe
 export interface HarnessQuery {
   clip?: string;
   rate?: number;
+  /** Seek through the clip frame by frame instead of playing it: every frame is processed. */
+  step?: boolean;
+  fps?: number;
   model?: "lite" | "full";
   forearm?: boolean;
   thread?: "auto" | "worker" | "main";

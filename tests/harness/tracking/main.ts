@@ -4,13 +4,15 @@
  *
  * Query parameters:
  *   clip=URL         play this video file instead of the camera (webm/mp4; Chromium's fake camera covers MJPEG)
- *   rate=N           clip playback rate (default 1); slower rates let every frame be processed
+ *   rate=N           clip playback rate (default 1); slower rates let more frames be processed
+ *   step=1           instead of playing the clip, seek to every frame in turn and process each one (file analysis)
+ *   fps=N            the clip's frame rate for step mode (default 30)
  *   model=lite|full  hand model (default lite)
  *   forearm=1        also run the pose landmarker for the forearm direction
  *   thread=auto|worker|main
  *   maxFps=N         cap on processed frames per second (default 30)
  */
-import { createHandTracker, type FrameTiming, type TrackedFrame, type TrackerStats } from "../../../vision/live";
+import { createHandTracker, type FrameTiming, type HandTracker, type TrackedFrame, type TrackerStats } from "../../../vision/live";
 
 export interface HarnessState {
   status: "starting" | "running" | "ended" | "failed";
@@ -107,9 +109,30 @@ async function run(): Promise<void> {
     statusLine.textContent = `${state.thread} | frames ${state.frames.length} | with hand ${state.stats.framesWithHand} | ${timing.landmarksMs.toFixed(1)} ms`;
   });
   await tracker.warmUp(video);
+  state.status = "running";
+  if (clip && params.get("step") === "1") {
+    await stepThroughClip(tracker);
+    return;
+  }
   tracker.start(video);
   if (clip) await video.play();
-  state.status = "running";
+}
+
+/** Every frame of the clip, in order, each at its own time: frame i is shown from i/fps to (i+1)/fps. */
+async function stepThroughClip(tracker: HandTracker): Promise<void> {
+  const fps = numberParam("fps", 30);
+  if (!Number.isFinite(video.duration)) throw new Error("clip: its duration is unknown, so its frames cannot be stepped through");
+  const frameCount = Math.round(video.duration * fps);
+  for (let i = 0; i < frameCount; i++) {
+    await new Promise<void>((resolve) => {
+      video.addEventListener("seeked", () => resolve(), { once: true });
+      // The middle of the frame's interval, so rounding never lands on a neighbour.
+      video.currentTime = (i + 0.5) / fps;
+    });
+    await tracker.processFrame(video, (i * 1000) / fps);
+  }
+  state.stats = tracker.stats();
+  state.status = "ended";
 }
 
 run().catch((error: unknown) => {
