@@ -3,12 +3,15 @@
  * fake camera with a 640x480 clip of a real hand. Prints frames per second, per-frame landmark time and the time to
  * the first tracked frame. Figures only; goals are judged by people, not asserted.
  *
- *   npx tsx scripts/bench/tracking.ts [--model lite|full] [--seconds 10] [--thread auto|worker|main] [--forearm]
+ *   npm run bench -- tracking [--model=lite|full] [--seconds=10] [--thread=auto|worker|main] [--forearm]
  */
 import { STANDARD_CLIPS, makeHandClip } from "../fixtures/hand-photos";
 import { launchWithFakeCamera, openHarnessPage, readHarness, startHarnessServer, waitForFrames } from "../../tests/harness/tracking-harness";
 
+/** `--name value` or `--name=value` (the second form passes through `npm run bench`, which takes bare words as names). */
 function argument(name: string, fallback: string): string {
+  const joined = process.argv.find((a) => a.startsWith(`--${name}=`));
+  if (joined) return joined.slice(name.length + 3);
   const i = process.argv.indexOf(`--${name}`);
   return i >= 0 && process.argv[i + 1] ? process.argv[i + 1] : fallback;
 }
