@@ -2,6 +2,7 @@ import { count } from "drizzle-orm";
 import type { Database } from "@/db";
 import { clients, clinics, users, type NewClient, type Role } from "@/db/schema";
 import { hashPassword } from "@/lib/auth/password";
+import { seedChartDemo } from "./chart";
 
 /**
  * The demo clinic. Everyone here is invented: names, dates, conditions and notes are fiction written for Kinarc's
@@ -229,6 +230,7 @@ export async function seedDemo(db: Database, today = new Date()): Promise<SeedRe
         .returning();
       clientIds[key] = row.id;
     }
+    await seedChartDemo(tx, { clinicId: clinic.id, clientIds, therapistId: staffIds["therapist@kinarc.test"], assistantId: staffIds["assistant@kinarc.test"] }, today);
     return { seeded: true, clinicId: clinic.id, clientIds };
   });
 }

@@ -1,4 +1,5 @@
-import type { Side, StrengthTest } from "@/db/schema";
+import type { StrengthTest } from "@/db/schema";
+import type { Side } from "@/lib/motions/catalog";
 
 // Grip and pinch norms for adults. Source: Mathiowetz V, Kashman N, Volland G, Weber K, Dowe M, Rogers S. Grip and
 // pinch strength: normative data for adults. Arch Phys Med Rehabil 1985;66(2):69-74. Hand-held dynamometer at handle

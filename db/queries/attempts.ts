@@ -1,0 +1,163 @@
+import { and, asc, count, desc, eq, isNull, sql, type SQL } from "drizzle-orm";
+import type { DbOrTx } from "@/db";
+import { attempts, type Attempt, type NewAttempt } from "@/db/schema";
+
+export async function createAttempt(db: DbOrTx, row: NewAttempt): Promise<Attempt> {
+  const [created] = await db.insert(attempts).values(row).returning();
+  return created;
+}
+
+/** Per motion, side and digit: how many attempts, and the best verified peak and arc. */
+export interface AttemptAggregate {
+  motion: string;
+  side: "left" | "right";
+  digit: string | null;
+  attempts: number;
+  bestPeakDeg: number | null;
+  bestArcDeg: number | null;
+  latestAt: number;
+}
+
+export async function aggregateAttempts(db: DbOrTx, clinicId: string, clientId: string): Promise<AttemptAggregate[]> {
+  // The best values count only attempts whose test plane was verified, the same rule grading uses.
+  const rows = await db
+    .select({
+      motion: attempts.motion,
+      side: attempts.side,
+      digit: attempts.digit,
+      attempts: count(),
+      bestPeakDeg: sql<number | null>`max(case when ${attempts.planeVerified} then ${attempts.peakDeg} end)`,
+      bestArcDeg: sql<number | null>`max(case when ${attempts.planeVerified} then ${attempts.arcDeg} end)`,
+      latestAt: sql<number>`max(${attempts.recordedAt})`,
+    })
+    .from(attempts)
+    .where(and(eq(attempts.clinicId, clinicId), eq(attempts.clientId, clientId)))
+    .groupBy(attempts.motion, attempts.side, attempts.digit);
+  return rows.map((r) => ({ ...r, latestAt: Number(r.latestAt) }));
+}
+
+export type RecentAttempt = Pick<
+  Attempt,
+  "id" | "motion" | "side" | "digit" | "condition" | "recordedAt" | "peakDeg" | "arcDeg" | "uncertaintyDeg" | "planeVerdict" | "planeVerified" | "frames" | "usableFrames" | "keptAt" | "warnings"
+>;
+
+/**
+ * The attempts a grade proposal rests on, per motion, side and digit: every kept attempt, or when none is kept the
+ * latest `perRow`. One query with a window, so a client with thousands of attempts costs one index scan.
+ */
+export async function recentAttempts(db: DbOrTx, clinicId: string, clientId: string, perRow = 10): Promise<RecentAttempt[]> {
+  const rows = await db.all<Record<string, unknown>>(sql`
+    select id, motion, side, digit, condition, recorded_at, peak_deg, arc_deg, uncertainty_deg, plane_verdict,
+           plane_verified, frames, usable_frames, kept_at, warnings
+    from (
+      select a.*,
+             row_number() over (partition by motion, side, digit order by recorded_at desc) as rn,
+             max(kept_at is not null) over (partition by motion, side, digit) as any_kept
+      from attempts a
+      where a.clinic_id = ${clinicId} and a.client_id = ${clientId}
+    )
+    where (any_kept = 1 and kept_at is not null) or (any_kept = 0 and rn <= ${perRow})
+    order by recorded_at asc`);
+  return rows.map((r) => ({
+    id: String(r.id),
+    motion: String(r.motion),
+    side: r.side as Attempt["side"],
+    digit: (r.digit as Attempt["digit"]) ?? null,
+    condition: r.condition as Attempt["condition"],
+    recordedAt: new Date(Number(r.recorded_at)),
+    peakDeg: r.peak_deg == null ? null : Number(r.peak_deg),
+    arcDeg: r.arc_deg == null ? null : Number(r.arc_deg),
+    uncertaintyDeg: r.uncertainty_deg == null ? null : Number(r.uncertainty_deg),
+    planeVerdict: String(r.plane_verdict),
+    planeVerified: Boolean(Number(r.plane_verified)),
+    frames: Number(r.frames),
+    usableFrames: Number(r.usable_frames),
+    keptAt: r.kept_at == null ? null : new Date(Number(r.kept_at)),
+    warnings: JSON.parse(String(r.warnings ?? "[]")) as string[],
+  }));
+}
+
+export interface AttemptListQuery {
+  motion?: string;
+  side?: "left" | "right";
+  digit?: string | null;
+  planeVerified?: boolean;
+  sort: "recordedAt" | "peakDeg" | "arcDeg";
+  dir: "asc" | "desc";
+  page: number;
+  pageSize: number;
+}
+
+export interface AttemptListPage {
+  rows: RecentAttempt[];
+  total: number;
+  page: number;
+  pageSize: number;
+}
+
+export async function listAttempts(db: DbOrTx, clinicId: string, clientId: string, q: AttemptListQuery): Promise<AttemptListPage> {
+  const filters: SQL[] = [eq(attempts.clinicId, clinicId), eq(attempts.clientId, clientId)];
+  if (q.motion) filters.push(eq(attempts.motion, q.motion));
+  if (q.side) filters.push(eq(attempts.side, q.side));
+  if (q.digit !== undefined) filters.push(q.digit === null ? isNull(attempts.digit) : eq(attempts.digit, q.digit as NonNullable<Attempt["digit"]>));
+  if (q.planeVerified !== undefined) filters.push(eq(attempts.planeVerified, q.planeVerified));
+  const where = and(...filters);
+  const order = q.dir === "asc" ? asc : desc;
+  const [{ total }] = await db.select({ total: count() }).from(attempts).where(where);
+  const rows = await db
+    .select({
+      id: attempts.id,
+      motion: attempts.motion,
+      side: attempts.side,
+      digit: attempts.digit,
+      condition: attempts.condition,
+      recordedAt: attempts.recordedAt,
+      peakDeg: attempts.peakDeg,
+      arcDeg: attempts.arcDeg,
+      uncertaintyDeg: attempts.uncertaintyDeg,
+      planeVerdict: attempts.planeVerdict,
+      planeVerified: attempts.planeVerified,
+      frames: attempts.frames,
+      usableFrames: attempts.usableFrames,
+      keptAt: attempts.keptAt,
+      warnings: attempts.warnings,
+    })
+    .from(attempts)
+    .where(where)
+    .orderBy(order(attempts[q.sort]), order(attempts.id))
+    .limit(q.pageSize)
+    .offset((q.page - 1) * q.pageSize);
+  return { rows, total, page: q.page, pageSize: q.pageSize };
+}
+
+/** Peak and arc over time for one motion row, for the history chart (at most `limit`, the latest). */
+export async function attemptSeries(
+  db: DbOrTx,
+  ids: { clinicId: string; clientId: string },
+  row: { motion: string; side: "left" | "right"; digit: string | null },
+  limit = 500,
+) {
+  const rows = await db
+    .select({
+      id: attempts.id,
+      recordedAt: attempts.recordedAt,
+      peakDeg: attempts.peakDeg,
+      arcDeg: attempts.arcDeg,
+      uncertaintyDeg: attempts.uncertaintyDeg,
+      condition: attempts.condition,
+      planeVerified: attempts.planeVerified,
+    })
+    .from(attempts)
+    .where(
+      and(
+        eq(attempts.clinicId, ids.clinicId),
+        eq(attempts.clientId, ids.clientId),
+        eq(attempts.motion, row.motion),
+        eq(attempts.side, row.side),
+        row.digit === null ? isNull(attempts.digit) : eq(attempts.digit, row.digit as NonNullable<Attempt["digit"]>),
+      ),
+    )
+    .orderBy(desc(attempts.recordedAt))
+    .limit(limit);
+  return rows.reverse();
+}
