@@ -2,7 +2,7 @@ import type { Vec3 } from "@/vision/vec";
 import { applyCorrection, type CorrectionModel } from "./correction";
 import { estimateAngles, type AngleEstimate } from "./estimates";
 import { getPoseAngle, type PoseKey } from "./hand-pose";
-import { JOINT_GROUPS } from "./joint-groups";
+import { JOINT_GROUPS, type JointGroup } from "./joint-groups";
 import { CAMERA_VIEWS, type CameraView, type FrameTruth } from "./scene";
 import { summarizeErrors, type ErrorSummary } from "./stats";
 
@@ -11,6 +11,8 @@ export type AngleMethod = "3-D" | "image plane" | "corrected";
 /** One still as a tracker saw it. `hand` is null when no hand was found. */
 export interface TrackedStill {
   truth: FrameTruth;
+  /** The motion a motion-set still shows (scripts/accuracy/motion-sets.ts). */
+  motion?: string;
   model: string;
   hand: Vec3[] | null;
   /** The same landmarks in the image: x, y in 0-1 of width and height. Absent in sets saved before it was kept. */
@@ -42,7 +44,11 @@ function pick(
  * Rows per joint group, view, model and method ("corrected" too when a correction is given). The forearm line given
  * to the engine for wrist angles is the render's true one, so wrist rows measure the hand's landmarks only.
  */
-export function accuracyRows(stills: readonly TrackedStill[], correction: CorrectionModel | null = null): AccuracyRow[] {
+export function accuracyRows(
+  stills: readonly TrackedStill[],
+  correction: CorrectionModel | null = null,
+  groups: readonly JointGroup[] = JOINT_GROUPS,
+): AccuracyRow[] {
   const models = [...new Set(stills.map((s) => s.model))];
   const estimated = stills.map((still) => ({
     still,
@@ -52,7 +58,7 @@ export function accuracyRows(stills: readonly TrackedStill[], correction: Correc
   const rows: AccuracyRow[] = [];
   const methods: AngleMethod[] = correction ? ["3-D", "image plane", "corrected"] : ["3-D", "image plane"];
   for (const method of methods) {
-    for (const group of JOINT_GROUPS) {
+    for (const group of groups) {
       for (const view of CAMERA_VIEWS) {
         for (const model of models) {
           const inCell = estimated.filter((e) => e.still.model === model && e.still.truth.view === view);

@@ -4,16 +4,25 @@
  * (vision/angles) and prints the error table per joint, view and model, raw and (when a fitted correction is in
  * scripts/accuracy/correction.json) corrected; writes it to scripts/accuracy/report.md.
  *
- *   npm run -s accuracy -- [--per-view 40] [--models lite,full] [--reuse]
+ *   npm run -s accuracy -- [--per-motion 30] [--per-view 40] [--models lite,full] [--reuse]
  */
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { parseArgs } from "node:util";
 import type { CorrectionModel } from "./correction";
-import { accuracyMarkdown, accuracyRows } from "./report";
+import { MOTION_SETS } from "./motion-sets";
+import { accuracyMarkdown, accuracyRows, type AccuracyRow } from "./report";
 import { CAMERA_VIEWS } from "./scene";
-import { CLIP_FPS, HOLD_MS, PLAYBACK_RATE, trackRenderedSet, type HandModelVariant } from "./tracked-set";
+import {
+  CLIP_FPS,
+  HOLD_MS,
+  motionSetFrame,
+  PLAYBACK_RATE,
+  randomSetFrame,
+  trackRenderedSet,
+  type HandModelVariant,
+} from "./tracked-set";
 
 /** Validation renders come from this seed only; the correction is fitted on renders from other seeds. */
 export const VALIDATION_SEED: number = 20_261_202;
@@ -34,26 +43,76 @@ export function parsePerView(raw: string | undefined, fallback: number): number 
   return perView;
 }
 
+/** Issue 8's acceptance figures for a motion in its recommended view, after correction. */
+const ACCEPTANCE: Record<string, { maxMaeDeg: number; slope: [number, number] | null }> = {
+  "mcp.flexion": { maxMaeDeg: 5, slope: [0.9, 1.1] },
+  "pip.flexion": { maxMaeDeg: 5, slope: [0.9, 1.1] },
+  "wrist.flexion": { maxMaeDeg: 5, slope: [0.9, 1.1] },
+  "dip.flexion": { maxMaeDeg: 8, slope: null },
+};
+const MIN_DETECTION = 0.95;
+
+function acceptanceLines(rows: AccuracyRow[]): string[] {
+  const lines: string[] = [];
+  for (const set of MOTION_SETS) {
+    const target = ACCEPTANCE[set.id];
+    if (!target) continue;
+    for (const row of rows.filter((r) => r.joint === set.label && r.method === "corrected")) {
+      const s = row.summary;
+      const maeOk = s.meanAbsoluteErrorDeg !== null && s.meanAbsoluteErrorDeg <= target.maxMaeDeg;
+      const slopeOk = !target.slope || (s.slope !== null && s.slope >= target.slope[0] && s.slope <= target.slope[1]);
+      const detectionOk = s.detectionRate >= MIN_DETECTION;
+      const verdict = maeOk && slopeOk && detectionOk ? "meets" : "misses";
+      lines.push(
+        `- ${set.id}, ${row.view}, ${row.model}: ${verdict} (MAE ${s.meanAbsoluteErrorDeg?.toFixed(1) ?? "-"} of at most ${target.maxMaeDeg}, ` +
+          `slope ${s.slope?.toFixed(2) ?? "-"}${target.slope ? ` in ${target.slope.join("-")}` : ""}, detected ${Math.round(s.detectionRate * 100)}% of at least 95%)`,
+      );
+    }
+  }
+  return lines;
+}
+
 async function main(): Promise<void> {
-  const { values } = parseArgs({ options: { "per-view": { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" } } });
+  const { values } = parseArgs({
+    options: { "per-view": { type: "string" }, "per-motion": { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" } },
+  });
   const perView = parsePerView(values["per-view"], 40);
+  const perMotion = parsePerView(values["per-motion"], 30);
   const models = parseModels(values.models);
-  const count = perView * CAMERA_VIEWS.length;
-  const set = await trackRenderedSet(VALIDATION_SEED, count, models, { reuse: values.reuse });
+  const motionCount = perMotion * MOTION_SETS.length;
+  const motions = await trackRenderedSet({
+    name: "motions", seed: VALIDATION_SEED, count: motionCount, models, makeFrame: motionSetFrame(), reuse: values.reuse,
+  });
+  const randomCount = perView * CAMERA_VIEWS.length;
+  const random = await trackRenderedSet({
+    name: "random", seed: VALIDATION_SEED, count: randomCount, models, makeFrame: randomSetFrame(), reuse: values.reuse,
+  });
 
   let correction: CorrectionModel | null = null;
   if (existsSync(CORRECTION_FILE)) {
     correction = JSON.parse(readFileSync(CORRECTION_FILE, "utf8")) as CorrectionModel;
     if (correction.trainingSeed === VALIDATION_SEED) throw new Error(`${CORRECTION_FILE}: fitted on the validation seed; refit on another seed`);
   }
-  const table = accuracyMarkdown(accuracyRows(set.stills, correction));
+  const motionRows = MOTION_SETS.flatMap((set) =>
+    accuracyRows(
+      motions.stills.filter((still) => still.motion === set.id),
+      correction,
+      [{ label: set.label, keys: set.keys }],
+    ),
+  );
+  const motionTable = accuracyMarkdown(motionRows);
+  const randomTable = accuracyMarkdown(accuracyRows(random.stills, correction));
+  const acceptance = correction ? acceptanceLines(motionRows) : ["- No correction fitted yet."];
   const report = [
     "# Angle accuracy on rendered hands",
     "",
     "Written by `npm run accuracy` (scripts/accuracy/run-accuracy.ts); do not edit by hand.",
     "",
-    `- Validation set: seed ${VALIDATION_SEED}, ${count} stills (${perView} per view), random poses within anatomical ranges, ` +
-      "left and right hands, camera 0.3-1.0 m, skin tones, lights and backgrounds drawn from the seed (scripts/accuracy/scene.ts).",
+    `- Held-out renders: seed ${VALIDATION_SEED}. Test motions: ${motionCount} stills (${perMotion} per motion), each motion in the ` +
+      "view the motion catalog recommends (side = radial or ulnar view; overhead = looking down), the tested joint across its range on " +
+      "all four fingers together, other joints within 5 degrees of rest, camera 0.3-0.7 m (scripts/accuracy/motion-sets.ts). Random poses: " +
+      `${randomCount} stills (${perView} per view), every joint random within anatomical ranges, camera 0.3-1.0 m (scripts/accuracy/scene.ts). ` +
+      "Both: left and right hands, skin tones, lights and backgrounds drawn from the seed.",
     "- Truth: the commanded joint angle of the pose model (zero = the rig's rest pose).",
     "- Estimate: the app's tracking code (vision/live via tests/harness/tracking, VIDEO mode, CPU) on a webm of the stills, each held " +
       `${HOLD_MS} ms at ${CLIP_FPS} fps and played at ${PLAYBACK_RATE}x; angles from the measurement engine (vision/angles, readMotion) ` +
@@ -64,15 +123,24 @@ async function main(): Promise<void> {
     "- Wrist rows use the render's true forearm line (the pose landmarker cannot see an upper body here): they measure the hand landmarks only.",
     "- Perfect-tracker bias: the same engine on the exact rig landmarks; the rig places wrist and MCP points a little off the " +
       "landmark model's convention and its rest pose is not straight, so part of every raw bias is convention, not tracking.",
-    "- Detected: share of stills where the tracker returned a hand. Slope: least-squares slope of estimate on truth (1 = full size).",
-    "- Views are of random poses, so most motions are not in their recommended view here; read a row as that view's figure for all poses.",
-    `- Renderer: ${set.renderer}, ${set.msPerFrame.toFixed(1)} ms a frame. Models: ${models.join(", ")}.`,
+    "- Detected: share of samples (stills x joints) with an estimate. Slope: least-squares slope of estimate on truth (1 = full size).",
+    `- Renderer: ${motions.renderer}, ${motions.msPerFrame.toFixed(1)} ms a frame. Models: ${models.join(", ")}.`,
     "",
-    table,
+    "## Acceptance (issue 8: recommended view, after correction)",
+    "",
+    ...acceptance,
+    "",
+    "## Test motions in their recommended view",
+    "",
+    motionTable,
+    "",
+    "## Random poses in every view",
+    "",
+    randomTable,
     "",
   ].join("\n");
   writeFileSync(REPORT_FILE, report);
-  console.log(table);
+  console.log(["## Acceptance", ...acceptance, "", "## Test motions in their recommended view", motionTable, "", "## Random poses in every view", randomTable].join("\n"));
   console.error(`report -> ${REPORT_FILE}`);
 }
 

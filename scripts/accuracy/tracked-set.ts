@@ -11,9 +11,11 @@ import type { Vec3 } from "@/vision/vec";
 import { launchChromium, openHarnessPage, startHarnessServer, waitForFrames } from "../../tests/harness/tracking-harness";
 import { renderStillsClip } from "./render-jobs";
 import { HandRenderer, RENDER_OUTPUT_ROOT } from "./renderer";
+import { MOTION_SETS, motionFrame } from "./motion-sets";
+import type { RenderFrameSpec } from "./render-spec";
 import { framesForStills, type TrackedStill } from "./report";
 import { loadHandRig } from "./rig-files";
-import { CAMERA_VIEWS, frameSeeds, randomFrame } from "./scene";
+import { CAMERA_VIEWS, frameSeeds, randomFrame, type FrameTruth } from "./scene";
 
 /** Ports 4320-4329 belong to the render and accuracy tools. */
 const HARNESS_PORT = Number(process.env.KINARC_ACCURACY_PORT ?? 4321);
@@ -50,26 +52,48 @@ async function trackClip(clipFile: string, model: HandModelVariant, mediaMs: num
   }
 }
 
+export interface SetFrame {
+  spec: RenderFrameSpec;
+  truth: FrameTruth;
+  /** The motion a motion-set still shows. */
+  motion?: string;
+}
+
+/** Random poses in every view in turn: the general set. */
+export function randomSetFrame(): (frameSeed: number, index: number) => SetFrame {
+  const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
+  return (frameSeed, index) => randomFrame(rigs, frameSeed, { views: [CAMERA_VIEWS[index % CAMERA_VIEWS.length]] });
+}
+
+/** Each test motion in turn, in its recommended view. */
+export function motionSetFrame(): (frameSeed: number, index: number) => SetFrame {
+  const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
+  return (frameSeed, index) => motionFrame(rigs, frameSeed, MOTION_SETS[index % MOTION_SETS.length]);
+}
+
 /**
- * Renders `count` stills from `seed` (views in turn) and tracks them with each model. With `reuse`, a set saved by
- * an earlier run with the same seed, count and models is read back instead.
+ * Renders `count` stills from `seed` with `makeFrame` and tracks them with each model. With `reuse`, a set saved by
+ * an earlier run with the same name, seed, count and models is read back instead.
  */
-export async function trackRenderedSet(
-  seed: number,
-  count: number,
-  models: readonly HandModelVariant[],
-  { reuse = false, log = console.error }: { reuse?: boolean; log?: (line: string) => void } = {},
-): Promise<TrackedSet> {
+export async function trackRenderedSet(options: {
+  name: string;
+  seed: number;
+  count: number;
+  models: readonly HandModelVariant[];
+  makeFrame: (frameSeed: number, index: number) => SetFrame;
+  reuse?: boolean;
+  log?: (line: string) => void;
+}): Promise<TrackedSet> {
+  const { name, seed, count, models, makeFrame, reuse = false, log = console.error } = options;
   const folder = path.join(RENDER_OUTPUT_ROOT, "tracked");
   mkdirSync(folder, { recursive: true });
-  const base = path.join(folder, `set-${seed}-${count}`);
+  const base = path.join(folder, `set-${name}-${seed}-${count}`);
   const savedFile = `${base}-${models.join("-")}.json`;
   if (reuse && existsSync(savedFile)) {
     log(`reusing ${savedFile}`);
     return JSON.parse(readFileSync(savedFile, "utf8")) as TrackedSet;
   }
-  const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
-  const frames = frameSeeds(seed, count).map((frameSeed, i) => randomFrame(rigs, frameSeed, { views: [CAMERA_VIEWS[i % CAMERA_VIEWS.length]] }));
+  const frames = frameSeeds(seed, count).map((frameSeed, i) => makeFrame(frameSeed, i));
   const clipFile = `${base}.webm`;
   const renderer = await HandRenderer.start();
   let glName: string;
@@ -80,7 +104,7 @@ export async function trackRenderedSet(
   } finally {
     await renderer.close();
   }
-  log(`rendered ${count} stills from seed ${seed} (${msPerFrame.toFixed(1)} ms a frame) -> ${clipFile}`);
+  log(`rendered ${count} ${name} stills from seed ${seed} (${msPerFrame.toFixed(1)} ms a frame) -> ${clipFile}`);
   const stills: TrackedStill[] = [];
   for (const model of models) {
     const started = Date.now();
@@ -89,6 +113,7 @@ export async function trackRenderedSet(
     chosen.forEach((frame, i) =>
       stills.push({
         truth: frames[i].truth,
+        ...(frames[i].motion ? { motion: frames[i].motion } : {}),
         model,
         hand: (frame?.hand as Vec3[] | null) ?? null,
         image: (frame?.image as Vec3[] | null) ?? null,

@@ -91,3 +91,25 @@ describe("hand render harness (headless Chromium, software WebGL)", () => {
     expect(truth.frames[6].truth.commandedDeg.index.pipFlexionDeg).toBeCloseTo(80, 6);
   });
 });
+
+describe("renders through the app's tracking harness", () => {
+  it("finds hands in the stills and lines each result up with its own still", async () => {
+    const { randomSetFrame, trackRenderedSet } = await import("@/scripts/accuracy/tracked-set");
+    const set = await trackRenderedSet({ name: "e2e", seed: 424242, count: 12, models: ["lite"], makeFrame: randomSetFrame(), log: () => {} });
+    const tracked = set.stills.filter((still) => still.image);
+    // The notes saw most renders detected; a few odd random poses may be missed.
+    expect(tracked.length).toBeGreaterThanOrEqual(8);
+    const meanPixelError = (image: readonly (readonly number[])[], truth: [number, number][]) =>
+      image.reduce((sum, p, k) => sum + Math.hypot(p[0] * IMAGE_WIDTH_PX - truth[k][0], p[1] * IMAGE_HEIGHT_PX - truth[k][1]), 0) / truth.length;
+    const median = (values: number[]) => values.sort((a, b) => a - b)[Math.floor(values.length / 2)];
+    const own = tracked.map((still) => meanPixelError(still.image!, still.truth.landmarksImagePx));
+    // Against the next still's truth instead: what an off-by-one in the time mapping would give.
+    const shifted = tracked.flatMap((still) => {
+      const next = set.stills[set.stills.indexOf(still) + 1];
+      return next ? [meanPixelError(still.image!, next.truth.landmarksImagePx)] : [];
+    });
+    // The rig's wrist and MCP points sit 10-20 px off the landmark model's (rendered-hands notes): allow 30 px.
+    expect(median(own)).toBeLessThan(30);
+    expect(median(shifted)).toBeGreaterThan(2 * median(own));
+  });
+});

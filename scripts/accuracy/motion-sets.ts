@@ -1,0 +1,62 @@
+import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
+import { uniformInt } from "pure-rand/distribution/uniformInt";
+import { POSE_KEYS, POSE_RANGES_DEG, poseHand, restPose, setPoseAngle, type PoseKey } from "./hand-pose";
+import type { HandRig, HandSide } from "./rig";
+import { buildFrame, handCentre, makeRng, placeCamera, sampleCamera, sampleLook, type CameraView } from "./scene";
+
+/**
+ * Stills of one test motion each, seen from the view the motion catalog recommends (lib/motions/catalog.ts:
+ * "side" = a radial or ulnar view, "overhead" = looking down at a hand on the table). The tested joint (on all four
+ * fingers at once, as a client flexes them together) spans its range; every other joint stays within a few degrees
+ * of rest, as in a test position.
+ */
+export interface MotionSet {
+  id: string;
+  label: string;
+  keys: readonly PoseKey[];
+  rangeDeg: readonly [number, number];
+  views: readonly CameraView[];
+}
+
+const FINGER_KEYS = (joint: "mcpFlexionDeg" | "pipFlexionDeg" | "dipFlexionDeg" | "mcpAbductionDeg") =>
+  (joint === "mcpAbductionDeg" ? (["index", "ring", "little"] as const) : (["index", "middle", "ring", "little"] as const)).map(
+    (finger) => `${finger}.${joint}` as PoseKey,
+  );
+
+export const MOTION_SETS: readonly MotionSet[] = [
+  { id: "mcp.flexion", label: "MCP flexion", keys: FINGER_KEYS("mcpFlexionDeg"), rangeDeg: [0, 90], views: ["radial", "ulnar"] },
+  { id: "pip.flexion", label: "PIP flexion", keys: FINGER_KEYS("pipFlexionDeg"), rangeDeg: [0, 100], views: ["radial", "ulnar"] },
+  { id: "dip.flexion", label: "DIP flexion", keys: FINGER_KEYS("dipFlexionDeg"), rangeDeg: [0, 90], views: ["radial", "ulnar"] },
+  { id: "wrist.flexion", label: "wrist flexion (+) / extension (-)", keys: ["wrist.flexionDeg"], rangeDeg: [-70, 80], views: ["radial", "ulnar"] },
+  { id: "wrist.radial_deviation", label: "wrist radial (+) / ulnar (-) deviation", keys: ["wrist.radialDeviationDeg"], rangeDeg: [-30, 20], views: ["down"] },
+  { id: "finger.abduction", label: "finger abduction", keys: FINGER_KEYS("mcpAbductionDeg"), rangeDeg: [-10, 20], views: ["down"] },
+];
+
+/** Joints other than the tested ones stay within this many degrees of rest. */
+const OTHER_JOINT_JITTER_DEG = 5;
+/** Fingers flexed together still differ a little from each other. */
+const FINGER_SPREAD_DEG = 4;
+
+/** One still of `set`, fully determined by `seed`. */
+export function motionFrame(rigs: Record<HandSide, HandRig>, seed: number, set: MotionSet) {
+  const rng = makeRng(seed);
+  const uniform = (low: number, high: number) => low + (high - low) * uniformFloat64(rng);
+  const side: HandSide = uniformInt(rng, 0, 1) === 0 ? "left" : "right";
+  const view = set.views[uniformInt(rng, 0, set.views.length - 1)];
+  const pose = restPose();
+  for (const key of POSE_KEYS) {
+    const [low, high] = POSE_RANGES_DEG[key];
+    setPoseAngle(pose, key, Math.min(high, Math.max(low, uniform(-OTHER_JOINT_JITTER_DEG, OTHER_JOINT_JITTER_DEG))));
+  }
+  const shared = uniform(set.rangeDeg[0], set.rangeDeg[1]);
+  for (const key of set.keys) {
+    const spread = set.keys.length > 1 ? uniform(-FINGER_SPREAD_DEG, FINGER_SPREAD_DEG) : 0;
+    setPoseAngle(pose, key, Math.min(set.rangeDeg[1], Math.max(set.rangeDeg[0], shared + spread)));
+  }
+  // A hand framed for a test: nearer than the random set's 0.3-1.0 m.
+  const placement = sampleCamera(rng, view, [0.3, 0.7]);
+  const look = sampleLook(rng);
+  const rig = rigs[side];
+  const camera = placeCamera(side, placement, handCentre(poseHand(rig, pose)));
+  return { ...buildFrame(rig, pose, camera, placement, look), seed, motion: set.id };
+}
