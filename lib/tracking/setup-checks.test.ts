@@ -1,0 +1,119 @@
+import { describe, expect, it } from "vitest";
+import { neutralPose, poseHand, type Placement } from "@/vision/testing/synthetic-hand";
+import type { LandmarkXYZ, TrackedFrame } from "@/vision/live/types";
+import { edgesCut, meanLuma, readyToStart, runSetupChecks, SETUP_LIMITS, type SetupInput } from "./setup-checks";
+
+const WIDTH = 640;
+const HEIGHT = 480;
+// A webcam-like pinhole camera: focal length about the picture's width (roughly a 60-degree horizontal view)
+// [common practice for laptop cameras]. Image coordinates come out normalised 0-1, as the landmarker gives them.
+const FOCAL_PX = 600;
+
+function project(points: readonly LandmarkXYZ[]): LandmarkXYZ[] {
+  return points.map(([x, y, z]) => [(WIDTH / 2 + (FOCAL_PX * x) / z) / WIDTH, (HEIGHT / 2 + (FOCAL_PX * y) / z) / HEIGHT, 0]);
+}
+
+/** A right hand, fingers up, palm to the camera, `distanceM` away, shifted by `shiftM` to the picture's right. */
+function handImage(distanceM = 0.45, shiftM = 0): LandmarkXYZ[] {
+  const placement: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [-1, 0, 0], wrist: [shiftM, 0.08, distanceM] };
+  return project(poseHand(neutralPose(), "right", placement).landmarks as LandmarkXYZ[]);
+}
+
+type Frame = SetupInput["frames"][number];
+
+function frames(count: number, make: (i: number) => Partial<TrackedFrame> = () => ({})): Frame[] {
+  return Array.from({ length: count }, (_, i) => ({ t: i * 33, score: 0.95, handedness: "right", image: handImage(), ...make(i) }) as Frame);
+}
+
+const BASE: SetupInput = {
+  frames: frames(30),
+  side: "right",
+  motion: "pip.flexion",
+  lumaMean: 120,
+  videoWidth: WIDTH,
+  videoHeight: HEIGHT,
+  displayMirrored: true,
+  gravitySource: "none",
+};
+
+const byId = (input: SetupInput) => Object.fromEntries(runSetupChecks(input).map((c) => [c.id, c]));
+
+describe("mean luma", () => {
+  // ITU-R BT.601 luma weights: Y' = 0.299 R' + 0.587 G' + 0.114 B'.
+  it("weights red, green and blue as BT.601 does", () => {
+    expect(meanLuma([255, 255, 255, 255])).toBeCloseTo(255, 9);
+    expect(meanLuma([255, 0, 0, 255])).toBeCloseTo(0.299 * 255, 9);
+    expect(meanLuma([0, 255, 0, 255, 0, 0, 255, 255])).toBeCloseTo(((0.587 + 0.114) * 255) / 2, 9);
+  });
+  it("refuses an empty picture", () => {
+    expect(() => meanLuma([])).toThrow(/at least one pixel/);
+  });
+});
+
+describe("set-up checks", () => {
+  it("a well placed right hand in good light passes everything but the upright prompt on a laptop", () => {
+    const checks = runSetupChecks(BASE);
+    expect(checks.filter((c) => c.status !== "ok").map((c) => c.id)).toEqual(["upright"]);
+    expect(readyToStart(checks)).toBe(true);
+    expect(byId({ ...BASE, gravitySource: "sensor" }).upright.status).toBe("ok");
+  });
+
+  it("no hand: says to hold the hand up, and does not start", () => {
+    const checks = runSetupChecks({ ...BASE, frames: frames(30, () => ({ image: null, handedness: null, score: 0 })) });
+    expect(checks[0]).toMatchObject({ id: "hand_seen", status: "fix" });
+    expect(checks[0].instruction).toMatch(/right hand/);
+    expect(readyToStart(checks)).toBe(false);
+  });
+
+  it("a hand past the picture's edge names the edge the person sees, mirrored or not", () => {
+    const cut = handImage(0.45, 0.2);
+    expect(Math.max(...cut.map((p) => p[0]))).toBeGreaterThan(1);
+    expect(edgesCut(cut, false)).toEqual(["right"]);
+    expect(edgesCut(cut, true)).toEqual(["left"]);
+    const check = byId({ ...BASE, frames: frames(30, () => ({ image: cut })) }).hand_in_frame;
+    expect(check.status).toBe("fix");
+    expect(check.instruction).toMatch(/past the left edge/);
+  });
+
+  it("the other hand is named, by a majority of recent frames", () => {
+    const wrong = byId({ ...BASE, frames: frames(30, (i) => ({ handedness: i % 4 === 0 ? "right" : "left" })) }).correct_hand;
+    expect(wrong.status).toBe("fix");
+    expect(wrong.instruction).toMatch(/looks like your left hand/);
+    expect(byId({ ...BASE, frames: frames(30, (i) => ({ handedness: i % 4 === 0 ? "left" : "right" })) }).correct_hand.status).toBe("ok");
+  });
+
+  it("a hand far from the camera is too small; the same hand at arm's length is not", () => {
+    // At 2 m the hand (about 19 cm wrist to fingertip in the synthetic model) spans some 57 px of 480.
+    const far = byId({ ...BASE, frames: frames(30, () => ({ image: handImage(2) })) }).hand_size;
+    expect(far.status).toBe("fix");
+    expect(far.instruction).toMatch(/closer/);
+    expect(byId(BASE).hand_size.status).toBe("ok");
+  });
+
+  it("too dark and too bright pictures get a light instruction", () => {
+    expect(byId({ ...BASE, lumaMean: SETUP_LIMITS.minLuma - 1 }).light).toMatchObject({ status: "fix", instruction: expect.stringMatching(/too dark/) });
+    expect(byId({ ...BASE, lumaMean: SETUP_LIMITS.maxLuma + 1 }).light).toMatchObject({ status: "fix", instruction: expect.stringMatching(/washed out/) });
+    expect(byId({ ...BASE, lumaMean: null }).light.status).toBe("advice");
+  });
+
+  it("tracking that loses the hand, or a hand on the move, is not steady", () => {
+    const lost = byId({ ...BASE, frames: frames(30, (i) => (i % 3 === 0 ? { image: null, handedness: null } : {})) }).steady;
+    expect(lost.status).toBe("fix");
+    const moving = byId({ ...BASE, frames: frames(30, (i) => ({ image: handImage(0.45, -0.06 + i * 0.004) })) }).steady;
+    expect(moving).toMatchObject({ status: "fix", instruction: expect.stringMatching(/hold your hand still/) });
+    expect(byId({ ...BASE, frames: frames(5) }).steady.status).toBe("advice");
+  });
+
+  it("wrist motions ask for the forearm in view, as advice (the engine can fall back to a neutral start)", () => {
+    expect(byId(BASE).forearm).toBeUndefined();
+    const wrist = byId({ ...BASE, motion: "wrist.extension" });
+    expect(wrist.forearm.status).toBe("advice");
+    expect(byId({ ...BASE, motion: "wrist.extension", frames: frames(30, () => ({ forearm: [0, -1, 0] })) }).forearm.status).toBe("ok");
+  });
+
+  it("every failing check carries an instruction, and passing ones none", () => {
+    const checks = runSetupChecks({ ...BASE, frames: frames(30, () => ({ image: handImage(2, 0.5), handedness: "left", score: 0.3 })), lumaMean: 10, motion: "wrist.flexion" });
+    for (const c of checks) expect(c.status === "ok" ? c.instruction === "" : c.instruction.length > 20, c.id).toBe(true);
+    expect(checks.filter((c) => c.status === "fix").length).toBeGreaterThanOrEqual(4);
+  });
+});

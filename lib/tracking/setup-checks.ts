@@ -1,0 +1,218 @@
+/**
+ * Set-up checks before a measured attempt: pure functions of the recent tracked frames, the picture's brightness and
+ * the device's gravity reading. Each failing check says in plain words what to change. Used by the client's
+ * self-check and, with telemetry instead of a camera, by the therapist's view of a visit.
+ */
+import { DEFAULT_TRACKING_LIMITS } from "@/vision/analyze-capture";
+import { MOTIONS, type MotionId, type Side } from "@/lib/motions/catalog";
+import type { LandmarkXYZ, TrackedFrame } from "@/vision/live/types";
+
+export type SetupCheckId = "hand_seen" | "hand_in_frame" | "correct_hand" | "hand_size" | "light" | "steady" | "forearm" | "upright";
+
+export interface SetupCheck {
+  id: SetupCheckId;
+  label: string;
+  /** `ok` passes; `fix` must change before the attempt; `advice` is worth changing but does not block. */
+  status: "ok" | "fix" | "advice";
+  /** What to do, in plain words; empty when the check passes. */
+  instruction: string;
+}
+
+export interface SetupInput {
+  /** Tracked frames of the last moments, oldest first (the window is chosen by the caller, about 1.5 s). */
+  frames: readonly Pick<TrackedFrame, "t" | "score" | "handedness" | "image" | "forearm">[];
+  side: Side;
+  motion: MotionId;
+  /** Mean luma of the picture, 0-255 (`meanLuma`), or null when not measured yet. */
+  lumaMean: number | null;
+  /** Width and height of the camera picture in pixels. */
+  videoWidth: number;
+  videoHeight: number;
+  /** The preview is shown mirrored (a selfie view): left and right in instructions follow what the person sees. */
+  displayMirrored: boolean;
+  /** Where gravity comes from: the phone's motion sensor, or nothing (the picture is assumed upright). */
+  gravitySource: "sensor" | "none";
+}
+
+export const SETUP_LIMITS = {
+  /** Landmarks closer than this share of the picture to an edge count as cut off (fingertips vanish first). */
+  edgeMargin: 0.02,
+  /**
+   * The hand's longer side in the picture, as a share of the picture's shorter side. Below a fifth the landmarks'
+   * pixel jitter becomes several degrees of finger angle [reasoning: at 480 px a finger segment is then under 25 px,
+   * and 1-2 px of jitter turns it by 2-5 degrees].
+   */
+  minHandSpan: 0.2,
+  /** ITU-R BT.601 luma, 0-255: below 50 the detector loses the hand in a dim room; above 235 the skin washes out [from memory]. */
+  minLuma: 50,
+  maxLuma: 235,
+  /** Frames with a hand, of all frames in the window, for the tracking to count as steady. */
+  minDetectionRate: 0.9,
+  /** Mean tracker score: the same limit the measurement engine uses to call a capture's tracking poor. */
+  minMeanScore: DEFAULT_TRACKING_LIMITS.minMeanScore,
+  /** The wrist may wander this share of the picture's diagonal in the window and still count as held still. */
+  maxWristTravel: 0.05,
+  /** Frames in the window before any verdict on steadiness is given. */
+  minFrames: 10,
+} as const;
+
+const LABELS: Record<SetupCheckId, string> = {
+  hand_seen: "Hand found",
+  hand_in_frame: "Whole hand in the picture",
+  correct_hand: "The hand being checked",
+  hand_size: "Hand close enough",
+  light: "Enough light",
+  steady: "Steady tracking",
+  forearm: "Forearm in view",
+  upright: "Camera upright",
+};
+
+function check(id: SetupCheckId, status: SetupCheck["status"], instruction = ""): SetupCheck {
+  return { id, label: LABELS[id], status, instruction: status === "ok" ? "" : instruction };
+}
+
+/** Mean luma of RGBA pixels with the ITU-R BT.601 weights (0.299 R + 0.587 G + 0.114 B), 0-255. */
+export function meanLuma(rgba: ArrayLike<number>): number {
+  const pixels = Math.floor(rgba.length / 4);
+  if (pixels === 0) throw new Error("rgba: expected at least one pixel (4 values per pixel)");
+  let sum = 0;
+  for (let i = 0; i < pixels * 4; i += 4) sum += 0.299 * rgba[i] + 0.587 * rgba[i + 1] + 0.114 * rgba[i + 2];
+  return sum / pixels;
+}
+
+interface Box {
+  minX: number;
+  minY: number;
+  maxX: number;
+  maxY: number;
+}
+
+function boundingBox(image: readonly LandmarkXYZ[]): Box {
+  const box = { minX: Infinity, minY: Infinity, maxX: -Infinity, maxY: -Infinity };
+  for (const [x, y] of image) {
+    box.minX = Math.min(box.minX, x);
+    box.minY = Math.min(box.minY, y);
+    box.maxX = Math.max(box.maxX, x);
+    box.maxY = Math.max(box.maxY, y);
+  }
+  return box;
+}
+
+/** Which edges of the picture, as the person sees it, the hand runs past. */
+export function edgesCut(image: readonly LandmarkXYZ[], displayMirrored: boolean, margin: number = SETUP_LIMITS.edgeMargin): ("top" | "bottom" | "left" | "right")[] {
+  const box = boundingBox(image);
+  const edges: ("top" | "bottom" | "left" | "right")[] = [];
+  if (box.minY < margin) edges.push("top");
+  if (box.maxY > 1 - margin) edges.push("bottom");
+  // Image x runs left to right in the camera's picture; a mirrored preview swaps the sides the person sees.
+  const imageLeft = box.minX < margin;
+  const imageRight = box.maxX > 1 - margin;
+  if (displayMirrored ? imageRight : imageLeft) edges.push("left");
+  if (displayMirrored ? imageLeft : imageRight) edges.push("right");
+  return edges;
+}
+
+function joinWords(words: readonly string[]): string {
+  return words.length <= 1 ? (words[0] ?? "") : `${words.slice(0, -1).join(", ")} and ${words[words.length - 1]}`;
+}
+
+/** All checks, in the order a person should fix them. */
+export function runSetupChecks(input: SetupInput): SetupCheck[] {
+  const { frames, side } = input;
+  const withHand = frames.filter((f) => f.image && f.image.length === 21);
+  const latest = withHand[withHand.length - 1] ?? null;
+  const latestFrame = frames[frames.length - 1] ?? null;
+  const checks: SetupCheck[] = [];
+
+  const seenNow = latestFrame?.image != null;
+  checks.push(
+    seenNow && latest
+      ? check("hand_seen", "ok")
+      : check("hand_seen", "fix", `Hold your ${side} hand up in front of the camera so it can be seen.`),
+  );
+
+  if (latest?.image) {
+    const edges = edgesCut(latest.image, input.displayMirrored);
+    checks.push(
+      edges.length === 0
+        ? check("hand_in_frame", "ok")
+        : check(
+            "hand_in_frame",
+            "fix",
+            `Part of your hand is past the ${joinWords(edges)} edge of the picture. Move it toward the middle, or move the camera back a little, so the whole hand from wrist to fingertips shows.`,
+          ),
+    );
+
+    // The label of the latest frames, by majority, so one uncertain frame does not flip the verdict.
+    const labelled = withHand.slice(-15).filter((f) => f.handedness);
+    const same = labelled.filter((f) => f.handedness === side).length;
+    if (labelled.length === 0) checks.push(check("correct_hand", "advice", `Make sure it is your ${side} hand that the camera sees.`));
+    else if (same * 2 >= labelled.length) checks.push(check("correct_hand", "ok"));
+    else {
+      const other = side === "left" ? "right" : "left";
+      checks.push(check("correct_hand", "fix", `This looks like your ${other} hand. Show your ${side} hand for this check, and keep the other one out of the picture.`));
+    }
+
+    const box = boundingBox(latest.image);
+    const shorter = Math.min(input.videoWidth, input.videoHeight) || 1;
+    const spanPx = Math.max((box.maxX - box.minX) * input.videoWidth, (box.maxY - box.minY) * input.videoHeight);
+    checks.push(
+      spanPx / shorter >= SETUP_LIMITS.minHandSpan
+        ? check("hand_size", "ok")
+        : check("hand_size", "fix", "Your hand looks small in the picture. Bring it closer to the camera, or the camera closer to your hand."),
+    );
+  }
+
+  if (input.lumaMean === null) checks.push(check("light", "advice", "Checking the light…"));
+  else if (input.lumaMean < SETUP_LIMITS.minLuma) checks.push(check("light", "fix", "The picture is too dark. Turn on a room light or face a window; avoid having a bright window behind your hand."));
+  else if (input.lumaMean > SETUP_LIMITS.maxLuma) checks.push(check("light", "fix", "The picture is washed out. Move out of direct sunlight or turn away from a bright lamp."));
+  else checks.push(check("light", "ok"));
+
+  checks.push(steadiness(input));
+
+  if (MOTIONS[input.motion].joint === "wrist") {
+    const seen = frames.some((f) => f.forearm);
+    checks.push(
+      seen
+        ? check("forearm", "ok")
+        : check(
+            "forearm",
+            "advice",
+            "Move the camera back so your forearm up to the elbow is in the picture. Without it, keep your forearm still on the table and start each movement with the wrist straight.",
+          ),
+    );
+  }
+
+  checks.push(
+    input.gravitySource === "sensor"
+      ? check("upright", "ok")
+      : check("upright", "advice", "Stand the camera or laptop upright on a steady surface, not tilted, so that down in the picture is down in the room."),
+  );
+  return checks;
+}
+
+function steadiness(input: SetupInput): SetupCheck {
+  const { frames } = input;
+  if (frames.length < SETUP_LIMITS.minFrames) return check("steady", "advice", "Hold still for a moment while tracking starts…");
+  const withHand = frames.filter((f) => f.image);
+  const detectionRate = withHand.length / frames.length;
+  const meanScore = frames.reduce((sum, f) => sum + (f.image ? f.score : 0), 0) / frames.length;
+  if (detectionRate < SETUP_LIMITS.minDetectionRate || meanScore < SETUP_LIMITS.minMeanScore) {
+    return check("steady", "fix", "The camera keeps losing your hand. Keep it in the picture against a plain background, and keep other hands and faces out of view.");
+  }
+  const wrists = withHand.map((f) => f.image![0]);
+  const aspect = input.videoWidth && input.videoHeight ? input.videoWidth / input.videoHeight : 4 / 3;
+  let travel = 0;
+  for (const [x, y] of wrists) {
+    // Distance in units of the picture's diagonal, with x scaled by the aspect ratio so both axes count alike.
+    const dx = (x - wrists[0][0]) * aspect;
+    const dy = y - wrists[0][1];
+    travel = Math.max(travel, Math.hypot(dx, dy) / Math.hypot(aspect, 1));
+  }
+  return travel <= SETUP_LIMITS.maxWristTravel ? check("steady", "ok") : check("steady", "fix", "Rest your forearm on the table and hold your hand still in the starting position.");
+}
+
+/** True when nothing blocks the attempt (advice may remain). */
+export function readyToStart(checks: readonly SetupCheck[]): boolean {
+  return checks.every((c) => c.status !== "fix");
+}
