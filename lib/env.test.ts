@@ -38,7 +38,31 @@ describe("readEnv", () => {
         LIVEKIT_URL: "wss://video.example.org",
         LIVEKIT_API_KEY: "key",
         LIVEKIT_API_SECRET: LOCAL_DEFAULTS.DEV_LIVEKIT_SECRET,
+        STRIPE_SECRET_KEY: "sk_live_example",
+        STRIPE_WEBHOOK_SECRET: "whsec_example",
       }),
     ).toThrowError(/LIVEKIT_API_SECRET/);
+  });
+
+  it("refuses the payment stand-in's keys in production and asks for S3 settings when S3 storage is chosen", () => {
+    const production = {
+      KINARC_DEPLOYMENT: "production",
+      DATABASE_URL: "libsql://db.example.org",
+      AUTH_SECRET: "s".repeat(40),
+      APP_URL: "https://kinarc.example.org",
+      SMTP_URL: "smtps://mail.example.org",
+      LIVEKIT_URL: "wss://video.example.org",
+      LIVEKIT_API_KEY: "key",
+      LIVEKIT_API_SECRET: "v".repeat(40),
+      STRIPE_SECRET_KEY: LOCAL_DEFAULTS.DEV_STRIPE_SECRET_KEY,
+      STRIPE_WEBHOOK_SECRET: "whsec_example",
+    };
+    expect(() => readEnv(production)).toThrowError(/STRIPE_SECRET_KEY/);
+    expect(() => readEnv({ ...production, STRIPE_SECRET_KEY: undefined })).toThrowError(/STRIPE_SECRET_KEY: missing/);
+    const ok = readEnv({ ...production, STRIPE_SECRET_KEY: "sk_live_example" });
+    expect(ok.STRIPE_API_URL).toBeUndefined();
+    expect(() => readEnv({ KINARC_DEPLOYMENT: "local", AUTH_SECRET: "x".repeat(40), STORAGE_DRIVER: "s3", S3_BUCKET: "b" })).toThrowError(
+      /S3_ACCESS_KEY_ID: missing/,
+    );
   });
 });

@@ -16,6 +16,12 @@ const DEV_LIVEKIT_KEY = "devkey";
 // Development-only signing secret for the local media server; a production deployment must not use it.
 const DEV_LIVEKIT_SECRET = "kinarc-local-media-server-development-secret-0001";
 
+// Development-only keys for the local payment stand-in (scripts/payment-fake); production refuses them.
+const DEV_STRIPE_SECRET_KEY = "sk_test_kinarc_local_stand_in";
+const DEV_STRIPE_WEBHOOK_SECRET = "whsec_kinarc_local_stand_in_0001";
+/** Where the local payment stand-in listens unless told otherwise. */
+const DEV_STRIPE_API_URL = "http://localhost:12111";
+
 const deploymentSchema = z.enum(["local", "production"]);
 
 const baseSchema = z.object({
@@ -32,6 +38,17 @@ const baseSchema = z.object({
   LIVEKIT_API_KEY: z.string().min(1),
   LIVEKIT_API_SECRET: z.string().min(32, "must be at least 32 characters"),
   STAFF_IDLE_MINUTES: z.coerce.number().int("must be a whole number of minutes").min(5).max(720),
+  STRIPE_SECRET_KEY: z.string().regex(/^(sk|rk)_(test|live)_/, "must be a Stripe secret key (sk_test_…, sk_live_…)"),
+  STRIPE_WEBHOOK_SECRET: z.string().regex(/^whsec_/, "must be a webhook signing secret (whsec_…)"),
+  /** Unset in production (the SDK's own endpoint); the local stand-in's base URL otherwise. */
+  STRIPE_API_URL: z.url("must be an absolute URL such as http://localhost:12111").optional(),
+  STORAGE_DRIVER: z.enum(["disk", "s3"], { error: 'must be "disk" or "s3"' }),
+  UPLOADS_DIR: z.string().min(1),
+  S3_ENDPOINT: z.url("must be an absolute URL such as https://s3.eu-west-1.amazonaws.com").optional(),
+  S3_REGION: z.string().min(1),
+  S3_BUCKET: z.string().optional(),
+  S3_ACCESS_KEY_ID: z.string().optional(),
+  S3_SECRET_ACCESS_KEY: z.string().optional(),
 });
 
 export type Env = z.infer<typeof baseSchema>;
@@ -72,6 +89,16 @@ export function readEnv(source: Record<string, string | undefined> = process.env
     LIVEKIT_API_KEY: source.LIVEKIT_API_KEY ?? (local ? DEV_LIVEKIT_KEY : undefined),
     LIVEKIT_API_SECRET: source.LIVEKIT_API_SECRET ?? (local ? DEV_LIVEKIT_SECRET : undefined),
     STAFF_IDLE_MINUTES: source.STAFF_IDLE_MINUTES ?? "30",
+    STRIPE_SECRET_KEY: source.STRIPE_SECRET_KEY ?? (local ? DEV_STRIPE_SECRET_KEY : undefined),
+    STRIPE_WEBHOOK_SECRET: source.STRIPE_WEBHOOK_SECRET ?? (local ? DEV_STRIPE_WEBHOOK_SECRET : undefined),
+    STRIPE_API_URL: source.STRIPE_API_URL || (local ? DEV_STRIPE_API_URL : undefined),
+    STORAGE_DRIVER: source.STORAGE_DRIVER ?? "disk",
+    UPLOADS_DIR: source.UPLOADS_DIR ?? path.join(dataDir(), "uploads"),
+    S3_ENDPOINT: source.S3_ENDPOINT || undefined,
+    S3_REGION: source.S3_REGION ?? "us-east-1",
+    S3_BUCKET: source.S3_BUCKET || undefined,
+    S3_ACCESS_KEY_ID: source.S3_ACCESS_KEY_ID || undefined,
+    S3_SECRET_ACCESS_KEY: source.S3_SECRET_ACCESS_KEY || undefined,
   };
   const parsed = baseSchema.safeParse(raw);
   if (!parsed.success) {
@@ -85,6 +112,13 @@ export function readEnv(source: Record<string, string | undefined> = process.env
   if (!local && parsed.data.LIVEKIT_API_SECRET === DEV_LIVEKIT_SECRET) {
     throw new EnvError("LIVEKIT_API_SECRET: the development secret is not allowed when KINARC_DEPLOYMENT=production");
   }
+  if (!local && (parsed.data.STRIPE_SECRET_KEY === DEV_STRIPE_SECRET_KEY || parsed.data.STRIPE_WEBHOOK_SECRET === DEV_STRIPE_WEBHOOK_SECRET)) {
+    throw new EnvError("STRIPE_SECRET_KEY / STRIPE_WEBHOOK_SECRET: the local stand-in's keys are not allowed when KINARC_DEPLOYMENT=production");
+  }
+  if (parsed.data.STORAGE_DRIVER === "s3") {
+    const missing = (["S3_BUCKET", "S3_ACCESS_KEY_ID", "S3_SECRET_ACCESS_KEY"] as const).filter((k) => !parsed.data[k]);
+    if (missing.length) throw new EnvError(`Kinarc cannot start; STORAGE_DRIVER=s3 also needs:\n  ${missing.map((k) => `${k}: missing`).join("\n  ")}`);
+  }
   return parsed.data;
 }
 
@@ -96,4 +130,10 @@ export function env(): Env {
   return cached;
 }
 
-export const LOCAL_DEFAULTS = { DEV_LIVEKIT_KEY, DEV_LIVEKIT_SECRET } as const;
+export const LOCAL_DEFAULTS = {
+  DEV_LIVEKIT_KEY,
+  DEV_LIVEKIT_SECRET,
+  DEV_STRIPE_SECRET_KEY,
+  DEV_STRIPE_WEBHOOK_SECRET,
+  DEV_STRIPE_API_URL,
+} as const;
