@@ -37,7 +37,8 @@ export function gravityInCamera(reading: { x: number | null; y: number | null; z
   // camera). The front camera looks out toward the viewer, so its picture's right is the screen's left; the rear
   // camera looks away, along -z, with the screen's right.
   const camera: Vec3 = facing === "user" ? [-sx, -sy, sz] : [sx, -sy, -sz];
-  return camera.map((v) => (Math.abs(v) < 1e-12 ? 0 : v)) as Vec3;
+  const clean = (v: number) => (Math.abs(v) < 1e-12 ? 0 : v);
+  return [clean(camera[0]), clean(camera[1]), clean(camera[2])];
 }
 
 /** Angle in degrees between the picture's down direction and true down: 0 for a camera held upright. */
