@@ -1,5 +1,5 @@
 import { relations, sql } from "drizzle-orm";
-import { blob, index, integer, primaryKey, real, sqliteTable, text } from "drizzle-orm/sqlite-core";
+import { blob, index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 
 // Every timestamp is stored as UTC milliseconds since the epoch; dates without a time (birth dates, precaution
 // windows) are ISO 8601 `YYYY-MM-DD` strings.
@@ -467,3 +467,158 @@ export type GradeEntry = typeof gradeEntries.$inferSelect;
 export type PassiveRange = typeof passiveRanges.$inferSelect;
 export type Consent = typeof consents.$inferSelect;
 export type StrengthReading = typeof strengthReadings.$inferSelect;
+
+// ---------------------------------------------------------------------------------------------------------------
+// Uploads, payments and safeguards.
+
+export const UPLOAD_KINDS = ["clip", "document"] as const;
+export type UploadKind = (typeof UPLOAD_KINDS)[number];
+
+/**
+ * A file a client or staff member sent: a short clip of a motion or a document (referral letter, photo). The bytes
+ * live in the storage backend (lib/storage) under `storageKey`; the type is the one found from the content, never
+ * the name. `uploadUid` is chosen by the sending browser so a retried upload is stored once.
+ */
+export const uploads = sqliteTable(
+  "uploads",
+  {
+    id: id(),
+    uploadUid: text("upload_uid").notNull().unique(),
+    clinicId: text("clinic_id")
+      .notNull()
+      .references(() => clinics.id, { onDelete: "restrict" }),
+    clientId: text("client_id")
+      .notNull()
+      .references(() => clients.id, { onDelete: "cascade" }),
+    kind: text("kind", { enum: UPLOAD_KINDS }).notNull(),
+    /** Detected from the magic bytes, e.g. video/webm, application/pdf. */
+    mediaType: text("media_type").notNull(),
+    extension: text("extension").notNull(),
+    /** The sender's file name, for display only. */
+    originalName: text("original_name").notNull(),
+    bytes: integer("bytes").notNull(),
+    sha256: text("sha256").notNull(),
+    storageKey: text("storage_key").notNull(),
+    note: text("note").notNull().default(""),
+    /** Clips: the motion the client meant to show (lib/motions ids). */
+    motion: text("motion"),
+    side: text("side", { enum: SIDES }),
+    digit: text("digit", { enum: DIGIT_NAMES }),
+    /** Clips: the attempt made by analyzing the clip, once analyzed. */
+    attemptId: text("attempt_id").references(() => attempts.id, { onDelete: "set null" }),
+    uploadedByUserId: text("uploaded_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    uploadedByRole: text("uploaded_by_role").notNull(),
+    reviewedAt: integer("reviewed_at", { mode: "timestamp_ms" }),
+    reviewedByUserId: text("reviewed_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index("uploads_client_idx").on(t.clientId, t.createdAt),
+    index("uploads_clinic_idx").on(t.clinicId),
+    index("uploads_attempt_idx").on(t.attemptId),
+    index("uploads_uploader_idx").on(t.uploadedByUserId),
+    index("uploads_reviewer_idx").on(t.reviewedByUserId),
+  ],
+);
+
+/** The self-pay price of one visit of a kind, in the currency's minor unit (cents). One row per clinic and kind. */
+export const visitPrices = sqliteTable(
+  "visit_prices",
+  {
+    id: id(),
+    clinicId: text("clinic_id")
+      .notNull()
+      .references(() => clinics.id, { onDelete: "cascade" }),
+    visitKind: text("visit_kind", { enum: VISIT_KINDS }).notNull(),
+    amountMinor: integer("amount_minor").notNull(),
+    /** ISO 4217, lower case as the payment service writes it (e.g. "usd", "eur"). */
+    currency: text("currency").notNull(),
+    label: text("label").notNull(),
+    updatedByUserId: text("updated_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [uniqueIndex("visit_prices_clinic_kind_idx").on(t.clinicId, t.visitKind), index("visit_prices_updater_idx").on(t.updatedByUserId)],
+);
+
+export const PAYMENT_STATUSES = ["pending", "paid", "refunded", "expired"] as const;
+export type PaymentStatus = (typeof PAYMENT_STATUSES)[number];
+
+/**
+ * One checkout for one visit. Kinarc keeps only the payment service's ids and the amount: no card data ever reaches
+ * it. The status moves only on signed webhooks (and the admin's refund), never on the browser's word.
+ */
+export const payments = sqliteTable(
+  "payments",
+  {
+    id: id(),
+    clinicId: text("clinic_id")
+      .notNull()
+      .references(() => clinics.id, { onDelete: "restrict" }),
+    visitId: text("visit_id")
+      .notNull()
+      .references(() => visits.id, { onDelete: "restrict" }),
+    clientId: text("client_id")
+      .notNull()
+      .references(() => clients.id, { onDelete: "restrict" }),
+    amountMinor: integer("amount_minor").notNull(),
+    currency: text("currency").notNull(),
+    status: text("status", { enum: PAYMENT_STATUSES }).notNull().default("pending"),
+    checkoutSessionId: text("checkout_session_id").notNull().unique(),
+    checkoutUrl: text("checkout_url"),
+    paymentIntentId: text("payment_intent_id"),
+    refundId: text("refund_id"),
+    paidAt: integer("paid_at", { mode: "timestamp_ms" }),
+    refundedAt: integer("refunded_at", { mode: "timestamp_ms" }),
+    receiptSentAt: integer("receipt_sent_at", { mode: "timestamp_ms" }),
+    createdByUserId: text("created_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    index("payments_visit_idx").on(t.visitId),
+    index("payments_client_idx").on(t.clientId),
+    index("payments_clinic_idx").on(t.clinicId, t.status),
+    index("payments_creator_idx").on(t.createdByUserId),
+  ],
+);
+
+/** Webhook events already handled, so a redelivered event changes nothing twice. */
+export const paymentEvents = sqliteTable("payment_events", {
+  eventId: text("event_id").primaryKey(),
+  type: text("type").notNull(),
+  receivedAt: integer("received_at", { mode: "timestamp_ms" }).notNull(),
+});
+
+/** Staff activity for sign-out after inactivity (STAFF_IDLE_MINUTES), touched by the guard at most once a minute. */
+export const staffActivity = sqliteTable("staff_activity", {
+  userId: text("user_id")
+    .primaryKey()
+    .references(() => users.id, { onDelete: "cascade" }),
+  lastActiveAt: integer("last_active_at", { mode: "timestamp_ms" }).notNull(),
+});
+
+/** A client's erasure on request: when, by whom, and what was removed and kept (counts), for the clinic's records. */
+export const clientErasures = sqliteTable(
+  "client_erasures",
+  {
+    id: id(),
+    clinicId: text("clinic_id")
+      .notNull()
+      .references(() => clinics.id, { onDelete: "restrict" }),
+    clientId: text("client_id")
+      .notNull()
+      .unique()
+      .references(() => clients.id, { onDelete: "restrict" }),
+    requestedAt: integer("requested_at", { mode: "timestamp_ms" }).notNull(),
+    erasedAt: integer("erased_at", { mode: "timestamp_ms" }).notNull(),
+    erasedByUserId: text("erased_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    summary: text("summary", { mode: "json" }).$type<Record<string, unknown>>().notNull(),
+  },
+  (t) => [index("client_erasures_clinic_idx").on(t.clinicId), index("client_erasures_by_idx").on(t.erasedByUserId)],
+);
+
+export type Upload = typeof uploads.$inferSelect;
+export type VisitPrice = typeof visitPrices.$inferSelect;
+export type Payment = typeof payments.$inferSelect;
+export type ClientErasure = typeof clientErasures.$inferSelect;
