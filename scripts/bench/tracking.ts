@@ -38,7 +38,7 @@ async function main() {
     const page = await openHarnessPage(browser, server, { model, thread, forearm });
     // Warm-up: the first frames include wasm compilation and graph start-up.
     const warm = await waitForFrames(page, 30);
-    const from = { frames: warm.frames.length, timings: warm.timings.length, at: performance.now() };
+    const from = { frames: warm.frames.length, timings: warm.timings.length, longTasks: warm.longTasksMs.length, at: performance.now() };
     await page.waitForTimeout(seconds * 1000);
     const state = await readHarness(page);
     const elapsedS = (performance.now() - from.at) / 1000;
@@ -58,6 +58,8 @@ async function main() {
     console.log(`  transfer + loop (ms)       median ${fmt(percentile(overhead, 50))}  p90 ${fmt(percentile(overhead, 90))}`);
     console.log(`  models ready after (ms)    ${fmt(state.trackerReadyMs ?? NaN)}`);
     console.log(`  first tracked frame (ms)   ${fmt(state.firstHandMs ?? NaN)} after the camera was asked for`);
+    const longTasks = state.longTasksMs.filter((_, i) => i >= from.longTasks);
+    console.log(`  main-thread tasks > 50 ms  ${longTasks.length} while tracking${longTasks.length ? `, longest ${fmt(Math.max(...longTasks))} ms` : ""}`);
     console.log(`  skipped camera frames      ${state.stats?.skippedFrames ?? 0}, frame interval now ${fmt(state.stats?.frameIntervalMs ?? NaN)} ms`);
   } finally {
     await browser.close();

@@ -9,16 +9,21 @@ export interface FrameGovernorOptions {
   maxBusyShare: number;
 }
 
-// Camera frames arrive with jitter around their nominal spacing; without slack a 30 fps camera capped at 30 fps
-// would lose every frame that came a millisecond early.
-const ARRIVAL_SLACK = 0.85;
+// The rate cap is a budget of frames that refills at the capped rate, rather than a minimum gap between two frames:
+// browsers deliver video frames at uneven spacing (and not always at the camera's rate), and a per-gap rule would drop
+// every frame that came a little early, halving the rate. A worker may catch up by a frame; the main thread may not,
+// so two costly detections never run back to back there.
+const WORKER_BURST_FRAMES = 2;
+const MAIN_THREAD_BURST_FRAMES = 1;
 // Weight of the newest frame in the running cost average: reacts within a few frames, ignores one slow frame.
 const COST_SMOOTHING = 0.2;
 
 export class FrameGovernor {
   private readonly minIntervalMs: number;
   private readonly maxBusyShare: number;
-  private lastStartMs = -Infinity;
+  private readonly burstFrames: number;
+  private credit: number;
+  private lastRefillMs: number | null = null;
   private inFlight = false;
   private costMs: number | null = null;
   intervalMs: number;
@@ -31,6 +36,8 @@ export class FrameGovernor {
     this.minIntervalMs = 1000 / maxFps;
     this.maxBusyShare = maxBusyShare;
     this.intervalMs = this.minIntervalMs;
+    this.burstFrames = maxBusyShare < 1 ? MAIN_THREAD_BURST_FRAMES : WORKER_BURST_FRAMES;
+    this.credit = this.burstFrames;
   }
 
   get busy(): boolean {
@@ -39,12 +46,16 @@ export class FrameGovernor {
 
   /** Call for every frame that arrives; true means process it now (and call `end` when done). */
   tryBegin(nowMs: number): boolean {
-    if (this.inFlight || nowMs - this.lastStartMs < this.intervalMs * ARRIVAL_SLACK) {
+    if (this.lastRefillMs !== null) {
+      this.credit = Math.min(this.burstFrames, this.credit + Math.max(0, nowMs - this.lastRefillMs) / this.intervalMs);
+    }
+    this.lastRefillMs = nowMs;
+    if (this.inFlight || this.credit < 1) {
       this.skipped++;
       return false;
     }
+    this.credit -= 1;
     this.inFlight = true;
-    this.lastStartMs = nowMs;
     return true;
   }
 

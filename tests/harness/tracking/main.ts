@@ -28,6 +28,8 @@ export interface HarnessState {
   frames: TrackedFrame[];
   timings: FrameTiming[];
   stats: TrackerStats | null;
+  /** Durations of main-thread tasks over 50 ms (the Long Tasks API's threshold) since the page started. */
+  longTasksMs: number[];
 }
 
 declare global {
@@ -50,8 +52,15 @@ const state: HarnessState = {
   frames: [],
   timings: [],
   stats: null,
+  longTasksMs: [],
 };
 window.kinarcHarness = state;
+// A frozen page shows up as long main-thread tasks; the benchmark reports them.
+if (PerformanceObserver.supportedEntryTypes?.includes("longtask")) {
+  new PerformanceObserver((list) => {
+    for (const entry of list.getEntries()) state.longTasksMs.push(entry.duration);
+  }).observe({ type: "longtask", buffered: true });
+}
 const statusLine = document.getElementById("status")!;
 const video = document.getElementById("source") as HTMLVideoElement;
 
