@@ -223,3 +223,13 @@ export function clientProgress(chart: ChartData): ClientProgress {
     }),
   };
 }
+
+/** Today's date (YYYY-MM-DD) in a time zone: precaution dates are calendar days where the clinic is. */
+export function todayInZone(timeZone: string, now = new Date()): string {
+  return new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" }).format(now);
+}
+
+export async function clinicToday(db: DbOrTx, clinicId: string, now = new Date()): Promise<string> {
+  const [clinic] = await db.select({ timezone: clinics.timezone }).from(clinics).where(eq(clinics.id, clinicId));
+  return todayInZone(clinic?.timezone ?? "UTC", now);
+}
