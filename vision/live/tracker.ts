@@ -90,8 +90,18 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
 
   const emit = (step: DetectionStep, t: number, grabbedAt: number) => {
     const timing: FrameTiming = { t, landmarksMs: step.landmarksMs, poseMs: step.poseMs, roundTripMs: performance.now() - grabbedAt };
-    for (const listener of frameListeners) listener(step.frame);
-    for (const listener of timingListeners) listener(timing);
+    // One failing consumer (a pipeline, the overlay) must neither stop the loop nor keep the others from the frame.
+    const deliver = <T,>(listeners: Set<(value: T) => void>, value: T) => {
+      for (const listener of listeners) {
+        try {
+          listener(value);
+        } catch (error) {
+          console.error("tracking: a frame listener failed", error);
+        }
+      }
+    };
+    deliver(frameListeners, step.frame);
+    deliver(timingListeners, timing);
   };
 
   const onVideoFrame = (video: HTMLVideoElement, nowMs: number, mediaTimeS: number | null) => {
