@@ -79,6 +79,7 @@ export class CaptureOutbox {
   private flushing: Promise<void> | null = null;
   private again = false;
   private readonly listeners = new Set<() => void>();
+  private readonly savedListeners = new Set<(entry: OutboxEntry, response: CaptureSaveResponse) => void>();
 
   constructor(private readonly options: OutboxOptions) {
     this.now = options.now ?? Date.now;
@@ -97,6 +98,12 @@ export class CaptureOutbox {
   subscribe(listener: () => void): () => void {
     this.listeners.add(listener);
     return () => this.listeners.delete(listener);
+  }
+
+  /** Called with the server's answer each time a capture is confirmed. */
+  onSaved(listener: (entry: OutboxEntry, response: CaptureSaveResponse) => void): () => void {
+    this.savedListeners.add(listener);
+    return () => this.savedListeners.delete(listener);
   }
 
   private changed(): void {
@@ -144,6 +151,7 @@ export class CaptureOutbox {
       if (outcome.kind === "saved") {
         await this.options.store.delete(entry.captureUid);
         this.options.onSaved?.(entry, outcome.response);
+        for (const listener of this.savedListeners) listener(entry, outcome.response);
       } else {
         const tries = entry.tries + 1;
         await this.options.store.put({

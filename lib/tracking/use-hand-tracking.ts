@@ -1,0 +1,233 @@
+"use client";
+
+/**
+ * Camera → live tracker (vision/live) → the measurement engine's live pipeline, as a React hook. Exposes the latest
+ * frame, angle, quality, plane verdict, repetition state and frame rate, runs the set-up checks, and records frames
+ * into a capture file (format v1) between `startRecording` and `stopRecording`. Everything is released on unmount.
+ */
+import { useCallback, useEffect, useLayoutEffect, useRef, useState, type RefObject } from "react";
+import type { CaptureFile } from "@/lib/capture/schema";
+import { MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
+import { createLivePipeline, type LivePipeline, type LiveUpdate } from "@/vision/pipeline";
+import type { HandTracker } from "@/vision/live/tracker";
+import type { ModelVariant, TrackedFrame } from "@/vision/live/types";
+import type { Vec3 } from "@/vision/vec";
+import { CaptureRecorder } from "./capture-recorder";
+import { gravityInCamera, type CameraFacing } from "./gravity";
+import { meanLuma, runSetupChecks, type SetupCheck } from "./setup-checks";
+
+export interface HandTrackingOptions {
+  motion: MotionId;
+  side: Side;
+  digit: Digit | null;
+  condition: Condition;
+  videoRef: RefObject<HTMLVideoElement | null>;
+  /** Camera and tracker run only while true. */
+  enabled: boolean;
+  facing?: CameraFacing;
+  handModel?: ModelVariant;
+  /** The preview is shown mirrored (the usual selfie view); only affects the wording of the set-up checks. */
+  displayMirrored?: boolean;
+}
+
+export interface HandTrackingState {
+  status: "idle" | "starting" | "running" | "failed";
+  error: string | null;
+  thread: "worker" | "main" | null;
+  frame: TrackedFrame | null;
+  update: LiveUpdate | null;
+  /** Processed frames per second over the last second. */
+  fps: number;
+  videoWidth: number;
+  videoHeight: number;
+  lumaMean: number | null;
+  gravity: Vec3 | null;
+  checks: SetupCheck[];
+  recording: boolean;
+  recordedFrames: number;
+}
+
+const CHECK_WINDOW_MS = 1500;
+const LUMA_EVERY_MS = 500;
+// A sensor reading older than this no longer describes how the device is held.
+const GRAVITY_FRESH_MS = 2000;
+
+const INITIAL: HandTrackingState = {
+  status: "idle",
+  error: null,
+  thread: null,
+  frame: null,
+  update: null,
+  fps: 0,
+  videoWidth: 0,
+  videoHeight: 0,
+  lumaMean: null,
+  gravity: null,
+  checks: [],
+  recording: false,
+  recordedFrames: 0,
+};
+
+function cameraError(error: unknown): string {
+  const name = error instanceof DOMException ? error.name : "";
+  if (name === "NotAllowedError" || name === "SecurityError") return "The camera was not allowed. Allow camera access for this site in your browser's settings, then try again.";
+  if (name === "NotFoundError" || name === "OverconstrainedError") return "No camera was found. Connect a camera, or use a phone or laptop that has one.";
+  if (name === "NotReadableError") return "The camera is in use by another app. Close the other app, then try again.";
+  return `Hand tracking could not start: ${error instanceof Error ? error.message : String(error)}`;
+}
+
+export function useHandTracking(options: HandTrackingOptions) {
+  const { motion, side, digit, condition, videoRef, enabled, facing = "user", handModel = "lite", displayMirrored = true } = options;
+  const [state, setState] = useState<HandTrackingState>(INITIAL);
+
+  const pipelineRef = useRef<LivePipeline | null>(null);
+  const recorderRef = useRef<CaptureRecorder | null>(null);
+  const recentRef = useRef<TrackedFrame[]>([]);
+  const frameTimesRef = useRef<number[]>([]);
+  const lumaRef = useRef<number | null>(null);
+  const gravityRef = useRef<{ at: number; value: Vec3 } | null>(null);
+  const targetRef = useRef({ motion, side, digit, condition });
+  useLayoutEffect(() => {
+    targetRef.current = { motion, side, digit, condition };
+  }, [motion, side, digit, condition]);
+
+  const freshGravity = () => {
+    const g = gravityRef.current;
+    return g && performance.now() - g.at <= GRAVITY_FRESH_MS ? g.value : null;
+  };
+
+  const newPipeline = useCallback(() => {
+    const t = targetRef.current;
+    pipelineRef.current = createLivePipeline({ ...t, gravity: freshGravity() });
+  }, []);
+
+  // A new motion or side starts a fresh reading.
+  useEffect(() => {
+    newPipeline();
+  }, [motion, side, digit, condition, newPipeline]);
+
+  useEffect(() => {
+    if (!enabled) return;
+    const video = videoRef.current;
+    if (!video) return;
+    let cancelled = false;
+    let stream: MediaStream | null = null;
+    let tracker: HandTracker | null = null;
+    let lumaTimer: ReturnType<typeof setInterval> | null = null;
+    const sampler = document.createElement("canvas");
+    sampler.width = 32;
+    sampler.height = 24;
+    const samplerCtx = sampler.getContext("2d", { willReadFrequently: true });
+
+    const onMotion = (event: DeviceMotionEvent) => {
+      const screenAngle = typeof screen !== "undefined" && screen.orientation ? screen.orientation.angle : 0;
+      const g = gravityInCamera(event.accelerationIncludingGravity, facing, screenAngle);
+      if (g) gravityRef.current = { at: performance.now(), value: g };
+    };
+    window.addEventListener("devicemotion", onMotion);
+
+    const onFrame = (frame: TrackedFrame) => {
+      if (cancelled) return;
+      const now = performance.now();
+      const times = frameTimesRef.current;
+      times.push(now);
+      while (times.length && now - times[0] > 1000) times.shift();
+      const recent = recentRef.current;
+      recent.push(frame);
+      while (recent.length && frame.t - recent[0].t > CHECK_WINDOW_MS) recent.shift();
+
+      const update = pipelineRef.current?.push({ t: frame.t, score: frame.score, hand: frame.hand, forearm: frame.forearm ?? null }) ?? null;
+      recorderRef.current?.push(frame);
+      const gravity = freshGravity();
+      const t = targetRef.current;
+      const checks = runSetupChecks({
+        frames: recent,
+        side: t.side,
+        motion: t.motion,
+        lumaMean: lumaRef.current,
+        videoWidth: video.videoWidth,
+        videoHeight: video.videoHeight,
+        displayMirrored,
+        gravitySource: gravity ? "sensor" : "none",
+      });
+      setState((s) => ({
+        ...s,
+        frame,
+        update,
+        fps: times.length,
+        videoWidth: video.videoWidth,
+        videoHeight: video.videoHeight,
+        lumaMean: lumaRef.current,
+        gravity,
+        checks,
+        recordedFrames: recorderRef.current?.frameCount ?? 0,
+      }));
+    };
+
+    (async () => {
+      setState((s) => ({ ...s, status: "starting", error: null }));
+      const { createHandTracker } = await import("@/vision/live/tracker");
+      const trackerReady = createHandTracker({ handModel, forearm: MOTIONS[targetRef.current.motion].joint === "wrist" });
+      stream = await navigator.mediaDevices.getUserMedia({ video: { facingMode: facing, width: { ideal: 640 }, height: { ideal: 480 } }, audio: false });
+      if (cancelled) return;
+      video.srcObject = stream;
+      video.muted = true;
+      video.playsInline = true;
+      await video.play();
+      if (video.readyState < 2) await new Promise((resolve) => video.addEventListener("loadeddata", resolve, { once: true }));
+      tracker = await trackerReady;
+      if (cancelled) return;
+      await tracker.warmUp(video);
+      if (cancelled) return;
+      tracker.subscribe(onFrame);
+      tracker.start(video);
+      lumaTimer = setInterval(() => {
+        if (!samplerCtx || video.readyState < 2) return;
+        samplerCtx.drawImage(video, 0, 0, sampler.width, sampler.height);
+        lumaRef.current = meanLuma(samplerCtx.getImageData(0, 0, sampler.width, sampler.height).data);
+      }, LUMA_EVERY_MS);
+      setState((s) => ({ ...s, status: "running", thread: tracker!.thread }));
+    })().catch((error: unknown) => {
+      if (!cancelled) setState((s) => ({ ...s, status: "failed", error: cameraError(error) }));
+    });
+
+    return () => {
+      cancelled = true;
+      window.removeEventListener("devicemotion", onMotion);
+      if (lumaTimer) clearInterval(lumaTimer);
+      tracker?.close();
+      for (const track of stream?.getTracks() ?? []) track.stop();
+      if (video.srcObject === stream) video.srcObject = null;
+      recentRef.current = [];
+      frameTimesRef.current = [];
+      recorderRef.current = null;
+      setState(INITIAL);
+    };
+  }, [enabled, facing, handModel, displayMirrored, videoRef]);
+
+  /** Starts a fresh reading (repetitions counted from here) and records every frame until `stopRecording`. */
+  const startRecording = useCallback(() => {
+    newPipeline();
+    const t = targetRef.current;
+    recorderRef.current = new CaptureRecorder(t, freshGravity());
+    setState((s) => ({ ...s, recording: true, recordedFrames: 0 }));
+  }, [newPipeline]);
+
+  /** Stops recording; returns the capture file and the engine's summary of the live reading, or null if nothing was recorded. */
+  const stopRecording = useCallback((): { capture: CaptureFile; summary: ReturnType<LivePipeline["summary"]> } | null => {
+    const recorder = recorderRef.current;
+    recorderRef.current = null;
+    setState((s) => ({ ...s, recording: false }));
+    const capture = recorder?.finish() ?? null;
+    const summary = pipelineRef.current?.summary() ?? null;
+    return capture && summary ? { capture, summary } : null;
+  }, []);
+
+  /** iOS asks for permission to read motion sensors, and only from a tap: call this from a button's handler. */
+  const requestMotionSensors = useCallback(async () => {
+    const request = (globalThis.DeviceMotionEvent as unknown as { requestPermission?: () => Promise<string> } | undefined)?.requestPermission;
+    if (typeof request === "function") await request().catch(() => "denied");
+  }, []);
+
+  return { ...state, startRecording, stopRecording, requestMotionSensors };
+}
