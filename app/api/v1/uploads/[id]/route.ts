@@ -1,0 +1,30 @@
+import { NextResponse } from "next/server";
+import { getDb } from "@/db";
+import { markUploadReviewed } from "@/db/queries/uploads";
+import { recordAudit } from "@/lib/audit";
+import { requestAddress } from "@/lib/auth/guard";
+import { readJson, route } from "@/lib/http";
+import { requireUpload, UPLOAD_REVIEW_ROLES, UPLOAD_ROLES } from "@/lib/uploads/access";
+import { uploadJson } from "@/lib/uploads/save";
+import { uploadReviewSchema } from "@/lib/validation/upload";
+
+type Params = { id: string };
+
+export const GET = route<Params>(UPLOAD_ROLES, async ({ actor, request, params }) => {
+  const upload = await requireUpload(actor, params.id, { db: getDb(), address: requestAddress(request.headers), action: "upload.read" });
+  return NextResponse.json(uploadJson(upload));
+});
+
+/** A therapist or assistant marks an upload as reviewed (`{"reviewed": true}`). */
+export const PATCH = route<Params>(UPLOAD_REVIEW_ROLES, async ({ actor, request, params }) => {
+  const db = getDb();
+  const address = requestAddress(request.headers);
+  const upload = await requireUpload(actor, params.id, { db, address, action: "upload.read" });
+  uploadReviewSchema.parse(await readJson(request));
+  await db.transaction(async (tx) => {
+    await markUploadReviewed(tx, upload.id, actor.userId);
+    await recordAudit(tx, { action: "upload.review", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role, subjectType: "upload", subjectId: upload.id, clientId: upload.clientId, address });
+  });
+  const after = await requireUpload(actor, params.id, { db, address, action: "upload.read" });
+  return NextResponse.json(uploadJson(after));
+});

@@ -1,0 +1,53 @@
+import { and, asc, desc, eq, isNull, sql, type SQL } from "drizzle-orm";
+import type { DbOrTx } from "@/db";
+import { clients, uploads, users, type Upload, type UploadKind } from "@/db/schema";
+
+export async function getUploadByUid(db: DbOrTx, uploadUid: string): Promise<Upload | null> {
+  const [row] = await db.select().from(uploads).where(eq(uploads.uploadUid, uploadUid));
+  return row ?? null;
+}
+
+/** One upload of the clinic, or null (another clinic's upload is treated as missing). */
+export async function getUpload(db: DbOrTx, clinicId: string, uploadId: string): Promise<Upload | null> {
+  const [row] = await db
+    .select()
+    .from(uploads)
+    .where(and(eq(uploads.id, uploadId), eq(uploads.clinicId, clinicId)));
+  return row ?? null;
+}
+
+export async function createUpload(db: DbOrTx, row: typeof uploads.$inferInsert): Promise<Upload> {
+  const [created] = await db.insert(uploads).values(row).returning();
+  return created;
+}
+
+/** The clinic's uploads, unreviewed first then newest first, with the client's and sender's names. */
+export async function listUploads(db: DbOrTx, clinicId: string, f: { clientId?: string; kind?: UploadKind; limit?: number }) {
+  const where: SQL[] = [eq(uploads.clinicId, clinicId)];
+  if (f.clientId) where.push(eq(uploads.clientId, f.clientId));
+  if (f.kind) where.push(eq(uploads.kind, f.kind));
+  return db
+    .select({
+      upload: uploads,
+      clientGiven: clients.givenName,
+      clientFamily: clients.familyName,
+      uploaderName: users.name,
+    })
+    .from(uploads)
+    .innerJoin(clients, eq(clients.id, uploads.clientId))
+    .leftJoin(users, eq(users.id, uploads.uploadedByUserId))
+    .where(and(...where))
+    .orderBy(sql`${uploads.reviewedAt} is not null`, desc(uploads.createdAt), asc(uploads.id))
+    .limit(f.limit ?? 200);
+}
+
+export async function markUploadReviewed(db: DbOrTx, uploadId: string, userId: string): Promise<void> {
+  await db
+    .update(uploads)
+    .set({ reviewedAt: new Date(), reviewedByUserId: userId })
+    .where(and(eq(uploads.id, uploadId), isNull(uploads.reviewedAt)));
+}
+
+export async function listClientUploads(db: DbOrTx, clientId: string): Promise<Upload[]> {
+  return db.select().from(uploads).where(eq(uploads.clientId, clientId)).orderBy(asc(uploads.createdAt));
+}
