@@ -72,7 +72,7 @@ describe("content checks", () => {
     await expect(inspectUpload("document", new Uint8Array(0), "empty.pdf")).rejects.toThrow(/is empty/);
     const big = new Uint8Array(UPLOAD_RULES.document.maxBytes + 1);
     big.set(await pdfBytes());
-    const tooBig = await inspectUpload("document", big, "scan.pdf").catch((e: RefusedUpload) => e);
+    const tooBig = (await inspectUpload("document", big, "scan.pdf").catch((e: unknown) => e)) as RefusedUpload;
     expect(tooBig.status).toBe(413);
     expect(tooBig.message).toMatch(/limit for a document is 15 MB/);
   });
