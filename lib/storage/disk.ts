@@ -13,7 +13,7 @@ export class DiskStore implements BlobStore {
     return path.join(this.root, ...key.split("/"));
   }
 
-  async put(key: string, body: Uint8Array, _contentType?: string): Promise<void> {
+  async put(key: string, body: Uint8Array): Promise<void> {
     const target = this.file(key);
     await mkdir(path.dirname(target), { recursive: true });
     const partial = `${target}.${randomUUID()}.partial`;

@@ -8,7 +8,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { auditEvents, clients, clinics, uploads, users } from "@/db/schema";
 import { seedDemo, type SeedResult } from "@/db/seed/demo";
 import { AccessError, actorForUser, requireClientRecord, type Actor } from "@/lib/auth/guard";
-import { DiskStore } from "@/lib/storage";
+import { DiskStore, type BlobStore } from "@/lib/storage";
 import { requireUpload } from "@/lib/uploads/access";
 import { inspectUpload, RefusedUpload, UPLOAD_RULES } from "@/lib/uploads/content";
 import { saveUpload, UploadConflict, uploadStorageKey } from "@/lib/uploads/save";
@@ -19,7 +19,7 @@ import { mp4Bytes, pdfBytes, pngBytes, webmBytes } from "./upload-fixtures";
 let t: TempDb;
 let seed: SeedResult;
 let root: string;
-let store: DiskStore;
+let store: BlobStore;
 let dorian: Actor;
 let therapist: Actor;
 
