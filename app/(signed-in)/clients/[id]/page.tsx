@@ -28,7 +28,16 @@ export default async function ClientRecordPage({ params }: { params: Promise<{ i
       <PageTitle
         title={`${record.givenName} ${record.familyName}`}
         subtitle={`Born ${record.dateOfBirth} · ${record.dominantHand}-handed · affected side: ${record.affectedSide}`}
-        action={canEdit ? <ButtonLink href={`/clients/${record.id}/edit`}>Edit record</ButtonLink> : null}
+        action={
+          <div className="flex gap-2">
+            {actor.role === "therapist" || actor.role === "assistant" ? (
+              <ButtonLink variant="quiet" href={`/clients/${record.id}/chart`}>
+                Strength and range chart
+              </ButtonLink>
+            ) : null}
+            {canEdit ? <ButtonLink href={`/clients/${record.id}/edit`}>Edit record</ButtonLink> : null}
+          </div>
+        }
       />
       <div className="grid gap-6 md:grid-cols-[2fr_1fr]">
         <Card title="Referral">
