@@ -7,11 +7,13 @@ const NAV: Record<Role, { href: string; label: string }[]> = {
   therapist: [
     { href: "/home", label: "Today" },
     { href: "/visits", label: "Visits" },
+    { href: "/follow-ups", label: "Follow-ups" },
     { href: "/clients", label: "Clients" },
   ],
   assistant: [
     { href: "/home", label: "My list" },
     { href: "/visits", label: "Visits" },
+    { href: "/follow-ups", label: "Follow-ups" },
     { href: "/clients", label: "Clients" },
   ],
   admin: [
