@@ -13,6 +13,8 @@ function videoOrigins(url) {
 }
 
 const dev = process.env.NODE_ENV === "development";
+// Local deployments (demo, tests) run the media server stand-in on a port of their choosing on this machine.
+const local = e.KINARC_DEPLOYMENT === "local";
 
 // Only Kinarc's own origin and the configured video server. 'wasm-unsafe-eval' lets the hand tracker's WebAssembly
 // run; no third-party origin is listed, so no health data can be sent elsewhere by a script on the page.
@@ -23,7 +25,7 @@ const csp = [
   "img-src 'self' data: blob:",
   "media-src 'self' blob: mediastream:",
   "font-src 'self'",
-  `connect-src 'self' ${videoOrigins(e.LIVEKIT_URL).join(" ")}${dev ? " ws://localhost:* ws://127.0.0.1:*" : ""}`,
+  `connect-src 'self' ${videoOrigins(e.LIVEKIT_URL).join(" ")}${dev || local ? " ws://localhost:* http://localhost:* ws://127.0.0.1:*" : ""}`,
   "worker-src 'self' blob:",
   "frame-ancestors 'none'",
   "object-src 'none'",

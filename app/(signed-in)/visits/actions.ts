@@ -26,7 +26,7 @@ export async function scheduleVisitAction(_prev: FormState, formData: FormData):
   return state.ok ? state : { ...state, values };
 }
 
-export async function cancelVisitAction(visitId: string, _prev: FormState): Promise<FormState> {
+export async function cancelVisitAction(visitId: string): Promise<FormState> {
   const state = await guardedAction(["admin", "therapist"], async (actor) => {
     const db = getDb();
     const visit = await requireVisit(db, actor, visitId, "staff");

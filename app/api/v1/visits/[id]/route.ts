@@ -4,6 +4,7 @@ import type { Visit } from "@/db/schema";
 import { AccessError } from "@/lib/auth/guard";
 import { readJson, route } from "@/lib/http";
 import { changeVisitStatus, requireVisit } from "@/lib/visits/service";
+import { buildVisitSummary } from "@/lib/visits/summary";
 import { visitStatusChangeSchema } from "@/lib/validation/visit";
 
 type Params = { id: string };
@@ -31,6 +32,9 @@ export const PATCH = route<Params>(["admin", "therapist"], async ({ actor, reque
   const input = visitStatusChangeSchema.parse(await readJson(request));
   const visit = await requireVisit(db, actor, params.id, input.status === "cancelled" ? "staff" : "participant");
   if (input.status !== "cancelled" && actor.role !== "therapist") throw new AccessError(403, "Only the visit's therapist can change that.");
-  const updated = await changeVisitStatus(db, actor, visit, input.status, input.notes !== undefined ? { notes: input.notes } : {});
+  const extra: Partial<Visit> = input.notes !== undefined ? { notes: input.notes } : {};
+  // Ending a visit freezes its summary: the attempts kept and the grades they support at that moment.
+  if (input.status === "finished") extra.summary = { ...(await buildVisitSummary(db, { ...visit, ...extra })) };
+  const updated = await changeVisitStatus(db, actor, visit, input.status, extra);
   return NextResponse.json(visitJson(updated));
 });

@@ -1,0 +1,206 @@
+"use client";
+
+import { useEffect, useRef, useState } from "react";
+import { SafetyNote } from "@/components/safety-note";
+import { HandOverlay } from "@/components/tracking/hand-overlay";
+import { browserOutbox, runOutbox } from "@/lib/captures/outbox";
+import { getReferenceEndRange, MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
+import { newCaptureUid } from "@/lib/tracking/capture-recorder";
+import { useHandTracking } from "@/lib/tracking/use-hand-tracking";
+import { encodeTelemetry, type ControlMessage } from "@/lib/visits/telemetry";
+import { useVisitRoom } from "@/lib/visits/use-visit-room";
+import { CONDITION_LABELS } from "./test-picker";
+import { TrackAudio, TrackVideo } from "./track-video";
+
+interface Test {
+  motion: MotionId;
+  side: Side;
+  digit: Digit | null;
+  condition: Condition;
+}
+
+/** Telemetry goes out at most this often: enough for a smooth overlay, well under the data budget. */
+const TELEMETRY_INTERVAL_MS = 66;
+
+/**
+ * The client's side of a video visit. The browser tracks the hand locally and sends the therapist compact telemetry;
+ * it follows the therapist's prompts, and when the therapist keeps an attempt it sends the raw capture through the
+ * outbox (kept in this browser until the server confirms, so a dropped connection loses nothing).
+ */
+export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }: { visitId: string; clientId: string; therapistName: string; when: string; side: Side }) {
+  const video = useRef<HTMLVideoElement>(null);
+  const [test, setTest] = useState<Test>({ motion: "wrist.extension", side, digit: null, condition: "against_gravity" });
+  const [prompted, setPrompted] = useState(false);
+  const [kept, setKept] = useState<string | null>(null);
+  const tracking = useHandTracking({ ...test, videoRef: video, enabled: true, displayMirrored: true });
+  const seq = useRef(0);
+  const lastSent = useRef(0);
+  const peak = useRef<number | null>(null);
+  const trackingRef = useRef(tracking);
+  useEffect(() => {
+    trackingRef.current = tracking;
+  });
+
+  useEffect(() => runOutbox(browserOutbox()), []);
+
+  const onControl = async (m: ControlMessage) => {
+    if (m.type === "prompt") {
+      const next: Test = { motion: m.motion as MotionId, side: m.side, digit: m.digit as Digit | null, condition: m.condition };
+      setTest(next);
+      setPrompted(true);
+      setKept(null);
+      peak.current = null;
+      await room.sendControl({ type: "test", ...next, targetDeg: getReferenceEndRange(next.motion, next.digit)?.endRangeDeg ?? null }).catch(() => undefined);
+      // The attempt starts now; the hook starts a fresh reading for the new test on the next frame.
+      setTimeout(() => trackingRef.current.startRecording(), 0);
+    }
+    if (m.type === "keep") {
+      const result = trackingRef.current.stopRecording();
+      if (!result) {
+        await room.sendControl({ type: "kept", requestId: m.requestId, captureUid: "", attemptId: null, queued: false }).catch(() => undefined);
+        return;
+      }
+      const captureUid = newCaptureUid();
+      const outbox = browserOutbox();
+      const label = `${MOTIONS[result.capture.motion as MotionId]?.label ?? result.capture.motion}, ${result.capture.side}`;
+      let attemptId: string | null = null;
+      const stopWatching = outbox.onSaved((entry, response) => {
+        if (entry.captureUid === captureUid) attemptId = response.attempt.id;
+      });
+      await outbox.enqueue({ captureUid, source: "visit", clientId, visitId, capture: result.capture }, label);
+      await outbox.flush({ force: true });
+      stopWatching();
+      setKept(attemptId ? "Your therapist kept that attempt." : "That attempt is saved on this device and will be sent when the connection is back.");
+      await room.sendControl({ type: "kept", requestId: m.requestId, captureUid, attemptId, queued: attemptId === null }).catch(() => undefined);
+      peak.current = null;
+      trackingRef.current.startRecording();
+    }
+  };
+
+  const room = useVisitRoom(visitId, { onControl: (m) => void onControl(m) });
+
+  // Telemetry: one compact packet per tracked frame, at most every 66 ms.
+  useEffect(() => {
+    const f = tracking.frame;
+    const u = tracking.update;
+    if (!f || room.state.phase !== "connected") return;
+    const now = performance.now();
+    if (now - lastSent.current < TELEMETRY_INTERVAL_MS) return;
+    lastSent.current = now;
+    const angle = u?.smoothedDeg ?? null;
+    if (angle !== null) peak.current = peak.current === null ? angle : Math.max(peak.current, angle);
+    room.sendTelemetry(
+      encodeTelemetry({
+        seq: seq.current++,
+        t: now,
+        angleDeg: angle,
+        peakDeg: peak.current,
+        quality: u?.quality ?? (f.hand ? "ok" : "no_hand"),
+        plane: u?.plane?.verdict ?? null,
+        reps: u?.rep.count ?? 0,
+        repPhase: u?.rep.phase ?? "rest",
+        score: f.score,
+        uncertaintyDeg: u?.uncertaintyDeg ?? null,
+        image: f.image ? f.image.map((p) => [p[0], p[1]] as [number, number]) : null,
+      }),
+    );
+  }, [tracking.frame, tracking.update, room]);
+
+  const join = () => {
+    const stream = video.current?.srcObject as MediaStream | null;
+    void room.join({ videoTrack: stream?.getVideoTracks()[0] });
+  };
+
+  const def = MOTIONS[test.motion];
+  const fixes = tracking.checks.filter((c) => c.status === "fix");
+  const connected = room.state.phase === "connected" || room.state.phase === "reconnecting";
+
+  return (
+    <div className="mx-auto max-w-3xl space-y-4">
+      <header>
+        <h1 className="text-2xl font-semibold">Video visit with {therapistName}</h1>
+        <p className="text-sm text-ink-soft">{when}</p>
+      </header>
+      <div className="relative overflow-hidden rounded-card bg-ink">
+        <video ref={video} aria-label="Your camera" autoPlay playsInline muted className="aspect-[4/3] w-full -scale-x-100 object-cover" />
+        <HandOverlay
+          image={tracking.frame?.image ?? null}
+          videoWidth={tracking.videoWidth}
+          videoHeight={tracking.videoHeight}
+          fit="cover"
+          mirrored
+          motion={test.motion}
+          digit={test.digit}
+          angleDeg={tracking.update?.smoothedDeg ?? null}
+          targetDeg={getReferenceEndRange(test.motion, test.digit)?.endRangeDeg ?? null}
+          faded={tracking.update?.quality !== "ok"}
+        />
+        {room.state.remoteVideo ? (
+          <TrackVideo track={room.state.remoteVideo} label={`${therapistName}'s camera`} className="absolute right-3 top-3 w-28 rounded-lg border-2 border-white md:w-40" />
+        ) : null}
+        <TrackAudio track={room.state.remoteAudio} />
+        {room.state.phase === "reconnecting" ? <p className="absolute inset-x-0 top-0 bg-flag-amber p-2 text-center text-sm text-white">Reconnecting… keep going; nothing is lost.</p> : null}
+      </div>
+      {tracking.error ? (
+        <p role="alert" className="rounded-lg bg-flag-roseBg p-3 text-sm text-flag-rose">
+          {tracking.error}
+        </p>
+      ) : null}
+      {!connected ? (
+        <div className="space-y-3">
+          {room.state.error ? (
+            <p role="alert" className="text-sm text-flag-rose">
+              {room.state.error}
+            </p>
+          ) : null}
+          <p className="text-sm text-ink-soft">
+            {tracking.status === "running" ? "Your camera is on and finds your hand. Join when you are ready; your therapist will guide you." : "Starting your camera…"}
+          </p>
+          <button
+            type="button"
+            onClick={join}
+            disabled={tracking.status !== "running" || room.state.phase === "connecting"}
+            className="w-full rounded-lg bg-tide-600 px-4 py-3 text-base font-semibold text-white disabled:bg-tide-200"
+          >
+            {room.state.phase === "connecting" ? "Joining…" : "Join the visit"}
+          </button>
+        </div>
+      ) : (
+        <section aria-label="What to do now" className="rounded-card border border-sand-200 bg-white p-4">
+          {prompted ? (
+            <>
+              <p className="text-lg font-semibold" data-testid="client-test">
+                {def.label}
+                {test.digit ? `, ${test.digit} finger` : ""} ({test.side}) · {CONDITION_LABELS[test.condition]}
+              </p>
+              <p className="mt-1 text-base">{def.testPosition[test.condition]}</p>
+              <p className="mt-2 text-4xl font-semibold tabular-nums" aria-live="polite">
+                {tracking.update?.smoothedDeg == null ? "—" : `${Math.round(tracking.update.smoothedDeg)}°`}
+              </p>
+              {fixes.length ? (
+                <ul className="mt-2 space-y-1 text-sm text-flag-amber">
+                  {fixes.map((c) => (
+                    <li key={c.id}>{c.instruction}</li>
+                  ))}
+                </ul>
+              ) : null}
+            </>
+          ) : (
+            <p className="text-base" data-testid="client-test">
+              You are connected. {therapistName} will tell you which movement to make.
+            </p>
+          )}
+          {kept ? (
+            <p role="status" className="mt-2 text-sm text-tide-700">
+              {kept}
+            </p>
+          ) : null}
+          <button type="button" onClick={() => void room.leave()} className="mt-4 rounded-lg px-3 py-2 text-sm ring-1 ring-sand-200">
+            Leave the visit
+          </button>
+        </section>
+      )}
+      <SafetyNote compact />
+    </div>
+  );
+}

@@ -1,0 +1,84 @@
+"use client";
+
+import { useState } from "react";
+import { CONDITIONS, MOTION_IDS, MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
+
+export interface TestChoice {
+  motion: MotionId;
+  side: Side;
+  digit: Digit | null;
+  condition: Condition;
+}
+
+export const CONDITION_LABELS: Record<Condition, string> = { against_gravity: "Against gravity", gravity_minimized: "Gravity minimized" };
+
+/** The therapist's choice of the next test: motion, side, digit (for finger motions) and condition. */
+export function TestPicker({ initial, onPrompt, disabled }: { initial: TestChoice; onPrompt: (choice: TestChoice) => void; disabled?: boolean }) {
+  const [choice, setChoice] = useState<TestChoice>(initial);
+  const def = MOTIONS[choice.motion];
+  const set = (patch: Partial<TestChoice>) =>
+    setChoice((c) => {
+      const next = { ...c, ...patch };
+      const digits = MOTIONS[next.motion].digits;
+      if (!digits.length) next.digit = null;
+      else if (!next.digit || !digits.includes(next.digit)) next.digit = digits[0];
+      return next;
+    });
+  const select = "mt-1 block w-full rounded-lg border border-sand-200 bg-white px-2 py-2 text-sm";
+  return (
+    <form
+      className="grid grid-cols-2 gap-3"
+      aria-label="Next test"
+      onSubmit={(e) => {
+        e.preventDefault();
+        onPrompt(choice);
+      }}
+    >
+      <label className="col-span-2 text-sm font-medium">
+        Motion
+        <select className={select} value={choice.motion} onChange={(e) => set({ motion: e.target.value as MotionId })}>
+          {MOTION_IDS.map((id) => (
+            <option key={id} value={id}>
+              {MOTIONS[id].label}
+            </option>
+          ))}
+        </select>
+      </label>
+      <label className="text-sm font-medium">
+        Side
+        <select className={select} value={choice.side} onChange={(e) => set({ side: e.target.value as Side })}>
+          <option value="left">Left</option>
+          <option value="right">Right</option>
+        </select>
+      </label>
+      <label className="text-sm font-medium">
+        Digit
+        <select className={select} value={choice.digit ?? ""} disabled={!def.digits.length} onChange={(e) => set({ digit: e.target.value as Digit })}>
+          {def.digits.length ? (
+            def.digits.map((d) => (
+              <option key={d} value={d}>
+                {d}
+              </option>
+            ))
+          ) : (
+            <option value="">—</option>
+          )}
+        </select>
+      </label>
+      <label className="col-span-2 text-sm font-medium">
+        Condition
+        <select className={select} value={choice.condition} onChange={(e) => set({ condition: e.target.value as Condition })}>
+          {CONDITIONS.map((c) => (
+            <option key={c} value={c}>
+              {CONDITION_LABELS[c]}
+            </option>
+          ))}
+        </select>
+      </label>
+      <p className="col-span-2 text-xs text-ink-soft">{def.testPosition[choice.condition]}</p>
+      <button type="submit" disabled={disabled} className="col-span-2 rounded-lg bg-tide-600 px-3 py-2 text-sm font-semibold text-white disabled:bg-tide-200">
+        Ask the client to do this
+      </button>
+    </form>
+  );
+}

@@ -1,0 +1,181 @@
+import ICAL from "ical.js";
+import { eq } from "drizzle-orm";
+import { TokenVerifier } from "livekit-server-sdk";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Browser, BrowserContext, Page } from "playwright-core";
+import { openDatabase } from "@/db";
+import { attempts, visits } from "@/db/schema";
+import { DEMO_PASSWORD } from "@/db/seed/demo";
+import { LOCAL_DEFAULTS } from "@/lib/env";
+import { toLocalInput } from "@/lib/visits/time";
+import { makeHandClip, STANDARD_CLIPS } from "../../scripts/fixtures/hand-photos";
+import { signInWithPassword, startTestApp, type TestApp } from "./support/app";
+import { launchChromium } from "./support/browser";
+
+let app: TestApp;
+let therapistBrowser: Browser;
+let clientBrowser: Browser;
+let therapist: BrowserContext;
+let client: BrowserContext;
+let visitId: string;
+
+async function signedIn(browser: Browser, email: string): Promise<BrowserContext> {
+  const context = await browser.newContext({ permissions: ["camera", "microphone"] });
+  const page = await context.newPage();
+  await signInWithPassword(page, app.appUrl, email, DEMO_PASSWORD);
+  await page.waitForURL(`${app.appUrl}/home`);
+  return context;
+}
+
+async function db<T>(fn: (d: ReturnType<typeof openDatabase>["db"]) => Promise<T>): Promise<T> {
+  const { db: d, client: c } = openDatabase(app.databaseUrl);
+  try {
+    return await fn(d);
+  } finally {
+    c.close();
+  }
+}
+
+beforeAll(async () => {
+  // The client's fake camera shows real hand photos (Debian's gcompris-qt-data), open hand then fist, looping.
+  const clip = makeHandClip(STANDARD_CLIPS.openFistCamera as Parameters<typeof makeHandClip>[0]);
+  app = await startTestApp("visits");
+  therapistBrowser = await launchChromium({ extraArgs: ["--use-fake-device-for-media-stream", "--use-fake-ui-for-media-stream"] });
+  clientBrowser = await launchChromium({ fakeCameraClip: clip });
+  therapist = await signedIn(therapistBrowser, "therapist@kinarc.test");
+  client = await signedIn(clientBrowser, "client@kinarc.test");
+}, 240_000);
+
+afterAll(async () => {
+  await therapistBrowser?.close();
+  await clientBrowser?.close();
+  await app?.stop();
+});
+
+describe("booking", () => {
+  it("the therapist books a video visit; the invitation and its calendar file reach the client", async () => {
+    const page = therapist.pages()[0];
+    await page.goto(`${app.appUrl}/visits`);
+    const form = page.getByRole("form", { name: "Book a visit" });
+    await form.getByLabel("Client").selectOption({ label: "Vale, Dorian" });
+    const startsAt = toLocalInput(new Date(Date.now() + 5 * 60_000), "Europe/London");
+    await form.getByLabel(/Starts/).fill(startsAt);
+    await form.getByLabel("What it is for").fill("Wrist and finger range after the plate");
+    await form.getByRole("button", { name: "Book visit" }).click();
+    expect(await form.getByRole("status").textContent()).toMatch(/invitation is on its way/);
+    const mail = await app.mail.waitFor("client@kinarc.test", /Your hand therapy visit/);
+    const index = mail.attachments.findIndex((a) => a.contentType.startsWith("text/calendar"));
+    expect(index).toBeGreaterThanOrEqual(0);
+    // Parsed with ical.js, a general-purpose RFC 5545 parser.
+    const vevent = new ICAL.Component(ICAL.parse((await app.mail.attachment(mail.id, index)).toString("utf8"))).getFirstSubcomponent("vevent")!;
+    const event = new ICAL.Event(vevent);
+    visitId = event.uid.replace("@kinarc", "");
+    expect(Math.abs(event.startDate.toJSDate().getTime() - (Date.now() + 5 * 60_000))).toBeLessThan(2 * 60_000);
+    expect(mail.text).toContain(`/visits/${visitId}`);
+  });
+
+  it("the client sees the visit on their home", async () => {
+    const page = client.pages()[0];
+    await page.goto(`${app.appUrl}/home`);
+    expect(await page.getByTestId("next-visit").textContent()).toMatch(/Video visit with Tomasz Reyes/);
+  });
+});
+
+describe("the token route", () => {
+  it("refuses a caller without a session, a visit the caller is not part of, and an ended visit; grants the visit's own room", async () => {
+    const anon = await therapistBrowser.newContext();
+    expect((await anon.request.post(`${app.appUrl}/api/v1/visits/${visitId}/token`)).status()).toBe(401);
+    await anon.close();
+
+    const other = await signedIn(therapistBrowser, "assistant@kinarc.test");
+    expect((await other.request.post(`${app.appUrl}/api/v1/visits/${visitId}/token`)).status()).toBe(403);
+    await other.close();
+
+    // Before consent the client is refused with a message saying why.
+    const early = await client.request.post(`${app.appUrl}/api/v1/visits/${visitId}/token`);
+    expect(early.status()).toBe(403);
+    expect((await early.json()).error).toMatch(/consent/);
+
+    const granted = await therapist.request.post(`${app.appUrl}/api/v1/visits/${visitId}/token`);
+    expect(granted.status()).toBe(200);
+    const body = await granted.json();
+    const claims = await new TokenVerifier(LOCAL_DEFAULTS.DEV_LIVEKIT_KEY, LOCAL_DEFAULTS.DEV_LIVEKIT_SECRET).verify(body.token);
+    expect(claims.video?.room).toBe(`visit-${visitId}`);
+    expect(body.room).toBe(`visit-${visitId}`);
+
+    const ended = await db(async (d) => {
+      const [v] = await d.select().from(visits).where(eq(visits.id, visitId));
+      const [row] = await d
+        .insert(visits)
+        .values({ ...v, id: crypto.randomUUID(), status: "finished", startsAt: new Date(), createdAt: new Date(), updatedAt: new Date() })
+        .returning();
+      return row.id;
+    });
+    const refused = await therapist.request.post(`${app.appUrl}/api/v1/visits/${ended}/token`);
+    expect(refused.status()).toBe(403);
+    expect((await refused.json()).error).toMatch(/ended/);
+  });
+});
+
+describe("a video visit through the local media server", () => {
+  let therapistPage: Page;
+  let clientPage: Page;
+
+  it("the client agrees to the telehealth consent and joins with their camera tracked", async () => {
+    clientPage = client.pages()[0];
+    await clientPage.goto(`${app.appUrl}/visits/${visitId}`);
+    await clientPage.waitForURL(/\/consent\?next=/);
+    await clientPage.getByLabel(/I agree to video visits/).check();
+    await clientPage.getByRole("button", { name: "Agree and continue" }).click();
+    await clientPage.waitForURL(`${app.appUrl}/visits/${visitId}`);
+    const join = clientPage.getByRole("button", { name: "Join the visit" });
+    await expect.poll(() => join.isEnabled(), { timeout: 60_000 }).toBe(true);
+    await join.click();
+    await expect.poll(() => clientPage.getByTestId("client-test").textContent(), { timeout: 30_000 }).toMatch(/You are connected/);
+  });
+
+  it("the therapist joins and sees the client's video advancing", async () => {
+    therapistPage = therapist.pages()[0];
+    await therapistPage.goto(`${app.appUrl}/visits/${visitId}`);
+    await therapistPage.getByRole("button", { name: "Join the visit" }).click();
+    const video = therapistPage.getByRole("region", { name: "Live reading" });
+    await video.waitFor({ timeout: 30_000 });
+    const stage = therapistPage.getByTestId("client-stage").locator("video").first();
+    await expect.poll(() => stage.evaluate((v: HTMLVideoElement) => v.currentTime), { timeout: 30_000 }).toBeGreaterThan(0.5);
+    const t1 = await stage.evaluate((v: HTMLVideoElement) => v.currentTime);
+    await therapistPage.waitForTimeout(1000);
+    expect(await stage.evaluate((v: HTMLVideoElement) => v.currentTime)).toBeGreaterThan(t1 + 0.5);
+  });
+
+  it("a prompt reaches the client and telemetry comes back", async () => {
+    const picker = therapistPage.getByRole("form", { name: "Next test" });
+    await picker.getByLabel("Motion").selectOption({ label: "PIP flexion" });
+    await picker.getByLabel("Side").selectOption("right");
+    await picker.getByLabel("Digit").selectOption("middle");
+    await picker.getByLabel("Condition").selectOption("gravity_minimized");
+    await picker.getByRole("button", { name: "Ask the client to do this" }).click();
+    await expect.poll(() => clientPage.getByTestId("client-test").textContent(), { timeout: 15_000 }).toMatch(/PIP flexion, middle finger \(right\)/);
+    await expect.poll(() => therapistPage.getByTestId("current-test").textContent(), { timeout: 15_000 }).toMatch(/PIP flexion, middle, right/);
+    await expect.poll(() => therapistPage.getByTestId("live-angle").textContent(), { timeout: 30_000 }).toMatch(/^-?\d+°$/);
+  });
+
+  it("a kept attempt lands in the database with server-computed values, and the summary lists it", async () => {
+    await therapistPage.waitForTimeout(3000);
+    await therapistPage.getByRole("button", { name: "Keep this attempt" }).click();
+    await expect.poll(() => therapistPage.getByRole("status").filter({ hasText: /Attempt saved|offline/ }).count(), { timeout: 30_000 }).toBeGreaterThan(0);
+    const stored = await db((d) => d.select().from(attempts).where(eq(attempts.visitId, visitId)));
+    expect(stored).toHaveLength(1);
+    expect(stored[0]).toMatchObject({ source: "visit", motion: "pip.flexion", side: "right", digit: "middle", condition: "gravity_minimized" });
+    expect(stored[0].frames).toBeGreaterThan(20);
+    expect(stored[0].engineVersion).toMatch(/kinarc-engine/);
+    await expect.poll(() => therapistPage.getByTestId("proposals").textContent(), { timeout: 15_000 }).toMatch(/PIP flexion, middle \(right\)/);
+    await therapistPage.getByLabel("Visit notes").fill("Good effort; fist closes well.");
+    await therapistPage.getByRole("button", { name: "End visit and save summary" }).click();
+    await therapistPage.getByRole("button", { name: "Visit ended" }).waitFor({ timeout: 15_000 });
+    const [row] = await db((d) => d.select().from(visits).where(eq(visits.id, visitId)));
+    expect(row.status).toBe("finished");
+    expect(row.notes).toBe("Good effort; fist closes well.");
+    const summary = row.summary as { attempts: { id: string }[] };
+    expect(summary.attempts.map((a) => a.id)).toEqual([stored[0].id]);
+  });
+});
