@@ -5,6 +5,7 @@ import { listVisits, OPEN_STATUSES } from "@/db/queries/visits";
 import { ButtonLink } from "@/components/ui/button";
 import { formatInZone } from "@/lib/visits/time";
 import { Card, PageTitle } from "@/components/ui/card";
+import { OutboxStatus } from "@/components/tracking/outbox-status";
 import { SafetyNote } from "@/components/safety-note";
 import type { Actor } from "@/lib/auth/guard";
 
@@ -40,6 +41,13 @@ export async function ClientHome({ actor }: { actor: Actor }) {
             Nothing booked yet. Your clinic will e-mail you an invitation when a visit is scheduled.
           </p>
         )}
+      </Card>
+      <OutboxStatus />
+      <Card title="Check a movement">
+        <p className="text-sm text-ink-soft">Measure how far your wrist or a finger moves, with your camera, for your therapist.</p>
+        <ButtonLink href="/practice/check" className="mt-3">
+          Start a self-check
+        </ButtonLink>
       </Card>
       <Card title="What to practise">
         <p className="text-sm text-ink-soft">Your therapist has not set home exercises yet.</p>

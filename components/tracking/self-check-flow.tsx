@@ -1,0 +1,424 @@
+"use client";
+
+import { useEffect, useMemo, useRef, useState } from "react";
+import { Badge, Card } from "@/components/ui/card";
+import { Button } from "@/components/ui/button";
+import { SafetyNote } from "@/components/safety-note";
+import { browserOutbox } from "@/lib/captures/outbox";
+import type { CaptureSaveResponse, StoredAttempt } from "@/lib/captures/upload";
+import { CONDITIONS, MOTIONS, getReferenceEndRange, type CameraView, type Condition, type Digit, type MotionId, type RangeTableId, type Side } from "@/lib/motions/catalog";
+import { newCaptureUid } from "@/lib/tracking/capture-recorder";
+import { readyToStart } from "@/lib/tracking/setup-checks";
+import { useHandTracking } from "@/lib/tracking/use-hand-tracking";
+import { analyzeCapture, type CaptureAnalysis } from "@/vision/analyze-capture";
+import { HandOverlay } from "./hand-overlay";
+import { PositionIllustration } from "./position-illustration";
+
+export interface SelfCheckFlowProps {
+  clientId: string;
+  sides: Side[];
+  offered: MotionId[];
+  withheld: { motion: MotionId; reason: string }[];
+  rangeTable: RangeTableId;
+  /** The client's own precaution note from the clinic, shown with the safety note. */
+  precautionNote: string;
+}
+
+type Step = "safety" | "choose" | "position" | "setup" | "countdown" | "recording" | "summary";
+
+const REPETITIONS = 3;
+const HOLD_SECONDS = 2;
+const COUNTDOWN_SECONDS = 3;
+// An attempt ends by itself after this long even if fewer repetitions were seen, so a lost hand cannot record forever.
+const MAX_RECORDING_MS = 60_000;
+
+const CONDITION_WORDS: Record<Condition, { title: string; hint: string }> = {
+  against_gravity: { title: "Lifting up (against gravity)", hint: "The hand or finger moves upward." },
+  gravity_minimized: { title: "Sliding on the table (gravity minimized)", hint: "The hand or finger moves flat along a smooth surface." },
+};
+
+const CAMERA_WORDS: Record<CameraView, string> = {
+  side: "Set the camera level with your hand and off to one side, so it sees the joint bend in profile. A phone propped on its side against a mug works well.",
+  overhead: "Prop the camera so it looks down on your hand from above, for example a phone leaning over the edge of a shelf or a stack of books.",
+  front: "Set the camera facing your hand, about an arm's length away.",
+};
+
+const DIGIT_WORDS: Record<Digit, string> = { thumb: "Thumb", index: "Index finger", middle: "Middle finger", ring: "Ring finger", little: "Little finger" };
+
+const PHASE_WORDS = { rest: "Ready: start moving", move: "Moving…", hold: `Hold it there (${HOLD_SECONDS} seconds)`, return: "Now relax back" } as const;
+
+function motionLabel(motion: MotionId, digit: Digit | null, side: Side) {
+  return `${MOTIONS[motion].label}, ${side}${digit ? ` ${DIGIT_WORDS[digit].toLowerCase()}` : ""}`;
+}
+
+export function SelfCheckFlow(props: SelfCheckFlowProps) {
+  const [step, setStep] = useState<Step>("safety");
+  const [motion, setMotion] = useState<MotionId>(props.offered[0]);
+  const [digit, setDigit] = useState<Digit | null>(MOTIONS[props.offered[0]].digits[0] ?? null);
+  const [side, setSide] = useState<Side>(props.sides[0]);
+  const [condition, setCondition] = useState<Condition>("against_gravity");
+  const [facing, setFacing] = useState<"user" | "environment">("user");
+  const [countdown, setCountdown] = useState(COUNTDOWN_SECONDS);
+  const [result, setResult] = useState<{ captureUid: string; local: CaptureAnalysis } | null>(null);
+  const [saved, setSaved] = useState<StoredAttempt | null>(null);
+  const [queueProblem, setQueueProblem] = useState<string | null>(null);
+  const recordingStartedAt = useRef(0);
+  const videoRef = useRef<HTMLVideoElement>(null);
+
+  const def = MOTIONS[motion];
+  const reference = useMemo(() => getReferenceEndRange(motion, digit, props.rangeTable), [motion, digit, props.rangeTable]);
+  const cameraOn = step === "setup" || step === "countdown" || step === "recording";
+  const mirrored = facing === "user";
+  const tracking = useHandTracking({ motion, side, digit, condition, videoRef, enabled: cameraOn, facing, displayMirrored: mirrored });
+  const { startRecording } = tracking;
+
+  // Server confirmations of this attempt (now or later, after a dropped connection).
+  useEffect(() => {
+    const outbox = browserOutbox();
+    return outbox.onSaved((entry, response: CaptureSaveResponse) => {
+      if (entry.captureUid === result?.captureUid) setSaved(response.attempt);
+    });
+  }, [result?.captureUid]);
+
+  useEffect(() => {
+    if (step !== "countdown") return;
+    const timer = setTimeout(() => {
+      if (countdown > 1) return setCountdown(countdown - 1);
+      recordingStartedAt.current = performance.now();
+      startRecording();
+      setStep("recording");
+    }, 1000);
+    return () => clearTimeout(timer);
+  }, [step, countdown, startRecording]);
+
+  const finish = async () => {
+    const recorded = tracking.stopRecording();
+    setStep("summary");
+    if (!recorded) return;
+    const captureUid = newCaptureUid();
+    setResult({ captureUid, local: analyzeCapture(recorded.capture) });
+    setSaved(null);
+    setQueueProblem(null);
+    try {
+      await browserOutbox().enqueue(
+        { captureUid, source: "self_check", clientId: props.clientId, recordedAt: Date.now(), capture: recorded.capture },
+        motionLabel(motion, digit, side),
+      );
+    } catch (error) {
+      setQueueProblem(`This device could not keep the attempt (${error instanceof Error ? error.message : String(error)}). Try again in a normal (not private) browser window.`);
+    }
+  };
+
+  // Ends the attempt after the last repetition has come back to rest, or at the time limit.
+  const reps = tracking.update?.rep.count ?? 0;
+  const phase = tracking.update?.rep.phase ?? "rest";
+  useEffect(() => {
+    if (step !== "recording") return;
+    const done = reps >= REPETITIONS && phase === "rest";
+    const timedOut = performance.now() - recordingStartedAt.current > MAX_RECORDING_MS;
+    if (done || timedOut) void finish();
+    // finish reads the latest state; re-running on every frame is what checks the time limit.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [step, reps, phase, tracking.frame]);
+
+  const chooseMotion = (next: MotionId) => {
+    setMotion(next);
+    const digits = MOTIONS[next].digits;
+    setDigit(digits.length ? (digit && digits.includes(digit) ? digit : digits[0]) : null);
+  };
+
+  const angle = tracking.update?.smoothedDeg ?? null;
+  const ready = tracking.status === "running" && readyToStart(tracking.checks);
+
+  return (
+    <div className="mx-auto max-w-3xl space-y-5" data-testid="self-check" data-step={step}>
+      {step === "safety" ? (
+        <Card title="Before you start">
+          <SafetyNote />
+          {props.precautionNote ? (
+            <p className="mt-3 rounded-lg bg-flag-amberBg p-3 text-sm text-ink">
+              <span className="font-semibold">From your clinic: </span>
+              {props.precautionNote}
+            </p>
+          ) : null}
+          <ul className="mt-3 list-disc space-y-1 pl-5 text-sm text-ink-soft">
+            <li>Move only as far as is comfortable. Never push with your other hand or press against anything.</li>
+            <li>Stop at once if pain, swelling, numbness or tingling starts or gets worse, and tell your therapist.</li>
+            <li>If your surgeon or therapist has told you not to move a joint yet, do not check it here.</li>
+          </ul>
+          <Button className="mt-4 w-full sm:w-auto" onClick={() => setStep("choose")}>
+            I understand, continue
+          </Button>
+        </Card>
+      ) : null}
+
+      {step === "choose" ? (
+        <Card title="What to check">
+          <div className="grid gap-4 sm:grid-cols-2">
+            <label className="block text-sm font-medium text-ink">
+              Movement
+              <select className="mt-1 block w-full rounded-lg border border-sand-200 bg-white px-3 py-2 text-base" value={motion} onChange={(e) => chooseMotion(e.target.value as MotionId)}>
+                {props.offered.map((m) => (
+                  <option key={m} value={m}>
+                    {MOTIONS[m].label}
+                  </option>
+                ))}
+              </select>
+            </label>
+            {def.digits.length ? (
+              <label className="block text-sm font-medium text-ink">
+                Finger
+                <select className="mt-1 block w-full rounded-lg border border-sand-200 bg-white px-3 py-2 text-base" value={digit ?? ""} onChange={(e) => setDigit(e.target.value as Digit)}>
+                  {def.digits.map((d) => (
+                    <option key={d} value={d}>
+                      {DIGIT_WORDS[d]}
+                    </option>
+                  ))}
+                </select>
+              </label>
+            ) : null}
+            {props.sides.length > 1 ? (
+              <label className="block text-sm font-medium text-ink">
+                Hand
+                <select className="mt-1 block w-full rounded-lg border border-sand-200 bg-white px-3 py-2 text-base" value={side} onChange={(e) => setSide(e.target.value as Side)}>
+                  {props.sides.map((s) => (
+                    <option key={s} value={s}>
+                      {s === "left" ? "Left hand" : "Right hand"}
+                    </option>
+                  ))}
+                </select>
+              </label>
+            ) : (
+              <p className="text-sm text-ink-soft">
+                Hand: <span className="font-medium text-ink">{side === "left" ? "left" : "right"}</span>
+              </p>
+            )}
+          </div>
+          <fieldset className="mt-4">
+            <legend className="text-sm font-medium text-ink">Position</legend>
+            <div className="mt-2 grid gap-2 sm:grid-cols-2">
+              {CONDITIONS.map((c) => (
+                <label key={c} className={`flex cursor-pointer gap-3 rounded-lg border p-3 text-sm ${condition === c ? "border-tide-500 bg-tide-50" : "border-sand-200"}`}>
+                  <input type="radio" name="condition" value={c} checked={condition === c} onChange={() => setCondition(c)} />
+                  <span>
+                    <span className="block font-medium text-ink">{CONDITION_WORDS[c].title}</span>
+                    <span className="block text-ink-soft">{CONDITION_WORDS[c].hint}</span>
+                  </span>
+                </label>
+              ))}
+            </div>
+          </fieldset>
+          {props.withheld.length ? (
+            <details className="mt-4 text-sm text-ink-soft">
+              <summary className="cursor-pointer">Not offered here ({props.withheld.length})</summary>
+              <ul className="mt-2 space-y-1">
+                {props.withheld.map((w) => (
+                  <li key={w.motion}>
+                    <span className="font-medium text-ink">{MOTIONS[w.motion].label}:</span> {w.reason}
+                  </li>
+                ))}
+              </ul>
+            </details>
+          ) : null}
+          <Button className="mt-4 w-full sm:w-auto" onClick={() => setStep("position")}>
+            Next: how to sit
+          </Button>
+        </Card>
+      ) : null}
+
+      {step === "position" ? (
+        <Card title={`Getting into position: ${motionLabel(motion, digit, side)}`}>
+          <div className="grid gap-4 sm:grid-cols-[1fr_16rem]">
+            <ol className="list-decimal space-y-2 pl-5 text-sm text-ink">
+              <li>Sit at a table with your {side} forearm resting on it, shoulder relaxed.</li>
+              <li>{def.testPosition[condition]}</li>
+              <li>{CAMERA_WORDS[def.cameraView]}</li>
+              <li>
+                Then you will {def.gradedOn === "arc" ? "make the movement" : "move as far as is comfortable"}, hold for {HOLD_SECONDS} seconds, and relax: {REPETITIONS} times.
+              </li>
+            </ol>
+            <PositionIllustration cameraView={def.cameraView} condition={condition} wrist={def.joint === "wrist"} />
+          </div>
+          <label className="mt-4 flex items-center gap-2 text-sm text-ink-soft">
+            <input type="checkbox" checked={facing === "environment"} onChange={(e) => setFacing(e.target.checked ? "environment" : "user")} />
+            Use the back camera (phones)
+          </label>
+          <div className="mt-4 flex flex-wrap gap-2">
+            <Button
+              onClick={() => {
+                void tracking.requestMotionSensors();
+                setStep("setup");
+              }}
+            >
+              Turn on the camera
+            </Button>
+            <Button variant="quiet" onClick={() => setStep("choose")}>
+              Back
+            </Button>
+          </div>
+        </Card>
+      ) : null}
+
+      {cameraOn ? (
+        <section className="space-y-3">
+          <div className="relative mx-auto aspect-[3/4] w-full max-w-xl overflow-hidden rounded-card bg-ink sm:aspect-[4/3]">
+            <video ref={videoRef} className={`absolute inset-0 h-full w-full object-contain ${mirrored ? "-scale-x-100" : ""}`} playsInline muted />
+            <HandOverlay
+              image={tracking.frame?.image ?? null}
+              videoWidth={tracking.videoWidth}
+              videoHeight={tracking.videoHeight}
+              fit="contain"
+              mirrored={mirrored}
+              motion={motion}
+              digit={digit}
+              angleDeg={angle}
+              targetDeg={reference?.endRangeDeg ?? null}
+              faded={tracking.update?.quality !== "ok"}
+            />
+            {step === "countdown" ? (
+              <div className="absolute inset-0 flex items-center justify-center bg-ink/40 text-7xl font-bold text-white" aria-live="assertive" data-testid="countdown">
+                {countdown}
+              </div>
+            ) : null}
+            <div className="absolute left-2 top-2 rounded-lg bg-white/90 px-3 py-1 text-sm">
+              <span className="text-ink-soft">Angle </span>
+              <span className="text-xl font-semibold tabular-nums text-tide-900" data-testid="live-angle">
+                {angle === null ? "–" : `${Math.round(angle)}°`}
+              </span>
+              {reference ? <span className="text-ink-faint"> / {reference.endRangeDeg}° typical</span> : null}
+            </div>
+            <div className="absolute bottom-2 right-2 rounded bg-white/80 px-2 text-xs text-ink-soft">{tracking.fps} fps</div>
+          </div>
+
+          {tracking.status === "failed" ? (
+            <p role="alert" className="rounded-lg bg-flag-roseBg p-3 text-sm text-flag-rose">
+              {tracking.error}
+            </p>
+          ) : null}
+
+          {step === "setup" ? (
+            <Card title="Set-up checks">
+              {tracking.status !== "running" ? <p className="text-sm text-ink-soft">Starting the camera and hand tracking…</p> : null}
+              <ul className="space-y-2" data-testid="setup-checks">
+                {tracking.checks.map((c) => (
+                  <li key={c.id} className="flex gap-3 text-sm" data-check={c.id} data-status={c.status}>
+                    <Badge tone={c.status === "ok" ? "good" : c.status === "fix" ? "alert" : "caution"}>{c.status === "ok" ? "OK" : c.status === "fix" ? "Change" : "Tip"}</Badge>
+                    <span>
+                      <span className="font-medium text-ink">{c.label}</span>
+                      {c.instruction ? <span className="block text-ink-soft">{c.instruction}</span> : null}
+                    </span>
+                  </li>
+                ))}
+              </ul>
+              <div className="mt-4 flex flex-wrap gap-2">
+                <Button
+                  disabled={!ready}
+                  onClick={() => {
+                    setCountdown(COUNTDOWN_SECONDS);
+                    setStep("countdown");
+                  }}
+                >
+                  Start
+                </Button>
+                <Button variant="quiet" onClick={() => setStep("position")}>
+                  Back
+                </Button>
+              </div>
+            </Card>
+          ) : null}
+
+          {step === "recording" ? (
+            <Card title={motionLabel(motion, digit, side)}>
+              <p className="text-lg font-semibold text-tide-900" aria-live="polite" data-testid="rep-phase">
+                {PHASE_WORDS[phase]}
+              </p>
+              <p className="mt-1 text-sm text-ink-soft">
+                Repetition <span data-testid="rep-count">{Math.min(reps + 1, REPETITIONS)}</span> of {REPETITIONS}. Move only as far as is comfortable;
+                stop if it hurts.
+              </p>
+              <Button className="mt-3" variant="quiet" onClick={() => void finish()}>
+                Finish now
+              </Button>
+            </Card>
+          ) : null}
+        </section>
+      ) : null}
+
+      {step === "summary" ? (
+        <Card title="What was measured">
+          {result ? <Summary local={result.local} saved={saved} reference={reference} /> : <p className="text-sm text-ink-soft">Nothing was recorded: the camera saw no frames.</p>}
+          {result ? (
+            <p className="mt-3 text-sm" data-testid="save-status" data-saved={saved ? "yes" : "no"}>
+              {queueProblem ? (
+                <span className="text-flag-rose">{queueProblem}</span>
+              ) : saved ? (
+                <span className="text-tide-700">Saved to your record. Your therapist will see it.</span>
+              ) : (
+                <span className="text-ink-soft">Sending… If the connection is down, the attempt is kept on this device and sent automatically when you are back online.</span>
+              )}
+            </p>
+          ) : null}
+          <div className="mt-4 flex flex-wrap gap-2">
+            <Button
+              onClick={() => {
+                setResult(null);
+                setStep("choose");
+              }}
+            >
+              Check another movement
+            </Button>
+            <Button
+              variant="quiet"
+              onClick={() => {
+                setResult(null);
+                setStep("setup");
+              }}
+            >
+              Try this one again
+            </Button>
+          </div>
+          <div className="mt-4">
+            <SafetyNote compact />
+          </div>
+        </Card>
+      ) : null}
+    </div>
+  );
+}
+
+function Summary({ local, saved, reference }: { local: CaptureAnalysis; saved: StoredAttempt | null; reference: { endRangeDeg: number; source: string } | null }) {
+  // The server's numbers, once it has them, are the ones kept; until then the same engine's reading in the browser.
+  const shown = saved ?? { reps: local.reps, peakDeg: local.peakDeg, arcDeg: local.arcDeg, planeVerified: local.planeAgrees, warnings: local.warnings, usableFrames: local.usableFrames, frames: local.frames };
+  const measure = MOTIONS[local.motion].gradedOn === "arc" ? shown.arcDeg : shown.peakDeg;
+  return (
+    <dl className="grid grid-cols-2 gap-x-4 gap-y-2 text-sm" data-testid="summary">
+      <dt className="text-ink-soft">Repetitions seen</dt>
+      <dd className="font-medium" data-testid="summary-reps">
+        {shown.reps}
+      </dd>
+      <dt className="text-ink-soft">{MOTIONS[local.motion].gradedOn === "arc" ? "Largest movement" : "Furthest angle"}</dt>
+      <dd className="font-medium" data-testid="summary-peak">
+        {measure === null ? "not measured" : `${Math.round(measure)}°`}
+        {reference ? <span className="text-ink-faint"> (typical {reference.endRangeDeg}°)</span> : null}
+      </dd>
+      <dt className="text-ink-soft">Position check</dt>
+      <dd className="font-medium" data-testid="summary-plane">
+        {shown.planeVerified ? "The camera confirmed the position." : "The camera could not confirm the position; your therapist will review it."}
+      </dd>
+      <dt className="text-ink-soft">Hand tracked</dt>
+      <dd className="font-medium">
+        {shown.usableFrames} of {shown.frames} frames
+      </dd>
+      {shown.warnings.length ? (
+        <>
+          <dt className="text-ink-soft">Notes</dt>
+          <dd className="text-ink-soft">{shown.warnings.join("; ")}</dd>
+        </>
+      ) : null}
+      <dt className="col-span-2 mt-2 text-xs text-ink-faint">
+        Camera angles are estimates and can differ from a therapist&apos;s measurement by several degrees, most for the finger joints. Your therapist reads them
+        alongside what they see.
+      </dt>
+    </dl>
+  );
+}
