@@ -16,5 +16,5 @@ export function proxy(request: NextRequest) {
 }
 
 export const config = {
-  matcher: ["/home/:path*", "/clients/:path*", "/team/:path*", "/clinic/:path*", "/audit/:path*", "/visits/:path*", "/consent/:path*"],
+  matcher: ["/home/:path*", "/clients/:path*", "/team/:path*", "/clinic/:path*", "/audit/:path*", "/visits/:path*", "/consent/:path*", "/practice/:path*"],
 };
