@@ -24,7 +24,10 @@ const NAV: Record<Role, { href: string; label: string }[]> = {
     { href: "/audit", label: "Access trail" },
     { href: "/clients", label: "Clients" },
   ],
-  client: [{ href: "/home", label: "My page" }],
+  client: [
+    { href: "/home", label: "My page" },
+    { href: "/practice/check", label: "Self-check" },
+  ],
 };
 
 const ROLE_NAMES: Record<Role, string> = { admin: "Clinic admin", therapist: "Therapist", assistant: "Therapy assistant", client: "Client" };
