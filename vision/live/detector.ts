@@ -75,14 +75,18 @@ export async function createDetector(config: DetectorConfig): Promise<Detector> 
       })
     : null;
 
-  // detectForVideo needs strictly increasing timestamps; clips can repeat a media time when they loop or seek.
+  // detectForVideo needs strictly increasing timestamps, but frame times restart with each attempt and a clip can
+  // loop or seek back. Such a jump moves an offset instead, so later frames keep their true spacing (the graph's
+  // smoothing reads speeds from it).
   let lastTimestamp = -Infinity;
+  let timestampOffset = 0;
   let lastPoseAt = -Infinity;
   let lastForearm: { t: number; direction: LandmarkXYZ } | null = null;
 
   return {
     detect(image, t) {
-      const timestamp = t > lastTimestamp ? t : lastTimestamp + 1;
+      if (t + timestampOffset <= lastTimestamp) timestampOffset = lastTimestamp + 1 - t;
+      const timestamp = t + timestampOffset;
       lastTimestamp = timestamp;
       const started = performance.now();
       const frame = handFrame(t, hands.detectForVideo(image, timestamp), config.inputMirrored);

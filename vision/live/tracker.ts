@@ -118,8 +118,9 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
       return;
     }
     missedWhileBusy = false;
-    // A clip's own clock lets results line up with its frames; a camera has no media time worth keeping.
-    const t = video.srcObject || mediaTimeS === null ? nowMs : mediaTimeS * 1000;
+    // A clip's own clock lets results line up with its frames; a camera's frames count from `start()`, so each
+    // attempt's times begin near zero as the measurement pipeline expects.
+    const t = video.srcObject || mediaTimeS === null ? nowMs - run.startedAt : mediaTimeS * 1000;
     const grabbedAt = performance.now();
     backend
       .process(video, t)

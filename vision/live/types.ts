@@ -7,7 +7,7 @@ export type HandSide = "left" | "right";
 
 /** One processed camera frame. `hand`/`image` are null when no hand was found. */
 export interface TrackedFrame {
-  /** Frame time in milliseconds (the video's media time for clips, the capture clock for cameras). */
+  /** Milliseconds since the capture started: the clip's media time, or for a camera the time since `start()`. */
   t: number;
   /** Confidence of the handedness classification, 0-1; 0 when no hand was found. */
   score: number;
