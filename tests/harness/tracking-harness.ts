@@ -24,7 +24,15 @@ export interface HarnessServer {
   close(): Promise<void>;
 }
 
-export async function startHarnessServer(port = HARNESS_PORT): Promise<HarnessServer> {
+export interface HarnessServerOptions {
+  port?: number;
+  /** Folders outside the repository the page may read clips from (e.g. the folder of a clip given on a command line). */
+  allowDirs?: string[];
+}
+
+/** `startHarnessServer(port)` is the older form, kept for callers that only choose the port. */
+export async function startHarnessServer(options: HarnessServerOptions | number = {}): Promise<HarnessServer> {
+  const { port = HARNESS_PORT, allowDirs = [] } = typeof options === "number" ? { port: options } : options;
   for (const required of ["public/models/hand_landmarker_lite.task", "public/mediapipe/wasm/vision_wasm_internal.wasm"]) {
     if (!fs.existsSync(path.join(REPO_ROOT, required))) throw new Error(`${required}: missing; run npm run models`);
   }
@@ -45,7 +53,7 @@ export async function startHarnessServer(port = HARNESS_PORT): Promise<HarnessSe
     resolve: { alias: { "@": REPO_ROOT } },
     // The tasks library is one ES module already; skipping the optimiser avoids a reload when the worker first asks for it.
     optimizeDeps: { noDiscovery: true, include: [] },
-    server: { host: "127.0.0.1", port, strictPort: true, hmr: false, fs: { allow: [REPO_ROOT] } },
+    server: { host: "127.0.0.1", port, strictPort: true, hmr: false, fs: { allow: [REPO_ROOT, ...allowDirs.map((d) => path.resolve(d))] } },
   });
   await server.listen();
   const origin = `http://127.0.0.1:${port}`;
