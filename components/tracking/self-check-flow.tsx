@@ -72,13 +72,16 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
   const tracking = useHandTracking({ motion, side, digit, condition, videoRef, enabled: cameraOn, facing, displayMirrored: mirrored });
   const { startRecording } = tracking;
 
-  // Server confirmations of this attempt (now or later, after a dropped connection).
-  useEffect(() => {
-    const outbox = browserOutbox();
-    return outbox.onSaved((entry, response: CaptureSaveResponse) => {
-      if (entry.captureUid === result?.captureUid) setSaved(response.attempt);
-    });
-  }, [result?.captureUid]);
+  // Server confirmations of the latest attempt (now or later, after a dropped connection). The id is set before the
+  // attempt is queued, so a confirmation that comes back at once is not missed.
+  const latestUid = useRef<string | null>(null);
+  useEffect(
+    () =>
+      browserOutbox().onSaved((entry, response: CaptureSaveResponse) => {
+        if (entry.captureUid === latestUid.current) setSaved(response.attempt);
+      }),
+    [],
+  );
 
   useEffect(() => {
     if (step !== "countdown") return;
@@ -96,6 +99,7 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
     setStep("summary");
     if (!recorded) return;
     const captureUid = newCaptureUid();
+    latestUid.current = captureUid;
     setResult({ captureUid, local: analyzeCapture(recorded.capture) });
     setSaved(null);
     setQueueProblem(null);
