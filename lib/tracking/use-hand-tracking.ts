@@ -210,7 +210,8 @@ export function useHandTracking(options: HandTrackingOptions) {
     newPipeline();
     const t = targetRef.current;
     recorderRef.current = new CaptureRecorder(t, freshGravity());
-    setState((s) => ({ ...s, recording: true, recordedFrames: 0 }));
+    // The preview's last reading (and its repetition count) must not leak into the attempt's first render.
+    setState((s) => ({ ...s, recording: true, recordedFrames: 0, update: null }));
   }, [newPipeline]);
 
   /** Stops recording; returns the capture file and the engine's summary of the live reading, or null if nothing was recorded. */
