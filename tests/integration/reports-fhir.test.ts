@@ -1,7 +1,5 @@
-import { inflateSync } from "node:zlib";
 import { eq } from "drizzle-orm";
 import { createRequire } from "node:module";
-import { PDFDocument } from "pdf-lib";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { clients, users } from "@/db/schema";
 import { seedDemo, type SeedResult } from "@/db/seed/demo";
@@ -12,6 +10,7 @@ import { inPersonResultSchema } from "@/lib/chart/schemas";
 import { chartBundle } from "@/lib/fhir/export";
 import { reportPdf } from "@/lib/reports/pdf";
 import { buildReport } from "@/lib/reports/summary";
+import { pdfText } from "./pdf-text";
 import { tempDatabase, type TempDb } from "./support";
 
 // The HL7 FHIR R4 JSON schema (fhir.schema.json, http://hl7.org/fhir/json-schema/4.0) as shipped in the registry
@@ -81,28 +80,6 @@ describe("FHIR R4 export", () => {
     expect(validator.validate({ ...observation, valueQuantity: { value: "sixty" } }, true).length).toBeGreaterThan(0);
   });
 });
-
-/** Text drawn with pdf-lib's standard fonts, from the page content streams (Flate-compressed hex strings). */
-export async function pdfText(bytes: Uint8Array): Promise<string> {
-  const doc = await PDFDocument.load(bytes);
-  let text = "";
-  for (const page of doc.getPages()) {
-    const contents = page.node.Contents();
-    const streams = contents && "asArray" in contents ? contents.asArray() : [contents];
-    for (const ref of streams) {
-      const stream = doc.context.lookup(ref as never) as unknown as { getContents(): Uint8Array };
-      const raw = Buffer.from(stream.getContents());
-      let body: string;
-      try {
-        body = inflateSync(raw).toString("latin1");
-      } catch {
-        body = raw.toString("latin1");
-      }
-      for (const m of body.matchAll(/<([0-9A-Fa-f]+)>\s*Tj/g)) text += `${Buffer.from(m[1], "hex").toString("latin1")}\n`;
-    }
-  }
-  return text;
-}
 
 describe("evaluation summary", () => {
   it("writes a PDF with the grades, how each was obtained, the accuracy sources and the cautions", async () => {
