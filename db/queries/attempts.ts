@@ -46,18 +46,20 @@ export type RecentAttempt = Pick<
  * latest `perRow`. One query with a window, so a client with thousands of attempts costs one index scan.
  */
 export async function recentAttempts(db: DbOrTx, clinicId: string, clientId: string, perRow = 10): Promise<RecentAttempt[]> {
+  // The window runs over the narrow columns only; the wide rows are fetched for the few ids that qualify.
   const rows = await db.all<Record<string, unknown>>(sql`
-    select id, motion, side, digit, condition, recorded_at, peak_deg, arc_deg, uncertainty_deg, plane_verdict,
-           plane_verified, frames, usable_frames, kept_at, warnings
-    from (
-      select a.*,
+    with ranked as (
+      select id, kept_at,
              row_number() over (partition by motion, side, digit order by recorded_at desc) as rn,
              max(kept_at is not null) over (partition by motion, side, digit) as any_kept
-      from attempts a
-      where a.clinic_id = ${clinicId} and a.client_id = ${clientId}
+      from attempts
+      where clinic_id = ${clinicId} and client_id = ${clientId}
     )
-    where (any_kept = 1 and kept_at is not null) or (any_kept = 0 and rn <= ${perRow})
-    order by recorded_at asc`);
+    select a.id, a.motion, a.side, a.digit, a.condition, a.recorded_at, a.peak_deg, a.arc_deg, a.uncertainty_deg,
+           a.plane_verdict, a.plane_verified, a.frames, a.usable_frames, a.kept_at, a.warnings
+    from ranked r join attempts a on a.id = r.id
+    where (r.any_kept = 1 and r.kept_at is not null) or (r.any_kept = 0 and r.rn <= ${perRow})
+    order by a.recorded_at asc`);
   return rows.map((r) => ({
     id: String(r.id),
     motion: String(r.motion),
@@ -160,4 +162,20 @@ export async function attemptSeries(
     .orderBy(desc(attempts.recordedAt))
     .limit(limit);
   return rows.reverse();
+}
+
+/**
+ * A stamp that changes whenever anything the chart shows for a client changes (attempts added or kept, grades
+ * recorded, co-signed or corrected, passive ranges, grip/pinch readings, the record or the clinic's settings).
+ */
+export async function chartStamp(db: DbOrTx, clinicId: string, clientId: string): Promise<string> {
+  const [row] = await db.all<Record<string, unknown>>(sql`
+    select
+      (select count(*) || ':' || count(kept_at) || ':' || coalesce(max(created_at), 0) from attempts where client_id = ${clientId}) as a,
+      (select count(*) || ':' || coalesce(max(recorded_at), 0) || ':' || count(signed_at) from grade_entries where client_id = ${clientId}) as g,
+      (select count(*) || ':' || coalesce(max(created_at), 0) from passive_ranges where client_id = ${clientId}) as p,
+      (select count(*) || ':' || coalesce(max(created_at), 0) from strength_readings where client_id = ${clientId}) as s,
+      (select updated_at from clients where id = ${clientId}) as c,
+      (select updated_at from clinics where id = ${clinicId}) as k`);
+  return [row.a, row.g, row.p, row.s, row.c, row.k].join("|");
 }

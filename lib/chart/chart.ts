@@ -1,6 +1,6 @@
 import { and, eq, inArray } from "drizzle-orm";
 import type { DbOrTx } from "@/db";
-import { aggregateAttempts, recentAttempts, type RecentAttempt } from "@/db/queries/attempts";
+import { aggregateAttempts, chartStamp, recentAttempts, type RecentAttempt } from "@/db/queries/attempts";
 import { listGradeEntries } from "@/db/queries/grades";
 import { listPassiveRanges } from "@/db/queries/passive-ranges";
 import { clinics, strengthReadings, users, type Client, type GradeEntry, type StrengthReading } from "@/db/schema";
@@ -232,4 +232,22 @@ export function todayInZone(timeZone: string, now = new Date()): string {
 export async function clinicToday(db: DbOrTx, clinicId: string, now = new Date()): Promise<string> {
   const [clinic] = await db.select({ timezone: clinics.timezone }).from(clinics).where(eq(clinics.id, clinicId));
   return todayInZone(clinic?.timezone ?? "UTC", now);
+}
+
+// Charts are read far more often than they change: keep the latest per client and day, checked against a stamp of
+// everything the chart shows, so a read costs one small query until something is recorded.
+const CACHE_LIMIT = 500;
+const globalForChart = globalThis as unknown as { kinarcChartCache?: Map<string, { stamp: string; chart: ChartData }> };
+
+export async function cachedChart(db: DbOrTx, client: Client, opts: ChartOptions): Promise<ChartData> {
+  const cache = (globalForChart.kinarcChartCache ??= new Map());
+  const key = `${client.id}|${opts.today}|${opts.emptyRows ? "all" : "data"}`;
+  const stamp = await chartStamp(db, client.clinicId, client.id);
+  const hit = cache.get(key);
+  if (hit && hit.stamp === stamp) return hit.chart;
+  const chart = await buildChart(db, client, opts);
+  cache.delete(key);
+  cache.set(key, { stamp, chart });
+  if (cache.size > CACHE_LIMIT) cache.delete(cache.keys().next().value!);
+  return chart;
 }

@@ -156,3 +156,16 @@ describe("in-person results", () => {
     expect(grades[0].signedByUserId).toBeNull();
   });
 });
+
+describe("chart cache", () => {
+  it("serves the same chart until something on it changes, then rebuilds", async () => {
+    const { cachedChart } = await import("@/lib/chart/chart");
+    const c = await client("kofi");
+    const first = await cachedChart(t.db, c, { today: TODAY });
+    expect(await cachedChart(t.db, c, { today: TODAY })).toBe(first);
+    await recordPassiveRange(t.db, { actor: therapist, client: c, today: TODAY }, { motion: "finger.abduction", side: "left", digit: "little", valueDeg: 15, note: "" });
+    const after = await cachedChart(t.db, c, { today: TODAY });
+    expect(after).not.toBe(first);
+    expect(after.rows.find((r) => r.key === "finger.abduction|left|little")?.passiveRangeDeg).toBe(15);
+  });
+});
