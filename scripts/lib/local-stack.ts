@@ -3,6 +3,7 @@ import { existsSync } from "node:fs";
 import path from "node:path";
 import { startMediaServer } from "../media-server/server";
 import { startMailCatcher } from "../mail-catcher";
+import { startPaymentFake } from "../payment-fake/server";
 import { LOCAL_DEFAULTS } from "@/lib/env";
 
 export const ROOT = path.resolve(__dirname, "../..");
@@ -13,6 +14,8 @@ export interface StackOptions {
   mailHttpPort: number;
   mediaPort: number;
   databaseUrl: string;
+  /** The payment stand-in's port; by default appPort + 9111 (12111 for the demo on 3000). */
+  paymentPort?: number;
   authSecret?: string;
   /** Print the server's output (the demo does; tests keep it quiet unless they fail). */
   verbose?: boolean;
@@ -22,6 +25,7 @@ export interface LocalStack {
   appUrl: string;
   mailUrl: string;
   mediaUrl: string;
+  paymentUrl: string;
   env: Record<string, string>;
   output: () => string;
   stop: () => Promise<void>;
@@ -43,9 +47,19 @@ export function localEnv(opts: StackOptions): Record<string, string> {
     LIVEKIT_URL: `ws://localhost:${opts.mediaPort}`,
     LIVEKIT_API_KEY: LOCAL_DEFAULTS.DEV_LIVEKIT_KEY,
     LIVEKIT_API_SECRET: LOCAL_DEFAULTS.DEV_LIVEKIT_SECRET,
+    STRIPE_API_URL: `http://localhost:${paymentPort(opts)}`,
+    STRIPE_SECRET_KEY: LOCAL_DEFAULTS.DEV_STRIPE_SECRET_KEY,
+    STRIPE_WEBHOOK_SECRET: LOCAL_DEFAULTS.DEV_STRIPE_WEBHOOK_SECRET,
   };
+  // A test database keeps its uploaded files beside it, so each suite starts with none.
+  const dbFile = opts.databaseUrl.startsWith("file:") ? path.resolve(ROOT, opts.databaseUrl.slice(5)) : null;
+  if (dbFile && dbFile !== path.join(ROOT, "data/kinarc.db")) e.UPLOADS_DIR = dbFile.replace(/\.db$/, "") + "-uploads";
   if (opts.authSecret) e.AUTH_SECRET = opts.authSecret;
   return e;
+}
+
+function paymentPort(opts: StackOptions): number {
+  return opts.paymentPort ?? opts.appPort + 9111;
 }
 
 export function hasBuild(): boolean {
@@ -80,6 +94,13 @@ export async function startLocalStack(opts: StackOptions): Promise<LocalStack> {
   const env = localEnv(opts);
   const mail = await startMailCatcher({ smtpPort: opts.smtpPort, httpPort: opts.mailHttpPort, quiet: !opts.verbose });
   const media = await startMediaServer({ port: opts.mediaPort, apiKey: env.LIVEKIT_API_KEY, apiSecret: env.LIVEKIT_API_SECRET });
+  const payment = await startPaymentFake({
+    port: paymentPort(opts),
+    secretKey: env.STRIPE_SECRET_KEY,
+    webhookSecret: env.STRIPE_WEBHOOK_SECRET,
+    webhookUrl: `${env.APP_URL}/api/v1/webhooks/payments`,
+    quiet: !opts.verbose,
+  });
   let log = "";
   const app = spawn(process.execPath, [path.join(ROOT, "node_modules/next/dist/bin/next"), "start", "-p", String(opts.appPort)], {
     cwd: ROOT,
@@ -97,6 +118,7 @@ export async function startLocalStack(opts: StackOptions): Promise<LocalStack> {
       app.kill("SIGTERM");
       await new Promise((r) => app.once("exit", r));
     }
+    await payment.close();
     await media.close();
     await mail.close();
   };
@@ -110,6 +132,7 @@ export async function startLocalStack(opts: StackOptions): Promise<LocalStack> {
     appUrl: env.APP_URL,
     mailUrl: `http://127.0.0.1:${opts.mailHttpPort}`,
     mediaUrl: media.url,
+    paymentUrl: payment.url,
     env,
     output: () => log,
     stop,
