@@ -92,7 +92,8 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
     room.sendTelemetry(
       encodeTelemetry({
         seq: seq.current++,
-        t: now,
+        // Wall-clock send time (ms, modulo 2^32): lets the receiver measure the delay when clocks agree.
+        t: Date.now() % 2 ** 32,
         angleDeg: angle,
         peakDeg: peak.current,
         quality: u?.quality ?? (f.hand ? "ok" : "no_hand"),
