@@ -159,39 +159,45 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
       {step === "choose" ? (
         <Card title="What to check">
           <div className="grid gap-4 sm:grid-cols-2">
-            <label className="block text-sm font-medium text-ink">
-              Movement
-              <select className="mt-1 block w-full rounded-lg border border-sand-200 bg-white px-3 py-2 text-base" value={motion} onChange={(e) => chooseMotion(e.target.value as MotionId)}>
+            <div>
+              <label htmlFor="self-check-motion" className="block text-sm font-medium text-ink">
+                Movement
+              </label>
+              <select id="self-check-motion" className="mt-1 block w-full rounded-lg border border-sand-200 bg-white px-3 py-2 text-base" value={motion} onChange={(e) => chooseMotion(e.target.value as MotionId)}>
                 {props.offered.map((m) => (
                   <option key={m} value={m}>
                     {MOTIONS[m].label}
                   </option>
                 ))}
               </select>
-            </label>
+            </div>
             {def.digits.length ? (
-              <label className="block text-sm font-medium text-ink">
-                Finger
-                <select className="mt-1 block w-full rounded-lg border border-sand-200 bg-white px-3 py-2 text-base" value={digit ?? ""} onChange={(e) => setDigit(e.target.value as Digit)}>
+              <div>
+                <label htmlFor="self-check-digit" className="block text-sm font-medium text-ink">
+                  Finger
+                </label>
+                <select id="self-check-digit" className="mt-1 block w-full rounded-lg border border-sand-200 bg-white px-3 py-2 text-base" value={digit ?? ""} onChange={(e) => setDigit(e.target.value as Digit)}>
                   {def.digits.map((d) => (
                     <option key={d} value={d}>
                       {DIGIT_WORDS[d]}
                     </option>
                   ))}
                 </select>
-              </label>
+              </div>
             ) : null}
             {props.sides.length > 1 ? (
-              <label className="block text-sm font-medium text-ink">
-                Hand
-                <select className="mt-1 block w-full rounded-lg border border-sand-200 bg-white px-3 py-2 text-base" value={side} onChange={(e) => setSide(e.target.value as Side)}>
+              <div>
+                <label htmlFor="self-check-side" className="block text-sm font-medium text-ink">
+                  Hand
+                </label>
+                <select id="self-check-side" className="mt-1 block w-full rounded-lg border border-sand-200 bg-white px-3 py-2 text-base" value={side} onChange={(e) => setSide(e.target.value as Side)}>
                   {props.sides.map((s) => (
                     <option key={s} value={s}>
                       {s === "left" ? "Left hand" : "Right hand"}
                     </option>
                   ))}
                 </select>
-              </label>
+              </div>
             ) : (
               <p className="text-sm text-ink-soft">
                 Hand: <span className="font-medium text-ink">{side === "left" ? "left" : "right"}</span>
