@@ -15,7 +15,11 @@ interface ScheduleError extends Error {
   fields?: Record<string, string>;
 }
 
-function ScheduleForm({ group, timezone, onClose }: { group: QueueGroup; timezone: string; onClose: () => void }) {
+function nextDay(isoDay: string): string {
+  return new Date(Date.parse(`${isoDay}T12:00:00Z`) + 86_400_000).toISOString().slice(0, 10);
+}
+
+function ScheduleForm({ group, today, timezone, onClose }: { group: QueueGroup; today: string; timezone: string; onClose: () => void }) {
   const queryClient = useQueryClient();
   const open = group.items.filter((i) => !i.scheduledVisitId);
   const schedule = useMutation<{ id: string; invited: boolean; inviteProblem: string | null }, ScheduleError, unknown>({
@@ -59,9 +63,9 @@ function ScheduleForm({ group, timezone, onClose }: { group: QueueGroup; timezon
           name="startsAtLocal"
           id={`starts-${group.clientId}`}
           type="datetime-local"
-          defaultValue={`${group.earliestDate > new Date().toISOString().slice(0, 10) ? group.earliestDate : new Date(Date.now() + 86_400_000).toISOString().slice(0, 10)}T10:00`}
+          defaultValue={`${group.earliestDate > today ? group.earliestDate : nextDay(today)}T10:00`}
           error={e.startsAtLocal ?? e.startsAt}
-          hint={group.earliestDate !== new Date().toISOString().slice(0, 10) ? `Resisted testing not before ${group.earliestDate}` : undefined}
+          hint={group.earliestDate > today ? `Resisted testing not before ${group.earliestDate}` : undefined}
         />
         <TextField label="Minutes" name="durationMin" id={`duration-${group.clientId}`} type="number" min={10} max={240} defaultValue="45" error={e.durationMin} />
         <TextField label="Place" name="location" id={`location-${group.clientId}`} defaultValue="Saltmarsh clinic, room 2" error={e.location} />
@@ -141,7 +145,7 @@ export function FollowUpQueue({ initial, timezone }: { initial: { today: string;
                 ))}
               </ul>
             ) : null}
-            {open === g.clientId ? <ScheduleForm group={g} timezone={timezone} onClose={() => setOpen(null)} /> : null}
+            {open === g.clientId ? <ScheduleForm group={g} today={data.today} timezone={timezone} onClose={() => setOpen(null)} /> : null}
           </Card>
         </li>
       ))}

@@ -60,10 +60,11 @@ describe("FHIR R4 export", () => {
 
   it("carries the grades, angles in UCUM degrees and grip in pound-force", async () => {
     const c = await client("bram");
-    const bundle = chartBundle(c, await buildChart(t.db, c, { today: TODAY })) as { entry: { resource: Record<string, any> }[] };
+    type Obs = { resourceType: string; code: { coding: { code: string }[] }; method: { text: string }; status: string; valueCodeableConcept?: { text: string }; valueQuantity?: Record<string, unknown> };
+    const bundle = chartBundle(c, await buildChart(t.db, c, { today: TODAY })) as { entry: { resource: Obs }[] };
     const obs = bundle.entry.map((e) => e.resource).filter((r) => r.resourceType === "Observation");
     const palpation = obs.find((o) => o.code.coding[0].code === "mmt-grade.mcp.extension" && o.method.text.includes("palpation"));
-    expect(palpation?.valueCodeableConcept.text).toBe("1");
+    expect(palpation?.valueCodeableConcept?.text).toBe("1");
     expect(palpation?.status).toBe("final");
     const angle = obs.find((o) => o.code.coding[0].code === "arom-peak.wrist.extension");
     expect(angle?.valueQuantity).toMatchObject({ system: "http://unitsofmeasure.org", code: "deg" });
