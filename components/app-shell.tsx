@@ -9,12 +9,14 @@ const NAV: Record<Role, { href: string; label: string }[]> = {
     { href: "/visits", label: "Visits" },
     { href: "/follow-ups", label: "Follow-ups" },
     { href: "/clients", label: "Clients" },
+    { href: "/uploads", label: "Clips & documents" },
   ],
   assistant: [
     { href: "/home", label: "My list" },
     { href: "/visits", label: "Visits" },
     { href: "/follow-ups", label: "Follow-ups" },
     { href: "/clients", label: "Clients" },
+    { href: "/uploads", label: "Clips & documents" },
   ],
   admin: [
     { href: "/home", label: "Overview" },
@@ -23,10 +25,14 @@ const NAV: Record<Role, { href: string; label: string }[]> = {
     { href: "/clinic", label: "Clinic settings" },
     { href: "/audit", label: "Access trail" },
     { href: "/clients", label: "Clients" },
+    { href: "/admin-billing", label: "Billing" },
+    { href: "/records", label: "Export & erasure" },
   ],
   client: [
     { href: "/home", label: "My page" },
     { href: "/practice/check", label: "Self-check" },
+    { href: "/uploads", label: "Send a clip" },
+    { href: "/pay", label: "Payments" },
   ],
 };
 

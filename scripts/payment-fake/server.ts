@@ -161,7 +161,8 @@ export async function startPaymentFake(opts: PaymentFakeOptions): Promise<Paymen
   }
 
   function publicSession(s: Session) {
-    const { line_items_label: _label, ...rest } = s;
+    const rest: Partial<Session> = { ...s };
+    delete rest.line_items_label;
     return rest;
   }
 
