@@ -12,10 +12,11 @@ import type { Actor } from "@/lib/auth/guard";
 /** The client's own page: plain words, large targets, works on a phone. */
 export async function ClientHome({ actor }: { actor: Actor }) {
   const db = getDb();
+  const now = new Date();
   const [record, clinic, visits] = await Promise.all([
     actor.clientId ? getClient(db, actor.clinicId, actor.clientId) : null,
     getClinic(db, actor.clinicId),
-    listVisits(db, { clinicId: actor.clinicId, clientId: actor.clientId ?? "-", from: new Date(Date.now() - 2 * 3600_000), statuses: OPEN_STATUSES, limit: 3 }),
+    listVisits(db, { clinicId: actor.clinicId, clientId: actor.clientId ?? "-", from: new Date(now.getTime() - 2 * 3600_000), statuses: OPEN_STATUSES, limit: 3 }),
   ]);
   const next = visits[0];
   const zone = clinic?.timezone ?? "UTC";

@@ -28,11 +28,12 @@ export async function ClinicianHome({ actor }: { actor: Actor }) {
   const clinic = await getClinic(db, actor.clinicId);
   const zone = clinic?.timezone ?? "UTC";
   // "Today" in the clinic's zone would need its midnight; the next 24 hours from now serve a working day well enough.
+  const now = new Date();
   const today = await listVisits(db, {
     clinicId: actor.clinicId,
     therapistId: actor.role === "therapist" ? actor.userId : undefined,
-    from: new Date(Date.now() - 3 * 3600_000),
-    to: new Date(Date.now() + 24 * 3600_000),
+    from: new Date(now.getTime() - 3 * 3600_000),
+    to: new Date(now.getTime() + 24 * 3600_000),
     statuses: ["scheduled", "waiting", "in_progress"],
   });
   const first = actor.name.split(" ")[0];
