@@ -36,7 +36,8 @@ export function allRows(): RowKey[] {
 export function rowLabel(r: { motion: string; digit: string | null }): string {
   const def = MOTIONS[r.motion as MotionId];
   const name = def ? def.label : r.motion;
-  return r.digit ? `${name}, ${r.digit}` : name;
+  // A motion of one digit only (thumb IP flexion) already names it.
+  return r.digit && !(def && def.digits.length === 1) ? `${name}, ${r.digit}` : name;
 }
 
 /** Daniels & Worthingham (Hislop, Avers & Brown, 9th ed., 2014) and MRC Memorandum 45 (1976) grades by how they are found. */

@@ -116,3 +116,41 @@ describe("strength and range chart to in-person follow-up", () => {
     expect(text).toMatch(/Wrist extension\nleft\n[^]*?\n4\nIn person,\nresisted/);
   });
 });
+
+describe("chart API access", () => {
+  it("a client reads only a simplified view of their own progress; other records 404; the admin reads nothing clinical", async () => {
+    const client = await signedIn("client@kinarc.test");
+    const own = await client.request.get(`${app.appUrl}/api/v1/clients/${app.seed.clientIds!.dorian}/chart`);
+    expect(own.status()).toBe(200);
+    const text = await own.text();
+    expect(JSON.parse(text).rows.some((r: { key: string }) => r.key === "wrist.extension|left|-")).toBe(true);
+    // No staff names, notes, bases or in-person needs in the client's view.
+    expect(text).not.toMatch(/Tomasz|Juniper|"note"|"basis"|"needs"/);
+    expect((await client.request.get(`${app.appUrl}/api/v1/clients/${app.seed.clientIds!.wren}/chart`)).status()).toBe(404);
+    expect((await client.request.get(`${app.appUrl}/api/v1/follow-ups`)).status()).toBe(403);
+    expect((await client.request.get(`${app.appUrl}/api/v1/clients/${app.seed.clientIds!.dorian}/report`)).status()).toBe(403);
+    await client.close();
+
+    const admin = await signedIn("admin@kinarc.test");
+    expect((await admin.request.get(`${app.appUrl}/api/v1/clients/${app.seed.clientIds!.bram}/chart`)).status()).toBe(403);
+    expect((await admin.request.post(`${app.appUrl}/api/v1/clients/${app.seed.clientIds!.bram}/in-person`, { data: {} })).status()).toBe(403);
+    await admin.close();
+  });
+
+  it("bad input gets a 400 naming the field and what was expected, and nothing is written", async () => {
+    const bram = app.seed.clientIds!.bram;
+    const res = await therapist.request.post(`${app.appUrl}/api/v1/clients/${bram}/passive-ranges`, {
+      data: { motion: "wrist.extension", side: "right", digit: "index", valueDeg: 400 },
+    });
+    expect(res.status()).toBe(400);
+    const body = await res.json();
+    expect(body.fields.valueDeg).toMatch(/at most 180/);
+    const list = await (await therapist.request.get(`${app.appUrl}/api/v1/clients/${bram}/passive-ranges`)).json();
+    expect(list.passiveRanges).toEqual([]);
+    // An assistant cannot co-sign.
+    const assistant = await signedIn("assistant@kinarc.test");
+    const anyId = "00000000-0000-4000-8000-000000000000";
+    expect((await assistant.request.post(`${app.appUrl}/api/v1/clients/${bram}/grades/${anyId}/cosign`)).status()).toBe(403);
+    await assistant.close();
+  });
+});
