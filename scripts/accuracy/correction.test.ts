@@ -33,7 +33,7 @@ describe("correction model", () => {
       model: "lite",
       key: i % 2 ? "index.pipFlexionDeg" : "ring.pipFlexionDeg",
       truthDeg,
-      estimate: { deg: 5 + 0.6 * truthDeg, imagePlaneDeg: 0.9 * truthDeg * facing, planeFacing: facing },
+      estimate: { deg: 5 + 0.6 * truthDeg, imagePlaneDeg: 0.9 * truthDeg * facing, planeFacing: facing, radialTowardCamera: i % 3 ? 0.8 : -0.8, palmTowardCamera: 0.1 * (i % 4) },
     };
   });
 
@@ -41,7 +41,13 @@ describe("correction model", () => {
     const model = fitCorrection(samples, { trainingSeed: 1, trainingStills: 80, ridgeLambda: 0 });
     expect(model.groups.lite["PIP flexion"].trainingSamples).toBe(80);
     expect(model.groups.lite["PIP flexion"].trainingMaeDeg).toBeLessThan(1e-6);
-    const corrected = applyCorrection(model, "lite", "middle.pipFlexionDeg", { deg: 5 + 0.6 * 70, imagePlaneDeg: 0, planeFacing: 0 });
+    const corrected = applyCorrection(model, "lite", "middle.pipFlexionDeg", {
+      deg: 5 + 0.6 * 70,
+      imagePlaneDeg: 0,
+      planeFacing: 0,
+      radialTowardCamera: 0.8,
+      palmTowardCamera: 0.2,
+    });
     expect(corrected).toBeCloseTo(70, 6);
   });
 
@@ -51,5 +57,23 @@ describe("correction model", () => {
     expect(applyCorrection(model, "lite", "index.pipFlexionDeg", samples[0].estimate)).toBeNull();
     const full = fitCorrection(samples, { trainingSeed: 1, trainingStills: 80 });
     expect(applyCorrection(full, "full", "index.pipFlexionDeg", samples[0].estimate)).toBeNull();
+  });
+});
+
+describe("a correction file of another form", () => {
+  it("is refused with the expected coefficient count named", () => {
+    const model = fitCorrection(
+      Array.from({ length: 40 }, (_, i) => ({
+        model: "lite",
+        key: "index.pipFlexionDeg" as const,
+        truthDeg: i,
+        estimate: { deg: i, imagePlaneDeg: i, planeFacing: (i % 5) / 4, radialTowardCamera: (i % 3) - 1, palmTowardCamera: (i % 7) / 7 },
+      })),
+      { trainingSeed: 1, trainingStills: 40 },
+    );
+    model.groups.lite["PIP flexion"].coefficients = [1, 2, 3, 4, 5, 6];
+    expect(() =>
+      applyCorrection(model, "lite", "index.pipFlexionDeg", { deg: 1, imagePlaneDeg: 1, planeFacing: 1, radialTowardCamera: 0, palmTowardCamera: 0 }),
+    ).toThrow(/expected 10 coefficients/);
   });
 });

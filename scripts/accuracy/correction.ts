@@ -7,14 +7,26 @@ import { JOINT_GROUPS } from "./joint-groups";
  * Kinarc's angle correction, version 1: per joint group and hand model, a linear map from what the raw landmarks
  * give to the joint angle,
  *
- *   angle = b0 + b1*deg + b2*imagePlaneDeg + b3*facing + b4*deg*facing + b5*imagePlaneDeg*facing
+ *   angle = b . [1, deg, ip, facing, deg*facing, ip*facing, radial, deg*radial, palm, deg*palm]
  *
- * where `deg` is the engine's 3-D reading, `imagePlaneDeg` its image-plane counterpart and `facing` how squarely
- * the joint's plane faces the camera (1 = in the image). The products let the fit lean on the image-plane angle when
- * the plane faces the camera and on the 3-D one when it does not. Fitted by ridge least squares (a small penalty
- * keeps the map tame where one view dominates); deterministic for a given training set.
+ * where `deg` is the engine's 3-D reading, `ip` its image-plane counterpart, `facing` how squarely the joint's plane
+ * faces the camera (1 = in the image), and `radial` / `palm` which side of the hand faces the camera (cosines, from
+ * the landmarks' own hand axes). The products let the fit lean on the image-plane angle when the plane faces the
+ * camera, and let the under-reading differ between a thumb-side and a little-finger-side view. Fitted by ridge least
+ * squares (a small penalty keeps the map tame where one view dominates); deterministic for a given training set.
  */
-export const CORRECTION_FEATURES = ["1", "deg", "imagePlaneDeg", "facing", "deg*facing", "imagePlaneDeg*facing"] as const;
+export const CORRECTION_FEATURES = [
+  "1",
+  "deg",
+  "imagePlaneDeg",
+  "facing",
+  "deg*facing",
+  "imagePlaneDeg*facing",
+  "radial",
+  "deg*radial",
+  "palm",
+  "deg*palm",
+] as const;
 
 export interface CorrectionGroupFit {
   coefficients: number[];
@@ -36,8 +48,8 @@ export interface CorrectionModel {
 export const CORRECTION_VERSION = "kinarc-correction-1";
 
 export function correctionFeatures(estimate: AngleEstimate): number[] {
-  const { deg, imagePlaneDeg: ip, planeFacing: c } = estimate;
-  return [1, deg, ip, c, deg * c, ip * c];
+  const { deg, imagePlaneDeg: ip, planeFacing: c, radialTowardCamera: r, palmTowardCamera: p } = estimate;
+  return [1, deg, ip, c, deg * c, ip * c, r, deg * r, p, deg * p];
 }
 
 export interface CorrectionSample {
@@ -80,7 +92,7 @@ export function fitCorrection(
   }
   for (const [cell, cellSamples] of [...byCell].sort(([a], [b]) => a.localeCompare(b))) {
     const [model, group] = cell.split("\u0000");
-    // Six coefficients need clearly more than six samples; a thin cell stays uncorrected rather than overfitted.
+    // Ten coefficients need clearly more than ten samples; a thin cell stays uncorrected rather than overfitted.
     if (cellSamples.length < 30) continue;
     const rows = cellSamples.map((s) => correctionFeatures(s.estimate));
     const targets = cellSamples.map((s) => s.truthDeg);
@@ -98,5 +110,8 @@ export function applyCorrection(model: CorrectionModel, handModel: string, key: 
   const group = jointGroupOf(key);
   const fit = group ? model.groups[handModel]?.[group] : undefined;
   if (!fit) return null;
+  if (fit.coefficients.length !== CORRECTION_FEATURES.length) {
+    throw new Error(`correction ${handModel} ${group}: expected ${CORRECTION_FEATURES.length} coefficients (${CORRECTION_FEATURES.join(", ")}), got ${fit.coefficients.length}; refit`);
+  }
   return correctionFeatures(estimate).reduce((sum, value, i) => sum + value * fit.coefficients[i], 0);
 }

@@ -35,6 +35,10 @@ export interface AngleEstimate {
    * the image (the angle is all in view), 0 when it is edge-on (the angle is all in depth).
    */
   planeFacing: number;
+  /** cos of the angle between the hand's radial axis and the direction to the camera: +1 thumb side toward it. */
+  radialTowardCamera: number;
+  /** cos of the angle between the palm's normal and the direction to the camera: +1 palm toward it. */
+  palmTowardCamera: number;
 }
 
 /**
@@ -51,7 +55,17 @@ export function estimateAngles(
   for (const key of ESTIMATED_KEYS) {
     const { motion, digit } = ENGINE_MOTION_FOR[key]!;
     const reading = axes ? readMotion(motion, digit, hand, axes, forearm) : null;
-    result[key] = reading ? { deg: reading.deg, imagePlaneDeg: reading.imagePlaneDeg, planeFacing: Math.abs(reading.axis[2]) } : null;
+    // Camera axes: z points away from the camera, so "toward the camera" is -z.
+    result[key] =
+      reading && axes
+        ? {
+            deg: reading.deg,
+            imagePlaneDeg: reading.imagePlaneDeg,
+            planeFacing: Math.abs(reading.axis[2]),
+            radialTowardCamera: -axes.radialAxis[2],
+            palmTowardCamera: -axes.palmarNormal[2],
+          }
+        : null;
   }
   return result;
 }
