@@ -1,6 +1,7 @@
 // HL7 FHIR R4 export of the chart: a `collection` Bundle with the Patient and one Observation per current grade,
 // per motion's best verified peak angle, and per grip/pinch reading. Units are UCUM; categories from HL7's
 // observation-category code system. Kinarc's own motion codes live under a URN, as FHIR allows for local codes.
+import { createHash } from "node:crypto";
 import type { Client } from "@/db/schema";
 import { KG_PER_LB, MATHIOWETZ_1985, STRENGTH_TEST_LABELS } from "@/lib/norms/grip-pinch";
 import type { ChartData, ChartGrade, ChartRow, StrengthRow } from "@/lib/chart/chart";
@@ -86,6 +87,15 @@ function strengthObservation(s: StrengthRow, patientRef: string): Json {
 
 const FHIR_GENDER: Record<Client["sex"], string> = { female: "female", male: "male", other: "other", unknown: "unknown" };
 
+/** A stable UUID (version 5 layout, SHA-1 of a name) so the same export gives the same fullUrls every time. */
+function nameUuid(name: string): string {
+  const h = createHash("sha1").update(name).digest();
+  h[6] = (h[6] & 0x0f) | 0x50;
+  h[8] = (h[8] & 0x3f) | 0x80;
+  const x = h.subarray(0, 16).toString("hex");
+  return `${x.slice(0, 8)}-${x.slice(8, 12)}-${x.slice(12, 16)}-${x.slice(16, 20)}-${x.slice(20)}`;
+}
+
 export function chartBundle(client: Client, chart: ChartData, now = new Date()): Json {
   const patientUrl = `urn:uuid:${client.id}`;
   const patient: Json = {
@@ -110,7 +120,7 @@ export function chartBundle(client: Client, chart: ChartData, now = new Date()):
     timestamp: now.toISOString(),
     entry: [
       { fullUrl: patientUrl, resource: patient },
-      ...observations.map((o) => ({ fullUrl: `urn:uuid:${o.id && /^[0-9a-f-]{36}$/.test(String(o.id)) ? o.id : crypto.randomUUID()}`, resource: o })),
+      ...observations.map((o) => ({ fullUrl: `urn:uuid:${/^[0-9a-f-]{36}$/.test(String(o.id)) ? o.id : nameUuid(`${client.id}|${String(o.id)}`)}`, resource: o })),
     ],
   };
 }

@@ -73,6 +73,17 @@ describe("FHIR R4 export", () => {
     expect(grip?.valueQuantity).toMatchObject({ value: 70, code: "[lbf_av]" });
   });
 
+  it("gives every entry a unique urn:uuid fullUrl, the same on every export", async () => {
+    const c = await client("dorian");
+    const chart = await buildChart(t.db, c, { today: TODAY });
+    const urls = (b: Record<string, unknown>) => (b.entry as { fullUrl: string }[]).map((e) => e.fullUrl);
+    const first = urls(chartBundle(c, chart));
+    expect(new Set(first).size).toBe(first.length);
+    // RFC 4122 UUID form, as FHIR's urn:uuid requires.
+    for (const u of first) expect(u).toMatch(/^urn:uuid:[0-9a-f]{8}-[0-9a-f]{4}-[1-5][0-9a-f]{3}-[89ab][0-9a-f]{3}-[0-9a-f]{12}$/);
+    expect(urls(chartBundle(c, chart))).toEqual(first);
+  });
+
   it("the schema check catches a broken Observation (so the check above can fail)", async () => {
     const c = await client("dorian");
     const bundle = chartBundle(c, await buildChart(t.db, c, { today: TODAY })) as { entry: { resource: Record<string, unknown> }[] };
