@@ -63,13 +63,29 @@ function vitest(label: string, args: string[], env: Record<string, string> = {})
     lines.push(`${label}: crashed before reporting (exit ${code})`);
     return;
   }
-  const r = JSON.parse(readFileSync(report, "utf8")) as { numPassedTests: number; numFailedTests: number; numPendingTests: number; numTodoTests: number; numFailedTestSuites: number };
-  // A suite that fails to load has no failed tests but must still count.
-  const failed = r.numFailedTests + (r.numFailedTests === 0 && r.numFailedTestSuites > 0 ? r.numFailedTestSuites : 0);
-  total.passed += r.numPassedTests;
+  const r = JSON.parse(readFileSync(report, "utf8")) as {
+    testResults: { status: string; assertionResults: { status: string }[] }[];
+  };
+  let passed = 0;
+  let failed = 0;
+  let skipped = 0;
+  for (const file of r.testResults) {
+    const statuses = file.assertionResults.map((a) => a.status);
+    const fileFailed = file.status === "failed";
+    passed += statuses.filter((s) => s === "passed").length;
+    if (fileFailed && !statuses.includes("failed")) {
+      // The file failed outside any test (setup, import, hook): each of its tests that did not pass failed, or the
+      // file counts once when it had none.
+      failed += Math.max(1, statuses.filter((s) => s !== "passed").length);
+    } else {
+      failed += statuses.filter((s) => s === "failed").length;
+      skipped += statuses.filter((s) => s === "skipped" || s === "pending" || s === "todo").length;
+    }
+  }
+  total.passed += passed;
   total.failed += failed;
-  total.skipped += r.numPendingTests + r.numTodoTests;
-  lines.push(`${label}: ${r.numPassedTests} passed, ${failed} failed${r.numPendingTests ? `, ${r.numPendingTests} skipped` : ""}`);
+  total.skipped += skipped;
+  lines.push(`${label}: ${passed} passed, ${failed} failed${skipped ? `, ${skipped} skipped` : ""}`);
   if (code !== 0 && failed === 0) {
     total.failed += 1;
     lines.push(`${label}: exited ${code} without a failed test`);
