@@ -112,6 +112,7 @@ function InPersonForm({ clientId, row, chart, replaces, onDone }: { clientId: st
   const [method, setMethod] = useState<"in_person_resisted" | "in_person_palpation">(blocked ? "in_person_palpation" : "in_person_resisted");
   const grades = IN_PERSON_GRADES[chart.scale as GradeScale];
   const values = method === "in_person_resisted" ? grades.resisted : grades.palpation;
+  const planned = chart.visits.find((v) => v.plannedKeys.includes(row.key));
   return (
     <form
       aria-label="Record an in-person grade"
@@ -120,7 +121,10 @@ function InPersonForm({ clientId, row, chart, replaces, onDone }: { clientId: st
         e.preventDefault();
         const f = new FormData(e.currentTarget);
         post.mutate(
-          { grades: [{ method, ...rowBody(row), value: f.get("value"), note: f.get("note") ?? "", replacesId: replaces && replaces.method !== "remote_range" ? replaces.id : null }] },
+          {
+            visitId: f.get("visitId") || null,
+            grades: [{ method, ...rowBody(row), value: f.get("value"), note: f.get("note") ?? "", replacesId: replaces && replaces.method !== "remote_range" ? replaces.id : null }],
+          },
           { onSuccess: onDone },
         );
       }}
@@ -149,6 +153,18 @@ function InPersonForm({ clientId, row, chart, replaces, onDone }: { clientId: st
         />
         <SelectField label="Grade" name="value" id={`value-${row.key}`} key={method} options={values.map((v) => ({ value: v, label: v }))} defaultValue={values.at(-2) ?? values[0]} />
       </div>
+      {chart.visits.length ? (
+        <SelectField
+          label="In-person visit"
+          name="visitId"
+          id={`visit-${row.key}`}
+          defaultValue={planned?.id ?? ""}
+          options={[
+            { value: "", label: "Not part of a scheduled visit" },
+            ...chart.visits.map((v) => ({ value: v.id, label: `${v.startsAt.slice(0, 16).replace("T", " ")} UTC${v.location ? `, ${v.location}` : ""}` })),
+          ]}
+        />
+      ) : null}
       <TextField label="Note (optional)" name="note" id={`note-${row.key}`} />
       <Button type="submit" disabled={post.isPending}>
         {replaces && replaces.method !== "remote_range" ? "Record the correction" : "Record the in-person grade"}

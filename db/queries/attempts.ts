@@ -166,7 +166,7 @@ export async function attemptSeries(
 
 /**
  * A stamp that changes whenever anything the chart shows for a client changes (attempts added or kept, grades
- * recorded, co-signed or corrected, passive ranges, grip/pinch readings, the record or the clinic's settings).
+ * recorded, co-signed or corrected, passive ranges, grip/pinch readings, visits, the record or the clinic's settings).
  */
 export async function chartStamp(db: DbOrTx, clinicId: string, clientId: string): Promise<string> {
   const [row] = await db.all<Record<string, unknown>>(sql`
@@ -175,7 +175,8 @@ export async function chartStamp(db: DbOrTx, clinicId: string, clientId: string)
       (select count(*) || ':' || coalesce(max(recorded_at), 0) || ':' || count(signed_at) from grade_entries where client_id = ${clientId}) as g,
       (select count(*) || ':' || coalesce(max(created_at), 0) from passive_ranges where client_id = ${clientId}) as p,
       (select count(*) || ':' || coalesce(max(created_at), 0) from strength_readings where client_id = ${clientId}) as s,
+      (select count(*) || ':' || coalesce(max(updated_at), 0) from visits where client_id = ${clientId}) as v,
       (select updated_at from clients where id = ${clientId}) as c,
       (select updated_at from clinics where id = ${clinicId}) as k`);
-  return [row.a, row.g, row.p, row.s, row.c, row.k].join("|");
+  return [row.a, row.g, row.p, row.s, row.v, row.c, row.k].join("|");
 }

@@ -1,6 +1,7 @@
 import { and, eq, inArray } from "drizzle-orm";
 import type { DbOrTx } from "@/db";
 import { aggregateAttempts, chartStamp, recentAttempts, type RecentAttempt } from "@/db/queries/attempts";
+import { listUpcomingInPerson } from "@/db/queries/follow-ups";
 import { listGradeEntries } from "@/db/queries/grades";
 import { listPassiveRanges } from "@/db/queries/passive-ranges";
 import { clinics, strengthReadings, users, type Client, type GradeEntry, type StrengthReading } from "@/db/schema";
@@ -66,6 +67,8 @@ export interface ChartData {
   rows: ChartRow[];
   strength: StrengthRow[];
   awaitingCosign: number;
+  /** Open in-person visits (from 12 hours ago on), so a result can be filed under the visit it came from. */
+  visits: { id: string; startsAt: string; location: string | null; plannedKeys: string[] }[];
 }
 
 export interface ChartOptions {
@@ -95,13 +98,14 @@ function gradeJson(e: GradeEntry, names: Map<string, string>, replacedBy: Map<st
 
 /** The whole chart of one client, for staff. The caller has already checked access to the record. */
 export async function buildChart(db: DbOrTx, client: Client, opts: ChartOptions): Promise<ChartData> {
-  const [[clinic], aggregates, recent, entries, passive, strength] = await Promise.all([
+  const [[clinic], aggregates, recent, entries, passive, strength, upcoming] = await Promise.all([
     db.select().from(clinics).where(eq(clinics.id, client.clinicId)),
     aggregateAttempts(db, client.clinicId, client.id),
     recentAttempts(db, client.clinicId, client.id),
     listGradeEntries(db, client.clinicId, client.id),
     listPassiveRanges(db, client.clinicId, client.id),
     db.select().from(strengthReadings).where(and(eq(strengthReadings.clinicId, client.clinicId), eq(strengthReadings.clientId, client.id))),
+    listUpcomingInPerson(db, { clinicId: client.clinicId, clientId: client.id, from: new Date(Date.now() - 12 * 3600_000) }),
   ]);
   const scale: GradeScale = (GRADE_SCALES as readonly string[]).includes(clinic.gradeScale) ? (clinic.gradeScale as GradeScale) : DEFAULT_GRADE_SCALE;
   const rangeTable: RangeTableId = (RANGE_TABLE_IDS as readonly string[]).includes(clinic.normTable) ? (clinic.normTable as RangeTableId) : "aaos1965";
@@ -196,6 +200,7 @@ export async function buildChart(db: DbOrTx, client: Client, opts: ChartOptions)
     rows,
     strength: strengthRows,
     awaitingCosign: entries.filter((e) => e.status === "awaiting_cosign").length,
+    visits: upcoming.map((v) => ({ id: v.id, startsAt: v.startsAt.toISOString(), location: v.location, plannedKeys: (v.plannedTests ?? []).map(rowKey) })),
   };
 }
 

@@ -8,7 +8,7 @@ import { recordAudit } from "@/lib/audit";
 import { BadRequest } from "@/lib/http";
 import { scheduleVisit } from "@/lib/visits/service";
 import { formatInZone, zonedToUtc } from "@/lib/visits/time";
-import { buildChart } from "./chart";
+import { cachedChart } from "./chart";
 import { REASON_LABELS, REASON_URGENCY, resistancePrecaution, rowKey, rowLabel, type OpenNeed } from "./model";
 import type { AppointmentInput } from "./schemas";
 
@@ -57,7 +57,7 @@ export async function buildQueue(db: Database, clinicId: string, today: string, 
   const [people, upcoming] = await Promise.all([listQueueClients(db, clinicId), listUpcomingInPerson(db, { clinicId, from: new Date(now.getTime() - 2 * 3600_000) })]);
   const groups: QueueGroup[] = [];
   for (const client of people) {
-    const chart = await buildChart(db, client, { today });
+    const chart = await cachedChart(db, client, { today });
     const open = chart.rows.filter((r) => r.needs.length > 0);
     if (open.length === 0) continue;
     const visitsOfClient = upcoming.filter((v) => v.clientId === client.id);

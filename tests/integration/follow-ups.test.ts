@@ -1,11 +1,13 @@
 import ICAL from "ical.js";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { users, visits } from "@/db/schema";
+import { clients, users, visits } from "@/db/schema";
 import { seedDemo, type SeedResult } from "@/db/seed/demo";
 import { actorForUser, type Actor } from "@/lib/auth/guard";
+import { buildChart } from "@/lib/chart/chart";
 import { buildQueue, scheduleInPersonTest } from "@/lib/chart/follow-ups";
-import { appointmentSchema } from "@/lib/chart/schemas";
+import { recordInPersonResult } from "@/lib/chart/record";
+import { appointmentSchema, inPersonResultSchema } from "@/lib/chart/schemas";
 import { BadRequest } from "@/lib/http";
 import { runVisitJobs } from "@/lib/visits/service";
 import { startMailCatcher, type MailCatcher } from "../../scripts/mail-catcher";
@@ -71,5 +73,25 @@ describe("scheduling an in-person test from the queue", () => {
     expect(reminders()).toBe(1);
     await runVisitJobs(t.db, new Date("2026-12-21T18:00:00Z"));
     expect(reminders()).toBe(1);
+  });
+
+  it("filing the in-person result under the visit closes the flag and finishes the visit once every planned test is graded", async () => {
+    const dorianId = seed.clientIds!.dorian;
+    // The surgeon has cleared resisted testing: the record's precautions are lifted.
+    await t.db.update(clients).set({ precautionFlags: [], noResistedUntil: null, updatedAt: new Date() }).where(eq(clients.id, dorianId));
+    const [record] = await t.db.select().from(clients).where(eq(clients.id, dorianId));
+    const chart = await buildChart(t.db, record, { today: TODAY });
+    const visit = chart.visits.find((v) => v.plannedKeys.includes("wrist.extension|left|-"))!;
+    expect(visit).toBeDefined();
+    await recordInPersonResult(
+      t.db,
+      { actor: therapist, client: record, today: TODAY },
+      inPersonResultSchema.parse({ visitId: visit.id, grades: [{ method: "in_person_resisted", motion: "wrist.extension", side: "left", digit: null, value: "4" }] }),
+    );
+    const [finished] = await t.db.select().from(visits).where(eq(visits.id, visit.id));
+    expect(finished.status).toBe("finished");
+    const after = await buildChart(t.db, record, { today: TODAY });
+    expect(after.rows.find((r) => r.key === "wrist.extension|left|-")?.needs).toEqual([]);
+    expect(after.rows.find((r) => r.key === "wrist.extension|left|-")?.grade).toMatchObject({ value: "4", method: "in_person_resisted", visitId: visit.id });
   });
 });
