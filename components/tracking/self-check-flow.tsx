@@ -3,6 +3,7 @@
 import { useEffect, useMemo, useRef, useState } from "react";
 import { Badge, Card } from "@/components/ui/card";
 import { Button } from "@/components/ui/button";
+import { SelectField } from "@/components/ui/field";
 import { SafetyNote } from "@/components/safety-note";
 import { browserOutbox } from "@/lib/captures/outbox";
 import type { CaptureSaveResponse, StoredAttempt } from "@/lib/captures/upload";
@@ -159,45 +160,33 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
       {step === "choose" ? (
         <Card title="What to check">
           <div className="grid gap-4 sm:grid-cols-2">
-            <div>
-              <label htmlFor="self-check-motion" className="block text-sm font-medium text-ink">
-                Movement
-              </label>
-              <select id="self-check-motion" className="mt-1 block w-full rounded-lg border border-sand-200 bg-white px-3 py-2 text-base" value={motion} onChange={(e) => chooseMotion(e.target.value as MotionId)}>
-                {props.offered.map((m) => (
-                  <option key={m} value={m}>
-                    {MOTIONS[m].label}
-                  </option>
-                ))}
-              </select>
-            </div>
+            <SelectField
+              label="Movement"
+              name="motion"
+              id="self-check-motion"
+              value={motion}
+              onChange={(e) => chooseMotion(e.target.value as MotionId)}
+              options={props.offered.map((m) => ({ value: m, label: MOTIONS[m].label }))}
+            />
             {def.digits.length ? (
-              <div>
-                <label htmlFor="self-check-digit" className="block text-sm font-medium text-ink">
-                  Finger
-                </label>
-                <select id="self-check-digit" className="mt-1 block w-full rounded-lg border border-sand-200 bg-white px-3 py-2 text-base" value={digit ?? ""} onChange={(e) => setDigit(e.target.value as Digit)}>
-                  {def.digits.map((d) => (
-                    <option key={d} value={d}>
-                      {DIGIT_WORDS[d]}
-                    </option>
-                  ))}
-                </select>
-              </div>
+              <SelectField
+                label="Finger"
+                name="digit"
+                id="self-check-digit"
+                value={digit ?? ""}
+                onChange={(e) => setDigit(e.target.value as Digit)}
+                options={def.digits.map((d) => ({ value: d, label: DIGIT_WORDS[d] }))}
+              />
             ) : null}
             {props.sides.length > 1 ? (
-              <div>
-                <label htmlFor="self-check-side" className="block text-sm font-medium text-ink">
-                  Hand
-                </label>
-                <select id="self-check-side" className="mt-1 block w-full rounded-lg border border-sand-200 bg-white px-3 py-2 text-base" value={side} onChange={(e) => setSide(e.target.value as Side)}>
-                  {props.sides.map((s) => (
-                    <option key={s} value={s}>
-                      {s === "left" ? "Left hand" : "Right hand"}
-                    </option>
-                  ))}
-                </select>
-              </div>
+              <SelectField
+                label="Hand"
+                name="side"
+                id="self-check-side"
+                value={side}
+                onChange={(e) => setSide(e.target.value as Side)}
+                options={props.sides.map((s) => ({ value: s, label: s === "left" ? "Left hand" : "Right hand" }))}
+              />
             ) : (
               <p className="text-sm text-ink-soft">
                 Hand: <span className="font-medium text-ink">{side === "left" ? "left" : "right"}</span>
