@@ -1,7 +1,9 @@
 import Link from "next/link";
 import type { Role } from "@/db/schema";
 import { signOutAction } from "@/app/actions";
+import { IdleSignOut } from "@/components/idle-sign-out";
 import { KinarcMark } from "@/components/kinarc-mark";
+import { env } from "@/lib/env";
 
 const NAV: Record<Role, { href: string; label: string }[]> = {
   therapist: [
@@ -72,6 +74,7 @@ export function AppShell({ role, name, clinicName, children }: { role: Role; nam
         </div>
       </header>
       <main className="mx-auto max-w-6xl px-4 py-8">{children}</main>
+      {role === "client" ? null : <IdleSignOut idleMinutes={env().STAFF_IDLE_MINUTES} />}
     </div>
   );
 }

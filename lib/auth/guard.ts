@@ -3,6 +3,8 @@ import { z } from "zod";
 import { getDb, type Database } from "@/db";
 import { clients, users, type Client, type Role } from "@/db/schema";
 import { recordAudit } from "@/lib/audit";
+import { env } from "@/lib/env";
+import { staffSessionActive } from "./idle";
 import { auth, requestAddress } from "./index";
 
 /** The signed-in person as the server sees them, re-read from the database on every request. */
@@ -48,7 +50,11 @@ export async function actorForUser(db: Database, userId: string): Promise<Actor 
 export async function currentActor(): Promise<Actor | null> {
   const session = await auth();
   if (!session?.user?.id) return null;
-  return actorForUser(getDb(), session.user.id);
+  const db = getDb();
+  const actor = await actorForUser(db, session.user.id);
+  // Staff sessions lapse after STAFF_IDLE_MINUTES without a request (lib/auth/idle.ts).
+  if (actor && !(await staffSessionActive(db, actor, env().STAFF_IDLE_MINUTES))) return null;
+  return actor;
 }
 
 /** Resolves the session and checks the role. 401 when not signed in, 403 when the role may not do this. */
