@@ -40,6 +40,8 @@ const securityHeaders = [
   { key: "X-Frame-Options", value: "DENY" },
   { key: "Permissions-Policy", value: "camera=(self), microphone=(self), geolocation=(), payment=(self)" },
   { key: "Cross-Origin-Opener-Policy", value: "same-origin" },
+  // Browsers must come back over HTTPS only; a local install runs on plain http, where this header would be wrong.
+  ...(e.KINARC_DEPLOYMENT === "production" ? [{ key: "Strict-Transport-Security", value: "max-age=63072000; includeSubDomains" }] : []),
 ];
 
 /** @type {import('next').NextConfig} */

@@ -71,6 +71,12 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
               <option value="client.">Any record access</option>
               <option value="staff.">Team changes</option>
               <option value="clinic.">Clinic settings</option>
+              <option value="auth.idle_sign_out">Signed out for inactivity</option>
+              <option value="upload.">Clips and documents</option>
+              <option value="payment.">Payments</option>
+              <option value="billing.">Prices</option>
+              <option value="client.export">Exports</option>
+              <option value="client.erase">Erasures</option>
             </select>
           </label>
           <label className="text-sm">
