@@ -205,4 +205,30 @@ describe("guided self-check on the hand-photo clip", () => {
     expect(added[0]).toMatchObject({ motion: "pip.flexion", source: "self_check" });
     await context.close();
   });
+
+  it("the capture endpoint: 401 without a session, 404 for another client, 413 over the size limit, 201 then 200 for a retry", async () => {
+    const capture = { format: "kinarc.capture", version: 1, motion: "pip.flexion", side: "right", digit: "middle", condition: "against_gravity", frames: [{ t: 0, score: 0.9, hand: null }] };
+    const body = { captureUid: "e2e-endpoint-check-0001", source: "self_check", clientId: app.seed.clientIds!.dorian, capture };
+    const anonymous = await browser.newContext();
+    const refused = await anonymous.request.post(`${app.appUrl}/api/v1/captures`, { data: body, maxRedirects: 0 });
+    expect(refused.status()).toBe(401);
+    await anonymous.close();
+
+    const { context } = await signedInClient();
+    const post = (data: unknown, headers: Record<string, string> = {}) => context.request.post(`${app.appUrl}/api/v1/captures`, { data: data as object, headers });
+    expect((await post({ ...body, clientId: app.seed.clientIds!.kofi })).status()).toBe(404);
+    // 8 MB and a bit, as the endpoint states its limit.
+    const huge = await post(JSON.stringify({ ...body, padding: "x".repeat(8 * 1024 * 1024) }), { "content-type": "application/json" });
+    expect(huge.status()).toBe(413);
+    expect((await huge.json()).error).toMatch(/larger than 8 MB/);
+    const bad = await post({ ...body, capture: { ...capture, frames: [{ t: 0, score: 2, hand: null }] } });
+    expect(bad.status()).toBe(400);
+    expect((await bad.json()).fields).toHaveProperty(["capture.frames[0].score"]);
+    const first = await post(body);
+    expect(first.status()).toBe(201);
+    const again = await post(body);
+    expect(again.status()).toBe(200);
+    expect((await again.json()).attempt.id).toBe((await first.json()).attempt.id);
+    await context.close();
+  });
 });
