@@ -5,7 +5,7 @@ import { Badge, Card } from "@/components/ui/card";
 import { Button } from "@/components/ui/button";
 import { SelectField } from "@/components/ui/field";
 import { SafetyNote } from "@/components/safety-note";
-import { browserOutbox } from "@/lib/captures/outbox";
+import { browserOutbox, fetchSender } from "@/lib/captures/outbox";
 import type { CaptureSaveResponse, StoredAttempt } from "@/lib/captures/upload";
 import { CONDITIONS, MOTIONS, getReferenceEndRange, type CameraView, type Condition, type Digit, type MotionId, type RangeTableId, type Side } from "@/lib/motions/catalog";
 import { newCaptureUid } from "@/lib/tracking/capture-recorder";
@@ -104,13 +104,17 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
     setResult({ captureUid, local: analyzeCapture(recorded.capture) });
     setSaved(null);
     setQueueProblem(null);
+    const body = { captureUid, source: "self_check", clientId: props.clientId, recordedAt: Date.now(), capture: recorded.capture };
     try {
-      await browserOutbox().enqueue(
-        { captureUid, source: "self_check", clientId: props.clientId, recordedAt: Date.now(), capture: recorded.capture },
-        motionLabel(motion, digit, side),
-      );
+      await browserOutbox().enqueue(body, motionLabel(motion, digit, side));
     } catch (error) {
-      setQueueProblem(`This device could not keep the attempt (${error instanceof Error ? error.message : String(error)}). Try again in a normal (not private) browser window.`);
+      // No IndexedDB (some private windows): send it straight away instead, once, and say so if that fails too.
+      const outcome = await fetchSender()({ captureUid, body, label: "", queuedAt: 0, tries: 0, nextTryAt: 0, state: "pending", lastError: null });
+      if (outcome.kind === "saved") setSaved(outcome.response.attempt);
+      else
+        setQueueProblem(
+          `This device could not keep the attempt (${error instanceof Error ? error.message : String(error)}) and sending it failed (${outcome.error}). Try again in a normal (not private) browser window.`,
+        );
     }
   };
 
