@@ -5,6 +5,7 @@ import { listVisits, OPEN_STATUSES } from "@/db/queries/visits";
 import { ButtonLink } from "@/components/ui/button";
 import { formatInZone } from "@/lib/visits/time";
 import { Card, PageTitle } from "@/components/ui/card";
+import { ClientProgressCard } from "@/components/chart/client-progress";
 import { OutboxStatus } from "@/components/tracking/outbox-status";
 import { SafetyNote } from "@/components/safety-note";
 import type { Actor } from "@/lib/auth/guard";
@@ -43,6 +44,7 @@ export async function ClientHome({ actor }: { actor: Actor }) {
           </p>
         )}
       </Card>
+      <ClientProgressCard actor={actor} />
       <OutboxStatus />
       <Card title="Check a movement">
         <p className="text-sm text-ink-soft">Measure how far your wrist or a finger moves, with your camera, for your therapist.</p>

@@ -89,6 +89,10 @@ describe("strength and range chart to in-person follow-up", () => {
     const client = await signedIn("client@kinarc.test");
     const home = client.pages()[0];
     expect(await home.getByTestId("next-visit").textContent()).toMatch(/Saltmarsh clinic, room 3/);
+    // Their own progress in plain words: the signed grade, no staff names.
+    const progress = await home.getByTestId("client-progress").textContent();
+    expect(progress).toMatch(/Wrist extension, left: best \d+° .*strength grade 3/);
+    expect(progress).not.toMatch(/Tomasz|Juniper|awaiting/);
     await client.close();
   });
 
