@@ -91,10 +91,10 @@ export function drawHandOverlay(ctx: CanvasRenderingContext2D | OffscreenCanvasR
     ctx.arc(vertex[0], vertex[1], radius, span.startRad, span.endRad, span.anticlockwise);
     ctx.stroke();
 
-    // The number sits on the far side of the arc's middle, away from the finger.
-    const mid = (span.startRad + span.endRad) / 2;
-    const labelX = vertex[0] - Math.cos(mid) * (radius + 18 * scale);
-    const labelY = vertex[1] - Math.sin(mid) * (radius + 18 * scale);
+    // The number sits beside the joint on the side away from the bend, where it covers neither finger segment.
+    const labelRad = arc.startRad - (arc.direction * Math.PI) / 2;
+    const labelX = vertex[0] + Math.cos(labelRad) * (radius + 26 * scale);
+    const labelY = vertex[1] + Math.sin(labelRad) * (radius + 26 * scale);
     const text = `${Math.round(data.angleDeg)}°${data.targetDeg !== null ? ` / ${Math.round(data.targetDeg)}°` : ""}`;
     ctx.font = `600 ${Math.round(14 * scale)}px system-ui, sans-serif`;
     ctx.textAlign = "center";

@@ -76,7 +76,7 @@ export function arcGeometry(screen: { from: [number, number] | null; vertex: [nu
   const dx = screen.to[0] - vx;
   const dy = screen.to[1] - vy;
   const distalLength = Math.hypot(dx, dy);
-  const radius = Math.max(14, Math.min(60, distalLength * 0.6));
+  const radius = Math.max(18, Math.min(70, distalLength * 0.8));
   const distalRad = Math.atan2(dy, dx);
   if (!screen.from) {
     const direction = 1 as const;
