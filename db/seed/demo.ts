@@ -2,6 +2,7 @@ import { count } from "drizzle-orm";
 import type { Database } from "@/db";
 import { clients, clinics, users, type NewClient, type Role } from "@/db/schema";
 import { hashPassword } from "@/lib/auth/password";
+import { seedBillingDemo } from "./billing";
 import { seedChartDemo } from "./chart";
 
 /**
@@ -231,6 +232,7 @@ export async function seedDemo(db: Database, today = new Date()): Promise<SeedRe
       clientIds[key] = row.id;
     }
     await seedChartDemo(tx, { clinicId: clinic.id, clientIds, therapistId: staffIds["therapist@kinarc.test"], assistantId: staffIds["assistant@kinarc.test"] }, today);
+    await seedBillingDemo(tx, { clinicId: clinic.id, adminId: staffIds["admin@kinarc.test"], therapistId: staffIds["therapist@kinarc.test"], dorianId: clientIds.dorian }, today);
     return { seeded: true, clinicId: clinic.id, clientIds };
   });
 }

@@ -5,7 +5,7 @@ import { and, eq } from "drizzle-orm";
 import Stripe from "stripe";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { listVisitPayments, upsertVisitPrice } from "@/db/queries/payments";
-import { auditEvents, clients, payments, users, visits } from "@/db/schema";
+import { auditEvents, clients, payments, users, visitPrices, visits } from "@/db/schema";
 import { seedDemo, type SeedResult } from "@/db/seed/demo";
 import { actorForUser, type Actor } from "@/lib/auth/guard";
 import { PaymentRefused, refundPayment, startCheckout } from "@/lib/payments/checkout";
@@ -182,6 +182,8 @@ describe("what cannot be paid", () => {
     const [wrenClient] = await t.db.select().from(clients).where(eq(clients.id, seed.clientIds!.wren));
     const wren = (await actorForUser(t.db, wrenClient.userId!))!;
     await expect(startCheckout(t.db, stripe, wren, wrenVisit, { appUrl: "http://x" })).rejects.toThrow(/not self-pay/);
+    // The demo seed prices in-person visits too; this clinic has not (yet).
+    await t.db.delete(visitPrices).where(eq(visitPrices.visitKind, "in_person"));
     const inPerson = await newVisit("dorian", "in_person");
     const refused = await startCheckout(t.db, stripe, dorian, inPerson, { appUrl: "http://x" }).catch((e: unknown) => e);
     expect(refused).toBeInstanceOf(PaymentRefused);
