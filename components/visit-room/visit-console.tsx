@@ -79,7 +79,12 @@ export function VisitConsole(props: VisitConsoleProps) {
     const timer = setInterval(async () => {
       const stats = await track.receiver?.getStats();
       stats?.forEach((s) => {
-        if (s.type === "inbound-rtp" && s.jitterBufferEmittedCount) aligner.current.setVideoDelay((s.jitterBufferDelay / s.jitterBufferEmittedCount) * 1000);
+        if (s.type === "inbound-rtp" && s.jitterBufferEmittedCount) {
+          const delayMs = (s.jitterBufferDelay / s.jitterBufferEmittedCount) * 1000;
+          aligner.current.setVideoDelay(delayMs);
+          const w = window as { __kinarcOverlayDelays?: number[]; __kinarcVideoDelayMs?: number };
+          if (w.__kinarcOverlayDelays) w.__kinarcVideoDelayMs = delayMs;
+        }
       });
     }, 2000);
     return () => clearInterval(timer);

@@ -86,13 +86,15 @@ async function main() {
       w.__kinarcDataBytes = 0;
     });
     await therapist.waitForTimeout(seconds * 1000);
-    const { bytes, delays } = await therapist.evaluate(() => {
-      const w = window as unknown as { __kinarcOverlayDelays: number[]; __kinarcDataBytes: number };
-      return { bytes: w.__kinarcDataBytes, delays: [...w.__kinarcOverlayDelays] };
+    const { bytes, delays, videoDelayMs } = await therapist.evaluate(() => {
+      const w = window as unknown as { __kinarcOverlayDelays: number[]; __kinarcDataBytes: number; __kinarcVideoDelayMs?: number };
+      return { bytes: w.__kinarcDataBytes, delays: [...w.__kinarcOverlayDelays], videoDelayMs: w.__kinarcVideoDelayMs ?? null };
     });
     console.log(`visit: data received by the therapist: ${(bytes / seconds / 1024).toFixed(2)} KB/s (goal < 4 KB/s)`);
     console.log(`visit: overlay frames drawn: ${(delays.length / seconds).toFixed(1)} per second`);
     console.log(`visit: telemetry send → overlay drawn: median ${quantile(delays, 0.5).toFixed(0)} ms, p95 ${quantile(delays, 0.95).toFixed(0)} ms (goal < 250 ms; includes the hold for the video's playout delay)`);
+    console.log(`visit: video jitter-buffer delay the overlay waits for: ${videoDelayMs === null ? "not measured" : `${videoDelayMs.toFixed(0)} ms`}`);
+    console.log(`visit: machine load average during the run: ${(await import("node:os")).loadavg()[0].toFixed(1)} on ${(await import("node:os")).cpus().length} cores`);
     console.log("visit: add the tracker's frame-to-landmarks time (npm run bench -- tracking) for the full capture-to-overlay delay");
   } finally {
     await therapistBrowser.close();
