@@ -622,3 +622,78 @@ export type Upload = typeof uploads.$inferSelect;
 export type VisitPrice = typeof visitPrices.$inferSelect;
 export type Payment = typeof payments.$inferSelect;
 export type ClientErasure = typeof clientErasures.$inferSelect;
+
+// ---------------------------------------------------------------------------------------------------------------
+// Home practice between visits. Practice attempts are ordinary attempts with `source: "practice"` and the session's id
+// in `attempts.practice_session_id`; they inform the therapist and never become grades.
+
+export const PRACTICE_PERIODS = ["day", "week"] as const;
+export type PracticePeriod = (typeof PRACTICE_PERIODS)[number];
+
+/** One motion a therapist or assistant assigned to a client to practise at home, how often and until when. */
+export const homeProgramItems = sqliteTable(
+  "home_program_items",
+  {
+    id: id(),
+    clinicId: text("clinic_id")
+      .notNull()
+      .references(() => clinics.id, { onDelete: "restrict" }),
+    clientId: text("client_id")
+      .notNull()
+      .references(() => clients.id, { onDelete: "cascade" }),
+    motion: text("motion").notNull(),
+    side: text("side", { enum: SIDES }).notNull(),
+    digit: text("digit", { enum: DIGIT_NAMES }),
+    condition: text("condition", { enum: CONDITIONS }).notNull(),
+    /** Movements per session. */
+    repetitions: integer("repetitions").notNull(),
+    /** Sessions due in each `period`. */
+    sessionsPerPeriod: integer("sessions_per_period").notNull(),
+    period: text("period", { enum: PRACTICE_PERIODS }).notNull(),
+    /** Inclusive local dates (clinic time zone), YYYY-MM-DD. */
+    startDate: text("start_date").notNull(),
+    endDate: text("end_date").notNull(),
+    notes: text("notes").notNull().default(""),
+    assignedByUserId: text("assigned_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    /** Ended before its end date; kept so past adherence still reads against what was asked. */
+    endedAt: integer("ended_at", { mode: "timestamp_ms" }),
+    endedByUserId: text("ended_by_user_id").references(() => users.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    index("home_program_items_client_idx").on(t.clientId),
+    index("home_program_items_clinic_idx").on(t.clinicId),
+    index("home_program_items_assigned_by_idx").on(t.assignedByUserId),
+    index("home_program_items_ended_by_idx").on(t.endedByUserId),
+  ],
+);
+
+/**
+ * One sitting of practice of one program item. The id is chosen by the client's browser when the sitting starts and
+ * travels with each attempt, so attempts kept offline and sent later still join their sitting, exactly once.
+ */
+export const practiceSessions = sqliteTable(
+  "practice_sessions",
+  {
+    id: text("id").primaryKey(),
+    clinicId: text("clinic_id")
+      .notNull()
+      .references(() => clinics.id, { onDelete: "restrict" }),
+    clientId: text("client_id")
+      .notNull()
+      .references(() => clients.id, { onDelete: "cascade" }),
+    itemId: text("item_id")
+      .notNull()
+      .references(() => homeProgramItems.id, { onDelete: "cascade" }),
+    /** The first attempt's recording time. */
+    startedAt: integer("started_at", { mode: "timestamp_ms" }).notNull(),
+    /** The clinic-local date of `startedAt`, YYYY-MM-DD, which is what counts towards a day or week. */
+    localDate: text("local_date").notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [index("practice_sessions_client_date_idx").on(t.clientId, t.localDate), index("practice_sessions_item_idx").on(t.itemId), index("practice_sessions_clinic_idx").on(t.clinicId)],
+);
+
+export type HomeProgramItem = typeof homeProgramItems.$inferSelect;
+export type PracticeSession = typeof practiceSessions.$inferSelect;
