@@ -264,7 +264,7 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
 
       {cameraOn ? (
         <section className="space-y-3">
-          <div className="relative mx-auto aspect-[3/4] w-full max-w-xl overflow-hidden rounded-card bg-ink sm:aspect-[4/3]">
+          <div className="relative mx-auto aspect-[3/4] w-full max-w-xl overflow-hidden rounded-card bg-ink sm:aspect-[4/3]" data-testid="camera-view" data-thread={tracking.thread ?? ""}>
             <video ref={videoRef} className={`absolute inset-0 h-full w-full object-contain ${mirrored ? "-scale-x-100" : ""}`} playsInline muted />
             <HandOverlay
               image={tracking.frame?.image ?? null}

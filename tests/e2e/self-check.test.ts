@@ -115,6 +115,9 @@ describe("guided self-check on the hand-photo clip", () => {
     const { context, page } = await signedInClient();
     await openSetup(page);
     await startWhenReady(page);
+    // Where detection ran in the built app: a worker unless the browser refused one (then the main thread).
+    const thread = await page.getByTestId("camera-view").getAttribute("data-thread");
+    expect(["worker", "main"]).toContain(thread);
     await waitForStep(page, "recording", 15_000);
     // Three repetitions of about four seconds each, plus settling; the flow ends by itself after the third.
     await waitForStep(page, "summary", 80_000);
@@ -149,7 +152,7 @@ describe("guided self-check on the hand-photo clip", () => {
     const open = { pip: median(pip.filter((v) => v < cut)), mcp: median(mcp.filter((_, i) => pip[i] < cut)) };
     const fist = { pip: median(pip.filter((v) => v >= cut)), mcp: median(mcp.filter((_, i) => pip[i] >= cut)) };
     console.log(
-      `self-check clip: ${withHand}/${capture.frames.length} frames with a hand (${(detectionRate * 100).toFixed(1)}%); ` +
+      `self-check clip (tracking in the ${thread} thread): ${withHand}/${capture.frames.length} frames with a hand (${(detectionRate * 100).toFixed(1)}%); ` +
         `stored attempt: ${row.reps} reps, peak ${row.peakDeg?.toFixed(1)}°, plane ${row.planeVerdict} (${row.planeVerified ? "agrees" : "does not agree"}); ` +
         `raw engine, mean of index-little, median: open hand MCP ${open.mcp.toFixed(0)}° PIP ${open.pip.toFixed(0)}°, fist MCP ${fist.mcp.toFixed(0)}° PIP ${fist.pip.toFixed(0)}°`,
     );
