@@ -12,6 +12,7 @@ import { recordAudit } from "@/lib/audit";
 import { AccessError, NOT_FOUND, type Actor } from "@/lib/auth/guard";
 import { CaptureFormatError, parseCapture } from "@/lib/capture/parse";
 import { BadRequest } from "@/lib/http";
+import { checkPracticeMatches, joinPracticeSession, requirePracticeItem } from "@/lib/practice/sessions";
 import { analyzeCapture } from "@/vision/analyze-capture";
 import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } from "./upload";
 
@@ -36,6 +37,7 @@ export function attemptJson(a: Attempt): StoredAttempt {
     clientId: a.clientId,
     source: a.source,
     visitId: a.visitId,
+    practiceSessionId: a.practiceSessionId,
     motion: a.motion,
     side: a.side,
     digit: a.digit,
@@ -114,12 +116,17 @@ async function saveNow(db: Database, actor: Actor, client: Client, rawBody: unkn
   }
   if (body.visitId) await checkVisit(db, client, body.visitId, now);
 
+  const practiceItem = body.practiceItemId ? await requirePracticeItem(db, client, body.practiceItemId) : null;
+
   const analysis = analyzeCapture(capture);
+  if (practiceItem) checkPracticeMatches(practiceItem, analysis);
+  const recordedAt = new Date(body.recordedAt ?? now.getTime());
   const json = JSON.stringify(capture);
   const stored = { gzip: gzipSync(json), sha256: createHash("sha256").update(json).digest("hex"), bytes: Buffer.byteLength(json) };
 
   try {
     const attempt = await db.transaction(async (tx) => {
+      const practiceSessionId = practiceItem ? await joinPracticeSession(tx, client, practiceItem, body.practiceSessionId!, recordedAt) : null;
       const created = await insertAttemptWithCapture(
         tx,
         {
@@ -132,8 +139,9 @@ async function saveNow(db: Database, actor: Actor, client: Client, rawBody: unkn
           condition: analysis.condition,
           source: body.source,
           visitId: body.visitId ?? null,
+          practiceSessionId,
           recordedByUserId: actor.userId,
-          recordedAt: new Date(body.recordedAt ?? now.getTime()),
+          recordedAt,
           frames: analysis.frames,
           usableFrames: analysis.usableFrames,
           reps: analysis.reps,
@@ -160,7 +168,7 @@ async function saveNow(db: Database, actor: Actor, client: Client, rawBody: unkn
         subjectId: created.id,
         clientId: client.id,
         address: options.address ?? null,
-        detail: { source: body.source, motion: created.motion, side: created.side, digit: created.digit, visitId: created.visitId, captureBytes: stored.bytes },
+        detail: { source: body.source, motion: created.motion, side: created.side, digit: created.digit, visitId: created.visitId, practiceSessionId, captureBytes: stored.bytes },
       });
       return created;
     });

@@ -23,6 +23,9 @@ export const captureUploadSchema = z
     source: z.enum(ATTEMPT_SOURCES, { error: `expected one of ${ATTEMPT_SOURCES.join(", ")}` }),
     clientId: z.uuid({ error: "expected the client's id (a UUID)" }),
     visitId: z.uuid({ error: "expected a visit id (a UUID)" }).optional(),
+    /** Practice only: the home program item practised, and the sitting's id (chosen by the browser when it starts). */
+    practiceItemId: z.uuid({ error: "expected a home program item id (a UUID)" }).optional(),
+    practiceSessionId: z.uuid({ error: "expected a practice session id (a UUID)" }).optional(),
     /** When the attempt was recorded, UTC milliseconds (the browser's clock); the server's time when absent. */
     recordedAt: z.number({ error: "expected UTC milliseconds" }).int({ error: "expected whole milliseconds" }).positive({ error: "expected UTC milliseconds" }).optional(),
     capture: z.unknown(),
@@ -30,6 +33,10 @@ export const captureUploadSchema = z
   .superRefine((body, ctx) => {
     if (body.source === "visit" && !body.visitId) ctx.addIssue({ code: "custom", path: ["visitId"], message: 'expected the visit\'s id when source is "visit"' });
     if (body.source !== "visit" && body.visitId) ctx.addIssue({ code: "custom", path: ["visitId"], message: 'expected no visit id unless source is "visit"' });
+    if (body.source === "practice" && !body.practiceItemId) ctx.addIssue({ code: "custom", path: ["practiceItemId"], message: 'expected the program item\'s id when source is "practice"' });
+    if (body.source === "practice" && !body.practiceSessionId) ctx.addIssue({ code: "custom", path: ["practiceSessionId"], message: 'expected a practice session id when source is "practice"' });
+    if (body.source !== "practice" && (body.practiceItemId || body.practiceSessionId))
+      ctx.addIssue({ code: "custom", path: [body.practiceItemId ? "practiceItemId" : "practiceSessionId"], message: 'expected no practice ids unless source is "practice"' });
     if (body.capture === undefined) ctx.addIssue({ code: "custom", path: ["capture"], message: "expected a capture file (format kinarc.capture, version 1)" });
   });
 
@@ -42,6 +49,7 @@ export interface StoredAttempt {
   clientId: string;
   source: AttemptSource;
   visitId: string | null;
+  practiceSessionId: string | null;
   motion: string;
   side: "left" | "right";
   digit: string | null;
