@@ -8,6 +8,7 @@ import { Card, PageTitle } from "@/components/ui/card";
 import { ClientProgressCard } from "@/components/chart/client-progress";
 import { OutboxStatus } from "@/components/tracking/outbox-status";
 import { SafetyNote } from "@/components/safety-note";
+import { WhatToPractise } from "@/components/practice/what-to-practise";
 import type { Actor } from "@/lib/auth/guard";
 
 /** The client's own page: plain words, large targets, works on a phone. */
@@ -52,9 +53,7 @@ export async function ClientHome({ actor }: { actor: Actor }) {
           Start a self-check
         </ButtonLink>
       </Card>
-      <Card title="What to practise">
-        <p className="text-sm text-ink-soft">Your therapist has not set home exercises yet.</p>
-      </Card>
+      <WhatToPractise actor={actor} />
       <SafetyNote />
     </div>
   );

@@ -23,6 +23,11 @@ export interface SelfCheckFlowProps {
   rangeTable: RangeTableId;
   /** The client's own precaution note from the clinic, shown with the safety note. */
   precautionNote: string;
+  /**
+   * Practising a home program item: the motion is fixed, attempts are saved with `source: "practice"`, and every
+   * attempt of this sitting carries the same session id (chosen when the page was served).
+   */
+  practice?: { itemId: string; sessionId: string; motion: MotionId; digit: Digit | null; side: Side; condition: Condition; repetitions: number; notes: string };
 }
 
 type Step = "safety" | "choose" | "position" | "setup" | "countdown" | "recording" | "summary";
@@ -54,10 +59,10 @@ function motionLabel(motion: MotionId, digit: Digit | null, side: Side) {
 
 export function SelfCheckFlow(props: SelfCheckFlowProps) {
   const [step, setStep] = useState<Step>("safety");
-  const [motion, setMotion] = useState<MotionId>(props.offered[0]);
-  const [digit, setDigit] = useState<Digit | null>(MOTIONS[props.offered[0]].digits[0] ?? null);
-  const [side, setSide] = useState<Side>(props.sides[0]);
-  const [condition, setCondition] = useState<Condition>("against_gravity");
+  const [motion, setMotion] = useState<MotionId>(props.practice?.motion ?? props.offered[0]);
+  const [digit, setDigit] = useState<Digit | null>(props.practice ? props.practice.digit : (MOTIONS[props.offered[0]].digits[0] ?? null));
+  const [side, setSide] = useState<Side>(props.practice?.side ?? props.sides[0]);
+  const [condition, setCondition] = useState<Condition>(props.practice?.condition ?? "against_gravity");
   const [facing, setFacing] = useState<"user" | "environment">("user");
   const [countdown, setCountdown] = useState(COUNTDOWN_SECONDS);
   const [result, setResult] = useState<{ captureUid: string; local: CaptureAnalysis } | null>(null);
@@ -104,7 +109,8 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
     setResult({ captureUid, local: analyzeCapture(recorded.capture) });
     setSaved(null);
     setQueueProblem(null);
-    const body = { captureUid, source: "self_check", clientId: props.clientId, recordedAt: Date.now(), capture: recorded.capture };
+    const practiceIds = props.practice ? { practiceItemId: props.practice.itemId, practiceSessionId: props.practice.sessionId } : {};
+    const body = { captureUid, source: props.practice ? "practice" : "self_check", clientId: props.clientId, ...practiceIds, recordedAt: Date.now(), capture: recorded.capture };
     try {
       await browserOutbox().enqueue(body, motionLabel(motion, digit, side));
     } catch (error) {
@@ -155,7 +161,13 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
             <li>Stop at once if pain, swelling, numbness or tingling starts or gets worse, and tell your therapist.</li>
             <li>If your surgeon or therapist has told you not to move a joint yet, do not check it here.</li>
           </ul>
-          <Button className="mt-4 w-full sm:w-auto" onClick={() => setStep("choose")}>
+          {props.practice ? (
+            <p className="mt-3 text-sm text-ink" data-testid="practice-item">
+              Practising: <span className="font-medium">{motionLabel(motion, digit, side)}</span>, {props.practice.repetitions} times.
+              {props.practice.notes ? <span className="block text-ink-soft">{props.practice.notes}</span> : null}
+            </p>
+          ) : null}
+          <Button className="mt-4 w-full sm:w-auto" onClick={() => setStep(props.practice ? "position" : "choose")}>
             I understand, continue
           </Button>
         </Card>
@@ -255,7 +267,7 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
             >
               Turn on the camera
             </Button>
-            <Button variant="quiet" onClick={() => setStep("choose")}>
+            <Button variant="quiet" onClick={() => setStep(props.practice ? "safety" : "choose")}>
               Back
             </Button>
           </div>
@@ -362,14 +374,16 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
             </p>
           ) : null}
           <div className="mt-4 flex flex-wrap gap-2">
-            <Button
-              onClick={() => {
-                setResult(null);
-                setStep("choose");
-              }}
-            >
-              Check another movement
-            </Button>
+            {props.practice ? null : (
+              <Button
+                onClick={() => {
+                  setResult(null);
+                  setStep("choose");
+                }}
+              >
+                Check another movement
+              </Button>
+            )}
             <Button
               variant="quiet"
               onClick={() => {

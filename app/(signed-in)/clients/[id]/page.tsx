@@ -35,6 +35,11 @@ export default async function ClientRecordPage({ params }: { params: Promise<{ i
                 Strength and range chart
               </ButtonLink>
             ) : null}
+            {actor.role === "therapist" || actor.role === "assistant" ? (
+              <ButtonLink variant="quiet" href={`/clients/${record.id}/program`}>
+                Home program
+              </ButtonLink>
+            ) : null}
             {canEdit ? <ButtonLink href={`/clients/${record.id}/edit`}>Edit record</ButtonLink> : null}
           </div>
         }
