@@ -4,7 +4,7 @@ import os from "node:os";
 import path from "node:path";
 import { ListObjectsV2Command, S3Client } from "@aws-sdk/client-s3";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DiskStore, MissingBlob, S3Store, type BlobStore } from "@/lib/storage";
+import { DiskStore, getStorage, MissingBlob, S3Store, type BlobStore } from "@/lib/storage";
 import { S3_FAKE_CREDENTIALS, startS3Fake, type S3Fake } from "../../scripts/s3-fake";
 
 let s3: S3Fake;
@@ -65,5 +65,16 @@ describe("the disk store leaves no partial files behind", () => {
     const store = stores.disk();
     await Promise.all(Array.from({ length: 20 }, (_, i) => store.put(`p/q/same.bin`, randomBytes(10_000 + i), "application/octet-stream")));
     expect(readdirSync(path.join(diskRoot, "p/q"))).toEqual(["same.bin"]);
+  });
+});
+
+describe("the store is chosen by the environment", () => {
+  it("STORAGE_DRIVER=s3 with the bucket settings gives the S3 store, writing to that bucket", async () => {
+    // env() is read once per process, and nothing in this file read it before.
+    Object.assign(process.env, { KINARC_DEPLOYMENT: "local", STORAGE_DRIVER: "s3", S3_ENDPOINT: s3.endpoint, S3_BUCKET: s3.bucket, S3_ACCESS_KEY_ID: S3_FAKE_CREDENTIALS.accessKeyId, S3_SECRET_ACCESS_KEY: S3_FAKE_CREDENTIALS.secretAccessKey });
+    const store = getStorage();
+    expect(store.driver).toBe("s3");
+    await store.put("env/choice/check.bin", Buffer.from("chosen by env"), "application/octet-stream");
+    expect((await stores.s3().get("env/choice/check.bin")).toString()).toBe("chosen by env");
   });
 });
