@@ -4,6 +4,7 @@ import { createClient, type Client } from "@libsql/client";
 import { drizzle, type LibSQLDatabase } from "drizzle-orm/libsql";
 import { env } from "@/lib/env";
 import * as schema from "./schema";
+import { serializeWrites } from "./serialize";
 
 export type Database = LibSQLDatabase<typeof schema>;
 /** A transaction handle; queries that write take `DbOrTx` so callers can group writes in one transaction. */
@@ -18,7 +19,9 @@ export function openDatabase(url: string, authToken?: string): { db: Database; c
   }
   // libSQL opens a small pool of connections with foreign keys on; `timeout` (ms) waits out a concurrent writer
   // instead of failing with SQLITE_BUSY.
-  const client = createClient({ url, authToken, timeout: 5000 });
+  const raw = createClient({ url, authToken, timeout: 5000 });
+  // A libSQL server takes turns itself; the local synchronous driver needs this process to (see db/serialize.ts).
+  const client = url.startsWith("file:") ? serializeWrites(raw) : raw;
   if (url.startsWith("file:")) {
     // WAL is a property of the file: readers go on while one writer commits.
     void client.execute("PRAGMA journal_mode = WAL").catch(() => undefined);

@@ -81,20 +81,14 @@ async function checkVisit(db: Database, client: Client, visitId: string, now: Da
  * (`requireClientRecord`) for `actor`. A capture id seen before returns the stored attempt (`created: false`).
  */
 export function saveCapture(db: Database, actor: Actor, client: Client, rawBody: unknown, options: SaveOptions = {}): Promise<CaptureSaveResponse> {
-  // libSQL's local driver is synchronous: a second transaction in this process waiting on the first's write lock
-  // blocks the event loop the first needs to finish, and fails with SQLITE_BUSY after the busy timeout. Saves are
-  // therefore taken one at a time per process; the unique capture id still guards across processes.
-  const run = saveQueue.then(() => saveNow(db, actor, client, rawBody, options));
-  saveQueue = run.catch(() => undefined);
-  return run;
+  // Concurrent writers in one process take turns in db/serialize.ts; the unique capture id guards across processes.
+  return saveNow(db, actor, client, rawBody, options);
 }
 
 interface SaveOptions {
   address?: string | null;
   now?: Date;
 }
-
-let saveQueue: Promise<unknown> = Promise.resolve();
 
 async function saveNow(db: Database, actor: Actor, client: Client, rawBody: unknown, options: SaveOptions): Promise<CaptureSaveResponse> {
   const now = options.now ?? new Date();
