@@ -3,7 +3,7 @@ import { getTableConfig, SQLiteTable } from "drizzle-orm/sqlite-core";
 import { strToU8, zipSync, type Zippable } from "fflate";
 import type { DbOrTx } from "@/db";
 import * as schema from "@/db/schema";
-import type { BlobStore } from "@/lib/storage";
+import { MissingBlob, type BlobStore } from "@/lib/storage";
 
 /** Tables that hold a `client_id` column: found from the schema, so a table added later is exported without a change here. */
 export function tablesWithClientId(): SQLiteTable[] {
@@ -56,7 +56,15 @@ export async function buildClientExport(db: DbOrTx, store: BlobStore, clientId: 
     entries[`${root}/data/${getTableName(table)}.json`] = toJson(rows);
   }
   const uploads = await db.select().from(schema.uploads).where(eq(schema.uploads.clientId, clientId));
-  for (const u of uploads) entries[`${root}/files/${u.id}.${u.extension}`] = [new Uint8Array(await store.get(u.storageKey)), { level: 0 }];
+  for (const u of uploads) {
+    try {
+      entries[`${root}/files/${u.id}.${u.extension}`] = [new Uint8Array(await store.get(u.storageKey)), { level: 0 }];
+    } catch (error) {
+      // A lost file must not block the client's right to the rest; the gap is stated in the export itself.
+      if (!(error instanceof MissingBlob)) throw error;
+      entries[`${root}/files/${u.id}.MISSING.txt`] = strToU8(`The stored file for upload ${u.id} (SHA-256 ${u.sha256}) was not found in storage when this export was made.\n`);
+    }
+  }
   const captures = await db
     .select({ attemptId: schema.attemptCaptures.attemptId, gzip: schema.attemptCaptures.gzip })
     .from(schema.attemptCaptures)
