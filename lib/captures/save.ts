@@ -14,6 +14,7 @@ import { CaptureFormatError, parseCapture } from "@/lib/capture/parse";
 import { BadRequest } from "@/lib/http";
 import { checkPracticeMatches, joinPracticeSession, requirePracticeItem } from "@/lib/practice/sessions";
 import { analyzeCapture } from "@/vision/analyze-capture";
+import { measuredColumns } from "./columns";
 import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } from "./upload";
 
 /**
@@ -127,29 +128,12 @@ async function saveNow(db: Database, actor: Actor, client: Client, rawBody: unkn
           captureUid: body.captureUid,
           clinicId: client.clinicId,
           clientId: client.id,
-          motion: analysis.motion,
-          side: analysis.side,
-          digit: analysis.digit,
-          condition: analysis.condition,
           source: body.source,
           visitId: body.visitId ?? null,
           practiceSessionId,
           recordedByUserId: actor.userId,
           recordedAt,
-          frames: analysis.frames,
-          usableFrames: analysis.usableFrames,
-          reps: analysis.reps,
-          startDeg: analysis.startDeg,
-          peakDeg: analysis.peakDeg,
-          arcDeg: analysis.arcDeg,
-          uncertaintyDeg: analysis.uncertaintyDeg ?? null,
-          planeVerdict: analysis.plane?.verdict ?? "unclear",
-          axisToGravityDeg: analysis.plane?.axisToGravityDeg ?? null,
-          planeVerified: analysis.planeAgrees,
-          method: analysis.method,
-          engineVersion: ENGINE_VERSION,
-          correctionVersion: analysis.correctionVersion,
-          warnings: analysis.warnings,
+          ...measuredColumns(analysis, ENGINE_VERSION),
         },
         stored,
       );

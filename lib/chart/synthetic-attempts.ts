@@ -1,5 +1,6 @@
 // Attempts for tests, the demo and the benchmark, made the honest way: a synthetic hand (vision/testing) moves to a
 // chosen peak, and the measurement engine analyzes the capture. No angle here is typed in as a result.
+import { measuredColumns } from "@/lib/captures/columns";
 import type { NewAttempt } from "@/db/schema";
 import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
 import { analyzeCapture, type CaptureAnalysis } from "@/vision/analyze-capture";
@@ -64,26 +65,9 @@ export function attemptRow(
     captureUid,
     clinicId: ids.clinicId,
     clientId: ids.clientId,
-    motion: analysis.motion,
-    side: analysis.side,
-    digit: analysis.digit,
-    condition: analysis.condition,
     source: "self_check",
     recordedByUserId: ids.recordedByUserId,
     recordedAt,
-    frames: analysis.frames,
-    usableFrames: analysis.usableFrames,
-    reps: analysis.reps,
-    startDeg: analysis.startDeg,
-    peakDeg: analysis.peakDeg,
-    arcDeg: analysis.arcDeg,
-    uncertaintyDeg: analysis.uncertaintyDeg ?? null,
-    planeVerdict: analysis.plane?.verdict ?? "unclear",
-    axisToGravityDeg: analysis.plane?.axisToGravityDeg ?? null,
-    planeVerified: analysis.planeAgrees,
-    method: analysis.method,
-    engineVersion: SYNTHETIC_ENGINE_VERSION,
-    correctionVersion: analysis.correctionVersion,
-    warnings: analysis.warnings,
+    ...measuredColumns(analysis, SYNTHETIC_ENGINE_VERSION),
   };
 }
