@@ -63,6 +63,10 @@ export default async function UploadsPage() {
                       {u.originalName} · sent {u.createdAt.toISOString().slice(0, 16).replace("T", " ")} UTC{uploaderName && !isClient ? ` by ${uploaderName}` : ""}
                     </p>
                     {u.note ? <p className="text-ink-soft">“{u.note}”</p> : null}
+                    {u.kind === "clip" && !isClient ? (
+                      // Fetched only when played; the same owner-checked, audited route as the download.
+                      <video controls preload="none" className="mt-2 max-h-64 w-full rounded-lg bg-ink" src={`/api/v1/uploads/${u.id}/file`} aria-label={`Clip from ${clientGiven} ${clientFamily}`} />
+                    ) : null}
                     <p className="font-mono text-xs text-ink-faint" title="SHA-256 of the stored file">
                       SHA-256 {u.sha256.slice(0, 16)}…
                     </p>
