@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { applyCorrection, fitCorrection, ridgeFit, type CorrectionSample } from "./correction";
+import { applyCorrection, fitCorrection, huberFit, ridgeFit, type CorrectionSample } from "./correction";
 
 describe("ridge least squares", () => {
   it("with no penalty is ordinary least squares: Anscombe's set I gives y = 3.00 + 0.500 x", () => {
@@ -17,6 +17,18 @@ describe("ridge least squares", () => {
     const slopes = [0, 1, 10, 100].map((lambda) => ridgeFit(rows, targets, lambda)[1]);
     expect(slopes[0]).toBeCloseTo(2, 9);
     for (let i = 1; i < slopes.length; i++) expect(slopes[i]).toBeLessThan(slopes[i - 1]);
+  });
+
+  it("with Huber weights ignores a gross misreading that drags plain least squares (Huber, Ann Math Stat 1964)", () => {
+    // y = 2x on 0..19, but one reading is 180 degrees off, as a flipped palm normal gives.
+    const rows = Array.from({ length: 20 }, (_, i) => [1, i]);
+    const targets = rows.map(([, x]) => 2 * x);
+    targets[10] += 180;
+    const plain = ridgeFit(rows, targets, 0);
+    const robust = huberFit(rows, targets, 0, 10);
+    expect(Math.abs(plain[1] - 2)).toBeGreaterThan(0.1);
+    expect(robust[1]).toBeCloseTo(2, 1);
+    expect(Math.abs(robust[0])).toBeLessThan(1);
   });
 
   it("names the problem when rows and targets disagree", () => {

@@ -12,8 +12,9 @@ import { JOINT_GROUPS } from "./joint-groups";
  * where `deg` is the engine's 3-D reading, `ip` its image-plane counterpart, `facing` how squarely the joint's plane
  * faces the camera (1 = in the image), and `radial` / `palm` which side of the hand faces the camera (cosines, from
  * the landmarks' own hand axes). The products let the fit lean on the image-plane angle when the plane faces the
- * camera, and let the under-reading differ between a thumb-side and a little-finger-side view. Fitted by ridge least
- * squares (a small penalty keeps the map tame where one view dominates); deterministic for a given training set.
+ * camera, and let the under-reading differ between a thumb-side and a little-finger-side view. Fitted by ridge
+ * regression (a small penalty keeps the map tame where one view dominates) with Huber weights against gross
+ * misreadings; deterministic for a given training set.
  */
 export const CORRECTION_FEATURES = [
   "1",
@@ -47,6 +48,9 @@ export interface CorrectionModel {
 
 export const CORRECTION_VERSION = "kinarc-correction-1";
 
+/** Residuals beyond this count linearly in the fit: about twice a goniometer's error in the hand [common practice]. */
+export const HUBER_DEG = 10;
+
 export function correctionFeatures(estimate: AngleEstimate): number[] {
   const { deg, imagePlaneDeg: ip, planeFacing: c, radialTowardCamera: r, palmTowardCamera: p } = estimate;
   return [1, deg, ip, c, deg * c, ip * c, r, deg * r, p, deg * p];
@@ -65,16 +69,38 @@ export function jointGroupOf(key: PoseKey): string | null {
   return GROUP_OF.get(key) ?? null;
 }
 
-/** Ridge least squares: (X'X + lambda*I') b = X'y, the intercept left unpenalised. */
-export function ridgeFit(rows: number[][], targets: number[], lambda: number): number[] {
+/**
+ * Weighted ridge least squares: (X'WX + lambda*I') b = X'Wy, the intercept left unpenalised. Weights default to 1
+ * (plain ridge).
+ */
+export function ridgeFit(rows: number[][], targets: number[], lambda: number, weights?: readonly number[]): number[] {
   if (rows.length !== targets.length) throw new Error(`ridgeFit: expected one target per row, got ${rows.length} rows and ${targets.length} targets`);
   if (rows.length === 0) throw new Error("ridgeFit: expected at least one row");
+  if (weights && weights.length !== rows.length) throw new Error(`ridgeFit: expected one weight per row, got ${weights.length}`);
   const x = new Matrix(rows);
-  const xt = x.transpose();
-  const normal = xt.mmul(x);
+  const xtw = x.transpose();
+  if (weights) xtw.mulRowVector(weights);
+  const normal = xtw.mmul(x);
   for (let i = 1; i < normal.columns; i++) normal.set(i, i, normal.get(i, i) + lambda);
-  const rhs = xt.mmul(Matrix.columnVector(targets));
+  const rhs = xtw.mmul(Matrix.columnVector(targets));
   return solve(normal, rhs).getColumn(0);
+}
+
+/**
+ * Huber's M-estimate by iteratively reweighted least squares (Huber, Ann Math Stat 1964;35:73-101): residuals
+ * beyond `huberDeg` count linearly, not squared, so the tracker's gross misreadings (a palm normal flipped in an
+ * edge-on view reads a wrist 180 degrees off) cannot drag the map. Fixed iteration count: deterministic.
+ */
+export function huberFit(rows: number[][], targets: number[], lambda: number, huberDeg: number, iterations = 20): number[] {
+  let coefficients = ridgeFit(rows, targets, lambda);
+  for (let iteration = 0; iteration < iterations; iteration++) {
+    const weights = rows.map((row, i) => {
+      const residual = Math.abs(targets[i] - row.reduce((sum, value, k) => sum + value * coefficients[k], 0));
+      return residual <= huberDeg ? 1 : huberDeg / residual;
+    });
+    coefficients = ridgeFit(rows, targets, lambda, weights);
+  }
+  return coefficients;
 }
 
 /** Fits every joint group of every hand model found in `samples`. */
@@ -96,7 +122,7 @@ export function fitCorrection(
     if (cellSamples.length < 30) continue;
     const rows = cellSamples.map((s) => correctionFeatures(s.estimate));
     const targets = cellSamples.map((s) => s.truthDeg);
-    const coefficients = ridgeFit(rows, targets, ridgeLambda);
+    const coefficients = huberFit(rows, targets, ridgeLambda, HUBER_DEG);
     const predictions = rows.map((row) => row.reduce((sum, value, i) => sum + value * coefficients[i], 0));
     const trainingMaeDeg = predictions.reduce((sum, p, i) => sum + Math.abs(p - targets[i]), 0) / predictions.length;
     groups[model] ??= {};
