@@ -63,40 +63,51 @@ async function main(): Promise<void> {
     process.exitCode = values.help ? 0 : 2;
     return;
   }
+  // Every option is checked before Chromium starts, so a typo fails at once with the field named.
+  if (mode === "set") {
+    const seed = numberOption(values, "seed", 1);
+    const count = numberOption(values, "count", 60);
+    if (!Number.isInteger(seed)) throw new Error(`--seed: expected an integer; got ${seed}`);
+    if (!Number.isInteger(count) || count <= 0) throw new Error(`--count: expected a positive whole number; got ${count}`);
+    const options = {
+      views: listOption<CameraView>(values.views, "views", CAMERA_VIEWS),
+      sides: listOption<HandSide>(values.sides, "sides", ["left", "right"]),
+    };
+    const folder = values.out ?? path.join(RENDER_OUTPUT_ROOT, `set-${seed}`);
+    const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
+    await withRenderer(async (renderer, glName) => {
+      const result = await renderRandomSet(renderer, rigs, seed, count, folder, options);
+      console.log(`${count} frames -> ${result.labelsFile} (${result.msPerFrame.toFixed(1)} ms a frame, ${glName})`);
+    });
+    return;
+  }
+  const options = validateSweepOptions({
+    joint: (values.joint ?? "index.pipFlexionDeg") as PoseKey,
+    fromDeg: numberOption(values, "from", 0),
+    toDeg: numberOption(values, "to", 80),
+    cycles: numberOption(values, "cycles", 3),
+    cycleSeconds: numberOption(values, "cycle-seconds", 2),
+    fps: numberOption(values, "fps", 30),
+    view: (values.view ?? "radial") as CameraView,
+    side: (values.side ?? "right") as HandSide,
+    distanceM: numberOption(values, "distance", 0.45),
+    seed: numberOption(values, "seed", 1),
+  });
+  const name = values.name ?? `${options.side}-${options.joint.replace(".", "-")}-${options.view}-${options.seed}`;
+  const folder = values.out ?? path.join(RENDER_OUTPUT_ROOT, "clips");
+  await withRenderer(async (renderer, glName) => {
+    const clip = await renderSweepClip(renderer, loadHandRig(options.side), options, folder, name, { webm: !values["no-webm"] });
+    console.log(
+      `${clip.frameCount} frames -> ${clip.mjpegFile}${clip.webmFile ? `, ${clip.webmFile}` : ""}, truth ${clip.truthFile} ` +
+        `(${clip.msPerFrame.toFixed(1)} ms a frame, ${glName})`,
+    );
+  });
+}
+
+async function withRenderer(job: (renderer: HandRenderer, glName: string) => Promise<void>): Promise<void> {
   const renderer = await HandRenderer.start();
   try {
-    const glName = await renderer.glRenderer();
-    if (mode === "set") {
-      const seed = numberOption(values, "seed", 1);
-      const count = numberOption(values, "count", 60);
-      const folder = values.out ?? path.join(RENDER_OUTPUT_ROOT, `set-${seed}`);
-      const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
-      const result = await renderRandomSet(renderer, rigs, seed, count, folder, {
-        views: listOption<CameraView>(values.views, "views", CAMERA_VIEWS),
-        sides: listOption<HandSide>(values.sides, "sides", ["left", "right"]),
-      });
-      console.log(`${count} frames -> ${result.labelsFile} (${result.msPerFrame.toFixed(1)} ms a frame, ${glName})`);
-    } else {
-      const options = validateSweepOptions({
-        joint: (values.joint ?? "index.pipFlexionDeg") as PoseKey,
-        fromDeg: numberOption(values, "from", 0),
-        toDeg: numberOption(values, "to", 80),
-        cycles: numberOption(values, "cycles", 3),
-        cycleSeconds: numberOption(values, "cycle-seconds", 2),
-        fps: numberOption(values, "fps", 30),
-        view: (values.view ?? "radial") as CameraView,
-        side: (values.side ?? "right") as HandSide,
-        distanceM: numberOption(values, "distance", 0.45),
-        seed: numberOption(values, "seed", 1),
-      });
-      const name = values.name ?? `${options.side}-${options.joint.replace(".", "-")}-${options.view}-${options.seed}`;
-      const folder = values.out ?? path.join(RENDER_OUTPUT_ROOT, "clips");
-      const clip = await renderSweepClip(renderer, loadHandRig(options.side), options, folder, name, { webm: !values["no-webm"] });
-      console.log(
-        `${clip.frameCount} frames -> ${clip.mjpegFile}${clip.webmFile ? `, ${clip.webmFile}` : ""}, truth ${clip.truthFile} ` +
-          `(${clip.msPerFrame.toFixed(1)} ms a frame, ${glName})`,
-      );
-    }
+    await job(renderer, await renderer.glRenderer());
   } finally {
     await renderer.close();
   }
