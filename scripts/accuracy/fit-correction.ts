@@ -3,7 +3,7 @@
  * own tracking code, and writes scripts/accuracy/correction.json. Re-run after changing the tracker, the engine's
  * angle maths or the render set; the version string in the file changes only when the model's form changes.
  *
- *   npx tsx scripts/accuracy/fit-correction.ts [--per-motion 40] [--models lite,full] [--reuse]
+ *   npx tsx scripts/accuracy/fit-correction.ts [--per-motion 100] [--models lite,full] [--reuse]
  */
 import { writeFileSync } from "node:fs";
 import { parseArgs } from "node:util";
@@ -30,7 +30,7 @@ async function main(): Promise<void> {
   // view the raw readings carry too little of the angle for a linear map (measured: PIP correlation 0.1 there
   // against 0.85 in a side view), and pooling them in dragged every coefficient toward the mean.
   const motions = await trackRenderedSet({
-    name: "motions", seed: TRAINING_SEED, count: parsePerView(values["per-motion"], 40) * MOTION_SETS.length, models,
+    name: "motions", seed: TRAINING_SEED, count: parsePerView(values["per-motion"], 100) * MOTION_SETS.length, models,
     makeFrame: motionSetFrame(), reuse: values.reuse,
   });
   const count = motions.count;

@@ -4,7 +4,7 @@
  * (vision/angles) and prints the error table per joint, view and model, raw and (when a fitted correction is in
  * scripts/accuracy/correction.json) corrected; writes it to scripts/accuracy/report.md.
  *
- *   npm run -s accuracy -- [--per-motion 30] [--per-view 40] [--models lite,full] [--reuse]
+ *   npm run -s accuracy -- [--per-motion 60] [--per-view 40] [--models lite,full] [--reuse]
  */
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
@@ -77,7 +77,7 @@ async function main(): Promise<void> {
     options: { "per-view": { type: "string" }, "per-motion": { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" } },
   });
   const perView = parsePerView(values["per-view"], 40);
-  const perMotion = parsePerView(values["per-motion"], 30);
+  const perMotion = parsePerView(values["per-motion"], 60);
   const models = parseModels(values.models);
   const motionCount = perMotion * MOTION_SETS.length;
   const motions = await trackRenderedSet({
