@@ -4,6 +4,7 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { Button } from "@/components/ui/button";
 import { SelectField, TextArea } from "@/components/ui/field";
+import { ClipRecorder } from "./clip-recorder";
 
 export interface UploadFormProps {
   /** A client uploads for themselves; staff choose the client. */
@@ -27,16 +28,19 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
   const [uploadUid, setUploadUid] = useState<string>(() => crypto.randomUUID());
   const [status, setStatus] = useState<Status>({ kind: "idle" });
   const [fieldErrors, setFieldErrors] = useState<Record<string, string>>({});
+  const [recorded, setRecorded] = useState<File | null>(null);
 
   async function submit(form: HTMLFormElement) {
     const data = new FormData(form);
     data.set("uploadUid", uploadUid);
     if (clientId) data.set("clientId", clientId);
-    const file = data.get("file");
-    if (!(file instanceof File) || file.size === 0) {
-      setFieldErrors({ file: "Choose a file to send." });
+    const picked = data.get("file");
+    const file = picked instanceof File && picked.size > 0 ? picked : kind === "clip" ? recorded : null;
+    if (!file) {
+      setFieldErrors({ file: kind === "clip" ? "Record a clip or choose a file to send." : "Choose a file to send." });
       return;
     }
+    data.set("file", file);
     setStatus({ kind: "sending" });
     setFieldErrors({});
     try {
@@ -45,6 +49,7 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
       if (res.ok) {
         setStatus({ kind: "done", message: res.status === 201 ? "Sent. Your therapist will see it in their list." : "Already received earlier; it is stored once." });
         form.reset();
+        setRecorded(null);
         setUploadUid(crypto.randomUUID());
         router.refresh();
         return;
@@ -95,9 +100,17 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
           />
         </>
       ) : null}
+      {kind === "clip" ? (
+        <ClipRecorder
+          onRecorded={(file) => {
+            setRecorded(file);
+            setUploadUid(crypto.randomUUID());
+          }}
+        />
+      ) : null}
       <div>
         <label htmlFor="upload-file" className="block text-sm font-medium text-ink">
-          File
+          {kind === "clip" ? "Or choose a clip from this device" : "File"}
         </label>
         <input
           id="upload-file"

@@ -50,7 +50,8 @@ function multipart(fields: Record<string, string>, file: { name: string; type: s
 beforeAll(async () => {
   app = await startTestApp("uploads");
   stack = app;
-  browser = await launchChromium();
+  // Chromium's built-in fake camera (a moving test pattern) stands in for the client's webcam.
+  browser = await launchChromium({ extraArgs: ["--use-fake-device-for-media-stream", "--use-fake-ui-for-media-stream"] });
   dorian = await signedIn("client@kinarc.test");
 });
 
@@ -66,8 +67,8 @@ describe("a client sends a clip and the therapist reviews it", () => {
     const page = dorian.pages()[0];
     await page.goto(`${app.appUrl}/uploads`);
     const form = page.getByRole("form", { name: "Send a file" });
-    await form.getByLabel("File").setInputFiles({ name: "my-wrist.webm", mimeType: "video/webm", buffer: Buffer.from(await pdfBytes()) });
-    await form.getByRole("button", { name: "Send" }).click();
+    await form.getByLabel("Or choose a clip from this device").setInputFiles({ name: "my-wrist.webm", mimeType: "video/webm", buffer: Buffer.from(await pdfBytes()) });
+    await form.getByRole("button", { name: "Send", exact: true }).click();
     await expect(page.getByTestId("upload-error").textContent()).resolves.toBe(
       '"my-wrist.webm" was refused: its content is a PDF document, whatever its name says. Expected a WebM or MP4 video.',
     );
@@ -79,10 +80,10 @@ describe("a client sends a clip and the therapist reviews it", () => {
     const form = page.getByRole("form", { name: "Send a file" });
     await form.getByLabel("Movement shown").selectOption("wrist.flexion");
     await form.getByLabel("Side").selectOption("right");
-    await form.getByLabel("File").setInputFiles({ name: "flexion.webm", mimeType: "video/webm", buffer: Buffer.from(clip) });
+    await form.getByLabel("Or choose a clip from this device").setInputFiles({ name: "flexion.webm", mimeType: "video/webm", buffer: Buffer.from(clip) });
     await form.getByLabel("Note for your therapist (optional)").fill("Morning, a little stiff");
-    await form.getByRole("button", { name: "Send" }).click();
-    await form.getByRole("status").waitFor();
+    await form.getByRole("button", { name: "Send", exact: true }).click();
+    await form.getByText(/^Sent\./).waitFor();
     await page.getByTestId("upload-row").first().waitFor();
     const [row] = await uploadRows();
     expect(row.mediaType).toBe("video/webm");
@@ -90,19 +91,40 @@ describe("a client sends a clip and the therapist reviews it", () => {
     expect(row.motion).toBe("wrist.flexion");
   });
 
+  it("records a clip with the camera in the browser and sends it as a real WebM", async () => {
+    const page = dorian.pages()[0];
+    await page.goto(`${app.appUrl}/uploads`);
+    const form = page.getByRole("form", { name: "Send a file" });
+    await form.getByLabel("Movement shown").selectOption("wrist.extension");
+    await form.getByRole("button", { name: "Open camera" }).click();
+    await form.getByRole("button", { name: "Start recording" }).click();
+    await page.waitForTimeout(2500);
+    await form.getByRole("button", { name: /Stop recording/ }).click();
+    await form.getByText("Clip recorded; it is sent when you press Send.").waitFor();
+    const before = (await uploadRows()).length;
+    await form.getByRole("button", { name: "Send", exact: true }).click();
+    await form.getByText(/^Sent\./).waitFor();
+    const rows = await uploadRows();
+    expect(rows).toHaveLength(before + 1);
+    const recorded = rows.find((r) => r.motion === "wrist.extension")!;
+    expect(recorded.mediaType).toBe("video/webm");
+    expect(recorded.bytes).toBeGreaterThan(5000);
+  });
+
   it("the therapist sees it, downloads the same bytes and marks it reviewed; strangers cannot download it", async () => {
     const therapist = await signedIn("therapist@kinarc.test");
     const page = therapist.pages()[0];
     await page.goto(`${app.appUrl}/uploads`);
-    const row = page.getByTestId("upload-row").filter({ hasText: "Dorian Vale" }).first();
+    const row = page.getByTestId("upload-row").filter({ hasText: "Morning, a little stiff" });
     await expect(row.textContent()).resolves.toMatch(/Clip: .*right.*Morning, a little stiff/s);
-    const [stored] = await uploadRows();
+    const stored = (await uploadRows()).find((r) => r.motion === "wrist.flexion")!;
     const download = await therapist.request.get(`${app.appUrl}/api/v1/uploads/${stored.id}/file`);
     expect(download.status()).toBe(200);
     expect(download.headers()["content-type"]).toBe("video/webm");
     expect(createHash("sha256").update(await download.body()).digest("hex")).toBe(stored.sha256);
     await row.getByRole("button", { name: "Mark reviewed" }).click();
-    await page.getByTestId("upload-row").filter({ hasText: "Reviewed" }).first().waitFor();
+    await row.getByText("Reviewed", { exact: true }).waitFor();
+    expect(await row.getByRole("button", { name: "Mark reviewed" }).count()).toBe(0);
     const anonymous = await (await browser.newContext()).request.get(`${app.appUrl}/api/v1/uploads/${stored.id}/file`);
     expect(anonymous.status()).toBe(401);
     const admin = await signedIn("admin@kinarc.test");
