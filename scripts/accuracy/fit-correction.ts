@@ -10,7 +10,7 @@ import { parseArgs } from "node:util";
 import { fitCorrection, type CorrectionSample } from "./correction";
 import { estimateAngles } from "./estimates";
 import { getPoseAngle } from "./hand-pose";
-import { CORRECTION_FILE, parseModels, parsePerView, VALIDATION_SEED } from "./run-accuracy";
+import { CORRECTION_FILE, parseCount, parseModels, VALIDATION_SEED } from "./run-accuracy";
 import { MOTION_SETS } from "./motion-sets";
 import { motionSetFrame, trackRenderedSet } from "./tracked-set";
 
@@ -30,7 +30,7 @@ async function main(): Promise<void> {
   // view the raw readings carry too little of the angle for a linear map (measured: PIP correlation 0.1 there
   // against 0.85 in a side view), and pooling them in dragged every coefficient toward the mean.
   const motions = await trackRenderedSet({
-    name: "motions", seed: TRAINING_SEED, count: parsePerView(values["per-motion"], 100) * MOTION_SETS.length, models,
+    name: "motions", seed: TRAINING_SEED, count: parseCount("per-motion", values["per-motion"], 100) * MOTION_SETS.length, models,
     makeFrame: motionSetFrame(), reuse: values.reuse,
   });
   const count = motions.count;

@@ -37,10 +37,10 @@ export function parseModels(raw: string | undefined): HandModelVariant[] {
   return models as HandModelVariant[];
 }
 
-export function parsePerView(raw: string | undefined, fallback: number): number {
-  const perView = Number(raw ?? fallback);
-  if (!Number.isInteger(perView) || perView <= 0) throw new Error(`--per-view: expected a positive whole number; got ${raw}`);
-  return perView;
+export function parseCount(field: string, raw: string | undefined, fallback: number): number {
+  const count = Number(raw ?? fallback);
+  if (!Number.isInteger(count) || count <= 0) throw new Error(`--${field}: expected a positive whole number; got ${raw}`);
+  return count;
 }
 
 /** Issue 8's acceptance figures for a motion in its recommended view, after correction. */
@@ -76,8 +76,8 @@ async function main(): Promise<void> {
   const { values } = parseArgs({
     options: { "per-view": { type: "string" }, "per-motion": { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" } },
   });
-  const perView = parsePerView(values["per-view"], 40);
-  const perMotion = parsePerView(values["per-motion"], 60);
+  const perView = parseCount("per-view", values["per-view"], 40);
+  const perMotion = parseCount("per-motion", values["per-motion"], 60);
   const models = parseModels(values.models);
   const motionCount = perMotion * MOTION_SETS.length;
   const motions = await trackRenderedSet({
