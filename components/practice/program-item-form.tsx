@@ -38,18 +38,26 @@ export function ProgramItemForm({
   const [state, formAction, pending] = useActionState(action, {});
   const v = { ...initial, ...(state.ok ? {} : (state.values as ProgramItemFormValues | undefined)) };
   const e = state.fields ?? {};
-  const [motion, setMotion] = useState<MotionId>((v.motion as MotionId) ?? MOTION_IDS[0]);
+  const shownMotion = (v.motion as MotionId) ?? MOTION_IDS[0];
+  const [motion, setMotion] = useState<MotionId>(shownMotion);
+  // React resets a form after its action runs, and a select resets to the option it was first mounted with, not to a
+  // later default: the form is mounted afresh for each answer so every field shows what was sent (or the defaults).
+  const [answered, setAnswered] = useState({ state, revision: 0 });
+  if (answered.state !== state) {
+    setAnswered({ state, revision: answered.revision + 1 });
+    setMotion(shownMotion);
+  }
   const digits = MOTIONS[motion]?.digits ?? [];
   const id = (name: string) => `${idPrefix}-${name}`;
   return (
-    <form action={formAction} className="space-y-4" noValidate data-testid={`${idPrefix}-form`}>
+    <form key={answered.revision} action={formAction} className="space-y-4" noValidate data-testid={`${idPrefix}-form`}>
       <FormMessage state={state} />
       <div className="grid gap-4 md:grid-cols-3">
         <SelectField
           label="Motion"
           name="motion"
           id={id("motion")}
-          value={motion}
+          defaultValue={shownMotion}
           onChange={(ev) => setMotion(ev.target.value as MotionId)}
           options={MOTION_IDS.map((m) => ({ value: m, label: MOTIONS[m].label }))}
           error={e.motion}

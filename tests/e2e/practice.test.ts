@@ -1,0 +1,129 @@
+/**
+ * Home practice in the built app: a therapist assigns PIP flexion of the right middle finger to Dorian; Dorian, on
+ * Chromium's fake camera fed with the hand-photo clip (right hand, open for two seconds, fist for two, looping; made
+ * at test time from Debian's gcompris-qt-data photos), practises it through the guided self-check; the attempt is
+ * stored as practice in one session; the therapist then sees the session in this week's adherence and its reading in
+ * the trend.
+ */
+import path from "node:path";
+import { eq } from "drizzle-orm";
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { openDatabase, type Database } from "@/db";
+import { attempts, homeProgramItems, practiceSessions } from "@/db/schema";
+import { DEMO_PASSWORD } from "@/db/seed/demo";
+import { makeHandClip } from "../../scripts/fixtures/hand-photos";
+import { buildModels } from "../../scripts/models/build";
+import { signInWithPassword, startTestApp, type TestApp } from "./support/app";
+import { launchChromium } from "./support/browser";
+
+const REPO_ROOT = path.resolve(__dirname, "..", "..");
+
+let app: TestApp;
+let browser: Browser;
+let db: Database;
+let closeDb: () => void;
+
+beforeAll(async () => {
+  buildModels({ repoRoot: REPO_ROOT });
+  const clip = makeHandClip({ photos: ["right-open-palm", "right-fist-palm"], secondsPerPhoto: 2, format: "mjpeg" });
+  app = await startTestApp("practice");
+  browser = await launchChromium({ fakeCameraClip: clip });
+  const opened = openDatabase(app.databaseUrl);
+  db = opened.db;
+  closeDb = () => opened.client.close();
+});
+
+afterAll(async () => {
+  await browser?.close();
+  await app?.stop();
+  closeDb?.();
+});
+
+async function signedIn(email: string): Promise<Page> {
+  const context = await browser.newContext();
+  const page = await context.newPage();
+  page.on("pageerror", (error) => console.error(`page error: ${error.message}`));
+  await signInWithPassword(page, app.appUrl, email, DEMO_PASSWORD);
+  await page.waitForURL(`${app.appUrl}/home`);
+  return page;
+}
+
+describe("home practice", () => {
+  it("the therapist assigns a motion, the client practises it with the self-check, the therapist sees it in adherence", async () => {
+    const dorianId = app.seed.clientIds!.dorian;
+    const before = new Set((await db.select().from(homeProgramItems).where(eq(homeProgramItems.clientId, dorianId))).map((i) => i.id));
+
+    // Therapist: the record's "Home program" page, a field-named error first, then a valid assignment.
+    const therapist = await signedIn("therapist@kinarc.test");
+    await therapist.goto(`${app.appUrl}/clients/${dorianId}`);
+    await therapist.getByRole("link", { name: "Home program" }).click();
+    await therapist.waitForURL(`${app.appUrl}/clients/${dorianId}/program`);
+    const form = therapist.getByTestId("new-item-form");
+    await form.locator("#new-item-motion").selectOption("pip.flexion");
+    await form.locator("#new-item-digit").selectOption("middle");
+    await form.locator("#new-item-side").selectOption("right");
+    await form.locator("#new-item-condition").selectOption("against_gravity");
+    await form.locator("#new-item-repetitions").fill("0");
+    await form.getByRole("button", { name: "Assign" }).click();
+    await expect.poll(() => form.locator("#new-item-repetitions-error").textContent(), { timeout: 15_000 }).toBe("expected at least 1");
+    await form.locator("#new-item-repetitions").fill("3");
+    await form.locator("#new-item-sessionsPerPeriod").fill("1");
+    await form.locator("#new-item-period").selectOption("day");
+    await form.getByRole("button", { name: "Assign" }).click();
+    await form.getByText("Program item assigned.").waitFor({ timeout: 15_000 }).catch(async () => console.error(`assign form: ${await form.getByRole("alert").allTextContents()}`));
+    await expect
+      .poll(async () => (await db.select().from(homeProgramItems).where(eq(homeProgramItems.clientId, dorianId))).filter((i) => !before.has(i.id)).length, {
+        timeout: 15_000,
+      })
+      .toBe(1);
+    const [item] = (await db.select().from(homeProgramItems).where(eq(homeProgramItems.clientId, dorianId))).filter((i) => !before.has(i.id));
+    expect(item).toMatchObject({ motion: "pip.flexion", side: "right", digit: "middle", condition: "against_gravity", repetitions: 3, sessionsPerPeriod: 1, period: "day" });
+    const itemView = therapist.locator(`[data-testid=program-item][data-item-id="${item.id}"]`);
+    await itemView.waitFor({ timeout: 15_000 });
+    const weekRow = itemView.locator("[data-testid=adherence] tbody tr").last();
+    expect(await weekRow.getAttribute("data-done")).toBe("0");
+
+    // Client: today's practice on the home page, into the guided self-check for that item.
+    const client = await signedIn("client@kinarc.test");
+    const entry = client.locator(`[data-testid=practice-today] li[data-item-id="${item.id}"]`);
+    expect(await entry.getAttribute("data-due")).toBe("yes");
+    await client.getByTestId("practice-calendar").waitFor();
+    await entry.getByRole("link", { name: /^Practise / }).click();
+    await client.waitForURL(`${app.appUrl}/practice/check?item=${item.id}`);
+    expect(await client.getByTestId("practice-item").textContent()).toMatch(/3 times/);
+    await client.getByRole("button", { name: "I understand, continue" }).click();
+    // The motion is fixed by the program: straight to positioning, no choice of motion.
+    expect(await client.getByTestId("self-check").getAttribute("data-step")).toBe("position");
+    await client.getByRole("button", { name: "Turn on the camera" }).click();
+    await client.waitForFunction(
+      () => {
+        const button = [...document.querySelectorAll("button")].find((b) => b.textContent?.trim() === "Start");
+        return button && !button.disabled;
+      },
+      null,
+      { timeout: 60_000, polling: 100 },
+    );
+    await client.getByRole("button", { name: "Start", exact: true }).click();
+    await client.waitForFunction(() => document.querySelector("[data-testid=self-check]")?.getAttribute("data-step") === "summary", null, { timeout: 95_000, polling: 200 });
+    await client.waitForSelector("[data-testid=save-status][data-saved=yes]", { timeout: 20_000 });
+
+    const sessions = await db.select().from(practiceSessions).where(eq(practiceSessions.itemId, item.id));
+    expect(sessions).toHaveLength(1);
+    const stored = await db.select().from(attempts).where(eq(attempts.practiceSessionId, sessions[0].id));
+    expect(stored).toHaveLength(1);
+    expect(stored[0]).toMatchObject({ source: "practice", motion: "pip.flexion", side: "right", digit: "middle", clientId: dorianId, keptAt: null });
+
+    // Back home, the item is done for today and the calendar counts the session.
+    await client.goto(`${app.appUrl}/home`);
+    expect(await entry.getAttribute("data-due")).toBe("no");
+    expect(await client.locator(`[data-testid=practice-calendar] li[data-date="${sessions[0].localDate}"]`).getAttribute("data-done")).toBe("1");
+
+    // Therapist: this week's adherence shows the session and the trend lists its reading.
+    await therapist.reload();
+    expect(await weekRow.getAttribute("data-done")).toBe("1");
+    const readings = await itemView.getByTestId("trend-readings").locator("li").allTextContents();
+    expect(readings).toEqual([`${Math.round(stored[0].peakDeg!)}°`]);
+    console.log(`practice: session ${sessions[0].localDate}, attempt ${stored[0].reps} reps, peak ${stored[0].peakDeg?.toFixed(1)}°; adherence this week ${await weekRow.textContent()}`);
+  }, 240_000);
+});
