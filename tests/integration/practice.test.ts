@@ -8,6 +8,7 @@ import { count, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { ZodError } from "zod";
 import { attempts, auditEvents, clinics, practiceSessions, users } from "@/db/schema";
+import { recentAttempts } from "@/db/queries/attempts";
 import { seedDemo, type SeedResult } from "@/db/seed/demo";
 import { AccessError, actorForUser, requireClientRecord, type Actor } from "@/lib/auth/guard";
 import { saveCapture } from "@/lib/captures/save";
@@ -247,6 +248,12 @@ describe("assigning, practising and reading a home program", () => {
     expect(missing).toBeInstanceOf(ZodError);
     expect((missing as ZodError).issues[0].path).toEqual(["practiceSessionId"]);
     await expect(saveCapture(t.db, dorian, client, body({ practiceItemId: crypto.randomUUID() }))).rejects.toMatchObject({ status: 404 });
+
+    // Practice never becomes a grade: the attempts a grade proposal rests on leave it out.
+    const gradeBasis = await recentAttempts(t.db, client.clinicId, dorianId);
+    const practiceIds = new Set((await t.db.select({ id: attempts.id }).from(attempts).where(eq(attempts.source, "practice"))).map((a) => a.id));
+    expect(practiceIds.size).toBe(2);
+    expect(gradeBasis.filter((a) => practiceIds.has(a.id))).toEqual([]);
 
     const after = await programOverview(t.db, client, { now: NOW, timeZone: "Europe/London", rangeTable: "aaos1965" });
     const pip = after.items.find((v) => v.item.id === item.item.id)!;
