@@ -3,6 +3,7 @@
 // repetitions, peak, arc and test plane, the reference end-range and the range-based grade. Bad input: exit 2, one
 // line on stderr naming the file, frame and field, nothing on stdout.
 import { readFileSync } from "node:fs";
+import { basename } from "node:path";
 import { CaptureFormatError, parseCaptureText } from "@/lib/capture/parse";
 import type { CaptureFile } from "@/lib/capture/schema";
 import { GRADE_SCALES, chooseReference, gradeMotion, type GradeScale } from "@/lib/grading/grade";
@@ -143,5 +144,6 @@ function main(): void {
   }
 }
 
-// Imported by its test under vitest; run as the command everywhere else.
-if (!process.env.VITEST) main();
+// Imported by its test under vitest and by analyze-clip (which reuses analyzeFiles): run as the command only when it
+// is the script tsx was started with.
+if (!process.env.VITEST && /^analyze\.[cm]?[jt]s$/.test(basename(process.argv[1] ?? ""))) main();
