@@ -1,7 +1,8 @@
 "use client";
 
 import { useRouter } from "next/navigation";
-import { useState } from "react";
+import { useEffect, useRef, useState } from "react";
+import { deletePendingClip, listPendingClips, savePendingClip, type PendingClip } from "@/lib/uploads/pending-clips";
 import { Button } from "@/components/ui/button";
 import { SelectField, TextArea } from "@/components/ui/field";
 import { ClipRecorder } from "./clip-recorder";
@@ -29,6 +30,49 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
   const [status, setStatus] = useState<Status>({ kind: "idle" });
   const [fieldErrors, setFieldErrors] = useState<Record<string, string>>({});
   const [recorded, setRecorded] = useState<File | null>(null);
+  const [pending, setPending] = useState<PendingClip[]>([]);
+  const [keptUid, setKeptUid] = useState<string | null>(null);
+  const formRef = useRef<HTMLFormElement>(null);
+
+  useEffect(() => {
+    if (clientId) void listPendingClips(clientId).then(setPending).catch(() => setPending([]));
+  }, [clientId]);
+
+  /** Keeps the recorded clip on this device, with what the form says about it, until the server confirms it. */
+  async function keepLocally(file: File, uid: string) {
+    if (!clientId) return;
+    const data = new FormData(formRef.current ?? undefined);
+    await savePendingClip({
+      uploadUid: uid,
+      clientId,
+      motion: String(data.get("motion") ?? ""),
+      side: String(data.get("side") ?? ""),
+      note: String(data.get("note") ?? ""),
+      file,
+      recordedAt: Date.now(),
+    })
+      .then(() => setKeptUid(uid))
+      .catch(() => undefined);
+  }
+
+  async function sendPending(clip: PendingClip) {
+    const data = new FormData();
+    for (const [k, v] of Object.entries({ clientId: clip.clientId, uploadUid: clip.uploadUid, kind: "clip", motion: clip.motion, side: clip.side, note: clip.note })) data.set(k, v);
+    data.set("file", clip.file);
+    setStatus({ kind: "sending" });
+    try {
+      const res = await fetch("/api/v1/uploads", { method: "POST", body: data });
+      const body = (await res.json().catch(() => ({}))) as { error?: string };
+      if (res.ok) {
+        await deletePendingClip(clip.uploadUid);
+        setPending((p) => p.filter((c) => c.uploadUid !== clip.uploadUid));
+        setStatus({ kind: "done", message: "Sent. Your therapist will see it in their list." });
+        router.refresh();
+      } else setStatus({ kind: "error", message: body.error ?? `The upload was refused (${res.status}).`, retry: res.status >= 500 });
+    } catch {
+      setStatus({ kind: "error", message: "The connection dropped again; the clip is still kept on this device.", retry: true });
+    }
+  }
 
   async function submit(form: HTMLFormElement) {
     const data = new FormData(form);
@@ -41,6 +85,7 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
       return;
     }
     data.set("file", file);
+    if (file === recorded) await keepLocally(file, uploadUid);
     setStatus({ kind: "sending" });
     setFieldErrors({});
     try {
@@ -48,6 +93,7 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
       const body = (await res.json().catch(() => ({}))) as { error?: string; fields?: Record<string, string> };
       if (res.ok) {
         setStatus({ kind: "done", message: res.status === 201 ? "Sent. Your therapist will see it in their list." : "Already received earlier; it is stored once." });
+        if (file === recorded) await deletePendingClip(uploadUid).catch(() => undefined);
         form.reset();
         setRecorded(null);
         setUploadUid(crypto.randomUUID());
@@ -63,6 +109,7 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
 
   return (
     <form
+      ref={formRef}
       aria-label="Send a file"
       className="grid max-w-xl gap-4"
       noValidate
@@ -71,6 +118,21 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
         void submit(e.currentTarget);
       }}
     >
+      {pending.map((clip) => (
+        <div key={clip.uploadUid} role="status" className="rounded-lg bg-flag-amberBg px-3 py-2 text-sm" data-testid="pending-clip">
+          A clip recorded {new Date(clip.recordedAt).toLocaleString()} has not reached your clinic yet; it is kept on this device.{" "}
+          <Button type="button" variant="quiet" onClick={() => void sendPending(clip)}>
+            Send it now
+          </Button>{" "}
+          <button
+            type="button"
+            className="text-ink-soft underline"
+            onClick={() => void deletePendingClip(clip.uploadUid).then(() => setPending((p) => p.filter((c) => c.uploadUid !== clip.uploadUid)))}
+          >
+            Discard
+          </button>
+        </div>
+      ))}
       {clients ? <SelectField label="Client" name="clientId" options={clients} error={fieldErrors.clientId} /> : null}
       {allowClip ? (
         <SelectField
@@ -103,10 +165,19 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
       {kind === "clip" ? (
         <ClipRecorder
           onRecorded={(file) => {
+            const uid = crypto.randomUUID();
+            // "Record again" replaces the clip kept on this device.
+            if (!file) void deletePendingClip(uploadUid).catch(() => undefined);
             setRecorded(file);
-            setUploadUid(crypto.randomUUID());
+            setUploadUid(uid);
+            if (file) void keepLocally(file, uid);
           }}
         />
+      ) : null}
+      {kind === "clip" && recorded && keptUid === uploadUid ? (
+        <p className="text-xs text-ink-faint" data-testid="clip-kept">
+          Kept on this device until your clinic has it.
+        </p>
       ) : null}
       <div>
         <label htmlFor="upload-file" className="block text-sm font-medium text-ink">

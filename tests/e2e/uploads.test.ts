@@ -91,7 +91,7 @@ describe("a client sends a clip and the therapist reviews it", () => {
     expect(row.motion).toBe("wrist.flexion");
   });
 
-  it("records a clip with the camera in the browser and sends it as a real WebM", async () => {
+  it("records a clip with the camera in the browser, keeps it across a reload and sends it as a real WebM", async () => {
     const page = dorian.pages()[0];
     await page.goto(`${app.appUrl}/uploads`);
     const form = page.getByRole("form", { name: "Send a file" });
@@ -101,9 +101,15 @@ describe("a client sends a clip and the therapist reviews it", () => {
     await page.waitForTimeout(2500);
     await form.getByRole("button", { name: /Stop recording/ }).click();
     await form.getByText("Clip recorded; it is sent when you press Send.").waitFor();
+    await page.getByTestId("clip-kept").waitFor();
     const before = (await uploadRows()).length;
-    await form.getByRole("button", { name: "Send", exact: true }).click();
-    await form.getByText(/^Sent\./).waitFor();
+    // The tab is reloaded before Send: the clip was kept on the device and is offered again.
+    await page.reload();
+    const kept = page.getByTestId("pending-clip");
+    await expect(kept.textContent()).resolves.toMatch(/has not reached your clinic yet/);
+    await kept.getByRole("button", { name: "Send it now" }).click();
+    await page.getByText(/^Sent\./).waitFor();
+    expect(await page.getByTestId("pending-clip").count()).toBe(0);
     const rows = await uploadRows();
     expect(rows).toHaveLength(before + 1);
     const recorded = rows.find((r) => r.motion === "wrist.extension")!;
