@@ -4,6 +4,7 @@ import { clients, clinics, users, type NewClient, type Role } from "@/db/schema"
 import { hashPassword } from "@/lib/auth/password";
 import { seedBillingDemo } from "./billing";
 import { seedChartDemo } from "./chart";
+import { seedPracticeDemo } from "./practice";
 
 /**
  * The demo clinic. Everyone here is invented: names, dates, conditions and notes are fiction written for Kinarc's
@@ -232,6 +233,7 @@ export async function seedDemo(db: Database, today = new Date()): Promise<SeedRe
       clientIds[key] = row.id;
     }
     await seedChartDemo(tx, { clinicId: clinic.id, clientIds, therapistId: staffIds["therapist@kinarc.test"], assistantId: staffIds["assistant@kinarc.test"] }, today);
+    await seedPracticeDemo(tx, { clinicId: clinic.id, clientIds, therapistId: staffIds["therapist@kinarc.test"], timeZone: clinic.timezone }, today);
     await seedBillingDemo(tx, { clinicId: clinic.id, adminId: staffIds["admin@kinarc.test"], therapistId: staffIds["therapist@kinarc.test"], dorianId: clientIds.dorian }, today);
     return { seeded: true, clinicId: clinic.id, clientIds };
   });

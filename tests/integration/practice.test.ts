@@ -4,7 +4,7 @@
  * stored twice), and who may assign and read a program.
  */
 import { addDays as dfAddDays, eachDayOfInterval, formatISO, max as dfMax, min as dfMin, parseISO, startOfISOWeek } from "date-fns";
-import { count, eq } from "drizzle-orm";
+import { and, count, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { ZodError } from "zod";
 import { attempts, auditEvents, clinics, practiceSessions, users } from "@/db/schema";
@@ -251,7 +251,7 @@ describe("assigning, practising and reading a home program", () => {
 
     // Practice never becomes a grade: the attempts a grade proposal rests on leave it out.
     const gradeBasis = await recentAttempts(t.db, client.clinicId, dorianId);
-    const practiceIds = new Set((await t.db.select({ id: attempts.id }).from(attempts).where(eq(attempts.source, "practice"))).map((a) => a.id));
+    const practiceIds = new Set((await t.db.select({ id: attempts.id }).from(attempts).where(and(eq(attempts.source, "practice"), eq(attempts.clientId, dorianId)))).map((a) => a.id));
     expect(practiceIds.size).toBe(2);
     expect(gradeBasis.filter((a) => practiceIds.has(a.id))).toEqual([]);
 
@@ -278,6 +278,19 @@ describe("assigning, practising and reading a home program", () => {
     await expect(readProgramFor(t.db, stranger, seed.clientIds!.dorian, { now: NOW })).rejects.toMatchObject({ status: 404 });
     const staff = await readProgramFor(t.db, assistant, seed.clientIds!.dorian, { now: NOW });
     expect(staff.view).toBe("staff");
+  });
+
+  it("seeds a demo program whose readings the engine made: Anselm's wrist extension reads stalled", async () => {
+    const client = await requireClientRecord(therapist, seed.clientIds!.anselm, { db: t.db });
+    const { items } = await programOverview(t.db, client, { now: NOW, timeZone: "Europe/London", rangeTable: "aaos1965" });
+    const [ext] = items.filter((v) => v.item.motion === "wrist.extension");
+    expect(ext.readings).toHaveLength(6);
+    // Synthetic peaks 28, 35, 40 then 41, 39, 42: within the 5° floor of the earlier best.
+    expect(ext.trend.verdict).toBe("stalled");
+    expect(ext.adherence.reduce((n, w) => n + w.done, 0)).toBe(6);
+    // Started Saturday 28 November: 2 days of that week, all 7 of the next, and the whole current week (a week's due
+    // count is the week's, even on its Monday).
+    expect(ext.adherence.map((w) => w.due)).toEqual([2, 7, 7]);
   });
 
   it("keeps an ended item's history and stops offering it", async () => {
