@@ -43,3 +43,12 @@ export async function listAuditEvents(db: Database, clinicId: string, f: AuditFi
     .limit(f.pageSize + 1)
     .offset((f.page - 1) * f.pageSize);
 }
+
+/** Everyone of the clinic who can appear as the actor of an event: staff and clients with a sign-in, by name. */
+export async function listAuditPeople(db: Database, clinicId: string) {
+  return db
+    .select({ id: users.id, name: users.name, email: users.email, role: users.role })
+    .from(users)
+    .where(eq(users.clinicId, clinicId))
+    .orderBy(users.role, users.name);
+}

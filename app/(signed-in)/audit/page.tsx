@@ -2,9 +2,8 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { z } from "zod";
 import { getDb } from "@/db";
-import { listAuditEvents } from "@/db/queries/audit";
+import { listAuditEvents, listAuditPeople } from "@/db/queries/audit";
 import { listClients } from "@/db/queries/clients";
-import { listStaff } from "@/db/queries/users";
 import { Card, PageTitle } from "@/components/ui/card";
 import { currentActor } from "@/lib/auth/guard";
 import { isoDate } from "@/lib/validation/common";
@@ -28,9 +27,9 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
   if (!actor || actor.role !== "admin") notFound();
   const f = filterSchema.parse(await searchParams);
   const db = getDb();
-  const [events, staff, clientPage] = await Promise.all([
+  const [events, people, clientPage] = await Promise.all([
     listAuditEvents(db, actor.clinicId, { actorUserId: f.person, clientId: f.client, action: f.action, from: f.from, to: f.to, page: f.page, pageSize: PAGE_SIZE }),
-    listStaff(db, actor.clinicId),
+    listAuditPeople(db, actor.clinicId),
     listClients(db, actor.clinicId, { sort: "name", dir: "asc", page: 1, pageSize: 100 }),
   ]);
   const more = events.length > PAGE_SIZE;
@@ -44,9 +43,10 @@ export default async function AuditPage({ searchParams }: { searchParams: Promis
             Person
             <select name="person" defaultValue={f.person ?? ""} className="mt-1 block w-full rounded-lg border border-sand-200 px-2 py-2">
               <option value="">Anyone</option>
-              {staff.map((s) => (
+              {people.map((s) => (
                 <option key={s.id} value={s.id}>
                   {s.name ?? s.email}
+                  {s.role === "client" ? " (client)" : ""}
                 </option>
               ))}
             </select>
