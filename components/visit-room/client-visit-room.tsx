@@ -3,12 +3,14 @@
 import { useEffect, useRef, useState } from "react";
 import { SafetyNote } from "@/components/safety-note";
 import { HandOverlay } from "@/components/tracking/hand-overlay";
+import { PositionIllustration } from "@/components/tracking/position-illustration";
 import { browserOutbox, runOutbox } from "@/lib/captures/outbox";
 import { getReferenceEndRange, MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
 import { newCaptureUid } from "@/lib/tracking/capture-recorder";
 import { useHandTracking } from "@/lib/tracking/use-hand-tracking";
 import { encodeTelemetry, type ControlMessage } from "@/lib/visits/telemetry";
 import { useVisitRoom } from "@/lib/visits/use-visit-room";
+import { MicCheck } from "./mic-check";
 import { CONDITION_LABELS } from "./test-picker";
 import { TrackAudio, TrackVideo } from "./track-video";
 
@@ -155,8 +157,9 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
             </p>
           ) : null}
           <p className="text-sm text-ink-soft">
-            {tracking.status === "running" ? "Your camera is on and finds your hand. Join when you are ready; your therapist will guide you." : "Starting your camera…"}
+            {tracking.status === "running" ? "✓ Your camera is on. Check that your hand and forearm fit in the picture." : "Starting your camera…"}
           </p>
+          <MicCheck active={room.state.phase === "idle" || room.state.phase === "failed"} />
           <button
             type="button"
             onClick={join}
@@ -174,7 +177,10 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
                 {def.label}
                 {test.digit ? `, ${test.digit} finger` : ""} ({test.side}) · {CONDITION_LABELS[test.condition]}
               </p>
-              <p className="mt-1 text-base">{def.testPosition[test.condition]}</p>
+              <div className="mt-2 grid gap-3 md:grid-cols-[1fr_14rem]">
+                <p className="text-base">{def.testPosition[test.condition]}</p>
+                <PositionIllustration cameraView={def.cameraView} condition={test.condition} wrist={def.joint === "wrist"} />
+              </div>
               <p className="mt-2 text-4xl font-semibold tabular-nums" aria-live="polite">
                 {tracking.update?.smoothedDeg == null ? "—" : `${Math.round(tracking.update.smoothedDeg)}°`}
               </p>

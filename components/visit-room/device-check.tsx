@@ -1,6 +1,7 @@
 "use client";
 
 import { useEffect, useRef, useState } from "react";
+import { MicCheck } from "./mic-check";
 
 export interface DeviceCheckResult {
   videoDeviceId?: string;
@@ -9,42 +10,23 @@ export interface DeviceCheckResult {
 
 /**
  * Before joining: a live camera preview and a microphone level, with plain advice when something is wrong. The
- * preview stream is stopped before the room opens its own.
+ * preview streams are stopped before the room opens its own.
  */
 export function DeviceCheck({ onReady, joining }: { onReady: (devices: DeviceCheckResult) => void; joining: boolean }) {
   const video = useRef<HTMLVideoElement>(null);
   const [stream, setStream] = useState<MediaStream | null>(null);
   const [problem, setProblem] = useState<string | null>(null);
-  const [level, setLevel] = useState(0);
-  const [heard, setHeard] = useState(false);
 
   useEffect(() => {
     let cancelled = false;
-    let raf = 0;
-    let ctx: AudioContext | null = null;
     let local: MediaStream | null = null;
     navigator.mediaDevices
-      .getUserMedia({ video: { width: 640, height: 480 }, audio: true })
+      .getUserMedia({ video: { width: 640, height: 480 } })
       .then((s) => {
         if (cancelled) return s.getTracks().forEach((t) => t.stop());
         local = s;
         setStream(s);
         if (video.current) video.current.srcObject = s;
-        ctx = new AudioContext();
-        const analyser = ctx.createAnalyser();
-        analyser.fftSize = 512;
-        ctx.createMediaStreamSource(s).connect(analyser);
-        const data = new Uint8Array(analyser.fftSize);
-        const tick = () => {
-          analyser.getByteTimeDomainData(data);
-          let peak = 0;
-          for (const v of data) peak = Math.max(peak, Math.abs(v - 128));
-          const l = peak / 128;
-          setLevel(l);
-          if (l > 0.05) setHeard(true);
-          raf = requestAnimationFrame(tick);
-        };
-        tick();
       })
       .catch((error: Error) =>
         setProblem(
@@ -57,17 +39,14 @@ export function DeviceCheck({ onReady, joining }: { onReady: (devices: DeviceChe
       );
     return () => {
       cancelled = true;
-      cancelAnimationFrame(raf);
-      void ctx?.close();
       local?.getTracks().forEach((t) => t.stop());
     };
   }, []);
 
   const join = () => {
     const videoDeviceId = stream?.getVideoTracks()[0]?.getSettings().deviceId;
-    const audioDeviceId = stream?.getAudioTracks()[0]?.getSettings().deviceId;
     stream?.getTracks().forEach((t) => t.stop());
-    onReady({ videoDeviceId, audioDeviceId });
+    onReady({ videoDeviceId });
   };
 
   return (
@@ -82,11 +61,8 @@ export function DeviceCheck({ onReady, joining }: { onReady: (devices: DeviceChe
       ) : (
         <ul className="space-y-1 text-sm">
           <li>{stream ? "✓ Camera is on. Check that your hand and forearm fit in the picture." : "Starting the camera…"}</li>
-          <li className="flex items-center gap-2">
-            {heard ? "✓ We can hear you." : "Say something to test your microphone."}
-            <span className="inline-block h-2 w-24 overflow-hidden rounded bg-sand-200" aria-hidden>
-              <span className="block h-full bg-tide-500" style={{ width: `${Math.min(100, level * 200)}%` }} />
-            </span>
+          <li>
+            <MicCheck active={!joining} />
           </li>
         </ul>
       )}
