@@ -70,10 +70,14 @@ function captureReport(file: string, a: CaptureAnalysis) {
     trackingOk: a.trackingOk,
     method: a.method,
     correctionVersion: a.correctionVersion,
+    // 90% interval half-width of every angle below (vision/uncertainty.ts); view is the camera view most frames saw.
+    uncertaintyDeg: a.uncertaintyDeg,
+    view: a.view,
     repetitions: a.repetitions.map((r) => ({
       complete: r.complete,
       startDeg: round(r.startDeg),
       peakDeg: round(r.peakDeg),
+      uncertaintyDeg: a.uncertaintyDeg,
       arcDeg: round(r.arcDeg),
       timeToPeakMs: Math.round(r.timeToPeakMs),
       holdMs: Math.round(r.holdMs),

@@ -2,6 +2,7 @@ import { MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@
 import { createLivePipeline, type LivePipelineOptions, type MeasurementMethod, type PipelineFrame } from "./pipeline";
 import type { PlaneReading } from "./plane";
 import type { Repetition } from "./reps";
+import type { ValidationView } from "./uncertainty";
 import type { Vec3 } from "./vec";
 
 /** What the analyzer needs from a capture; the parsed capture file (lib/capture) has this shape. */
@@ -44,7 +45,10 @@ export interface CaptureAnalysis {
   planeAgrees: boolean;
   trackingOk: boolean;
   method: MeasurementMethod;
-  uncertaintyDeg?: number;
+  /** 90% interval half-width (degrees) of startDeg, peakDeg and each repetition's angles (vision/uncertainty.ts). */
+  uncertaintyDeg: number | null;
+  /** The camera view most usable frames saw, null when none held a majority. */
+  view: ValidationView | null;
   correctionVersion: string | null;
   warnings: string[];
 }
@@ -97,6 +101,8 @@ export function analyzeCapture(capture: CaptureInput, options: AnalyzeOptions = 
     planeAgrees,
     trackingOk,
     method: summary.method,
+    uncertaintyDeg: summary.uncertaintyDeg,
+    view: summary.view,
     correctionVersion: summary.correctionVersion,
     warnings,
   };

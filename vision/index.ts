@@ -2,6 +2,15 @@
 // route handlers and the CLI alike.
 export { analyzeCapture, DEFAULT_TRACKING_LIMITS, type AnalyzeOptions, type CaptureAnalysis, type CaptureInput, type TrackingLimits } from "./analyze-capture";
 export { handAxes, readMotion, wristAngles, type AngleReading, type HandAxes, type MotionReading } from "./angles";
+export {
+  CORRECTION_MODEL,
+  CORRECTION_VERSION,
+  correctMotionAngle,
+  correctionGroupFor,
+  type CorrectionModel,
+  type HandModel,
+  type RawAngleFeatures,
+} from "./correction";
 export { DIGIT_CHAIN, LANDMARK_COUNT, type HandLandmarks } from "./landmarks";
 export { DEFAULT_ONE_EURO, OneEuroFilter, type OneEuroParams } from "./one-euro";
 export {
@@ -17,4 +26,13 @@ export {
 } from "./pipeline";
 export { IMAGE_DOWN, PLANE_LIMITS, planeVerdict, readPlane, type PlaneReading, type PlaneVerdict } from "./plane";
 export { DEFAULT_REP_PARAMS, RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
+export {
+  angleUncertaintyDeg,
+  trackingFactor,
+  UNCERTAINTY_TABLE,
+  viewFromHand,
+  type UncertaintyTable,
+  type ValidationCell,
+  type ValidationView,
+} from "./uncertainty";
 export type { Vec3 } from "./vec";

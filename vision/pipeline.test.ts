@@ -1,6 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { DIGIT_CHAIN, LANDMARK_COUNT } from "./landmarks";
 import { createLivePipeline } from "./pipeline";
+import { UNCERTAINTY_TABLE } from "./uncertainty";
 import { neutralPose, poseHand, withMotionAngle } from "./testing/synthetic-hand";
 
 // Forearm level along x, palm up for a right hand (see plane.test.ts): PIP flexion here works against gravity.
@@ -9,7 +10,7 @@ const handAt = (deg: number) => poseHand(withMotionAngle(neutralPose(), "pip.fle
 
 describe("live pipeline, frame by frame", () => {
   it("returns the angle, smoothed angle, plane and repetition state of a usable frame", () => {
-    const pipeline = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "ring", condition: "against_gravity" });
+    const pipeline = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "ring", condition: "against_gravity", correction: "off" });
     const update = pipeline.push({ t: 0, score: 0.9, hand: handAt(30) });
     expect(update.quality).toBe("ok");
     expect(update.angleDeg).toBeCloseTo(30, 6);
@@ -19,11 +20,14 @@ describe("live pipeline, frame by frame", () => {
     expect(update.rep).toEqual({ phase: "rest", count: 0, currentTopDeg: null });
     expect(update.method).toBe("world3d");
     expect(update.correctionVersion).toBeNull();
-    expect(update.uncertaintyDeg).toBeUndefined();
+    // With the correction off the uncertainty is still the raw 3-D method's validation figure for this joint and view
+    // (score 0.9: no widening), read from the table the derivation script wrote.
+    const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === "PIP flexion" && c.model === "lite" && c.view === update.view)!;
+    expect(update.uncertaintyDeg).toBeCloseTo(1.645 * Math.sqrt(Math.PI / 2) * cell.rawMaeDeg, 1);
   });
 
   it("skips frames with no hand, a low score, 20 landmarks or a NaN, and says why", () => {
-    const pipeline = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "ring", condition: "against_gravity" });
+    const pipeline = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "ring", condition: "against_gravity", correction: "off" });
     const good = handAt(30);
     const withNaN = good.map((p, i) => (i === 14 ? ([Number.NaN, p[1], p[2]] as const) : p));
     expect(pipeline.push({ t: 0, score: 0.9, hand: null }).quality).toBe("no_hand");
@@ -36,7 +40,7 @@ describe("live pipeline, frame by frame", () => {
   });
 
   it("restarts the smoother after a long gap instead of gliding across it", () => {
-    const pipeline = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "ring", condition: "against_gravity" });
+    const pipeline = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "ring", condition: "against_gravity", correction: "off" });
     for (let i = 0; i < 10; i++) pipeline.push({ t: i * 33, score: 0.9, hand: handAt(10) });
     const after = pipeline.push({ t: 5000, score: 0.9, hand: handAt(70) });
     expect(after.smoothedDeg).toBeCloseTo(70, 6);

@@ -7,9 +7,11 @@ import { OneEuroFilter, type OneEuroParams } from "./one-euro";
 import { PlaneAccumulator, readPlane, unitGravity, type PlaneReading } from "./plane";
 import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
 import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
+import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, type CorrectionModel, type HandModel } from "./correction";
+import { angleUncertaintyDeg, correctionHelps, UNCERTAINTY_TABLE, viewFromHand, type UncertaintyTable, type ValidationView } from "./uncertainty";
 
-/** How an angle was obtained; later accuracy work adds corrected methods beside these. */
-export type MeasurementMethod = "world3d" | "image_plane";
+/** How an angle was obtained: raw 3-D landmarks, or those corrected by a named correction ("world3d+kinarc-correction-1"). */
+export type MeasurementMethod = "world3d" | "image_plane" | `world3d+${string}`;
 
 export interface PipelineFrame {
   /** Milliseconds since the capture started. */
@@ -36,6 +38,16 @@ export interface LivePipelineOptions {
   neutralWindowMs?: number;
   /** A gap in usable frames longer than this restarts the smoother, so it does not glide across the hole. */
   maxGapMs?: number;
+  /** The tracker's hand landmark model; the correction and the validation error differ by model. Default "lite", the app's. */
+  handModel?: HandModel;
+  /**
+   * "auto" (default) applies the angle correction where validation shows it lowers the error for the joint, view and
+   * model; "off" reads raw 3-D angles (for checks of the angle geometry on exact landmarks).
+   */
+  correction?: "auto" | "off";
+  /** Injectable for tests; the committed coefficients and validation table otherwise. */
+  correctionModel?: CorrectionModel;
+  uncertaintyTable?: UncertaintyTable;
 }
 
 export type FrameQuality = "ok" | "no_hand" | "low_score" | "bad_landmarks" | "degenerate";
@@ -53,7 +65,10 @@ export interface LiveUpdate {
   planeMatchesCondition: boolean | null;
   rep: { phase: RepPhase; count: number; currentTopDeg: number | null };
   method: MeasurementMethod;
-  uncertaintyDeg?: number;
+  /** 90% interval half-width of `angleDeg` (and the smoothed angle and top): validation error, widened by tracking score. */
+  uncertaintyDeg: number | null;
+  /** The camera view the frame's hand axes point to (scripts/accuracy views), null when the frame was skipped. */
+  view: ValidationView | null;
   correctionVersion: string | null;
 }
 
@@ -66,7 +81,10 @@ export interface PipelineSummary {
   /** Plane over the outward part of every repetition, or over all usable frames when there was none. */
   plane: PlaneReading | null;
   method: MeasurementMethod;
-  uncertaintyDeg?: number;
+  /** 90% interval half-width for the capture's angles and peaks: its usual view (the worse of views when mixed), its mean score. */
+  uncertaintyDeg: number | null;
+  /** The view seen in most usable frames, null when none held a majority. */
+  view: ValidationView | null;
   correctionVersion: string | null;
   warnings: string[];
 }
@@ -110,7 +128,15 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   let neutralStartMs = Number.NaN;
   let neutral: Vec3 | null = null;
   let usedNeutral = false;
-  const method: MeasurementMethod = "world3d";
+  const handModel: HandModel = options.handModel ?? "lite";
+  const correctionModel = options.correctionModel ?? CORRECTION_MODEL;
+  const table = options.uncertaintyTable ?? UNCERTAINTY_TABLE;
+  const correctionTarget = options.correction === "off" ? null : correctionGroupFor(options.motion, options.digit);
+  const correctedMethod: MeasurementMethod = `world3d+${correctionModel.version}`;
+  let correctedFrames = 0;
+  let usableScoreSum = 0;
+  const viewCounts = new Map<ValidationView, number>();
+  let method: MeasurementMethod = "world3d";
 
   function skipped(t: number, score: number, quality: FrameQuality): LiveUpdate {
     return {
@@ -124,6 +150,8 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       planeMatchesCondition: null,
       rep: { phase: segmenter.phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
       method,
+      uncertaintyDeg: null,
+      view: null,
       correctionVersion: null,
     };
   }
@@ -153,25 +181,50 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     const reading = readMotion(options.motion, options.digit, frame.hand, axes, forearm);
     if (!reading || !Number.isFinite(reading.deg)) return skipped(frame.t, score, "degenerate");
 
+    // Camera axes: z points away from the camera, so "toward the camera" is -z.
+    const view = viewFromHand(-axes.palmarNormal[2], -axes.radialAxis[2], -axes.longAxis[2]);
+    let angleDeg = reading.deg;
+    let frameMethod: MeasurementMethod = "world3d";
+    if (correctionTarget && Number.isFinite(reading.imagePlaneDeg) && correctionHelps(table, correctionTarget.group, handModel, view)) {
+      const corrected = correctMotionAngle(correctionModel, handModel, options.motion, options.digit, {
+        deg: reading.deg,
+        imagePlaneDeg: reading.imagePlaneDeg,
+        planeFacing: Math.abs(reading.axis[2]),
+        radialTowardCamera: -axes.radialAxis[2],
+        palmTowardCamera: -axes.palmarNormal[2],
+      });
+      if (corrected !== null && Number.isFinite(corrected)) {
+        angleDeg = corrected;
+        frameMethod = correctedMethod;
+        correctedFrames += 1;
+      }
+    }
+    method = frameMethod;
+    viewCounts.set(view, (viewCounts.get(view) ?? 0) + 1);
+    usableScoreSum += score;
+
     usable += 1;
     if (!Number.isNaN(lastUsableMs) && frame.t - lastUsableMs > maxGapMs) filter.reset();
     lastUsableMs = frame.t;
-    const smoothedDeg = filter.filter(reading.deg, frame.t / 1000);
+    const smoothedDeg = filter.filter(angleDeg, frame.t / 1000);
     const plane = readPlane(reading.axis, reading.travel, gravity);
     allFramesPlane.add(plane.axisToGravityDeg, plane.travelAlongGravity);
-    const phase = segmenter.push(frame.t, reading.deg, smoothedDeg, filter.speed, plane.axisToGravityDeg, plane.travelAlongGravity);
+    const phase = segmenter.push(frame.t, angleDeg, smoothedDeg, filter.speed, plane.axisToGravityDeg, plane.travelAlongGravity);
     return {
       t: frame.t,
       quality: "ok",
       score,
-      angleDeg: reading.deg,
+      angleDeg,
       imagePlaneDeg: Number.isFinite(reading.imagePlaneDeg) ? reading.imagePlaneDeg : null,
       smoothedDeg,
       plane: { verdict: plane.verdict, axisToGravityDeg: plane.axisToGravityDeg },
       planeMatchesCondition: plane.verdict === options.condition,
       rep: { phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
-      method,
-      correctionVersion: null,
+      method: frameMethod,
+      // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
+      uncertaintyDeg: angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
+      view,
+      correctionVersion: frameMethod === correctedMethod ? correctionModel.version : null,
     };
   }
 
@@ -187,14 +240,26 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     if (frames > 0 && usable / frames < 0.8) warnings.push(`only ${usable} of ${frames} frames had a usable hand`);
     if (usable > 0 && repetitions.length === 0) warnings.push("no repetition found: the joint did not move clearly away from its resting angle");
     if (repetitions.some((r) => !r.complete)) warnings.push("the capture ended before the last repetition returned to rest");
+    if (correctedFrames > 0 && correctedFrames < usable) {
+      warnings.push(`angle correction applied on ${correctedFrames} of ${usable} usable frames (only in views where validation shows it helps)`);
+    }
+    // The capture's view is the one most frames saw; with no majority the worse of the views sets the uncertainty.
+    let view: ValidationView | null = null;
+    for (const [v, n] of viewCounts) if (n > usable / 2) view = v;
+    const meanUsableScore = usable ? usableScoreSum / usable : 0;
+    const summaryMethod: MeasurementMethod = correctedFrames > 0 ? correctedMethod : "world3d";
     return {
       frames,
       usableFrames: usable,
       meanScore: frames ? scoreSum / frames : 0,
       repetitions,
       plane: repPlane.empty ? allFramesPlane.result() : repPlane.result(),
-      method,
-      correctionVersion: null,
+      method: summaryMethod,
+      uncertaintyDeg: usable
+        ? angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames === usable ? "engine" : "raw")
+        : null,
+      view,
+      correctionVersion: correctedFrames > 0 ? correctionModel.version : null,
       warnings,
     };
   }

@@ -2,59 +2,20 @@ import { Matrix, solve } from "ml-matrix";
 import type { AngleEstimate } from "./estimates";
 import type { PoseKey } from "./hand-pose";
 import { JOINT_GROUPS } from "./joint-groups";
+import { CORRECTION_FEATURES, CORRECTION_VERSION, correctGroupAngle, correctionFeatures, type CorrectionModel } from "@/vision/correction";
 
-/**
- * Kinarc's angle correction, version 1: per joint group and hand model, a linear map from what the raw landmarks
- * give to the joint angle,
- *
- *   angle = b . [1, deg, ip, facing, deg*facing, ip*facing, radial, deg*radial, palm, deg*palm]
- *
- * where `deg` is the engine's 3-D reading, `ip` its image-plane counterpart, `facing` how squarely the joint's plane
- * faces the camera (1 = in the image), and `radial` / `palm` which side of the hand faces the camera (cosines, from
- * the landmarks' own hand axes). The products let the fit lean on the image-plane angle when the plane faces the
- * camera, and let the under-reading differ between a thumb-side and a little-finger-side view. Fitted by ridge
- * regression (a small penalty keeps the map tame where one view dominates) with Huber weights against gross
- * misreadings; deterministic for a given training set.
- */
-export const CORRECTION_FEATURES = [
-  "1",
-  "deg",
-  "imagePlaneDeg",
-  "facing",
-  "deg*facing",
-  "imagePlaneDeg*facing",
-  "radial",
-  "deg*radial",
-  "palm",
-  "deg*palm",
-] as const;
-
-export interface CorrectionGroupFit {
-  coefficients: number[];
-  trainingSamples: number;
-  /** Mean absolute error of the fit on its own training samples (not a validation figure). */
-  trainingMaeDeg: number;
-}
-
-export interface CorrectionModel {
-  version: string;
-  features: readonly string[];
-  trainingSeed: number;
-  trainingStills: number;
-  ridgeLambda: number;
-  /** By hand model ("lite", "full"), then joint group label. */
-  groups: Record<string, Record<string, CorrectionGroupFit>>;
-}
-
-export const CORRECTION_VERSION = "kinarc-correction-1";
+// The model's form, its coefficients and how it is applied live in the engine (vision/correction.ts), so the app and
+// this report use one copy; fitting stays here with the training renders.
+export {
+  CORRECTION_FEATURES,
+  CORRECTION_VERSION,
+  correctionFeatures,
+  type CorrectionGroupFit,
+  type CorrectionModel,
+} from "@/vision/correction";
 
 /** Residuals beyond this count linearly in the fit: about twice a goniometer's error in the hand [common practice]. */
 export const HUBER_DEG = 10;
-
-export function correctionFeatures(estimate: AngleEstimate): number[] {
-  const { deg, imagePlaneDeg: ip, planeFacing: c, radialTowardCamera: r, palmTowardCamera: p } = estimate;
-  return [1, deg, ip, c, deg * c, ip * c, r, deg * r, p, deg * p];
-}
 
 export interface CorrectionSample {
   model: string;
@@ -134,10 +95,5 @@ export function fitCorrection(
 /** The corrected angle, or null when the model has no fit for this joint and hand model. */
 export function applyCorrection(model: CorrectionModel, handModel: string, key: PoseKey, estimate: AngleEstimate): number | null {
   const group = jointGroupOf(key);
-  const fit = group ? model.groups[handModel]?.[group] : undefined;
-  if (!fit) return null;
-  if (fit.coefficients.length !== CORRECTION_FEATURES.length) {
-    throw new Error(`correction ${handModel} ${group}: expected ${CORRECTION_FEATURES.length} coefficients (${CORRECTION_FEATURES.join(", ")}), got ${fit.coefficients.length}; refit`);
-  }
-  return correctionFeatures(estimate).reduce((sum, value, i) => sum + value * fit.coefficients[i], 0);
+  return group ? correctGroupAngle(model, handModel, group, estimate) : null;
 }

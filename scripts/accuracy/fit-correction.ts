@@ -1,6 +1,6 @@
 /**
  * Fits the angle correction on training renders (seed TRAINING_SEED, never the validation seed) tracked by the app's
- * own tracking code, and writes scripts/accuracy/correction.json. Re-run after changing the tracker, the engine's
+ * own tracking code, and writes vision/correction-coefficients.json. Re-run after changing the tracker, the engine's
  * angle maths or the render set; the version string in the file changes only when the model's form changes.
  *
  *   npx tsx scripts/accuracy/fit-correction.ts [--per-motion 100] [--models lite,full] [--reuse]

@@ -2,7 +2,7 @@
  * `npm run accuracy`: renders the validation set, runs the app's own tracking code on it (tests/harness/tracking,
  * which imports vision/live unchanged) with each hand model, reads angles with the measurement engine
  * (vision/angles) and prints the error table per joint, view and model, raw and (when a fitted correction is in
- * scripts/accuracy/correction.json) corrected; writes it to scripts/accuracy/report.md.
+ * vision/correction-coefficients.json) corrected; writes it to scripts/accuracy/report.md.
  *
  *   npm run -s accuracy -- [--per-motion 60] [--per-view 40] [--models lite,full] [--reuse]
  */
@@ -29,7 +29,7 @@ export const VALIDATION_SEED: number = 20_261_202;
 
 const HERE = path.dirname(fileURLToPath(import.meta.url));
 const REPORT_FILE = path.join(HERE, "report.md");
-export const CORRECTION_FILE = path.join(HERE, "correction.json");
+export const CORRECTION_FILE = path.join(HERE, "..", "..", "vision", "correction-coefficients.json");
 
 export function parseModels(raw: string | undefined): HandModelVariant[] {
   const models = (raw ?? "lite,full").split(",");
@@ -118,7 +118,7 @@ async function main(): Promise<void> {
       `${HOLD_MS} ms at ${CLIP_FPS} fps and played at ${PLAYBACK_RATE}x; angles from the measurement engine (vision/angles, readMotion) ` +
       "on the 3-D world landmarks or their image-plane counterpart.",
     correction
-      ? `- Correction: ${correction.version}, fitted on seed ${correction.trainingSeed} (${correction.trainingStills} stills, never the validation seed) by scripts/accuracy/fit-correction.ts; coefficients in scripts/accuracy/correction.json.`
+      ? `- Correction: ${correction.version}, fitted on seed ${correction.trainingSeed} (${correction.trainingStills} stills, never the validation seed) by scripts/accuracy/fit-correction.ts; coefficients in vision/correction-coefficients.json.`
       : "- Correction: none fitted yet (run scripts/accuracy/fit-correction.ts).",
     "- Wrist rows use the render's true forearm line (the pose landmarker cannot see an upper body here): they measure the hand landmarks only.",
     "- Perfect-tracker bias: the same engine on the exact rig landmarks; the rig places wrist and MCP points a little off the " +

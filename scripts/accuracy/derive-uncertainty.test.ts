@@ -1,0 +1,40 @@
+import { readFileSync } from "node:fs";
+import { describe, expect, it } from "vitest";
+import { UNCERTAINTY_TABLE } from "@/vision/uncertainty";
+import { deriveUncertaintyTable, parseAccuracyReport, REPORT_FILE } from "./derive-uncertainty";
+
+describe("uncertainty table from the accuracy report", () => {
+  const report = parseAccuracyReport(readFileSync(REPORT_FILE, "utf8"));
+
+  it("the committed table is exactly what the committed report gives (re-run derive-uncertainty after the report)", () => {
+    expect(deriveUncertaintyTable(report)).toEqual(UNCERTAINTY_TABLE);
+  });
+
+  it("reads the report's own rows: PIP flexion, ulnar view, lite model, 27.6 raw and 10.4 corrected", () => {
+    const find = (method: "raw 3-D" | "corrected") => report["test motions"][method].find((r) => r.group === "PIP flexion" && r.view === "ulnar" && r.model === "lite")!;
+    // Figures as the report prints them; the check is that parsing lands on that row's MAE column.
+    expect(find("raw 3-D").maeDeg).toBe(27.6);
+    expect(find("corrected").maeDeg).toBe(10.4);
+    const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === "PIP flexion" && c.view === "ulnar" && c.model === "lite")!;
+    expect(cell.source).toBe("test motions");
+    expect(cell.correctionHelps).toBe(true);
+  });
+
+  it("every test-motion row of the report is a cell; random-pose rows fill the rest", () => {
+    for (const row of report["test motions"]["raw 3-D"]) {
+      const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === row.group && c.view === row.view && c.model === row.model)!;
+      expect(cell.source).toBe("test motions");
+      expect(cell.rawMaeDeg).toBe(row.maeDeg);
+    }
+    expect(UNCERTAINTY_TABLE.cells.some((c) => c.source === "random poses")).toBe(true);
+  });
+
+  it("names the table that is missing", () => {
+    expect(() => parseAccuracyReport("# nothing here\n")).toThrow(/expected a table "test motions \/ raw 3-D"/);
+  });
+
+  it("names the row whose MAE is not a number", () => {
+    const broken = readFileSync(REPORT_FILE, "utf8").replace("| MCP flexion | radial | lite | 144 | 92% | 6.2 | 15.1 |", "| MCP flexion | radial | lite | 144 | 92% | 6.2 | abc |");
+    expect(() => parseAccuracyReport(broken)).toThrow(/MCP flexion, radial, lite.*expected a number of degrees for MAE, got "abc"/);
+  });
+});

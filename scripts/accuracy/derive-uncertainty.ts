@@ -1,0 +1,135 @@
+/**
+ * Derives the engine's uncertainty table (vision/uncertainty-table.json) from the accuracy report
+ * (scripts/accuracy/report.md): per joint group, view and hand model, whether the correction lowered the held-out
+ * error (then the engine applies it) and the 90% interval half-width of the method the engine then uses.
+ * Re-run after `npm run accuracy`:
+ *
+ *   npx tsx scripts/accuracy/derive-uncertainty.ts
+ */
+import { readFileSync, writeFileSync } from "node:fs";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+import { CORRECTION_VERSION, type HandModel } from "@/vision/correction";
+import { uncertaintyFromMaeDeg, VALIDATION_VIEWS, type UncertaintyTable, type ValidationCell, type ValidationView } from "@/vision/uncertainty";
+
+const HERE = path.dirname(fileURLToPath(import.meta.url));
+export const REPORT_FILE = path.join(HERE, "report.md");
+export const UNCERTAINTY_FILE = path.join(HERE, "..", "..", "vision", "uncertainty-table.json");
+export const UNCERTAINTY_VERSION = "kinarc-uncertainty-1";
+
+export interface ReportRow {
+  group: string;
+  view: string;
+  model: string;
+  samples: number;
+  maeDeg: number | null;
+}
+
+export type ReportSection = "test motions" | "random poses";
+export type ReportMethod = "raw 3-D" | "image plane" | "corrected";
+
+/** The report's tables by section and method, rows as numbers. Throws naming the heading when one is missing. */
+export function parseAccuracyReport(markdown: string): Record<ReportSection, Record<ReportMethod, ReportRow[]>> {
+  const sections: Record<string, ReportSection> = { "## Test motions in their recommended view": "test motions", "## Random poses in every view": "random poses" };
+  const methods: Record<string, ReportMethod> = {
+    "### Raw landmarks, 3-D angles": "raw 3-D",
+    "### Raw landmarks, image plane angles": "image plane",
+    "### After correction": "corrected",
+  };
+  const out: Record<ReportSection, Record<ReportMethod, ReportRow[]>> = {
+    "test motions": { "raw 3-D": [], "image plane": [], corrected: [] },
+    "random poses": { "raw 3-D": [], "image plane": [], corrected: [] },
+  };
+  let section: ReportSection | null = null;
+  let method: ReportMethod | null = null;
+  let maeColumn = -1;
+  const seen = new Set<string>();
+  for (const line of markdown.split("\n")) {
+    const heading = line.trim();
+    if (heading.startsWith("## ")) {
+      section = sections[heading] ?? null;
+      method = null;
+    } else if (heading.startsWith("### ")) {
+      method = methods[heading] ?? null;
+      if (section && method) seen.add(`${section} / ${method}`);
+    } else if (section && method && heading.startsWith("|")) {
+      const cells = heading.split("|").slice(1, -1).map((c) => c.trim());
+      if (cells[0] === "joint") {
+        maeColumn = cells.indexOf("MAE °");
+        if (maeColumn < 0) throw new Error(`report: table "${section} / ${method}" has no "MAE °" column`);
+        continue;
+      }
+      if (cells[0].startsWith("---")) continue;
+      const mae = cells[maeColumn] === "-" ? null : Number(cells[maeColumn]);
+      if (mae !== null && !Number.isFinite(mae)) throw new Error(`report: "${section} / ${method}" row "${cells.slice(0, 3).join(", ")}": expected a number of degrees for MAE, got "${cells[maeColumn]}"`);
+      out[section][method].push({ group: cells[0], view: cells[1], model: cells[2], samples: Number(cells[3]), maeDeg: mae });
+    }
+  }
+  for (const s of Object.values(sections)) {
+    for (const m of ["raw 3-D", "corrected"] as const) {
+      if (!seen.has(`${s} / ${m}`)) throw new Error(`report: expected a table "${s} / ${m}"`);
+    }
+  }
+  return out;
+}
+
+const round1 = (x: number) => Math.round(x * 10) / 10;
+
+/**
+ * One cell per group, view and model. Test-motion rows (one joint moving, in the view the catalog recommends: what
+ * the app measures) come first; random-pose rows fill the views and groups they lack. The correction is applied
+ * where its held-out MAE is below the raw 3-D MAE; the uncertainty is that of the method the engine then uses.
+ */
+export function deriveUncertaintyTable(report: ReturnType<typeof parseAccuracyReport>, correctionVersion: string = CORRECTION_VERSION): UncertaintyTable {
+  const cells: ValidationCell[] = [];
+  const taken = new Set<string>();
+  for (const source of ["test motions", "random poses"] as const) {
+    const corrected = new Map(report[source].corrected.map((r) => [`${r.group}|${r.view}|${r.model}`, r]));
+    for (const raw of report[source]["raw 3-D"]) {
+      const key = `${raw.group}|${raw.view}|${raw.model}`;
+      if (taken.has(key) || raw.maeDeg === null) continue;
+      if (!(VALIDATION_VIEWS as readonly string[]).includes(raw.view)) throw new Error(`report: view "${raw.view}": expected one of ${VALIDATION_VIEWS.join(", ")}`);
+      if (raw.model !== "lite" && raw.model !== "full") throw new Error(`report: model "${raw.model}": expected lite or full`);
+      const correctedMae = corrected.get(key)?.maeDeg ?? null;
+      const helps = correctedMae !== null && correctedMae < raw.maeDeg;
+      taken.add(key);
+      cells.push({
+        group: raw.group,
+        view: raw.view as ValidationView,
+        model: raw.model as HandModel,
+        source,
+        samples: raw.samples,
+        rawMaeDeg: raw.maeDeg,
+        correctedMaeDeg: correctedMae,
+        correctionHelps: helps,
+        uncertaintyDeg: round1(uncertaintyFromMaeDeg(helps ? correctedMae! : raw.maeDeg)),
+      });
+    }
+  }
+  return {
+    version: UNCERTAINTY_VERSION,
+    correctionVersion,
+    rule:
+      "uncertaintyDeg = 1.645 * sqrt(pi/2) * MAE (90% interval half-width of a normal error with that mean absolute error) " +
+      "of the method the engine uses in the cell: corrected where the correction's held-out MAE is below the raw 3-D MAE, raw 3-D otherwise. " +
+      "Source: scripts/accuracy/report.md (held-out renders); test-motion rows first, random-pose rows for the rest.",
+    cells,
+  };
+}
+
+function main(): void {
+  const table = deriveUncertaintyTable(parseAccuracyReport(readFileSync(REPORT_FILE, "utf8")));
+  writeFileSync(UNCERTAINTY_FILE, `${JSON.stringify(table, null, 2)}\n`);
+  const applied = table.cells.filter((c) => c.correctionHelps).length;
+  console.log(`${table.cells.length} cells, correction applied in ${applied}`);
+  console.error(`uncertainty -> ${UNCERTAINTY_FILE}`);
+}
+
+if (process.argv[1] && path.resolve(process.argv[1]) === fileURLToPath(import.meta.url)) {
+  try {
+    main();
+  } catch (error) {
+    console.error(error instanceof Error ? error.message : error);
+    process.exitCode = 2;
+  }
+}

@@ -1,0 +1,108 @@
+import { describe, expect, it } from "vitest";
+import { MOTIONS, type Digit, type MotionId } from "@/lib/motions/catalog";
+import { handAxes, readMotion } from "./angles";
+import COEFFICIENTS from "./correction-coefficients.json";
+import { CORRECTION_FEATURES, CORRECTION_MODEL, CORRECTION_VERSION, correctGroupAngle, correctionGroupFor, correctMotionAngle, type RawAngleFeatures } from "./correction";
+import { createLivePipeline } from "./pipeline";
+import { neutralPose, poseHand, withMotionAngle, type Placement } from "./testing/synthetic-hand";
+import { UNCERTAINTY_TABLE, type UncertaintyTable } from "./uncertainty";
+
+/** A feature named in the file ("deg*facing") evaluated from its parts: an independent reading of the file's form. */
+function featureValue(name: string, f: RawAngleFeatures): number {
+  const part: Record<string, number> = { "1": 1, deg: f.deg, imagePlaneDeg: f.imagePlaneDeg, facing: f.planeFacing, radial: f.radialTowardCamera, palm: f.palmTowardCamera };
+  return name.split("*").reduce((product, p) => {
+    if (!(p in part)) throw new Error(`unknown feature part ${p}`);
+    return product * part[p];
+  }, 1);
+}
+
+const SAMPLE: RawAngleFeatures = { deg: 41, imagePlaneDeg: 38, planeFacing: 0.8, radialTowardCamera: 0.9, palmTowardCamera: -0.2 };
+
+describe("the committed correction (vision/correction-coefficients.json)", () => {
+  it("is version kinarc-correction-1 with the engine's feature list and ten coefficients per fit", () => {
+    expect(COEFFICIENTS.version).toBe(CORRECTION_VERSION);
+    expect(COEFFICIENTS.features).toEqual([...CORRECTION_FEATURES]);
+    for (const groups of Object.values(CORRECTION_MODEL.groups)) for (const fit of Object.values(groups)) expect(fit.coefficients).toHaveLength(10);
+  });
+
+  it("applies each fit as the dot product of the file's coefficients and its named features", () => {
+    let checked = 0;
+    for (const [model, groups] of Object.entries(COEFFICIENTS.groups)) {
+      for (const [group, fit] of Object.entries(groups as Record<string, { coefficients: number[] }>)) {
+        const expected = COEFFICIENTS.features.reduce((sum, name, i) => sum + fit.coefficients[i] * featureValue(name, SAMPLE), 0);
+        expect(correctGroupAngle(CORRECTION_MODEL, model, group, SAMPLE)).toBeCloseTo(expected, 9);
+        checked++;
+      }
+    }
+    expect(checked).toBeGreaterThanOrEqual(12);
+  });
+
+  it("reads extension, ulnar deviation and adduction as the negatives of the fitted directions", () => {
+    const negated = { ...SAMPLE, deg: -SAMPLE.deg, imagePlaneDeg: -SAMPLE.imagePlaneDeg };
+    const pairs: Array<[MotionId, MotionId, Digit | null]> = [
+      ["wrist.extension", "wrist.flexion", null],
+      ["wrist.ulnar_deviation", "wrist.radial_deviation", null],
+      ["mcp.extension", "mcp.flexion", "index"],
+      ["finger.adduction", "finger.abduction", "ring"],
+    ];
+    for (const [reverse, forward, digit] of pairs) {
+      const forwardValue = correctMotionAngle(CORRECTION_MODEL, "lite", forward, digit, negated)!;
+      expect(correctMotionAngle(CORRECTION_MODEL, "lite", reverse, digit, SAMPLE)).toBeCloseTo(-forwardValue, 9);
+    }
+  });
+
+  it("has no fit for the thumb or the middle finger's spread, so those stay raw", () => {
+    expect(correctMotionAngle(CORRECTION_MODEL, "lite", "mcp.flexion", "thumb", SAMPLE)).toBeNull();
+    expect(correctionGroupFor("finger.abduction", "middle")).toBeNull();
+    // Every motion of the catalog maps somewhere or is the middle finger's spread.
+    for (const id of Object.keys(MOTIONS) as MotionId[]) {
+      for (const digit of MOTIONS[id].digits.length ? MOTIONS[id].digits : [null]) {
+        if (!(id.startsWith("finger.") && digit === "middle")) expect(correctionGroupFor(id, digit), `${id} ${digit}`).not.toBeNull();
+      }
+    }
+  });
+});
+
+// A right hand held up, thumb side toward the camera (radial view) or away from it (ulnar view); z points away.
+const RADIAL_VIEW: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, -1], wrist: [0, 0, 0.5] };
+
+function frameAt(deg: number, placement: Placement) {
+  return poseHand(withMotionAngle(neutralPose(), "pip.flexion", "index", deg), "right", placement).landmarks;
+}
+
+describe("the live pipeline with the correction", () => {
+  it("reports the corrected angle, the method and the version where validation shows the correction helps", () => {
+    const hand = frameAt(60, RADIAL_VIEW);
+    const update = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "index", condition: "against_gravity" }).push({ t: 0, score: 0.95, hand });
+    expect(update.view).toBe("radial");
+    const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === "PIP flexion" && c.model === "lite" && c.view === "radial")!;
+    expect(cell.correctionHelps).toBe(true);
+    // Independently: the engine's raw reading, its features, and the file's coefficients.
+    const axes = handAxes(hand, "right")!;
+    const raw = readMotion("pip.flexion", "index", hand, axes, null)!;
+    const expected = correctGroupAngle(CORRECTION_MODEL, "lite", "PIP flexion", {
+      deg: raw.deg,
+      imagePlaneDeg: raw.imagePlaneDeg,
+      planeFacing: Math.abs(raw.axis[2]),
+      radialTowardCamera: -axes.radialAxis[2],
+      palmTowardCamera: -axes.palmarNormal[2],
+    })!;
+    expect(update.angleDeg).toBeCloseTo(expected, 9);
+    expect(Math.abs(update.angleDeg! - raw.deg)).toBeGreaterThan(1);
+    expect(update.method).toBe("world3d+kinarc-correction-1");
+    expect(update.correctionVersion).toBe("kinarc-correction-1");
+    expect(update.uncertaintyDeg).toBeCloseTo(cell.uncertaintyDeg, 6);
+  });
+
+  it("leaves the raw angle where the validation table says the correction makes things worse", () => {
+    const table: UncertaintyTable = {
+      ...UNCERTAINTY_TABLE,
+      cells: UNCERTAINTY_TABLE.cells.map((c) => (c.group === "PIP flexion" ? { ...c, correctionHelps: false } : c)),
+    };
+    const hand = frameAt(60, RADIAL_VIEW);
+    const update = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "index", condition: "against_gravity", uncertaintyTable: table }).push({ t: 0, score: 0.95, hand });
+    expect(update.angleDeg).toBeCloseTo(60, 6);
+    expect(update.method).toBe("world3d");
+    expect(update.correctionVersion).toBeNull();
+  });
+});

@@ -1,0 +1,152 @@
+import type { Digit, MotionId } from "@/lib/motions/catalog";
+import COEFFICIENTS from "./correction-coefficients.json";
+
+/**
+ * Kinarc's angle correction, version 1: per joint group and hand model, a linear map from what the raw landmarks
+ * give to the joint angle,
+ *
+ *   angle = b . [1, deg, ip, facing, deg*facing, ip*facing, radial, deg*radial, palm, deg*palm]
+ *
+ * where `deg` is the engine's 3-D reading, `ip` its image-plane counterpart, `facing` how squarely the joint's plane
+ * faces the camera (1 = in the image), and `radial` / `palm` which side of the hand faces the camera (cosines, from
+ * the landmarks' own hand axes). The products let the map lean on the image-plane angle when the plane faces the
+ * camera, and let the under-reading differ between a thumb-side and a little-finger-side view. The coefficients are
+ * fitted on training renders by scripts/accuracy/fit-correction.ts, which writes vision/correction-coefficients.json;
+ * the app and the accuracy report read that one file.
+ */
+export const CORRECTION_FEATURES = [
+  "1",
+  "deg",
+  "imagePlaneDeg",
+  "facing",
+  "deg*facing",
+  "imagePlaneDeg*facing",
+  "radial",
+  "deg*radial",
+  "palm",
+  "deg*palm",
+] as const;
+
+export const CORRECTION_VERSION = "kinarc-correction-1";
+
+/** Joint groups as the accuracy report names its rows: the four fingers share one fit per joint. */
+export const CORRECTION_GROUPS = [
+  "MCP flexion",
+  "PIP flexion",
+  "DIP flexion",
+  "finger abduction",
+  "thumb MCP flexion",
+  "thumb IP flexion",
+  "wrist flexion (+) / extension (-)",
+  "wrist radial (+) / ulnar (-) deviation",
+] as const;
+export type CorrectionGroup = (typeof CORRECTION_GROUPS)[number];
+
+/** Hand landmark models the tracker can run (vision/live/types.ts ModelVariant). */
+export type HandModel = "lite" | "full";
+export const HAND_MODELS: readonly HandModel[] = ["lite", "full"];
+
+/** What the raw landmarks give for one joint in one frame: the correction's inputs. */
+export interface RawAngleFeatures {
+  /** From the 3-D (world) landmarks. */
+  deg: number;
+  /** The same angle as seen in the image plane. */
+  imagePlaneDeg: number;
+  /** |cos| between the joint's axis and the line of sight: 1 when the motion's plane lies in the image. */
+  planeFacing: number;
+  /** cos between the hand's radial axis and the direction to the camera: +1 thumb side toward it. */
+  radialTowardCamera: number;
+  /** cos between the palm's normal and the direction to the camera: +1 palm toward it. */
+  palmTowardCamera: number;
+}
+
+export interface CorrectionGroupFit {
+  coefficients: number[];
+  trainingSamples: number;
+  /** Mean absolute error of the fit on its own training samples (not a validation figure). */
+  trainingMaeDeg: number;
+}
+
+export interface CorrectionModel {
+  version: string;
+  features: readonly string[];
+  trainingSeed: number;
+  trainingStills: number;
+  ridgeLambda: number;
+  /** By hand model ("lite", "full"), then joint group label. */
+  groups: Record<string, Record<string, CorrectionGroupFit>>;
+}
+
+/** The committed coefficients. */
+export const CORRECTION_MODEL: CorrectionModel = COEFFICIENTS;
+
+export function correctionFeatures(f: RawAngleFeatures): number[] {
+  const { deg, imagePlaneDeg: ip, planeFacing: c, radialTowardCamera: r, palmTowardCamera: p } = f;
+  return [1, deg, ip, c, deg * c, ip * c, r, deg * r, p, deg * p];
+}
+
+/** The corrected angle for a joint group, or null when the model has no fit for it and this hand model. */
+export function correctGroupAngle(model: CorrectionModel, handModel: string, group: string, features: RawAngleFeatures): number | null {
+  const fit = model.groups[handModel]?.[group];
+  if (!fit) return null;
+  if (fit.coefficients.length !== CORRECTION_FEATURES.length) {
+    throw new Error(
+      `correction ${handModel} ${group}: expected ${CORRECTION_FEATURES.length} coefficients (${CORRECTION_FEATURES.join(", ")}), got ${fit.coefficients.length}; refit`,
+    );
+  }
+  return correctionFeatures(features).reduce((sum, value, i) => sum + value * fit.coefficients[i], 0);
+}
+
+/**
+ * Which correction group reads a motion, and the sign from the motion's reported angle to the group's (the groups
+ * were fitted on flexion, radial deviation and abduction; extension, ulnar deviation and adduction are their
+ * negatives). Null for the middle finger's spread: the engine reads it as whichever way it went, which no fit saw.
+ */
+export function correctionGroupFor(motion: MotionId, digit: Digit | null): { group: CorrectionGroup; sign: 1 | -1 } | null {
+  const thumb = digit === "thumb";
+  switch (motion) {
+    case "wrist.flexion":
+      return { group: "wrist flexion (+) / extension (-)", sign: 1 };
+    case "wrist.extension":
+      return { group: "wrist flexion (+) / extension (-)", sign: -1 };
+    case "wrist.radial_deviation":
+      return { group: "wrist radial (+) / ulnar (-) deviation", sign: 1 };
+    case "wrist.ulnar_deviation":
+      return { group: "wrist radial (+) / ulnar (-) deviation", sign: -1 };
+    case "mcp.flexion":
+      return { group: thumb ? "thumb MCP flexion" : "MCP flexion", sign: 1 };
+    case "mcp.extension":
+      return { group: thumb ? "thumb MCP flexion" : "MCP flexion", sign: -1 };
+    case "pip.flexion":
+      return { group: "PIP flexion", sign: 1 };
+    case "dip.flexion":
+      return { group: "DIP flexion", sign: 1 };
+    case "ip.flexion":
+      return { group: thumb ? "thumb IP flexion" : "PIP flexion", sign: 1 };
+    case "ip.extension":
+      return { group: thumb ? "thumb IP flexion" : "PIP flexion", sign: -1 };
+    case "finger.abduction":
+    case "finger.adduction":
+      if (!digit || thumb || digit === "middle") return null;
+      return { group: "finger abduction", sign: motion === "finger.abduction" ? 1 : -1 };
+  }
+}
+
+/** The corrected reading for a motion's reported angle (same sign convention), or null when there is no fit. */
+export function correctMotionAngle(
+  model: CorrectionModel,
+  handModel: string,
+  motion: MotionId,
+  digit: Digit | null,
+  features: RawAngleFeatures,
+): number | null {
+  const target = correctionGroupFor(motion, digit);
+  if (!target) return null;
+  const { sign } = target;
+  const corrected = correctGroupAngle(model, handModel, target.group, {
+    ...features,
+    deg: sign * features.deg,
+    imagePlaneDeg: sign * features.imagePlaneDeg,
+  });
+  return corrected === null ? null : sign * corrected;
+}

@@ -1,0 +1,104 @@
+import { describe, expect, it } from "vitest";
+import { analyzeCapture } from "./analyze-capture";
+import { buildSyntheticCapture, type Placement } from "./testing/synthetic-hand";
+import {
+  angleUncertaintyDeg,
+  baseUncertaintyDeg,
+  trackingFactor,
+  UNCERTAINTY_TABLE,
+  uncertaintyFromMaeDeg,
+  VALIDATION_VIEWS,
+  viewFromHand,
+} from "./uncertainty";
+
+/** Standard normal probability of |Z| <= z by Simpson's rule on the density: an outside check of the 90% constant. */
+function normalCoverage(z: number, steps = 2000): number {
+  const h = z / steps;
+  let sum = 0;
+  for (let i = 0; i <= steps; i++) {
+    const x = i * h;
+    const w = i === 0 || i === steps ? 1 : i % 2 ? 4 : 2;
+    sum += w * Math.exp((-x * x) / 2);
+  }
+  return (2 * (sum * h)) / 3 / Math.sqrt(2 * Math.PI);
+}
+
+describe("the interval rule", () => {
+  it("1.645 standard deviations cover 90% of a normal error (Abramowitz & Stegun, Handbook of Mathematical Functions, 1964, 26.2)", () => {
+    expect(normalCoverage(1.645)).toBeCloseTo(0.9, 3);
+  });
+
+  it("turns a mean absolute error into the 90% half-width through the half-normal mean E|e| = sigma * sqrt(2/pi)", () => {
+    // Simpson's rule again for E|Z| of the standard normal: 2 * integral of x * phi(x) from 0 to 8.
+    const steps = 4000;
+    const h = 8 / steps;
+    let sum = 0;
+    for (let i = 0; i <= steps; i++) {
+      const x = i * h;
+      const w = i === 0 || i === steps ? 1 : i % 2 ? 4 : 2;
+      sum += w * x * Math.exp((-x * x) / 2);
+    }
+    const meanAbs = (2 * (sum * h)) / 3 / Math.sqrt(2 * Math.PI);
+    expect(uncertaintyFromMaeDeg(10)).toBeCloseTo((1.645 * 10) / meanAbs, 3);
+  });
+});
+
+describe("the committed table (vision/uncertainty-table.json) against its own figures", () => {
+  it("applies the correction exactly where its held-out error is lower, and states the error of the method used", () => {
+    expect(UNCERTAINTY_TABLE.cells.length).toBeGreaterThan(40);
+    for (const c of UNCERTAINTY_TABLE.cells) {
+      const helps = c.correctedMaeDeg !== null && c.correctedMaeDeg < c.rawMaeDeg;
+      expect(c.correctionHelps, `${c.group} ${c.view} ${c.model}`).toBe(helps);
+      expect(c.uncertaintyDeg).toBeCloseTo(uncertaintyFromMaeDeg(helps ? c.correctedMaeDeg! : c.rawMaeDeg), 1);
+    }
+  });
+
+  it("takes the worse of the views (and models) when the view is unknown", () => {
+    for (const group of new Set(UNCERTAINTY_TABLE.cells.map((c) => c.group))) {
+      const lite = UNCERTAINTY_TABLE.cells.filter((c) => c.group === group && c.model === "lite");
+      if (lite.length === 0) continue;
+      expect(baseUncertaintyDeg(UNCERTAINTY_TABLE, group, "lite", null)).toBe(Math.max(...lite.map((c) => c.uncertaintyDeg)));
+      for (const c of lite) expect(baseUncertaintyDeg(UNCERTAINTY_TABLE, group, "lite", c.view)).toBe(c.uncertaintyDeg);
+      const all = UNCERTAINTY_TABLE.cells.filter((c) => c.group === group);
+      expect(baseUncertaintyDeg(UNCERTAINTY_TABLE, group, null, null)).toBe(Math.max(...all.map((c) => c.uncertaintyDeg)));
+    }
+  });
+});
+
+describe("tracking confidence [our rule]", () => {
+  it("leaves the interval alone at 0.9 and above and doubles it at the pipeline's 0.5 cut-off, linearly between", () => {
+    expect(trackingFactor(0.97)).toBe(1);
+    expect(trackingFactor(0.9)).toBe(1);
+    expect(trackingFactor(0.7)).toBeCloseTo(1.5, 9);
+    expect(trackingFactor(0.5)).toBeCloseTo(2, 9);
+    const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === "PIP flexion" && c.model === "lite" && c.view === "ulnar")!;
+    expect(angleUncertaintyDeg("pip.flexion", "ring", "lite", "ulnar", 0.7)).toBeCloseTo(cell.uncertaintyDeg * 1.5, 1);
+  });
+});
+
+describe("camera view from the hand's axes", () => {
+  it("names the view whose direction the palm, thumb side or fingers point to", () => {
+    expect(viewFromHand(1, 0, 0)).toBe("palm");
+    expect(viewFromHand(-1, 0, 0)).toBe("back");
+    expect(viewFromHand(0, 1, 0)).toBe("radial");
+    expect(viewFromHand(0, -1, 0)).toBe("ulnar");
+    expect(viewFromHand(-0.82, 0, 0.57)).toBe("down");
+    expect(viewFromHand(-0.65, 0.65, 0.35)).toBe("oblique");
+    expect(VALIDATION_VIEWS).toHaveLength(6);
+  });
+});
+
+describe("analysis results carry the uncertainty", () => {
+  it("a capture in one view gets that view's figure, widened by its mean score", () => {
+    const placement: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, 1], wrist: [0, 0, 0.5] };
+    const capture = buildSyntheticCapture({ motion: "mcp.flexion", side: "right", digit: "index", condition: "gravity_minimized", placement, reps: [{ peakDeg: 70 }], seed: 3 });
+    const result = analyzeCapture(capture);
+    expect(result.view).toBe("ulnar");
+    const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === "MCP flexion" && c.model === "lite" && c.view === "ulnar")!;
+    const meanScore = capture.frames.filter((f) => f.hand).reduce((s, f) => s + f.score, 0) / capture.frames.filter((f) => f.hand).length;
+    expect(result.uncertaintyDeg).toBeCloseTo(cell.uncertaintyDeg * trackingFactor(meanScore), 1);
+    expect(result.method).toBe("world3d+kinarc-correction-1");
+    expect(result.correctionVersion).toBe("kinarc-correction-1");
+    expect(result.peakDeg).not.toBeNull();
+  });
+});

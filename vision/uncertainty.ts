@@ -1,0 +1,148 @@
+import type { Digit, MotionId } from "@/lib/motions/catalog";
+import { correctionGroupFor, type HandModel } from "./correction";
+import TABLE from "./uncertainty-table.json";
+
+/**
+ * How far an angle may be from the truth, from the validation error of the accuracy report
+ * (scripts/accuracy/report.md) per joint group, camera view and hand model, widened when the tracker is unsure.
+ * The table (vision/uncertainty-table.json) is written from the report by scripts/accuracy/derive-uncertainty.ts.
+ */
+
+/** Camera views of the validation renders (scripts/accuracy/scene.ts CAMERA_VIEWS). */
+export const VALIDATION_VIEWS = ["palm", "back", "radial", "ulnar", "oblique", "down"] as const;
+export type ValidationView = (typeof VALIDATION_VIEWS)[number];
+
+export interface ValidationCell {
+  group: string;
+  view: ValidationView;
+  model: HandModel;
+  /** Which held-out set the figures come from: one motion in its view ("test motions") or any pose ("random poses"). */
+  source: "test motions" | "random poses";
+  samples: number;
+  rawMaeDeg: number;
+  correctedMaeDeg: number | null;
+  /** The correction lowered the held-out mean absolute error here, so the engine applies it. */
+  correctionHelps: boolean;
+  /** Half-width of the 90% interval for the method the engine uses here (see UncertaintyTable.rule). */
+  uncertaintyDeg: number;
+}
+
+export interface UncertaintyTable {
+  version: string;
+  correctionVersion: string;
+  rule: string;
+  cells: ValidationCell[];
+}
+
+export const UNCERTAINTY_TABLE = TABLE as UncertaintyTable;
+
+/**
+ * The 90% interval half-width from a mean absolute error. The report gives mean absolute errors, not per-sample
+ * errors; for a normal error, E|e| = sigma * sqrt(2/pi) (half-normal mean) and 90% of errors lie within 1.645 sigma,
+ * so the half-width is 1.645 * sqrt(pi/2) * MAE = 2.06 * MAE. A 90% level matches the MDC90 convention of
+ * clinimetrics (1.645 z) [common practice]. It treats bias and spread alike, which is the honest reading when the
+ * bias differs between clients and cameras.
+ */
+export const Z90 = 1.645;
+export function uncertaintyFromMaeDeg(maeDeg: number): number {
+  return Z90 * Math.sqrt(Math.PI / 2) * maeDeg;
+}
+
+function cellsFor(table: UncertaintyTable, group: string, model: HandModel | null): ValidationCell[] {
+  return table.cells.filter((c) => c.group === group && (model === null || c.model === model));
+}
+
+/** The cell for one group, view and hand model, or null when the report has none. */
+export function validationCell(table: UncertaintyTable, group: string, model: HandModel, view: ValidationView): ValidationCell | null {
+  return table.cells.find((c) => c.group === group && c.model === model && c.view === view) ?? null;
+}
+
+/** Whether the engine applies the correction for this group, model and view: only where validation shows it helps. */
+export function correctionHelps(table: UncertaintyTable, group: string, model: HandModel, view: ValidationView | null): boolean {
+  if (view === null) return cellsFor(table, group, model).every((c) => c.correctionHelps) && cellsFor(table, group, model).length > 0;
+  return validationCell(table, group, model, view)?.correctionHelps ?? false;
+}
+
+/** Which method's error a figure is for: the one the engine uses in the cell, or raw 3-D angles (correction off). */
+export type UncertaintyMethod = "engine" | "raw";
+
+function cellUncertaintyDeg(cell: ValidationCell, method: UncertaintyMethod): number {
+  return method === "raw" ? Math.round(uncertaintyFromMaeDeg(cell.rawMaeDeg) * 10) / 10 : cell.uncertaintyDeg;
+}
+
+/**
+ * The validation uncertainty before any tracking factor. Where the view (or model) is unknown, or the report has no
+ * cell for it, the worst cell of that group is taken. Null when the report has no figure for the group at all.
+ */
+export function baseUncertaintyDeg(
+  table: UncertaintyTable,
+  group: string,
+  model: HandModel | null,
+  view: ValidationView | null,
+  method: UncertaintyMethod = "engine",
+): number | null {
+  const exact = model && view ? validationCell(table, group, model, view) : null;
+  if (exact) return cellUncertaintyDeg(exact, method);
+  const candidates = cellsFor(table, group, model);
+  const pool = candidates.length ? candidates : cellsFor(table, group, null);
+  return pool.length ? Math.max(...pool.map((c) => cellUncertaintyDeg(c, method))) : null;
+}
+
+/**
+ * Kinarc's rule for poor tracking [our reasoning, not validated: the renders were tracked at high hand-presence
+ * scores]: no widening at a score of 0.9 or more, then linearly wider to twice the width at 0.5, the lowest score the
+ * pipeline reads at all (DEFAULT_MIN_SCORE). A doubling at the cut-off keeps an interval honest where the landmark
+ * model itself says it is barely sure it sees a hand.
+ */
+export const FULL_CONFIDENCE_SCORE = 0.9;
+export const LOWEST_READ_SCORE = 0.5;
+export function trackingFactor(score: number): number {
+  const s = Number.isFinite(score) ? Math.min(1, Math.max(0, score)) : 0;
+  if (s >= FULL_CONFIDENCE_SCORE) return 1;
+  return 1 + (FULL_CONFIDENCE_SCORE - s) / (FULL_CONFIDENCE_SCORE - LOWEST_READ_SCORE);
+}
+
+/**
+ * Which validation view the camera has, from the hand's own axes: cosines of the palm normal, the radial axis and the
+ * long axis (wrist to fingers) with the direction to the camera. The nearest of the views' directions in
+ * scripts/accuracy/scene.ts VIEW_GEOMETRY (palm, ulnar, distal components) by cosine.
+ */
+const VIEW_DIRECTIONS: Record<ValidationView, [palm: number, radial: number, distal: number]> = {
+  palm: [1, 0, 0],
+  back: [-1, 0, 0],
+  radial: [0, 1, 0],
+  ulnar: [0, -1, 0],
+  oblique: [-0.65, 0.65, 0.35],
+  down: [-Math.sin((55 * Math.PI) / 180), 0, Math.cos((55 * Math.PI) / 180)],
+};
+export function viewFromHand(palmTowardCamera: number, radialTowardCamera: number, distalTowardCamera: number): ValidationView {
+  let best: ValidationView = "palm";
+  let bestCos = -Infinity;
+  for (const view of VALIDATION_VIEWS) {
+    const [p, r, d] = VIEW_DIRECTIONS[view];
+    const cos = (p * palmTowardCamera + r * radialTowardCamera + d * distalTowardCamera) / Math.hypot(p, r, d);
+    if (cos > bestCos) {
+      best = view;
+      bestCos = cos;
+    }
+  }
+  return best;
+}
+
+/** Uncertainty of a motion's angle: validation error for its joint, view and model, widened by tracking score. */
+export function angleUncertaintyDeg(
+  motion: MotionId,
+  digit: Digit | null,
+  model: HandModel | null,
+  view: ValidationView | null,
+  score: number,
+  table: UncertaintyTable = UNCERTAINTY_TABLE,
+  method: UncertaintyMethod = "engine",
+): number | null {
+  const target = correctionGroupFor(motion, digit);
+  // The middle finger's spread has no fit but is the same joint geometry as the other fingers' spread.
+  const group = target?.group ?? (motion.startsWith("finger.") ? "finger abduction" : null);
+  if (!group) return null;
+  const base = baseUncertaintyDeg(table, group, model, view, method);
+  return base === null ? null : Math.round(base * trackingFactor(score) * 10) / 10;
+}
