@@ -59,11 +59,12 @@ export const REASON_LABELS: Record<InPersonReason, string> = {
   palpation: "Palpation",
   position: "Position not verified",
   tracking: "Tracking quality",
+  uncertain: "Measurement uncertainty",
   precaution: "Precaution",
 };
 
 /** Palpation first (no movement seen may be a nerve problem), then resistance, then checks of the camera reading. */
-export const REASON_URGENCY: Record<InPersonReason, number> = { palpation: 3, resistance: 2, position: 1, tracking: 1, precaution: 0 };
+export const REASON_URGENCY: Record<InPersonReason, number> = { palpation: 3, resistance: 2, position: 1, tracking: 1, uncertain: 1, precaution: 0 };
 
 /** Entries not replaced by a later correction, oldest first. Corrected entries stay in the history, never here. */
 export function currentEntries(entries: readonly GradeEntry[]): GradeEntry[] {
@@ -107,6 +108,7 @@ export interface ProposalAttempt {
   arcDeg: number | null;
   frames: number;
   usableFrames: number;
+  uncertaintyDeg?: number | null;
   warnings: readonly string[];
 }
 
@@ -137,6 +139,7 @@ export function proposeGrade(
       peakDeg: a.peakDeg,
       arcDeg: a.arcDeg,
       trackingOk: trackingOk(a),
+      uncertaintyDeg: a.uncertaintyDeg,
       label: `attempt ${a.id.slice(0, 8)}`,
     })),
   });

@@ -156,3 +156,52 @@ describe("reference end-range", () => {
     expect(r.value).toBe("3");
   });
 });
+
+describe("uncertain: the interval peak ± uncertainty straddles a grade line", () => {
+  // Reference 80 deg (AAOS 1965 wrist flexion): the full-range line is 90% = 72 deg, the half line 50% = 40 deg
+  // (Daniels & Worthingham 2014: 3 full range, 3- more than half, 2+ up to half against gravity).
+  const u = (peakDeg: number, uncertaintyDeg: number | null) => ag(peakDeg, { uncertaintyDeg });
+
+  it("70 ± 5 deg grades 3- but could be 3: the full-range line 72 lies inside 65-75", () => {
+    const r = grade([u(70, 5)]);
+    expect(r.value).toBe("3-");
+    expect(reasonsOf(r)).toContain("uncertain");
+    expect(r.inPerson.find((n) => n.reason === "uncertain")!.detail).toMatch(/70° ± 5° straddles the full-range \(90%\) line at 72°/);
+  });
+
+  it("42 ± 5 deg grades 3- but could be 2+: the half line 40 lies inside 37-47", () => {
+    const r = grade([u(42, 5)]);
+    expect(r.value).toBe("3-");
+    expect(r.inPerson.find((n) => n.reason === "uncertain")!.detail).toMatch(/50% range line at 40°/);
+  });
+
+  it("60 ± 5 deg is clear of both lines, and no stated uncertainty adds no reason", () => {
+    expect(reasonsOf(grade([u(60, 5)]))).not.toContain("uncertain");
+    expect(reasonsOf(grade([u(70, null)]))).not.toContain("uncertain");
+    expect(reasonsOf(grade([ag(70)]))).not.toContain("uncertain");
+  });
+
+  it("at the edges: the interval reaching the line counts (67 ± 5 reaches 72), one tenth short does not", () => {
+    expect(reasonsOf(grade([u(67, 5)]))).toContain("uncertain");
+    expect(reasonsOf(grade([u(66.9, 5)]))).not.toContain("uncertain");
+    // 77 ± 5: lower end 72 is on the line, which still grades 3: not straddled.
+    expect(reasonsOf(grade([u(77, 5)]))).not.toContain("uncertain");
+    expect(reasonsOf(grade([u(76.9, 5)]))).toContain("uncertain");
+  });
+
+  it("gravity minimized: 70 ± 5 deg is 2- but could be 2 (full range gravity minimized)", () => {
+    const r = grade([ag(2), gm(70, { uncertaintyDeg: 5 })]);
+    expect(r.value).toBe("2-");
+    expect(r.inPerson.find((n) => n.reason === "uncertain")!.detail).toMatch(/gravity minimized 70° ± 5°/);
+  });
+
+  it("MRC has no half line: 42 ± 5 is not uncertain there, 70 ± 5 is (MRC Memorandum 45: 2 or 3)", () => {
+    expect(reasonsOf(grade([u(42, 5)], { scale: "mrc" }))).not.toContain("uncertain");
+    expect(reasonsOf(grade([u(70, 5)], { scale: "mrc" }))).toContain("uncertain");
+  });
+
+  it("uses the best attempt's own uncertainty", () => {
+    // The best (70, ± 1) is clear of 72; a weaker attempt with a wide interval does not decide.
+    expect(reasonsOf(grade([u(70, 1), u(50, 30)]))).not.toContain("uncertain");
+  });
+});

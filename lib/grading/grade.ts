@@ -10,7 +10,7 @@ export const GRADE_SCALES = ["daniels", "mrc", "intrinsic"] as const;
 export type GradeScale = (typeof GRADE_SCALES)[number];
 export const DEFAULT_GRADE_SCALE: GradeScale = "daniels";
 
-export type InPersonReason = "resistance" | "palpation" | "position" | "tracking" | "precaution";
+export type InPersonReason = "resistance" | "palpation" | "position" | "tracking" | "uncertain" | "precaution";
 
 /** Per-clinic thresholds; defaults follow the issue's reading of Daniels & Worthingham. */
 export interface GradingThresholds {
@@ -37,6 +37,8 @@ export interface GradingAttempt {
   peakDeg: number | null;
   arcDeg: number | null;
   trackingOk: boolean;
+  /** 90% interval half-width of the attempt's angles (vision/uncertainty.ts); absent or null when not stated. */
+  uncertaintyDeg?: number | null;
   /** Optional label used in the explanations (file name, attempt id). */
   label?: string;
 }
@@ -122,6 +124,8 @@ export function gradeMotion(input: GradeInput): GradeResult {
   const counted: GradingAttempt[] = [];
   let bestAG: number | null = null;
   let bestGM: number | null = null;
+  let bestAGAttempt: GradingAttempt | null = null;
+  let bestGMAttempt: GradingAttempt | null = null;
   for (const a of input.attempts) {
     const name = a.label ? `${a.label} ` : "";
     if (!gravityIgnored && a.planeVerdict !== a.condition) {
@@ -130,8 +134,13 @@ export function gradeMotion(input: GradeInput): GradeResult {
     }
     counted.push(a);
     const e = extent(a);
-    if (gravityIgnored || a.condition === "against_gravity") bestAG = Math.max(bestAG ?? 0, e);
-    else bestGM = Math.max(bestGM ?? 0, e);
+    if (gravityIgnored || a.condition === "against_gravity") {
+      if (bestAG === null || e > bestAG) bestAGAttempt = a;
+      bestAG = Math.max(bestAG ?? 0, e);
+    } else {
+      if (bestGM === null || e > bestGM) bestGMAttempt = a;
+      bestGM = Math.max(bestGM ?? 0, e);
+    }
   }
   if (gravityIgnored) bestGM = null;
 
@@ -202,6 +211,24 @@ export function gradeMotion(input: GradeInput): GradeResult {
     } else if (verifiedAG && !agMoved && !verifiedGM) {
       inPerson.push({ reason: "position", detail: "no movement against gravity and no verified gravity-minimized attempt to grade below 2+" });
     }
+  }
+
+  // A grade line inside the best attempt's interval (extent - u < line <= extent + u) means the measurement cannot tell
+  // which side of the line the client is on; the lines are the ones this scale grades by.
+  const straddled: string[] = [];
+  const checkLines = (best: number | null, attempt: GradingAttempt | null, lines: Array<[number, string]>, where: string) => {
+    const u = attempt?.uncertaintyDeg;
+    if (best === null || best <= 0 || u == null || !(u > 0)) return;
+    for (const [line, name] of lines) {
+      if (best - u < line && line <= best + u) straddled.push(`${where} ${fmt(best)} ± ${fmt(u)} straddles the ${name} line at ${fmt(line)}`);
+    }
+  };
+  const fullLine: [number, string] = [full, `full-range (${Math.round(t.fullRangeFraction * 100)}%)`];
+  const halfLine: [number, string] = [half, `${Math.round(t.halfRangeFraction * 100)}% range`];
+  checkLines(bestAG, bestAGAttempt, scale === "daniels" ? [halfLine, fullLine] : [fullLine], gravityIgnored ? "best range" : "against gravity");
+  if (scale === "daniels") checkLines(bestGM, bestGMAttempt, [fullLine], "gravity minimized");
+  if (straddled.length > 0) {
+    inPerson.push({ reason: "uncertain", detail: `${straddled.join("; ")}: the grade could be either side, confirm the range in person` });
   }
 
   const poorTracking = counted.filter((a) => !a.trackingOk);

@@ -72,6 +72,7 @@ export async function buildVisitSummary(db: Database, visit: Visit): Promise<Vis
         peakDeg: a.peakDeg,
         arcDeg: a.arcDeg,
         trackingOk: a.frames > 0 && a.usableFrames / a.frames >= 0.8,
+        uncertaintyDeg: a.uncertaintyDeg,
         label: a.id,
       })),
       precautions: client.noResistedUntil ? [{ noResistanceUntil: client.noResistedUntil, note: client.precautionNote }] : [],
