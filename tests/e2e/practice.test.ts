@@ -126,4 +126,35 @@ describe("home practice", () => {
     expect(readings).toEqual([`${Math.round(stored[0].peakDeg!)}°`]);
     console.log(`practice: session ${sessions[0].localDate}, attempt ${stored[0].reps} reps, peak ${stored[0].peakDeg?.toFixed(1)}°; adherence this week ${await weekRow.textContent()}`);
   }, 240_000);
+
+  it("the program API over HTTP: the client's own view, 404 across clients, 403 for admins, 400 naming the field, end keeps the item", async () => {
+    const { dorian, wren } = app.seed.clientIds!;
+    const url = (clientId: string, rest = "") => `${app.appUrl}/api/v1/clients/${clientId}/program${rest}`;
+    const client = await signedIn("client@kinarc.test");
+    const own = await client.request.get(url(dorian));
+    expect(own.status()).toBe(200);
+    const body = await own.json();
+    expect(body.view).toBe("client");
+    expect(JSON.stringify(body)).not.toContain("trend");
+    expect((await client.request.get(url(wren))).status()).toBe(404);
+    expect((await client.request.post(url(dorian), { data: {} })).status()).toBe(403);
+
+    const admin = await signedIn("admin@kinarc.test");
+    expect((await admin.request.get(url(dorian))).status()).toBe(403);
+    expect((await admin.request.post(url(dorian), { data: {} })).status()).toBe(403);
+
+    const assistant = await signedIn("assistant@kinarc.test");
+    const item = { motion: "wrist.flexion", side: "right", digit: null, condition: "gravity_minimized", repetitions: 8, sessionsPerPeriod: 2, period: "week", startDate: "2026-12-01", endDate: "2026-12-31" };
+    const bad = await assistant.request.post(url(dorian), { data: { ...item, period: "fortnight" } });
+    expect(bad.status()).toBe(400);
+    expect((await bad.json()).fields).toEqual({ period: "expected day or week" });
+    const created = await assistant.request.post(url(dorian), { data: item });
+    expect(created.status()).toBe(201);
+    const { item: stored } = await created.json();
+    const ended = await assistant.request.delete(url(dorian, `/${stored.id}`));
+    expect(ended.status()).toBe(200);
+    expect((await ended.json()).item.endedAt).not.toBeNull();
+    const staff = await (await assistant.request.get(url(dorian))).json();
+    expect(staff.items.find((i: { id: string }) => i.id === stored.id)?.status).toBe("ended");
+  });
 });
