@@ -154,8 +154,8 @@ export function VisitConsole(props: VisitConsoleProps) {
               ) : null}
             </div>
             <section aria-label="Live reading" className="grid grid-cols-2 gap-3 md:grid-cols-4">
-              <Reading label="Angle now" value={frame?.angleDeg} unit="°" big testId="live-angle" />
-              <Reading label="Peak" value={frame?.peakDeg} unit="°" testId="live-peak" />
+              <Reading label="Angle now" value={frame?.angleDeg} unit="°" big testId="live-angle" uncertaintyDeg={frame?.uncertaintyDeg} />
+              <Reading label="Peak" value={frame?.peakDeg} unit="°" testId="live-peak" uncertaintyDeg={frame?.uncertaintyDeg} />
               <Reading label="Repetitions" value={frame ? frame.reps : null} />
               <div className="rounded-card border border-sand-200 bg-white p-3">
                 <p className="text-xs uppercase tracking-wide text-ink-soft">Plane check</p>
@@ -223,13 +223,34 @@ export function VisitConsole(props: VisitConsoleProps) {
   );
 }
 
-function Reading({ label, value, unit = "", big = false, testId }: { label: string; value: number | null | undefined; unit?: string; big?: boolean; testId?: string }) {
+function Reading({
+  label,
+  value,
+  unit = "",
+  big = false,
+  testId,
+  uncertaintyDeg,
+}: {
+  label: string;
+  value: number | null | undefined;
+  unit?: string;
+  big?: boolean;
+  testId?: string;
+  /** 90% interval half-width the engine states for this angle (vision/uncertainty.ts). */
+  uncertaintyDeg?: number | null;
+}) {
+  const shown = value !== null && value !== undefined;
   return (
     <div className="rounded-card border border-sand-200 bg-white p-3">
       <p className="text-xs uppercase tracking-wide text-ink-soft">{label}</p>
       <p className={`${big ? "text-4xl" : "text-2xl"} font-semibold tabular-nums`} data-testid={testId}>
-        {value === null || value === undefined ? "—" : `${Math.round(value)}${unit}`}
+        {shown ? `${Math.round(value)}${unit}` : "—"}
       </p>
+      {shown && uncertaintyDeg != null ? (
+        <p className="text-sm tabular-nums text-ink-soft" data-testid={testId ? `${testId}-uncertainty` : undefined} title="90% of readings in validation fell within this">
+          ± {Math.round(uncertaintyDeg)}°
+        </p>
+      ) : null}
     </div>
   );
 }
