@@ -53,8 +53,10 @@ export function attemptJson(a: Attempt): StoredAttempt {
     planeVerdict: a.planeVerdict,
     planeVerified: a.planeVerified,
     axisToGravityDeg: a.axisToGravityDeg,
+    uncertaintyDeg: a.uncertaintyDeg,
     method: a.method,
     engineVersion: a.engineVersion,
+    correctionVersion: a.correctionVersion,
     warnings: a.warnings,
   };
 }

@@ -61,11 +61,15 @@ export interface StoredAttempt {
   startDeg: number | null;
   peakDeg: number | null;
   arcDeg: number | null;
+  /** 90% interval half-width of the angles (vision/uncertainty.ts). */
+  uncertaintyDeg: number | null;
   planeVerdict: string;
   planeVerified: boolean;
   axisToGravityDeg: number | null;
   method: string | null;
   engineVersion: string;
+  /** The angle correction applied, e.g. "kinarc-correction-1"; null when the angles are raw. */
+  correctionVersion: string | null;
   warnings: string[];
 }
 

@@ -66,6 +66,9 @@ describe("saving a capture", () => {
 
     const expected = analyzeCapture(buildSyntheticCapture(SPEC));
     expect(saved.attempt).toMatchObject({ motion: "pip.flexion", side: "right", digit: "middle", reps: expected.reps, peakDeg: expected.peakDeg, source: "self_check" });
+    // The engine's correction and stated uncertainty land on the stored attempt (lib/captures/columns.ts).
+    expect(saved.attempt).toMatchObject({ uncertaintyDeg: expected.uncertaintyDeg, correctionVersion: expected.correctionVersion, method: expected.method });
+    expect(saved.attempt.uncertaintyDeg).toBeGreaterThan(0);
     expect(saved.attempt.reps).toBe(3);
     // Within 3 degrees of the synthetic hand's true 90 (the engine's own stated target for 1-2 mm noise is 5).
     expect(Math.abs(saved.attempt.peakDeg! - 90)).toBeLessThanOrEqual(5);
