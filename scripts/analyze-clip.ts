@@ -7,9 +7,9 @@
 import { writeFileSync } from "node:fs";
 import { CaptureFormatError } from "@/lib/capture/parse";
 import { UsageError, analyzeFiles } from "./analyze";
-import { captureFromFrames } from "./clip/capture";
+import { captureFromFrames, handednessNote } from "./clip/capture";
 import { ClipInputError, parseClipArgs } from "./clip/options";
-import { prepareClip } from "./clip/prepare";
+import { prepareClip, remuxClip } from "./clip/prepare";
 import { trackClip } from "./clip/track-clip";
 
 /** Lets analyze refuse a bad --scale/--reference/--table before Chromium starts (it reads no file until the flags pass). */
@@ -26,9 +26,18 @@ function checkAnalyzeFlags(analyzeArgs: readonly string[]): void {
 export async function analyzeClip(argv: readonly string[]) {
   const options = parseClipArgs(argv);
   checkAnalyzeFlags(options.analyzeArgs);
-  const prepared = prepareClip(options.clip, options.mjpegFps);
+  let prepared = prepareClip(options.clip, options.mjpegFps);
   try {
-    const tracked = await trackClip(prepared);
+    let tracked;
+    try {
+      tracked = await trackClip(prepared);
+    } catch (error) {
+      if (!(error instanceof ClipInputError && /duration is unknown/.test(error.message)) || prepared.container === "mjpeg") throw error;
+      prepared = remuxClip(prepared);
+      tracked = await trackClip(prepared);
+    }
+    const seen = handednessNote(tracked.frames, options.side);
+    if (seen) process.stderr.write(`analyze-clip: note: ${seen}\n`);
     const capture = captureFromFrames({ motion: options.motion, side: options.side, digit: options.digit, condition: options.condition }, tracked.frames, options.clip);
     const text = `${JSON.stringify(capture)}\n`;
     if (options.out) {

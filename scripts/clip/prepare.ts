@@ -42,6 +42,29 @@ const PLAYABLE: Record<"webm" | "mp4", readonly string[]> = { webm: ["vp8", "vp9
 // A clip without a stated rate is stepped at the usual camera rate.
 const FALLBACK_FPS = 30;
 
+/**
+ * A copy of a webm or mp4 with its index rewritten (no re-encoding): browser recorders (MediaRecorder) write WebM
+ * without a duration or cues, and Chromium cannot seek through such a file frame by frame.
+ */
+export function remuxClip(clip: PreparedClip): PreparedClip {
+  const dir = mkdtempSync(path.join(tmpdir(), "kinarc-clip-"));
+  const file = path.join(dir, `clip.${clip.container === "mp4" ? "mp4" : "webm"}`);
+  const remux = run("ffmpeg", ["-v", "error", "-y", "-i", clip.file, "-map", "0:v:0", "-c", "copy", file]);
+  if (remux.status !== 0) {
+    rmSync(dir, { recursive: true, force: true });
+    throw new ClipInputError(`CLIP: ${clip.file} has no duration and could not be re-indexed (${remux.stderr.trim().split("\n")[0] ?? "ffmpeg failed"})`);
+  }
+  return {
+    file,
+    fps: clip.fps,
+    container: clip.container,
+    dispose: () => {
+      rmSync(dir, { recursive: true, force: true });
+      clip.dispose();
+    },
+  };
+}
+
 export function prepareClip(clip: string, mjpegFps: number): PreparedClip {
   let size: number;
   try {

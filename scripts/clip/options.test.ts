@@ -1,0 +1,69 @@
+import { describe, expect, it } from "vitest";
+import { MOTION_IDS } from "@/lib/motions/catalog";
+import { captureFromFrames, handednessNote } from "./capture";
+import { ClipInputError, DEFAULT_MJPEG_FPS, parseClipArgs } from "./options";
+
+const BASE = ["--motion", "pip.flexion", "--side", "left", "--digit", "index", "--condition", "against_gravity"];
+
+describe("analyze-clip options", () => {
+  it("reads the target, the output file and analyze's own flags, and keeps the clip", () => {
+    expect(parseClipArgs([...BASE, "--out", "c.json", "--scale", "mrc", "clip.webm"])).toEqual({
+      motion: "pip.flexion",
+      side: "left",
+      digit: "index",
+      condition: "against_gravity",
+      out: "c.json",
+      mjpegFps: DEFAULT_MJPEG_FPS,
+      analyzeArgs: ["--scale", "mrc"],
+      clip: "clip.webm",
+    });
+    expect(parseClipArgs(["--motion", "wrist.flexion", "--side", "right", "--condition", "gravity_minimized", "--fps", "25", "c.mjpeg"])).toMatchObject({ digit: null, mjpegFps: 25 });
+  });
+
+  it("names the field and what it expects for each bad flag", () => {
+    const refusal = (args: string[]) => {
+      try {
+        parseClipArgs(args);
+      } catch (error) {
+        expect(error).toBeInstanceOf(ClipInputError);
+        return (error as Error).message;
+      }
+      throw new Error("accepted");
+    };
+    expect(refusal(["--side", "left", "--condition", "against_gravity", "c.webm"])).toBe(`--motion: expected one of ${MOTION_IDS.join(", ")}`);
+    expect(refusal(["--motion", "pip.bend", ...BASE.slice(2), "c.webm"])).toMatch(/^--motion: expected one of .*, got "pip.bend"$/);
+    expect(refusal([...BASE.slice(0, 4), "--condition", "against_gravity", "c.webm"])).toBe("--digit: expected one of index, middle, ring, little for pip.flexion");
+    expect(refusal([...BASE, "--fps", "0", "c.mjpeg"])).toBe('--fps: expected frames a second from 1 to 240, got "0"');
+    expect(refusal([...BASE, "--out"])).toBe("--out: expected a value");
+    expect(refusal([...BASE, "a.webm", "b.webm"])).toBe("CLIP: expected one video file, got 2");
+  });
+});
+
+describe("tracked frames to a capture", () => {
+  const hand = Array.from({ length: 21 }, (_, i) => [i * 0.001, 0, 0] as [number, number, number]);
+  const frame = (t: number, withHand: boolean, handedness: "left" | "right" | null = withHand ? "right" : null) => ({
+    t,
+    score: withHand ? 0.9 : 0,
+    handedness,
+    hand: withHand ? hand : null,
+    image: null,
+  });
+  const target = { motion: "pip.flexion", side: "right", digit: "index", condition: "against_gravity" } as const;
+
+  it("keeps every frame, hand or not, in order", () => {
+    const capture = captureFromFrames(target, [frame(0, false), frame(33, true), frame(67, true)], "c.webm");
+    expect(capture.frames.map((f) => [f.t, f.hand !== null])).toEqual([[0, false], [33, true], [67, true]]);
+  });
+
+  it("refuses a clip where no frame holds a hand", () => {
+    expect(() => captureFromFrames(target, [frame(0, false), frame(33, false)], "c.webm")).toThrow(new ClipInputError("CLIP: no hand in view in any of the 2 frames of c.webm"));
+  });
+
+  it("notes a --side the tracker disagrees with in most frames, and only then", () => {
+    expect(handednessNote([frame(0, true, "left"), frame(33, true, "left"), frame(67, true, "right")], "right")).toBe(
+      "the tracker saw a left hand in 2 of 3 frames with a hand, but --side is right",
+    );
+    expect(handednessNote([frame(0, true, "left"), frame(33, true, "right")], "right")).toBeNull();
+    expect(handednessNote([frame(0, false)], "left")).toBeNull();
+  });
+});
