@@ -2,10 +2,12 @@ import { createHash, randomUUID } from "node:crypto";
 import { readdirSync } from "node:fs";
 import http from "node:http";
 import path from "node:path";
+import { and, eq } from "drizzle-orm";
+import { strFromU8, unzipSync } from "fflate";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, BrowserContext } from "playwright-core";
 import { openDatabase } from "@/db";
-import { uploads } from "@/db/schema";
+import { auditEvents, uploads } from "@/db/schema";
 import { DEMO_PASSWORD } from "@/db/seed/demo";
 import { startLocalStack } from "../../scripts/lib/local-stack";
 import { pdfBytes, webmBytes } from "../integration/upload-fixtures";
@@ -137,6 +139,26 @@ describe("a client sends a clip and the therapist reviews it", () => {
     expect((await admin.request.get(`${app.appUrl}/api/v1/uploads/${stored.id}/file`)).status()).toBe(403);
     await admin.close();
     await therapist.close();
+  });
+});
+
+describe("per-client export", () => {
+  it("the admin's export of the client holds every uploaded file, byte-identical by SHA-256, and is audited", async () => {
+    const admin = await signedIn("admin@kinarc.test");
+    const res = await admin.request.get(`${app.appUrl}/api/v1/clients/${app.seed.clientIds!.dorian}/export`);
+    expect(res.status()).toBe(200);
+    expect(res.headers()["content-type"]).toBe("application/zip");
+    const files = unzipSync(new Uint8Array(await res.body()));
+    const listed = JSON.parse(strFromU8(files["kinarc-export/data/uploads.json"])) as { id: string; extension: string; sha256: string }[];
+    expect(listed.map((u) => u.id).sort()).toEqual((await uploadRows()).map((u) => u.id).sort());
+    for (const u of listed) expect(createHash("sha256").update(files[`kinarc-export/files/${u.id}.${u.extension}`]).digest("hex")).toBe(u.sha256);
+    const { db, client } = openDatabase(app.databaseUrl);
+    const audited = await db.select().from(auditEvents).where(and(eq(auditEvents.action, "client.export"), eq(auditEvents.clientId, app.seed.clientIds!.dorian)));
+    client.close();
+    expect(audited).toHaveLength(1);
+    const clientRes = await dorian.request.get(`${app.appUrl}/api/v1/clients/${app.seed.clientIds!.dorian}/export`);
+    expect(clientRes.status()).toBe(403);
+    await admin.close();
   });
 });
 
