@@ -3,7 +3,8 @@
  * Chromium's fake camera fed with the hand-photo clip (right hand, open for two seconds, fist for two, looping; made
  * at test time from Debian's gcompris-qt-data photos), practises it through the guided self-check; the attempt is
  * stored as practice in one session; the therapist then sees the session in this week's adherence and its reading in
- * the trend.
+ * the trend. A fault test stops the server in the middle of a practice session and starts it again on the same
+ * database: the attempt recorded while it was down reaches the same session, once.
  */
 import path from "node:path";
 import { eq } from "drizzle-orm";
@@ -14,12 +15,16 @@ import { attempts, homeProgramItems, practiceSessions } from "@/db/schema";
 import { DEMO_PASSWORD } from "@/db/seed/demo";
 import { makeHandClip } from "../../scripts/fixtures/hand-photos";
 import { buildModels } from "../../scripts/models/build";
-import { signInWithPassword, startTestApp, type TestApp } from "./support/app";
+import { startLocalStack, type LocalStack } from "../../scripts/lib/local-stack";
+import { signInWithPassword, startTestApp, TEST_PORTS, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
 const REPO_ROOT = path.resolve(__dirname, "..", "..");
 
 let app: TestApp;
+/** The server started again on the same database by the fault test; stopped instead of `app` when set. */
+let restarted: LocalStack | null = null;
+let appStopped = false;
 let browser: Browser;
 let db: Database;
 let closeDb: () => void;
@@ -36,7 +41,8 @@ beforeAll(async () => {
 
 afterAll(async () => {
   await browser?.close();
-  await app?.stop();
+  if (restarted) await restarted.stop();
+  else if (!appStopped) await app?.stop();
   closeDb?.();
 });
 
@@ -157,4 +163,51 @@ describe("home practice", () => {
     const staff = await (await assistant.request.get(url(dorian))).json();
     expect(staff.items.find((i: { id: string }) => i.id === stored.id)?.status).toBe("ended");
   });
+
+  it("the server stops in the middle of a practice session and restarts: nothing recorded is lost or stored twice", async () => {
+    const dorianId = app.seed.clientIds!.dorian;
+    const today = new Date().toISOString().slice(0, 10);
+    const [item] = await db
+      .insert(homeProgramItems)
+      .values({ clinicId: app.seed.clinicId!, clientId: dorianId, motion: "pip.flexion", side: "right", digit: "middle", condition: "against_gravity", repetitions: 3, sessionsPerPeriod: 2, period: "day", startDate: today, endDate: today })
+      .returning();
+    const client = await signedIn("client@kinarc.test");
+    await client.goto(`${app.appUrl}/practice/check?item=${item.id}`);
+    await client.getByRole("button", { name: "I understand, continue" }).click();
+    await client.getByRole("button", { name: "Turn on the camera" }).click();
+    const recordOnce = async (whileRecording?: () => Promise<void>) => {
+      await client.waitForFunction(
+        () => {
+          const button = [...document.querySelectorAll("button")].find((b) => b.textContent?.trim() === "Start");
+          return button && !button.disabled;
+        },
+        null,
+        { timeout: 60_000, polling: 100 },
+      );
+      await client.getByRole("button", { name: "Start", exact: true }).click();
+      await client.waitForFunction(() => document.querySelector("[data-testid=self-check]")?.getAttribute("data-step") === "recording", null, { timeout: 15_000, polling: 100 });
+      await whileRecording?.();
+      await client.waitForFunction(() => document.querySelector("[data-testid=self-check]")?.getAttribute("data-step") === "summary", null, { timeout: 95_000, polling: 200 });
+    };
+    // First attempt of the sitting, saved while the server runs.
+    await recordOnce();
+    await client.waitForSelector("[data-testid=save-status][data-saved=yes]", { timeout: 20_000 });
+    // Second attempt: the server goes down while the client is moving, and comes back on the same database.
+    await client.getByRole("button", { name: "Try this one again" }).click();
+    await recordOnce(async () => {
+      await app.stop();
+      appStopped = true;
+    });
+    expect(await client.getByTestId("save-status").getAttribute("data-saved")).toBe("no");
+    restarted = await startLocalStack({ ...TEST_PORTS, databaseUrl: app.databaseUrl, authSecret: app.env.AUTH_SECRET });
+    // The page's outbox retries on its own timer (doubling from 2 s), with no help from the test.
+    await client.waitForSelector("[data-testid=save-status][data-saved=yes]", { timeout: 120_000 });
+
+    const sessions = await db.select().from(practiceSessions).where(eq(practiceSessions.itemId, item.id));
+    expect(sessions).toHaveLength(1);
+    const stored = await db.select().from(attempts).where(eq(attempts.practiceSessionId, sessions[0].id));
+    expect(stored).toHaveLength(2);
+    expect(new Set(stored.map((a) => a.captureUid)).size).toBe(2);
+    expect(stored.every((a) => a.source === "practice")).toBe(true);
+  }, 300_000);
 });
