@@ -9,6 +9,7 @@ import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { launchChromium } from "./support/browser";
 import { parseCaptureText } from "@/lib/capture/parse";
 import { correctionGroupFor } from "@/vision/correction";
 import { UNCERTAINTY_TABLE, validationCell } from "@/vision/uncertainty";
@@ -149,6 +150,44 @@ describe("analyze-clip refuses bad input with exit status 2 and one stderr line"
     const blank = path.join(folder, "blank.webm");
     execFileSync("ffmpeg", ["-v", "error", "-y", "-f", "lavfi", "-i", "color=c=0xd8c8a8:s=640x480:r=30:d=2", "-c:v", "libvpx", "-b:v", "1M", blank]);
     expectRefusal(run("analyze-clip.ts", [...TARGET, blank]), /CLIP: no hand in view in any of the 60 frames/);
+  }, 300_000);
+
+  it("a browser-recorded WebM without a duration is re-indexed and stepped through (here: no hand in it)", async () => {
+    // MediaRecorder in Chromium writes WebM without a duration, as the in-app clip recorder does.
+    const browser = await launchChromium();
+    let bytes: number[];
+    try {
+      const page = await browser.newPage();
+      bytes = await page.evaluate(async () => {
+        const canvas = document.createElement("canvas");
+        canvas.width = 320;
+        canvas.height = 240;
+        const context = canvas.getContext("2d")!;
+        const recorder = new MediaRecorder(canvas.captureStream(20), { mimeType: "video/webm" });
+        const chunks: Blob[] = [];
+        recorder.ondataavailable = (event) => chunks.push(event.data);
+        const stopped = new Promise((resolve) => (recorder.onstop = resolve));
+        recorder.start(250);
+        const startedAt = performance.now();
+        while (performance.now() - startedAt < 1500) {
+          context.fillStyle = "#e8e0d0";
+          context.fillRect(0, 0, 320, 240);
+          context.fillStyle = "#304050";
+          context.fillRect(((performance.now() - startedAt) / 10) % 300, 100, 20, 20);
+          await new Promise((resolve) => setTimeout(resolve, 40));
+        }
+        recorder.stop();
+        await stopped;
+        return Array.from(new Uint8Array(await new Blob(chunks).arrayBuffer()));
+      });
+    } finally {
+      await browser.close();
+    }
+    const recorded = path.join(folder, "recorded.webm");
+    writeFileSync(recorded, Buffer.from(bytes));
+    const format = execFileSync("ffprobe", ["-v", "error", "-show_entries", "format=duration", "-of", "csv=p=0", recorded]).toString().trim();
+    expect(format === "" || format === "N/A").toBe(true);
+    expectRefusal(run("analyze-clip.ts", [...TARGET, recorded]), /CLIP: no hand in view in any of the [1-9]\d* frames of .*recorded\.webm/);
   }, 300_000);
 
   it("bad flags, each named", () => {
