@@ -4,7 +4,7 @@ import { useActionState } from "react";
 import { AFFECTED_SIDES, PRECAUTION_FLAGS, SEXES, SIDES } from "@/db/schema";
 import { Button, ButtonLink } from "@/components/ui/button";
 import { FormMessage, SelectField, TextArea, TextField } from "@/components/ui/field";
-import type { FormState } from "@/lib/actions";
+import { formKey, type FormState } from "@/lib/form-state";
 import { PRECAUTION_LABELS } from "@/lib/validation/client";
 
 export interface ClientFormValues {
@@ -46,7 +46,7 @@ export function ClientForm({
   const e = state.fields ?? {};
   const flags = new Set(v.precautionFlags ?? []);
   return (
-    <form action={formAction} className="space-y-8" noValidate>
+    <form key={formKey(state)} action={formAction} className="space-y-8" noValidate>
       <FormMessage state={state} />
       <fieldset className="grid gap-4 md:grid-cols-2">
         <legend className="mb-2 text-lg font-semibold">Person</legend>

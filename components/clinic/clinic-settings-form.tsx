@@ -4,7 +4,7 @@ import { useActionState } from "react";
 import { saveClinicSettingsAction } from "@/app/(signed-in)/clinic/actions";
 import { Button } from "@/components/ui/button";
 import { FormMessage, SelectField, TextField } from "@/components/ui/field";
-import type { FormState } from "@/lib/actions";
+import { formKey, type FormState } from "@/lib/form-state";
 
 export interface ClinicSettingsValues {
   name: string;
@@ -26,7 +26,7 @@ export function ClinicSettingsForm({ initial, tables }: { initial: ClinicSetting
   const v = { ...initial, ...(state.values as Partial<ClinicSettingsValues> | undefined) };
   const e = state.fields ?? {};
   return (
-    <form action={action} className="grid max-w-2xl gap-4" noValidate>
+    <form key={formKey(state)} action={action} className="grid max-w-2xl gap-4" noValidate>
       <TextField label="Clinic name" name="name" required defaultValue={v.name} error={e.name} />
       <TextField label="Time zone" name="timezone" defaultValue={v.timezone} error={e.timezone} hint="IANA name, e.g. Europe/London or America/Chicago." />
       <TextField label="Contact e-mail for clients" name="contactEmail" type="email" defaultValue={v.contactEmail ?? ""} error={e.contactEmail} />

@@ -4,7 +4,7 @@ import { useActionState } from "react";
 import { changeRoleAction, inviteStaffAction, setActiveAction } from "@/app/(signed-in)/team/actions";
 import { Button } from "@/components/ui/button";
 import { FormMessage, SelectField, TextField } from "@/components/ui/field";
-import type { FormState } from "@/lib/actions";
+import { formKey, type FormState } from "@/lib/form-state";
 
 const ROLE_OPTIONS = [
   { value: "therapist", label: "Therapist" },
@@ -16,7 +16,7 @@ export function InviteForm() {
   const [state, action, pending] = useActionState<FormState, FormData>(inviteStaffAction, {});
   const v = (state.values ?? {}) as Record<string, string>;
   return (
-    <form action={action} className="grid gap-4 md:grid-cols-[1fr_1fr_12rem_auto] md:items-end" aria-label="Invite a colleague" noValidate>
+    <form key={formKey(state)} action={action} className="grid gap-4 md:grid-cols-[1fr_1fr_12rem_auto] md:items-end" aria-label="Invite a colleague" noValidate>
       <TextField label="Name" name="name" required defaultValue={v.name} error={state.fields?.name} />
       <TextField label="Work e-mail" name="email" type="email" required defaultValue={v.email} error={state.fields?.email} />
       <SelectField label="Role" name="role" defaultValue={v.role ?? "therapist"} options={ROLE_OPTIONS} error={state.fields?.role} />

@@ -4,7 +4,7 @@ import { useActionState } from "react";
 import { scheduleVisitAction } from "@/app/(signed-in)/visits/actions";
 import { Button } from "@/components/ui/button";
 import { FormMessage, SelectField, TextField } from "@/components/ui/field";
-import type { FormState } from "@/lib/actions";
+import { formKey, type FormState } from "@/lib/form-state";
 
 export function ScheduleVisitForm({
   clients,
@@ -23,7 +23,7 @@ export function ScheduleVisitForm({
   const v = (state.values ?? {}) as Record<string, string>;
   const e = state.fields ?? {};
   return (
-    <form action={action} className="grid gap-4 md:grid-cols-3" aria-label="Book a visit" noValidate>
+    <form key={formKey(state)} action={action} className="grid gap-4 md:grid-cols-3" aria-label="Book a visit" noValidate>
       <SelectField label="Client" name="clientId" defaultValue={v.clientId ?? ""} options={[{ value: "", label: "Choose a client" }, ...clients.map((c) => ({ value: c.id, label: c.name }))]} error={e.clientId} />
       <SelectField label="Therapist" name="therapistId" defaultValue={v.therapistId ?? defaultTherapistId ?? ""} options={therapists.map((t) => ({ value: t.id, label: t.name ?? t.id }))} error={e.therapistId} />
       <SelectField
