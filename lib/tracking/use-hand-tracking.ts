@@ -91,6 +91,12 @@ export function useHandTracking(options: HandTrackingOptions) {
     targetRef.current = { motion, side, digit, condition };
   }, [motion, side, digit, condition]);
 
+  // The correction and the stated uncertainty differ by landmark model (vision/correction.ts).
+  const handModelRef = useRef(handModel);
+  useLayoutEffect(() => {
+    handModelRef.current = handModel;
+  }, [handModel]);
+
   const freshGravity = () => {
     const g = gravityRef.current;
     return g && performance.now() - g.at <= GRAVITY_FRESH_MS ? g.value : null;
@@ -98,13 +104,13 @@ export function useHandTracking(options: HandTrackingOptions) {
 
   const newPipeline = useCallback(() => {
     const t = targetRef.current;
-    pipelineRef.current = createLivePipeline({ ...t, gravity: freshGravity() });
+    pipelineRef.current = createLivePipeline({ ...t, gravity: freshGravity(), handModel: handModelRef.current });
   }, []);
 
   // A new motion or side starts a fresh reading.
   useEffect(() => {
     newPipeline();
-  }, [motion, side, digit, condition, newPipeline]);
+  }, [motion, side, digit, condition, handModel, newPipeline]);
 
   useEffect(() => {
     if (!enabled) return;
