@@ -23,7 +23,22 @@ export const ERASURE_RULE =
   "Files, practice and self-check attempts, unsigned drafts and the sign-in account are deleted. Signed grades with their kept attempts, therapist measurements, visits, payments, consents and the audit trail are kept for the legal retention period, with the name, contact details and notes removed from the client record.";
 
 /** Tables this rule decides about; any other table with a client_id is kept as is and named in the summary. */
-const CLASSIFIED = new Set(["audit_events", "visits", "consents", "attempts", "passive_ranges", "grade_entries", "strength_readings", "uploads", "payments", "client_erasures"]);
+const CLASSIFIED = new Set([
+  "audit_events",
+  "visits",
+  "consents",
+  "attempts",
+  "passive_ranges",
+  "grade_entries",
+  "strength_readings",
+  "uploads",
+  "payments",
+  "client_erasures",
+  // The home program a therapist set is part of the clinical record (kept); the practice sessions only group
+  // practice attempts, which are never kept towards a grade and are deleted above, so the sessions go too.
+  "home_program_items",
+  "practice_sessions",
+]);
 
 export interface ErasureSummary {
   rule: string;
@@ -53,6 +68,9 @@ export async function eraseClient(db: Database, store: BlobStore, actor: Actor, 
         .delete(schema.attempts)
         .where(and(eq(schema.attempts.clientId, clientId), isNull(schema.attempts.keptAt)))
         .returning({ id: schema.attempts.id })
+    ).length;
+    deleted.practiceSessions = (
+      await tx.delete(schema.practiceSessions).where(eq(schema.practiceSessions.clientId, clientId)).returning({ id: schema.practiceSessions.id })
     ).length;
     deleted.unsignedGradeDrafts = (
       await tx
