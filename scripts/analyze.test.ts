@@ -34,6 +34,12 @@ describe("analyze command", () => {
     expect(out.captures[1].plane!.verdict).toBe("gravity_minimized");
     expect(out.reference.endRangeDeg).toBe(80);
     expect(out.grade).toMatchObject({ scale: "daniels", value: "3-", ceiling: false });
+    // Every capture states its method, correction and uncertainty; each repetition carries the uncertainty too.
+    for (const c of out.captures) {
+      expect(c.method === "world3d" ? c.correctionVersion : c.method).toBe(c.method === "world3d" ? null : `world3d+${c.correctionVersion}`);
+      expect(c.uncertaintyDeg).toBeGreaterThan(0);
+      for (const r of c.repetitions) expect(r.uncertaintyDeg).toBe(c.uncertaintyDeg);
+    }
   });
 
   it("uses --reference over the table, and the capture's passive range when given", () => {

@@ -70,7 +70,8 @@ function captureReport(file: string, a: CaptureAnalysis) {
     trackingOk: a.trackingOk,
     method: a.method,
     correctionVersion: a.correctionVersion,
-    // 90% interval half-width of every angle below (vision/uncertainty.ts); view is the camera view most frames saw.
+    // 90% interval half-width of startDeg, peakDeg and each repetition's angles (vision/uncertainty.ts); view is the
+    // camera view most frames saw.
     uncertaintyDeg: a.uncertaintyDeg,
     view: a.view,
     repetitions: a.repetitions.map((r) => ({
@@ -125,6 +126,7 @@ export function analyzeFiles(argv: readonly string[], readText: (file: string) =
       peakDeg: analysis.peakDeg,
       arcDeg: analysis.arcDeg,
       trackingOk: analysis.trackingOk,
+      uncertaintyDeg: analysis.uncertaintyDeg,
     })),
   });
 
