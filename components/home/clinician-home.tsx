@@ -10,8 +10,9 @@ import { Badge, Card, PageTitle } from "@/components/ui/card";
 import type { Actor } from "@/lib/auth/guard";
 import { PRECAUTION_LABELS } from "@/lib/validation/client";
 
-function greeting(now = new Date()): string {
-  const h = now.getUTCHours();
+/** Morning, afternoon or evening where the clinic is, not where the server runs. */
+function greeting(timeZone: string, now = new Date()): string {
+  const h = Number(new Intl.DateTimeFormat("en-GB", { timeZone, hour: "numeric", hourCycle: "h23" }).format(now));
   return h < 12 ? "Good morning" : h < 18 ? "Good afternoon" : "Good evening";
 }
 
@@ -40,7 +41,7 @@ export async function ClinicianHome({ actor }: { actor: Actor }) {
   return (
     <div className="space-y-6">
       <PageTitle
-        title={`${greeting()}, ${first}`}
+        title={`${greeting(zone)}, ${first}`}
         subtitle={actor.role === "assistant" ? "Your work list. What you record waits for a therapist's co-signature." : "Your caseload and today's work."}
         action={
           <ButtonLink href="/clients/new" variant="primary">
