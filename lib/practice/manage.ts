@@ -30,21 +30,26 @@ async function parseFor(db: Database, actor: Actor, clientId: string, raw: unkno
   return { client, input };
 }
 
+/** The audit event of a change to a program item, written in the change's transaction. */
+function auditItem(tx: Parameters<typeof recordAudit>[0], actor: Actor, action: string, item: HomeProgramItem, ctx: Ctx, withDetail: boolean) {
+  return recordAudit(tx, {
+    action,
+    clinicId: item.clinicId,
+    actorUserId: actor.userId,
+    actorRole: actor.role,
+    subjectType: "home_program_item",
+    subjectId: item.id,
+    clientId: item.clientId,
+    address: ctx.address ?? null,
+    detail: withDetail ? { motion: item.motion, side: item.side, digit: item.digit, startDate: item.startDate, endDate: item.endDate } : undefined,
+  });
+}
+
 export async function assignProgramItem(db: Database, actor: Actor, clientId: string, raw: unknown, ctx: Ctx = {}): Promise<HomeProgramItem> {
   const { client, input } = await parseFor(db, actor, clientId, raw, ctx);
   return db.transaction(async (tx) => {
     const item = await createProgramItem(tx, { ...input, clinicId: client.clinicId, clientId: client.id, assignedByUserId: actor.userId });
-    await recordAudit(tx, {
-      action: "program.assign",
-      clinicId: client.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
-      subjectType: "home_program_item",
-      subjectId: item.id,
-      clientId: client.id,
-      address: ctx.address ?? null,
-      detail: { motion: item.motion, side: item.side, digit: item.digit, startDate: item.startDate, endDate: item.endDate },
-    });
+    await auditItem(tx, actor, "program.assign", item, ctx, true);
     return item;
   });
 }
@@ -61,17 +66,7 @@ export async function changeProgramItem(db: Database, actor: Actor, clientId: st
   if (before.endedAt) throw new BadRequest("This item has ended; assign a new one instead.", { _: "expected an item that has not ended" });
   return db.transaction(async (tx) => {
     const item = await updateProgramItem(tx, before.id, input, ctx.now);
-    await recordAudit(tx, {
-      action: "program.update",
-      clinicId: client.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
-      subjectType: "home_program_item",
-      subjectId: item.id,
-      clientId: client.id,
-      address: ctx.address ?? null,
-      detail: { motion: item.motion, side: item.side, digit: item.digit, startDate: item.startDate, endDate: item.endDate },
-    });
+    await auditItem(tx, actor, "program.update", item, ctx, true);
     return item;
   });
 }
@@ -83,16 +78,7 @@ export async function endProgramItemFor(db: Database, actor: Actor, clientId: st
   if (before.endedAt) return before;
   return db.transaction(async (tx) => {
     const item = await endProgramItem(tx, before.id, actor.userId, ctx.now);
-    await recordAudit(tx, {
-      action: "program.end",
-      clinicId: client.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
-      subjectType: "home_program_item",
-      subjectId: item.id,
-      clientId: client.id,
-      address: ctx.address ?? null,
-    });
+    await auditItem(tx, actor, "program.end", item, ctx, false);
     return item;
   });
 }
