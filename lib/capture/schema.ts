@@ -37,6 +37,14 @@ export const captureSchema = z
       .max(180, { error: "expected degrees up to 180" })
       .optional(),
     frames: z.array(captureFrameSchema, { error: "expected an array of frames" }).min(1, { error: "expected at least one frame" }),
+    /**
+     * Optional (older files have none): frames of a neutral reading taken just before the attempt, wrist straight and
+     * forearm resting still, times from 0. For wrist motions the engine takes the forearm line from them
+     * (vision/wrist-axis.ts) when the frames carry none of their own.
+     */
+    neutral: z
+      .object({ frames: z.array(captureFrameSchema, { error: "expected an array of frames" }).min(1, { error: "expected at least one frame" }) }, { error: "expected { frames: [...] }" })
+      .optional(),
   })
   .superRefine((capture, ctx) => {
     if (!digitAllowed(capture.motion, capture.digit)) {
