@@ -323,6 +323,8 @@ export const attempts = sqliteTable(
   },
   (t) => [
     index("attempts_client_motion_idx").on(t.clientId, t.motion, t.side, t.digit),
+    // Covers the chart's change stamp (count, kept count, newest) so a cached chart is checked without reading rows.
+    index("attempts_client_stamp_idx").on(t.clientId, t.createdAt, t.keptAt),
     index("attempts_clinic_idx").on(t.clinicId),
     index("attempts_visit_idx").on(t.visitId),
   ],

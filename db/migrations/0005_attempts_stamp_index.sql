@@ -1,0 +1,1 @@
+CREATE INDEX `attempts_client_stamp_idx` ON `attempts` (`client_id`,`created_at`,`kept_at`);
