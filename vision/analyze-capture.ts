@@ -4,6 +4,8 @@ import type { PlaneReading } from "./plane";
 import type { Repetition } from "./reps";
 import type { ValidationView } from "./uncertainty";
 import type { Vec3 } from "./vec";
+import type { ViewQuality } from "./view-policy";
+import { neutralReading, type ForearmSource, type NeutralFrame, type NeutralReading } from "./wrist-axis";
 
 /** What the analyzer needs from a capture; the parsed capture file (lib/capture) has this shape. */
 export interface CaptureInput {
@@ -13,6 +15,8 @@ export interface CaptureInput {
   condition: Condition;
   gravity?: Vec3 | null;
   frames: readonly PipelineFrame[];
+  /** Frames of a neutral reading taken before the attempt (wrist straight, forearm resting still), when one was. */
+  neutral?: { frames: readonly NeutralFrame[] } | null;
 }
 
 export interface TrackingLimits {
@@ -49,17 +53,28 @@ export interface CaptureAnalysis {
   uncertaintyDeg: number | null;
   /** The camera view most usable frames saw, null when none held a majority. */
   view: ValidationView | null;
+  /** How that view serves the motion and test position (vision/view-policy.ts); `poor` and `usable` add a warning. */
+  viewQuality: ViewQuality | null;
+  recommendedViews: readonly ValidationView[];
+  /** Wrist motions: where the forearm line came from in most usable frames; null for finger motions. */
+  forearmSource: ForearmSource | null;
+  /** The neutral reading the engine took from the capture's neutral frames, null when there were none or it was refused. */
+  neutral: Pick<NeutralReading, "usableFrames" | "frames" | "durationMs" | "spreadDeg" | "view"> | null;
   correctionVersion: string | null;
   warnings: string[];
 }
 
-export type AnalyzeOptions = Omit<LivePipelineOptions, "motion" | "side" | "digit" | "condition" | "gravity"> & {
+export type AnalyzeOptions = Omit<LivePipelineOptions, "motion" | "side" | "digit" | "condition" | "gravity" | "neutral"> & {
   tracking?: Partial<TrackingLimits>;
 };
 
 /** Runs a whole capture through the same pipeline the live view uses, then sums it up. */
 export function analyzeCapture(capture: CaptureInput, options: AnalyzeOptions = {}): CaptureAnalysis {
+  // The neutral reading is taken again here from its frames, so the server reads the same forearm line the browser did.
+  const neutral = capture.neutral?.frames.length ? neutralReading(capture.neutral.frames, capture.side) : null;
+  const isWrist = MOTIONS[capture.motion].joint === "wrist";
   const pipeline = createLivePipeline({
+    neutral: neutral?.ok && isWrist ? neutral.reading : null,
     ...options,
     motion: capture.motion,
     side: capture.side,
@@ -77,6 +92,7 @@ export function analyzeCapture(capture: CaptureInput, options: AnalyzeOptions = 
   for (const rep of summary.repetitions) if (!best || measure(rep) > measure(best)) best = rep;
 
   const warnings = [...summary.warnings];
+  if (neutral && !neutral.ok && isWrist) warnings.push(`neutral reading not used: ${neutral.problem}`);
   const planeAgrees = summary.plane?.verdict === capture.condition;
   if (summary.plane && !planeAgrees) {
     warnings.push(`declared ${capture.condition} but the test plane reads ${summary.plane.verdict} (axis ${summary.plane.axisToGravityDeg.toFixed(0)} deg from gravity)`);
@@ -103,6 +119,13 @@ export function analyzeCapture(capture: CaptureInput, options: AnalyzeOptions = 
     method: summary.method,
     uncertaintyDeg: summary.uncertaintyDeg,
     view: summary.view,
+    viewQuality: summary.viewQuality,
+    recommendedViews: summary.recommendedViews,
+    forearmSource: summary.forearmSource,
+    neutral:
+      neutral?.ok && isWrist
+        ? { usableFrames: neutral.reading.usableFrames, frames: neutral.reading.frames, durationMs: neutral.reading.durationMs, spreadDeg: neutral.reading.spreadDeg, view: neutral.reading.view }
+        : null,
     correctionVersion: summary.correctionVersion,
     warnings,
   };

@@ -51,3 +51,39 @@ describe("live pipeline, frame by frame", () => {
     expect(all).toEqual(Array.from({ length: LANDMARK_COUNT - 1 }, (_, i) => i + 1));
   });
 });
+
+describe("view quality of the frames and the capture", () => {
+  // Hand upright in front of the camera (fingers up the picture), seen from its little-finger side, thumb side and palm.
+  const placements = {
+    ulnar: { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, 1], wrist: [0, 0.05, 0.45] },
+    radial: { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, -1], wrist: [0, 0.05, 0.45] },
+    palm: { forearmDistal: [0, -1, 0], forearmRadial: [1, 0, 0], wrist: [0, 0.05, 0.45] },
+  } as const;
+
+  function captureIn(view: keyof typeof placements) {
+    const pipeline = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "index", condition: "against_gravity", correction: "off" });
+    const updates = [0, 20, 40, 60, 40, 20, 0].map((deg, i) =>
+      pipeline.push({ t: i * 100, score: 0.95, hand: poseHand(withMotionAngle(neutralPose(), "pip.flexion", "index", deg), "right", placements[view]).landmarks }),
+    );
+    return { updates, summary: pipeline.summary() };
+  }
+
+  it("marks each frame and the capture with the measured view and how it serves the motion", () => {
+    const ulnar = captureIn("ulnar");
+    expect(ulnar.updates.map((u) => u.viewQuality)).toEqual(Array(7).fill("recommended"));
+    expect(ulnar.summary).toMatchObject({ view: "ulnar", viewQuality: "recommended", recommendedViews: ["ulnar"], forearmSource: null });
+    expect(ulnar.summary.warnings.join(" ")).not.toMatch(/view:/);
+    const radial = captureIn("radial");
+    expect(radial.summary).toMatchObject({ view: "radial", viewQuality: "usable" });
+    expect(radial.summary.warnings.join(" ")).toMatch(/view: the camera saw the thumb side of your hand; the little-finger side of your hand measures more truly/);
+    const palm = captureIn("palm");
+    expect(palm.summary).toMatchObject({ view: "palm", viewQuality: "poor" });
+    expect(palm.summary.warnings.join(" ")).toMatch(/poor view/);
+  });
+
+  it("a poorer view states a wider uncertainty, the figure grading reads (vision/uncertainty.ts, report.md by view)", () => {
+    const [ulnar, radial, palm] = (["ulnar", "radial", "palm"] as const).map((v) => captureIn(v).summary.uncertaintyDeg!);
+    expect(ulnar).toBeLessThan(radial);
+    expect(radial).toBeLessThan(palm);
+  });
+});

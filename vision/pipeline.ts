@@ -8,7 +8,9 @@ import { PlaneAccumulator, readPlane, unitGravity, type PlaneReading } from "./p
 import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
 import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
 import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, type CorrectionModel, type HandModel } from "./correction";
-import { angleUncertaintyDeg, correctionHelps, UNCERTAINTY_TABLE, viewFromHand, type UncertaintyTable, type ValidationView } from "./uncertainty";
+import { angleUncertaintyDeg, correctionHelps, UNCERTAINTY_TABLE, type UncertaintyTable, type ValidationView } from "./uncertainty";
+import { describeView, viewOfAxes, viewPolicy, viewQuality, type ViewPolicy, type ViewQuality } from "./view-policy";
+import { forearmFromNeutral, type ForearmSource, type NeutralReading } from "./wrist-axis";
 
 /** How an angle was obtained: raw 3-D landmarks, or those corrected by a named correction ("world3d+kinarc-correction-1"). */
 export type MeasurementMethod = "world3d" | "image_plane" | `world3d+${string}`;
@@ -34,7 +36,12 @@ export interface LivePipelineOptions {
   minScore?: number;
   filter?: Partial<OneEuroParams>;
   reps?: Partial<RepParams>;
-  /** Without a forearm direction, the hand's mean long axis over this first stretch is taken as neutral. */
+  /**
+   * A neutral reading taken before the attempt (vision/wrist-axis.ts): for wrist motions, frames without a forearm
+   * direction are read against it instead of against the capture's first moments.
+   */
+  neutral?: NeutralReading | null;
+  /** Without a forearm direction or a neutral reading, the hand's mean long axis over this first stretch is taken as neutral. */
   neutralWindowMs?: number;
   /** A gap in usable frames longer than this restarts the smoother, so it does not glide across the hole. */
   maxGapMs?: number;
@@ -69,6 +76,10 @@ export interface LiveUpdate {
   uncertaintyDeg: number | null;
   /** The camera view the frame's hand axes point to (scripts/accuracy views), null when the frame was skipped. */
   view: ValidationView | null;
+  /** How that view serves the motion and test position (vision/view-policy.ts), null when the frame was skipped. */
+  viewQuality: ViewQuality | null;
+  /** Wrist motions: where this frame's forearm line came from; null for finger motions and skipped frames. */
+  forearmSource: ForearmSource | null;
   correctionVersion: string | null;
 }
 
@@ -85,6 +96,15 @@ export interface PipelineSummary {
   uncertaintyDeg: number | null;
   /** The view seen in most usable frames, null when none held a majority. */
   view: ValidationView | null;
+  /**
+   * How the capture's view serves the motion: that of `view`, or with no majority view the worst of the views seen
+   * in at least a fifth of usable frames. Null when no frame was usable.
+   */
+  viewQuality: ViewQuality | null;
+  /** The views the policy recommends for this motion and test position, best first. */
+  recommendedViews: readonly ValidationView[];
+  /** Wrist motions: the forearm source of most usable frames (null for finger motions or with no usable frame). */
+  forearmSource: ForearmSource | null;
   correctionVersion: string | null;
   warnings: string[];
 }
@@ -136,6 +156,9 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   let correctedFrames = 0;
   let usableScoreSum = 0;
   const viewCounts = new Map<ValidationView, number>();
+  const policy = viewPolicy(options.motion, options.condition, options.digit);
+  const forearmCounts = new Map<ForearmSource, number>();
+  const neutralForearm = options.neutral ? forearmFromNeutral(options.neutral) : null;
   let method: MeasurementMethod = "world3d";
 
   function skipped(t: number, score: number, quality: FrameQuality): LiveUpdate {
@@ -152,20 +175,26 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       method,
       uncertaintyDeg: null,
       view: null,
+      viewQuality: null,
+      forearmSource: null,
       correctionVersion: null,
     };
   }
 
-  /** Forearm direction for this frame: the given one, else the neutral built from the first frames of the capture. */
-  function forearmFor(frame: PipelineFrame, longAxis: Vec3): Vec3 | null {
-    if (frame.forearm && isFiniteVec(frame.forearm)) return frame.forearm;
+  /**
+   * Forearm direction for this frame: the pose landmarker's, else the neutral reading's, else the neutral built from
+   * the first frames of the capture.
+   */
+  function forearmFor(frame: PipelineFrame, longAxis: Vec3): { direction: Vec3 | null; source: ForearmSource } {
+    if (frame.forearm && isFiniteVec(frame.forearm)) return { direction: frame.forearm, source: "pose" };
+    if (neutralForearm) return { direction: neutralForearm, source: "neutral-reading" };
     usedNeutral = true;
     if (Number.isNaN(neutralStartMs)) neutralStartMs = frame.t;
     if (frame.t - neutralStartMs <= neutralWindowMs) {
       neutralSum = add(neutralSum, longAxis);
       neutral = normalize(neutralSum);
     }
-    return neutral;
+    return { direction: neutral, source: "capture-start" };
   }
 
   function push(frame: PipelineFrame): LiveUpdate {
@@ -178,11 +207,11 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     const axes = handAxes(frame.hand, options.side);
     if (!axes) return skipped(frame.t, score, "degenerate");
     const forearm = isWrist ? forearmFor(frame, axes.longAxis) : null;
-    const reading = readMotion(options.motion, options.digit, frame.hand, axes, forearm);
+    const reading = readMotion(options.motion, options.digit, frame.hand, axes, forearm?.direction ?? null);
     if (!reading || !Number.isFinite(reading.deg)) return skipped(frame.t, score, "degenerate");
+    if (forearm) forearmCounts.set(forearm.source, (forearmCounts.get(forearm.source) ?? 0) + 1);
 
-    // Camera axes: z points away from the camera, so "toward the camera" is -z.
-    const view = viewFromHand(-axes.palmarNormal[2], -axes.radialAxis[2], -axes.longAxis[2]);
+    const view = viewOfAxes(axes);
     let angleDeg = reading.deg;
     let frameMethod: MeasurementMethod = "world3d";
     if (correctionTarget && Number.isFinite(reading.imagePlaneDeg) && correctionHelps(table, correctionTarget.group, handModel, view)) {
@@ -192,6 +221,8 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
         planeFacing: Math.abs(reading.axis[2]),
         radialTowardCamera: -axes.radialAxis[2],
         palmTowardCamera: -axes.palmarNormal[2],
+        hand: frame.hand,
+        side: options.side,
       });
       if (corrected !== null && Number.isFinite(corrected)) {
         angleDeg = corrected;
@@ -224,6 +255,8 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
       uncertaintyDeg: angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
       view,
+      viewQuality: viewQuality(policy, view),
+      forearmSource: forearm?.source ?? null,
       correctionVersion: frameMethod === correctedMethod ? correctionModel.version : null,
     };
   }
@@ -246,6 +279,20 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     // The capture's view is the one most frames saw; with no majority the worse of the views sets the uncertainty.
     let view: ValidationView | null = null;
     for (const [v, n] of viewCounts) if (n > usable / 2) view = v;
+    const quality = summaryViewQuality(policy, view, viewCounts, usable);
+    const recommendedWords = policy.recommended.map(describeView).join(" or ");
+    if (quality === "poor") {
+      warnings.push(
+        `view: the camera saw ${view ? describeView(view) : "the hand from changing sides"} in most frames, not ${recommendedWords}; the motion did not lie square to the camera, so these angles come from a poor view`,
+      );
+    } else if (quality === "usable") {
+      warnings.push(`view: the camera saw ${view ? describeView(view) : "the hand from changing sides"}; ${recommendedWords} measures more truly (validation error is larger from this side)`);
+    }
+    let forearmSource: ForearmSource | null = null;
+    for (const [source, n] of forearmCounts) if (!forearmSource || n > (forearmCounts.get(forearmSource) ?? 0)) forearmSource = source;
+    if (forearmCounts.size > 1) {
+      warnings.push(`forearm line: ${[...forearmCounts].map(([source, n]) => `${source} in ${n} frames`).join(", ")} (the pose landmarker saw the elbow only part of the time)`);
+    }
     const meanUsableScore = usable ? usableScoreSum / usable : 0;
     const summaryMethod: MeasurementMethod = correctedFrames > 0 ? correctedMethod : "world3d";
     return {
@@ -259,6 +306,9 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
         ? angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames === usable ? "engine" : "raw")
         : null,
       view,
+      viewQuality: quality,
+      recommendedViews: policy.recommended,
+      forearmSource,
       correctionVersion: correctedFrames > 0 ? correctionModel.version : null,
       warnings,
     };
@@ -267,3 +317,16 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   return { options, push, summary };
 }
 
+const QUALITY_ORDER: readonly ViewQuality[] = ["recommended", "usable", "poor"];
+
+/** The majority view's quality; with no majority, the worst quality among views seen in at least a fifth of frames. */
+function summaryViewQuality(policy: ViewPolicy, view: ValidationView | null, counts: ReadonlyMap<ValidationView, number>, usable: number): ViewQuality | null {
+  if (usable === 0) return null;
+  if (view) return viewQuality(policy, view);
+  let worst: ViewQuality = "recommended";
+  for (const [v, n] of counts) {
+    const q = viewQuality(policy, v);
+    if (n * 5 >= usable && QUALITY_ORDER.indexOf(q) > QUALITY_ORDER.indexOf(worst)) worst = q;
+  }
+  return worst;
+}
