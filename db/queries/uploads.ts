@@ -1,6 +1,6 @@
 import { and, asc, desc, eq, isNull, sql, type SQL } from "drizzle-orm";
 import type { DbOrTx } from "@/db";
-import { clients, uploads, users, type Upload, type UploadKind } from "@/db/schema";
+import { attempts, clients, uploads, users, type Upload, type UploadKind } from "@/db/schema";
 
 export async function getUploadByUid(db: DbOrTx, uploadUid: string): Promise<Upload | null> {
   const [row] = await db.select().from(uploads).where(eq(uploads.uploadUid, uploadUid));
@@ -50,4 +50,25 @@ export async function markUploadReviewed(db: DbOrTx, uploadId: string, userId: s
 
 export async function listClientUploads(db: DbOrTx, clientId: string): Promise<Upload[]> {
   return db.select().from(uploads).where(eq(uploads.clientId, clientId)).orderBy(asc(uploads.createdAt));
+}
+
+/** Links a clip to the attempt analyzed from it, once; false when it was linked already. */
+export async function setUploadAttempt(db: DbOrTx, uploadId: string, attemptId: string): Promise<boolean> {
+  const linked = await db
+    .update(uploads)
+    .set({ attemptId })
+    .where(and(eq(uploads.id, uploadId), isNull(uploads.attemptId)))
+    .returning({ id: uploads.id });
+  return linked.length === 1;
+}
+
+/**
+ * Whether a clip's attempt counts towards the grade: kept (by this user, now) or not kept. The grade proposal rests
+ * on the kept attempts of a motion when there are any (db/queries/attempts.ts `recentAttempts`).
+ */
+export async function setClipAttemptKept(db: DbOrTx, attemptId: string, keptByUserId: string | null): Promise<void> {
+  await db
+    .update(attempts)
+    .set(keptByUserId ? { keptAt: new Date(), keptByUserId } : { keptAt: null, keptByUserId: null })
+    .where(eq(attempts.id, attemptId));
 }

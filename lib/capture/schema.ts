@@ -20,6 +20,15 @@ export const captureFrameSchema = z.object({
   score: z.number({ error: "expected a tracker score from 0 to 1" }).min(0, { error: "expected a score from 0 to 1" }).max(1, { error: "expected a score from 0 to 1" }),
   hand: z.array(point, { error: "expected 21 landmarks [x, y, z] or null" }).length(21, { error: "expected 21 landmarks [x, y, z]" }).nullable(),
   forearm: point.refine(nonZero, { error: "expected a non-zero elbow-to-wrist direction" }).optional(),
+  /**
+   * Optional: the same 21 landmarks in the picture, [x, y] as 0-1 of its width and height (unmirrored), for drawing
+   * the hand over a stored clip when it is reviewed. The engine never reads them; angles come from `hand` only.
+   */
+  image: z
+    .array(z.tuple([coordinate, coordinate], { error: "expected [x, y]" }), { error: "expected 21 image points [x, y] or null" })
+    .length(21, { error: "expected 21 image points [x, y]" })
+    .nullable()
+    .optional(),
 });
 
 export const captureSchema = z

@@ -13,6 +13,7 @@ import { AccessError, NOT_FOUND, type Actor } from "@/lib/auth/guard";
 import { CaptureFormatError, parseCapture } from "@/lib/capture/parse";
 import { BadRequest } from "@/lib/http";
 import { checkPracticeMatches, joinPracticeSession, requirePracticeItem } from "@/lib/practice/sessions";
+import { linkClipAttempt, requireClipForCapture } from "@/lib/uploads/clip-attempt";
 import { analyzeCapture } from "@/vision/analyze-capture";
 import { measuredColumns } from "./columns";
 import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } from "./upload";
@@ -114,6 +115,7 @@ async function saveNow(db: Database, actor: Actor, client: Client, rawBody: unkn
   if (body.visitId) await checkVisit(db, client, body.visitId, now);
 
   const practiceItem = body.practiceItemId ? await requirePracticeItem(db, client, body.practiceItemId) : null;
+  const clip = body.uploadId ? await requireClipForCapture(db, client, body.uploadId, capture) : null;
 
   const analysis = analyzeCapture(capture);
   if (practiceItem) checkPracticeMatches(practiceItem, analysis);
@@ -139,6 +141,7 @@ async function saveNow(db: Database, actor: Actor, client: Client, rawBody: unkn
         },
         stored,
       );
+      if (clip) await linkClipAttempt(tx, clip.id, created.id);
       await recordAudit(tx, {
         action: "attempt.create",
         clinicId: client.clinicId,
@@ -148,7 +151,7 @@ async function saveNow(db: Database, actor: Actor, client: Client, rawBody: unkn
         subjectId: created.id,
         clientId: client.id,
         address: options.address ?? null,
-        detail: { source: body.source, motion: created.motion, side: created.side, digit: created.digit, visitId: created.visitId, practiceSessionId, captureBytes: stored.bytes },
+        detail: { source: body.source, motion: created.motion, side: created.side, digit: created.digit, visitId: created.visitId, practiceSessionId, uploadId: clip?.id ?? null, captureBytes: stored.bytes },
       });
       return created;
     });

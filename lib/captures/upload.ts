@@ -26,6 +26,8 @@ export const captureUploadSchema = z
     /** Practice only: the home program item practised, and the sitting's id (chosen by the browser when it starts). */
     practiceItemId: z.uuid({ error: "expected a home program item id (a UUID)" }).optional(),
     practiceSessionId: z.uuid({ error: "expected a practice session id (a UUID)" }).optional(),
+    /** Upload only: the uploaded clip this capture was analyzed from; the attempt is linked to it (the app always sends it). */
+    uploadId: z.uuid({ error: "expected the uploaded clip's id (a UUID)" }).optional(),
     /** When the attempt was recorded, UTC milliseconds (the browser's clock); the server's time when absent. */
     recordedAt: z.number({ error: "expected UTC milliseconds" }).int({ error: "expected whole milliseconds" }).positive({ error: "expected UTC milliseconds" }).optional(),
     capture: z.unknown(),
@@ -37,6 +39,7 @@ export const captureUploadSchema = z
     if (body.source === "practice" && !body.practiceSessionId) ctx.addIssue({ code: "custom", path: ["practiceSessionId"], message: 'expected a practice session id when source is "practice"' });
     if (body.source !== "practice" && (body.practiceItemId || body.practiceSessionId))
       ctx.addIssue({ code: "custom", path: [body.practiceItemId ? "practiceItemId" : "practiceSessionId"], message: 'expected no practice ids unless source is "practice"' });
+    if (body.source !== "upload" && body.uploadId) ctx.addIssue({ code: "custom", path: ["uploadId"], message: 'expected no upload id unless source is "upload"' });
     if (body.capture === undefined) ctx.addIssue({ code: "custom", path: ["capture"], message: "expected a capture file (format kinarc.capture, version 1)" });
   });
 

@@ -26,9 +26,11 @@ export class CaptureRecorder {
     readonly target: CaptureTarget,
     /** Gravity in camera axes at the start, from the motion sensor; omitted when there is none. */
     private readonly gravity: Vec3 | null = null,
+    /** Keep the picture landmarks too (a stored clip is reviewed with the hand drawn over it); off for live attempts. */
+    private readonly keepImage = false,
   ) {}
 
-  push(frame: Pick<TrackedFrame, "t" | "score" | "hand" | "forearm">): void {
+  push(frame: Pick<TrackedFrame, "t" | "score" | "hand" | "forearm"> & Partial<Pick<TrackedFrame, "image">>): void {
     this.startMs ??= frame.t;
     const last = this.frames[this.frames.length - 1];
     // Times must not run backwards in the file; a camera clock that stutters is held at the last time.
@@ -38,6 +40,11 @@ export class CaptureRecorder {
     const score = Number.isFinite(frame.score) ? Math.min(1, Math.max(0, frame.score)) : 0;
     const out: CaptureFrame = { t, score, hand };
     if (frame.forearm && finitePoint(frame.forearm) && Math.hypot(...frame.forearm) > 1e-9) out.forearm = [frame.forearm[0], frame.forearm[1], frame.forearm[2]];
+    if (this.keepImage) {
+      // 1e-5 of the picture is well under a pixel; fewer digits keep a minute of frames small.
+      const image = hand && frame.image && frame.image.length === 21 && frame.image.every(finitePoint) ? frame.image : null;
+      out.image = image ? image.map((p) => [Math.round(p[0] * 1e5) / 1e5, Math.round(p[1] * 1e5) / 1e5] as [number, number]) : null;
+    }
     this.frames.push(out);
   }
 

@@ -28,4 +28,11 @@ export const uploadListQuerySchema = z.object({
   kind: z.enum(UPLOAD_KINDS, { error: 'expected "clip" or "document"' }).optional(),
 });
 
-export const uploadReviewSchema = z.object({ reviewed: z.literal(true, { error: "expected true" }) });
+/**
+ * A therapist's review of an upload: reviewed, and for an analyzed clip whether its attempt counts towards the grade
+ * (kept) or not. `counts` only with a clip that has an attempt (checked by the route).
+ */
+export const uploadReviewSchema = z.object({
+  reviewed: z.literal(true, { error: "expected true" }),
+  counts: z.boolean({ error: "expected true (the clip's attempt counts towards the grade) or false" }).optional(),
+});

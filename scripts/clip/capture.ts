@@ -1,26 +1,22 @@
-/** Tracked frames of a clip into a capture file (format v1) through the same recorder the browser uses. */
+/** The CLI's words around the shared clip capture builder (vision/live/clip-capture.ts): refusals exit 2. */
 import type { CaptureFile } from "@/lib/capture/schema";
-import { CaptureRecorder, type CaptureTarget } from "@/lib/tracking/capture-recorder";
+import type { CaptureTarget } from "@/lib/tracking/capture-recorder";
 import type { Side } from "@/lib/motions/catalog";
+import { ClipCaptureError, captureFromClipFrames, otherHandSeen } from "@/vision/live/clip-capture";
 import type { TrackedFrame } from "@/vision/live/types";
 import { ClipInputError } from "./options";
 
 export function captureFromFrames(target: CaptureTarget, frames: readonly TrackedFrame[], clipLabel: string): CaptureFile {
-  const recorder = new CaptureRecorder(target);
-  for (const frame of frames) recorder.push(frame);
-  const capture = recorder.finish();
-  if (!capture) throw new ClipInputError(`CLIP: ${clipLabel} has no frames the tracker could read`);
-  if (!capture.frames.some((f) => f.hand)) throw new ClipInputError(`CLIP: no hand in view in any of the ${capture.frames.length} frames of ${clipLabel}`);
-  return capture;
+  try {
+    return captureFromClipFrames(target, frames, clipLabel);
+  } catch (error) {
+    if (error instanceof ClipCaptureError) throw new ClipInputError(error.message);
+    throw error;
+  }
 }
 
-/**
- * A note when the tracker saw the other hand in most frames with a hand: a wrong --side flips the sign of some
- * motions, and the analysis trusts the side it is given. Null when the sides agree (or no frame names a hand).
- */
+/** A note when the tracker saw the other hand in most frames with a hand; null when the sides agree. */
 export function handednessNote(frames: readonly Pick<TrackedFrame, "handedness">[], side: Side): string | null {
-  const named = frames.filter((f) => f.handedness !== null);
-  const other = named.filter((f) => f.handedness !== side).length;
-  if (named.length === 0 || other * 2 <= named.length) return null;
-  return `the tracker saw a ${side === "left" ? "right" : "left"} hand in ${other} of ${named.length} frames with a hand, but --side is ${side}`;
+  const other = otherHandSeen(frames, side);
+  return other ? `the tracker saw a ${other.seen} hand in ${other.frames} of ${other.framesWithHand} frames with a hand, but --side is ${side}` : null;
 }

@@ -1,4 +1,5 @@
 import { describe, expect, it } from "vitest";
+import { captureSchema } from "@/lib/capture/schema";
 import { MOTION_IDS } from "@/lib/motions/catalog";
 import { captureFromFrames, handednessNote } from "./capture";
 import { ClipInputError, DEFAULT_MJPEG_FPS, parseClipArgs } from "./options";
@@ -53,6 +54,17 @@ describe("tracked frames to a capture", () => {
   it("keeps every frame, hand or not, in order", () => {
     const capture = captureFromFrames(target, [frame(0, false), frame(33, true), frame(67, true)], "c.webm");
     expect(capture.frames.map((f) => [f.t, f.hand !== null])).toEqual([[0, false], [33, true], [67, true]]);
+  });
+
+  it("keeps the picture landmarks of frames with a hand, to 1e-5 of the picture, for drawing the hand in review", () => {
+    const picture = Array.from({ length: 21 }, (_, i) => [0.1 + i * 0.0312345678, 0.5, -0.02] as [number, number, number]);
+    const capture = captureFromFrames(target, [{ ...frame(0, true), image: picture }, { ...frame(33, false), image: picture }], "c.webm");
+    expect(capture.frames[0].image).toHaveLength(21);
+    expect(capture.frames[0].image![3]).toEqual([0.19370, 0.5]);
+    // No hand, no drawing: a picture without world landmarks would show a hand the engine never measured.
+    expect(capture.frames[1].image).toBeNull();
+    // The capture schema accepts what the builder writes.
+    expect(captureSchema.parse(capture).frames[0].image).toEqual(capture.frames[0].image);
   });
 
   it("refuses a clip where no frame holds a hand", () => {

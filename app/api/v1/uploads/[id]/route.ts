@@ -1,9 +1,9 @@
 import { NextResponse } from "next/server";
 import { getDb } from "@/db";
-import { markUploadReviewed } from "@/db/queries/uploads";
+import { markUploadReviewed, setClipAttemptKept } from "@/db/queries/uploads";
 import { recordAudit } from "@/lib/audit";
 import { requestAddress } from "@/lib/auth/guard";
-import { readJson, route } from "@/lib/http";
+import { BadRequest, readJson, route } from "@/lib/http";
 import { requireUpload, UPLOAD_REVIEW_ROLES, UPLOAD_ROLES } from "@/lib/uploads/access";
 import { uploadJson } from "@/lib/uploads/save";
 import { uploadReviewSchema } from "@/lib/validation/upload";
@@ -15,15 +15,33 @@ export const GET = route<Params>(UPLOAD_ROLES, async ({ actor, request, params }
   return NextResponse.json(uploadJson(upload));
 });
 
-/** A therapist or assistant marks an upload as reviewed (`{"reviewed": true}`). */
+/**
+ * A therapist or assistant marks an upload as reviewed (`{"reviewed": true}`); for an analyzed clip, `"counts": true`
+ * keeps its attempt as one that counts towards the grade and `false` un-keeps it.
+ */
 export const PATCH = route<Params>(UPLOAD_REVIEW_ROLES, async ({ actor, request, params }) => {
   const db = getDb();
   const address = requestAddress(request.headers);
   const upload = await requireUpload(actor, params.id, { db, address, action: "upload.read" });
-  uploadReviewSchema.parse(await readJson(request));
+  const review = uploadReviewSchema.parse(await readJson(request));
+  const attemptId = upload.attemptId;
+  if (review.counts !== undefined && !attemptId) {
+    throw new BadRequest("This upload has no measured attempt yet, so it cannot count towards a grade.", { counts: "expected only for a clip that has been analyzed" });
+  }
   await db.transaction(async (tx) => {
     await markUploadReviewed(tx, upload.id, actor.userId);
-    await recordAudit(tx, { action: "upload.review", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role, subjectType: "upload", subjectId: upload.id, clientId: upload.clientId, address });
+    if (review.counts !== undefined && attemptId) await setClipAttemptKept(tx, attemptId, review.counts ? actor.userId : null);
+    await recordAudit(tx, {
+      action: "upload.review",
+      clinicId: actor.clinicId,
+      actorUserId: actor.userId,
+      actorRole: actor.role,
+      subjectType: "upload",
+      subjectId: upload.id,
+      clientId: upload.clientId,
+      address,
+      detail: review.counts === undefined ? undefined : { attemptId, counts: review.counts },
+    });
   });
   const after = await requireUpload(actor, params.id, { db, address, action: "upload.read" });
   return NextResponse.json(uploadJson(after));
