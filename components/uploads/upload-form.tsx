@@ -5,17 +5,23 @@ import { useEffect, useRef, useState } from "react";
 import { deletePendingClip, listPendingClips, savePendingClip, type PendingClip } from "@/lib/uploads/pending-clips";
 import { Button } from "@/components/ui/button";
 import { SelectField, TextArea } from "@/components/ui/field";
+import { clipTarget, type ClipTarget } from "@/lib/uploads/clip-target";
+import { ClipAnalyzer, type ClipToAnalyze } from "./clip-analyzer";
 import { ClipRecorder } from "./clip-recorder";
 
 export interface UploadFormProps {
   /** A client uploads for themselves; staff choose the client. */
   clientId?: string;
   clients?: { value: string; label: string }[];
-  motions: { value: string; label: string }[];
+  /** Each motion with the digits it applies to (none for the wrist) and its two test positions in words. */
+  motions: { value: string; label: string; digits: readonly string[]; positions: { against_gravity: string; gravity_minimized: string } }[];
   limits: { clip: string; document: string };
   /** Staff attach documents only; clips come from clients. */
   allowClip: boolean;
 }
+
+// Called from event handlers only; a module function keeps the clock read out of the component body.
+const nowMs = () => Date.now();
 
 type Status = { kind: "idle" } | { kind: "sending" } | { kind: "error"; message: string; retry: boolean } | { kind: "done"; message: string };
 
@@ -33,6 +39,26 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
   const [pending, setPending] = useState<PendingClip[]>([]);
   const [keptUid, setKeptUid] = useState<string | null>(null);
   const formRef = useRef<HTMLFormElement>(null);
+  const [motion, setMotion] = useState(motions[0]?.value ?? "");
+  const [analysis, setAnalysis] = useState<{ clip: ClipToAnalyze; target: ClipTarget } | null>(null);
+  const motionDef = motions.find((m) => m.value === motion) ?? motions[0];
+
+  /**
+   * Right after a clip reaches the clinic, this browser measures it (the file is still here, so nothing is fetched
+   * back) and sends the result through the attempt outbox. The therapist's browser can measure it later if this
+   * never finishes (a closed tab).
+   */
+  function analyzeSent(sent: unknown, file: Blob, fields: { motion: string; side: string; digit: string; condition: string }) {
+    const upload = sent as { id?: string; uploadUid?: string; clientId?: string; kind?: string; createdAt?: string; attemptId?: string | null };
+    if (upload.kind !== "clip" || !upload.id || !upload.uploadUid || !upload.clientId || upload.attemptId) return;
+    try {
+      const target = clipTarget({ motion: fields.motion, side: fields.side, digit: fields.digit || null }, fields.condition);
+      const sentAt = upload.createdAt ? Date.parse(upload.createdAt) : nowMs();
+      setAnalysis({ clip: { uploadId: upload.id, uploadUid: upload.uploadUid, clientId: upload.clientId, sentAt, source: file }, target });
+    } catch {
+      // Without a complete target (an older kept clip) the therapist chooses it when measuring the clip.
+    }
+  }
 
   useEffect(() => {
     if (clientId) void listPendingClips(clientId).then(setPending).catch(() => setPending([]));
@@ -47,9 +73,11 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
       clientId,
       motion: String(data.get("motion") ?? ""),
       side: String(data.get("side") ?? ""),
+      digit: String(data.get("digit") ?? ""),
+      condition: String(data.get("condition") ?? ""),
       note: String(data.get("note") ?? ""),
       file,
-      recordedAt: Date.now(),
+      recordedAt: nowMs(),
     })
       .then(() => setKeptUid(uid))
       .catch(() => undefined);
@@ -57,13 +85,14 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
 
   async function sendPending(clip: PendingClip) {
     const data = new FormData();
-    for (const [k, v] of Object.entries({ clientId: clip.clientId, uploadUid: clip.uploadUid, kind: "clip", motion: clip.motion, side: clip.side, note: clip.note })) data.set(k, v);
+    for (const [k, v] of Object.entries({ clientId: clip.clientId, uploadUid: clip.uploadUid, kind: "clip", motion: clip.motion, side: clip.side, digit: clip.digit ?? "", note: clip.note })) data.set(k, v);
     data.set("file", clip.file);
     setStatus({ kind: "sending" });
     try {
       const res = await fetch("/api/v1/uploads", { method: "POST", body: data });
       const body = (await res.json().catch(() => ({}))) as { error?: string };
       if (res.ok) {
+        analyzeSent(body, clip.file, { motion: clip.motion, side: clip.side, digit: clip.digit ?? "", condition: clip.condition ?? "" });
         await deletePendingClip(clip.uploadUid);
         setPending((p) => p.filter((c) => c.uploadUid !== clip.uploadUid));
         setStatus({ kind: "done", message: "Sent. Your therapist will see it in their list." });
@@ -92,6 +121,7 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
       const res = await fetch("/api/v1/uploads", { method: "POST", body: data });
       const body = (await res.json().catch(() => ({}))) as { error?: string; fields?: Record<string, string> };
       if (res.ok) {
+        if (kind === "clip") analyzeSent(body, file, { motion: String(data.get("motion") ?? ""), side: String(data.get("side") ?? ""), digit: String(data.get("digit") ?? ""), condition: String(data.get("condition") ?? "") });
         setStatus({ kind: "done", message: res.status === 201 ? "Sent. Your therapist will see it in their list." : "Already received earlier; it is stored once." });
         if (file === recorded) await deletePendingClip(uploadUid).catch(() => undefined);
         form.reset();
@@ -150,7 +180,16 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
       )}
       {kind === "clip" ? (
         <>
-          <SelectField label="Movement shown" name="motion" options={motions} error={fieldErrors.motion} />
+          <SelectField label="Movement shown" name="motion" options={motions} value={motion} onChange={(e) => setMotion(e.target.value)} error={fieldErrors.motion} />
+          {motionDef && motionDef.digits.length ? (
+            <SelectField
+              key={motionDef.value}
+              label="Finger"
+              name="digit"
+              options={motionDef.digits.map((d) => ({ value: d, label: d === "thumb" ? "Thumb" : `${d[0].toUpperCase()}${d.slice(1)} finger` }))}
+              error={fieldErrors.digit}
+            />
+          ) : null}
           <SelectField
             label="Side"
             name="side"
@@ -160,6 +199,18 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
             ]}
             error={fieldErrors.side}
           />
+          {motionDef ? (
+            <SelectField
+              key={`${motionDef.value}-position`}
+              label="How your arm rested"
+              name="condition"
+              hint="Kinarc checks this against what the camera sees."
+              options={[
+                { value: "against_gravity", label: motionDef.positions.against_gravity },
+                { value: "gravity_minimized", label: motionDef.positions.gravity_minimized },
+              ]}
+            />
+          ) : null}
         </>
       ) : null}
       {kind === "clip" ? (
@@ -212,6 +263,7 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
           {status.message}
         </p>
       ) : null}
+      {analysis ? <ClipAnalyzer clip={analysis.clip} target={analysis.target} showNumbers={false} /> : null}
       <div>
         <Button type="submit" disabled={status.kind === "sending"}>
           {status.kind === "sending" ? "Sending…" : status.kind === "error" && status.retry ? "Send again" : "Send"}

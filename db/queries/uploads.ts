@@ -72,3 +72,13 @@ export async function setClipAttemptKept(db: DbOrTx, attemptId: string, keptByUs
     .set(keptByUserId ? { keptAt: new Date(), keptByUserId } : { keptAt: null, keptByUserId: null })
     .where(eq(attempts.id, attemptId));
 }
+
+/** The attempt analyzed from a clip, with the clip's client and clinic checked. */
+export async function getClipAttempt(db: DbOrTx, upload: Pick<Upload, "attemptId" | "clinicId" | "clientId">) {
+  if (!upload.attemptId) return null;
+  const [row] = await db
+    .select()
+    .from(attempts)
+    .where(and(eq(attempts.id, upload.attemptId), eq(attempts.clinicId, upload.clinicId), eq(attempts.clientId, upload.clientId)));
+  return row ?? null;
+}

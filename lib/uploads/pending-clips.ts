@@ -8,6 +8,9 @@ export interface PendingClip {
   clientId: string;
   motion: string;
   side: string;
+  /** Added later: clips kept by an older page have none (the therapist then chooses them when measuring). */
+  digit?: string;
+  condition?: string;
   note: string;
   file: File;
   recordedAt: number;

@@ -1,3 +1,4 @@
+import Link from "next/link";
 import { notFound } from "next/navigation";
 import { getDb } from "@/db";
 import { listClients } from "@/db/queries/clients";
@@ -24,7 +25,7 @@ export default async function UploadsPage() {
   const isClient = actor.role === "client";
   const rows = await listUploads(db, actor.clinicId, { clientId: isClient ? actor.clientId! : undefined });
   await recordAudit(db, { action: "upload.list", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role, clientId: isClient ? actor.clientId : null });
-  const motions = MOTION_IDS.map((id) => ({ value: id, label: MOTIONS[id].label }));
+  const motions = MOTION_IDS.map((id) => ({ value: id, label: MOTIONS[id].label, digits: MOTIONS[id].digits, positions: MOTIONS[id].testPosition }));
   const limits = { clip: describeLimit("clip"), document: describeLimit("document") };
   const clientOptions = isClient
     ? undefined
@@ -75,6 +76,11 @@ export default async function UploadsPage() {
                   <a className="text-tide-700 underline" href={`/api/v1/uploads/${u.id}/file`}>
                     Download
                   </a>
+                  {!isClient && u.kind === "clip" ? (
+                    <Link className="font-semibold text-tide-700 underline" href={`/uploads/${u.id}`} data-testid="review-clip">
+                      {u.attemptId ? "Review the measurement" : "Measure and review"}
+                    </Link>
+                  ) : null}
                   {!isClient && !u.reviewedAt ? <ReviewButton uploadId={u.id} /> : null}
                 </li>
               ))}
@@ -82,7 +88,8 @@ export default async function UploadsPage() {
           )}
           {!isClient ? (
             <p className="mt-3 text-xs text-ink-faint">
-              Clips are stored as sent; turning a clip into a measured attempt with the same hand tracking as a live check is not available yet.
+              A clip is measured with the same hand tracking as a live check, in the client&apos;s browser right after it is sent; if that never
+              finished, open it to measure it in this browser.
             </p>
           ) : null}
         </Card>
