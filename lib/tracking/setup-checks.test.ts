@@ -117,3 +117,46 @@ describe("set-up checks", () => {
     expect(checks.filter((c) => c.status === "fix").length).toBeGreaterThanOrEqual(4);
   });
 });
+
+describe("camera view check", () => {
+  // World landmarks in camera axes (x right, y down, z away), hand upright in front of the camera; the radial
+  // direction picks the side that faces the camera: toward it (-z) the thumb side, away (+z) the little-finger side.
+  const placements = {
+    ulnar: { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, 1] },
+    radial: { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, -1] },
+    palmRight: { forearmDistal: [0, -1, 0], forearmRadial: [1, 0, 0] },
+  } as const;
+  const withHand = (side: "left" | "right", which: keyof typeof placements, count = 20) =>
+    frames(count, () => ({ handedness: side, hand: poseHand(neutralPose(), side, { ...placements[which], wrist: [0, 0.05, 0.45] }).landmarks as LandmarkXYZ[] }));
+
+  it("passes the little-finger side view for finger flexion lifted against gravity, either hand, mirrored preview or not", () => {
+    for (const side of ["left", "right"] as const) {
+      for (const displayMirrored of [true, false]) {
+        const view = byId({ ...BASE, side, displayMirrored, frames: withHand(side, "ulnar") }).view;
+        expect(view).toMatchObject({ status: "ok", measuredView: "ulnar", viewQuality: "recommended", instruction: "" });
+      }
+    }
+  });
+
+  it("the thumb side is advice to move round; the palm is a change, with the same words mirrored or not", () => {
+    const radial = byId({ ...BASE, frames: withHand("right", "radial") }).view;
+    expect(radial).toMatchObject({ status: "advice", measuredView: "radial", viewQuality: "usable" });
+    expect(radial.instruction).toMatch(/little finger faces the camera/);
+    const palm = byId({ ...BASE, frames: withHand("right", "palmRight") }).view;
+    expect(palm).toMatchObject({ status: "fix", measuredView: "palm", viewQuality: "poor" });
+    expect(byId({ ...BASE, displayMirrored: false, frames: withHand("right", "palmRight") }).view.instruction).toBe(palm.instruction);
+    expect(readyToStart(runSetupChecks({ ...BASE, frames: withHand("right", "palmRight") }))).toBe(false);
+  });
+
+  it("the test position decides: sliding on the table wants the thumb side seen from above", () => {
+    const fromAbove = byId({ ...BASE, condition: "gravity_minimized", frames: withHand("left", "radial") }).view;
+    expect(fromAbove).toMatchObject({ status: "ok", measuredView: "radial" });
+    const wrongSide = byId({ ...BASE, condition: "gravity_minimized", frames: withHand("left", "ulnar") }).view;
+    expect(wrongSide.status).toBe("advice");
+  });
+
+  it("waits for a few frames with 3-D landmarks before judging the view", () => {
+    expect(byId({ ...BASE, frames: withHand("right", "palmRight", 3) }).view).toBeUndefined();
+    expect(byId(BASE).view).toBeUndefined();
+  });
+});

@@ -4,10 +4,12 @@
  * self-check and, with telemetry instead of a camera, by the therapist's view of a visit.
  */
 import { DEFAULT_TRACKING_LIMITS } from "@/vision/analyze-capture";
-import { MOTIONS, type MotionId, type Side } from "@/lib/motions/catalog";
+import { MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
 import type { LandmarkXYZ, TrackedFrame } from "@/vision/live/types";
+import type { ValidationView } from "@/vision/uncertainty";
+import { majorityView, measureView, viewInstruction, viewPolicy, viewQuality, type ViewQuality } from "@/vision/view-policy";
 
-export type SetupCheckId = "hand_seen" | "hand_in_frame" | "correct_hand" | "hand_size" | "light" | "steady" | "forearm" | "upright";
+export type SetupCheckId = "hand_seen" | "hand_in_frame" | "correct_hand" | "hand_size" | "light" | "steady" | "view" | "forearm" | "upright";
 
 export interface SetupCheck {
   id: SetupCheckId;
@@ -16,13 +18,19 @@ export interface SetupCheck {
   status: "ok" | "fix" | "advice";
   /** What to do, in plain words; empty when the check passes. */
   instruction: string;
+  /** The `view` check: the camera view measured from the landmarks and how it serves the motion. */
+  measuredView?: ValidationView | null;
+  viewQuality?: ViewQuality | null;
 }
 
 export interface SetupInput {
   /** Tracked frames of the last moments, oldest first (the window is chosen by the caller, about 1.5 s). */
-  frames: readonly Pick<TrackedFrame, "t" | "score" | "handedness" | "image" | "forearm">[];
+  frames: readonly (Pick<TrackedFrame, "t" | "score" | "handedness" | "image" | "forearm"> & Partial<Pick<TrackedFrame, "hand">>)[];
   side: Side;
   motion: MotionId;
+  /** The test position and digit choose the view the motion needs (vision/view-policy.ts); against gravity when not given. */
+  condition?: Condition;
+  digit?: Digit | null;
   /** Mean luma of the picture, 0-255 (`meanLuma`), or null when not measured yet. */
   lumaMean: number | null;
   /** Width and height of the camera picture in pixels. */
@@ -54,6 +62,8 @@ export const SETUP_LIMITS = {
   maxWristTravel: 0.05,
   /** Frames in the window before any verdict on steadiness is given. */
   minFrames: 10,
+  /** Frames with 3-D landmarks in the window before the view is judged (one odd frame must not decide it). */
+  minViewFrames: 5,
 } as const;
 
 const LABELS: Record<SetupCheckId, string> = {
@@ -63,6 +73,7 @@ const LABELS: Record<SetupCheckId, string> = {
   hand_size: "Hand close enough",
   light: "Enough light",
   steady: "Steady tracking",
+  view: "Camera sees the right side of the hand",
   forearm: "Forearm in view",
   upright: "Camera upright",
 };
@@ -169,6 +180,8 @@ export function runSetupChecks(input: SetupInput): SetupCheck[] {
   else checks.push(check("light", "ok"));
 
   checks.push(steadiness(input));
+  const view = viewCheck(input);
+  if (view) checks.push(view);
 
   if (MOTIONS[input.motion].joint === "wrist") {
     const seen = frames.some((f) => f.forearm);
@@ -178,7 +191,7 @@ export function runSetupChecks(input: SetupInput): SetupCheck[] {
         : check(
             "forearm",
             "advice",
-            "Move the camera back so your forearm up to the elbow is in the picture. Without it, keep your forearm still on the table and start each movement with the wrist straight.",
+            "Keep your forearm resting still on the table and the camera where it is: a few seconds with the wrist straight, taken before you start, stand in for the forearm line.",
           ),
     );
   }
@@ -189,6 +202,29 @@ export function runSetupChecks(input: SetupInput): SetupCheck[] {
       : check("upright", "advice", "Stand the camera or laptop upright on a steady surface, not tilted, so that down in the picture is down in the room."),
   );
   return checks;
+}
+
+/**
+ * The camera's view of the hand, measured from the 3-D landmarks with the engine's classifier, against the view the
+ * motion and test position need. A poor view (the motion would run toward the camera) must change; a usable one
+ * (the other side view) is advice. The landmarks are in the camera's unmirrored axes, so the verdict does not
+ * depend on how the preview is shown, and the words name only the hand's own sides. Absent until world landmarks come.
+ */
+function viewCheck(input: SetupInput): SetupCheck | null {
+  const recent = input.frames.filter((f) => f.hand && f.hand.length === 21).slice(-15);
+  if (recent.length < SETUP_LIMITS.minViewFrames) return null;
+  const measured = majorityView(recent.map((f) => measureView(f.hand!, input.side)));
+  const policy = viewPolicy(input.motion, input.condition ?? "against_gravity", input.digit ?? null);
+  if (!measured) {
+    return {
+      ...check("view", "advice", `The camera's view of your hand keeps changing. ${policy.instruction} Then hold still.`),
+      measuredView: null,
+      viewQuality: null,
+    };
+  }
+  const quality = viewQuality(policy, measured);
+  const status = quality === "recommended" ? "ok" : quality === "usable" ? "advice" : "fix";
+  return { ...check("view", status, viewInstruction(policy, measured)), measuredView: measured, viewQuality: quality };
 }
 
 function steadiness(input: SetupInput): SetupCheck {
