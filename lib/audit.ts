@@ -29,3 +29,44 @@ export async function recordAudit(db: Writer, event: AuditInput): Promise<void> 
     detail: event.detail ?? null,
   });
 }
+
+/**
+ * Appends an audit event together with others recorded at the same moment, in one transaction (a group commit), and
+ * resolves only once that transaction has committed, so the caller still answers after its access is on record.
+ * Reads of clinical records are audited one by one and each commit waits for the disk; under many concurrent reads
+ * one commit now carries them all. Not for events that belong to a transaction of the caller's (use `recordAudit`
+ * with the transaction handle).
+ */
+export function recordAuditGrouped(db: Database, event: AuditInput): Promise<void> {
+  let group = pendingGroups.get(db);
+  if (!group) {
+    group = { events: [], waiters: [] };
+    pendingGroups.set(db, group);
+    const mine = group;
+    // Let every request that is already running add its event before the commit starts.
+    setImmediate(() => {
+      pendingGroups.delete(db);
+      void flushGroup(db, mine);
+    });
+  }
+  group.events.push(event);
+  return new Promise<void>((resolve, reject) => group.waiters.push({ resolve, reject }));
+}
+
+interface PendingGroup {
+  events: AuditInput[];
+  waiters: { resolve: () => void; reject: (error: unknown) => void }[];
+}
+
+const pendingGroups = new WeakMap<Database, PendingGroup>();
+
+async function flushGroup(db: Database, group: PendingGroup): Promise<void> {
+  try {
+    await db.transaction(async (tx) => {
+      for (const event of group.events) await recordAudit(tx, event);
+    });
+    for (const w of group.waiters) w.resolve();
+  } catch (error) {
+    for (const w of group.waiters) w.reject(error);
+  }
+}

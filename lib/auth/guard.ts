@@ -1,11 +1,13 @@
 import { and, eq } from "drizzle-orm";
+import { headers } from "next/headers";
 import { z } from "zod";
 import { getDb, type Database } from "@/db";
-import { clients, users, type Client, type Role } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
+import { clients, staffActivity, users, type Client, type Role } from "@/db/schema";
+import { recordAuditGrouped } from "@/lib/audit";
 import { env } from "@/lib/env";
-import { staffSessionActive } from "./idle";
-import { auth, requestAddress } from "./index";
+import { staffSessionActive, type StaffActivityTimes } from "./idle";
+import { requestAddress } from "./index";
+import { sessionUserId } from "./session-token";
 
 /** The signed-in person as the server sees them, re-read from the database on every request. */
 export interface Actor {
@@ -30,31 +32,41 @@ export class AccessError extends Error {
 export const NOT_FOUND = "No such record.";
 
 export async function actorForUser(db: Database, userId: string): Promise<Actor | null> {
+  return (await actorWithActivity(db, userId))?.actor ?? null;
+}
+
+/** The actor and, in the same query, the times the idle sign-out rule needs. */
+async function actorWithActivity(db: Database, userId: string): Promise<{ actor: Actor; activity: StaffActivityTimes } | null> {
   const [row] = await db
-    .select({ user: users, clientId: clients.id })
+    .select({ user: users, clientId: clients.id, lastActiveAt: staffActivity.lastActiveAt })
     .from(users)
     .leftJoin(clients, eq(clients.userId, users.id))
+    .leftJoin(staffActivity, eq(staffActivity.userId, users.id))
     .where(eq(users.id, userId));
   if (!row || !row.user.active || !row.user.clinicId) return null;
   if (row.user.role === "client" && !row.clientId) return null;
   return {
-    userId: row.user.id,
-    role: row.user.role,
-    clinicId: row.user.clinicId,
-    name: row.user.name ?? row.user.email,
-    email: row.user.email,
-    clientId: row.user.role === "client" ? row.clientId : null,
+    actor: {
+      userId: row.user.id,
+      role: row.user.role,
+      clinicId: row.user.clinicId,
+      name: row.user.name ?? row.user.email,
+      email: row.user.email,
+      clientId: row.user.role === "client" ? row.clientId : null,
+    },
+    activity: { lastSignInAt: row.user.lastSignInAt, lastActiveAt: row.lastActiveAt },
   };
 }
 
 export async function currentActor(): Promise<Actor | null> {
-  const session = await auth();
-  if (!session?.user?.id) return null;
+  const userId = await sessionUserId((await headers()).get("cookie") ?? "", env().AUTH_SECRET);
+  if (!userId) return null;
   const db = getDb();
-  const actor = await actorForUser(db, session.user.id);
+  const found = await actorWithActivity(db, userId);
+  if (!found) return null;
   // Staff sessions lapse after STAFF_IDLE_MINUTES without a request (lib/auth/idle.ts).
-  if (actor && !(await staffSessionActive(db, actor, env().STAFF_IDLE_MINUTES))) return null;
-  return actor;
+  if (!(await staffSessionActive(db, found.actor, env().STAFF_IDLE_MINUTES, new Date(), found.activity))) return null;
+  return found.actor;
 }
 
 /** Resolves the session and checks the role. 401 when not signed in, 403 when the role may not do this. */
@@ -86,7 +98,7 @@ export async function requireClientRecord(
     .from(clients)
     .where(and(eq(clients.id, clientId), eq(clients.clinicId, actor.clinicId)));
   if (!record) throw new AccessError(404, NOT_FOUND);
-  await recordAudit(db, {
+  await recordAuditGrouped(db, {
     action: "client.read",
     clinicId: actor.clinicId,
     actorUserId: actor.userId,

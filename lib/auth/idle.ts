@@ -11,13 +11,27 @@ export const ACTIVITY_WRITE_EVERY_MS = 60_000;
  * is older than the limit no longer counts, whatever the cookie says. Signing in again starts afresh
  * (users.lastSignInAt). Clients are not timed out: they use Kinarc from home on their own device. [common practice]
  */
-export async function staffSessionActive(db: Database, user: { userId: string; role: Role; clinicId: string }, idleMinutes: number, now = new Date()): Promise<boolean> {
+export interface StaffActivityTimes {
+  lastSignInAt: Date | null;
+  lastActiveAt: Date | null;
+}
+
+/** `known`: the two times when the caller has just read them with the user (saves a query on every request). */
+export async function staffSessionActive(
+  db: Database,
+  user: { userId: string; role: Role; clinicId: string },
+  idleMinutes: number,
+  now = new Date(),
+  known?: StaffActivityTimes,
+): Promise<boolean> {
   if (user.role === "client") return true;
-  const [row] = await db
-    .select({ lastSignInAt: users.lastSignInAt, lastActiveAt: staffActivity.lastActiveAt })
-    .from(users)
-    .leftJoin(staffActivity, eq(staffActivity.userId, users.id))
-    .where(eq(users.id, user.userId));
+  const [row] = known
+    ? [known]
+    : await db
+        .select({ lastSignInAt: users.lastSignInAt, lastActiveAt: staffActivity.lastActiveAt })
+        .from(users)
+        .leftJoin(staffActivity, eq(staffActivity.userId, users.id))
+        .where(eq(users.id, user.userId));
   if (!row) return false;
   const signIn = row.lastSignInAt?.getTime() ?? 0;
   const active = row.lastActiveAt?.getTime() ?? 0;

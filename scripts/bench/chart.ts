@@ -3,8 +3,8 @@
  * spread over a year of sessions), the built app on a local port, and autocannon (a general-purpose HTTP load tool
  * from the registry) sending GET /api/v1/clients/:id/chart from 50 concurrent connections. Prints the latency
  * percentiles of every response (the goal is p95 under 50 ms) and the request rate. For comparison it also loads
- * GET /api/v1/appointments (signed in, one small query, no audited record read): the floor set by the server, the
- * session check and the machine. Figures only.
+ * GET /api/v1/appointments (signed in, one small query, no audited record read) and GET /api/auth/providers (no
+ * Kinarc code): the floors set by the session check, the framework and the machine. Figures only.
  *
  *   npx tsx scripts/bench/chart.ts [--seconds 15] [--connections 50] [--attempts 5000] [--port 3190]
  * Needs a production build (.next); uses ports 3190/2591/2592/7891 unless told otherwise.
@@ -127,7 +127,7 @@ async function main() {
     const first = await fetch(target, { headers: { cookie } });
     if (!first.ok) throw new Error(`chart answered ${first.status}: ${await first.text()}`);
     const body = (await first.json()) as { rows: unknown[] };
-    console.log(`chart: ${body.rows.length} motion rows with data`);
+    console.log(`chart: ${body.rows.length} motion rows with data, ${JSON.stringify(body).length} bytes`);
 
     // One at a time first: the cost of one request with nothing else running.
     const single: number[] = [];
@@ -141,6 +141,8 @@ async function main() {
 
     await load("chart", target, cookie);
     await load("floor: appointments", `${stack.appUrl}/api/v1/appointments`, cookie);
+    // No Kinarc code at all: Auth.js's provider list, answered by the framework alone. What any route costs here.
+    await load("floor: framework only", `${stack.appUrl}/api/auth/providers`, cookie);
   } finally {
     await stack.stop();
   }

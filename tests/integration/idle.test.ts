@@ -41,6 +41,13 @@ describe("staff sign-out after inactivity", () => {
     expect(await staffSessionActive(t.db, therapist, IDLE_MIN, at(71))).toBe(true);
   });
 
+  it("decides the same from times the caller already read with the user", async () => {
+    const known = (signIn: number, active: number | null) => ({ lastSignInAt: at(signIn), lastActiveAt: active === null ? null : at(active) });
+    expect(await staffSessionActive(t.db, therapist, IDLE_MIN, at(200), known(190, null))).toBe(true);
+    expect(await staffSessionActive(t.db, therapist, IDLE_MIN, at(300), known(190, 280))).toBe(true); // 20 min idle
+    expect(await staffSessionActive(t.db, therapist, IDLE_MIN, at(300), known(190, 228))).toBe(false); // 72 min idle
+  });
+
   it("does not time out a client's session", async () => {
     expect(await staffSessionActive(t.db, client, IDLE_MIN, at(10_000))).toBe(true);
   });
