@@ -1,14 +1,19 @@
 import path from "node:path";
 import { getDb } from "@/db";
+import { sendDueReceipts } from "@/lib/payments/receipt";
 import { runVisitJobs } from "@/lib/visits/service";
 
 /**
- * Periodic work: visit reminders (the day before) and marking visits that never started as missed.
+ * Periodic work: visit reminders (the day before), marking visits that never started as missed, and payment receipts
+ * that could not be sent when the payment came in.
  * Production: call `npm run -s jobs` from cron every few minutes, or run `npm run -s jobs -- --every 60` as a service.
  * `npm run demo` runs the same loop in-process.
  */
 export async function runJobsOnce(now = new Date()) {
-  return runVisitJobs(getDb(), now);
+  const db = getDb();
+  const visits = await runVisitJobs(db, now);
+  const receipts = await sendDueReceipts(db);
+  return { ...visits, receiptsSent: receipts.sent, receiptsFailed: receipts.failed };
 }
 
 export function startJobLoop(everySeconds: number, log: (line: string) => void = console.log): () => void {
@@ -18,7 +23,8 @@ export function startJobLoop(everySeconds: number, log: (line: string) => void =
     running = true;
     try {
       const r = await runJobsOnce();
-      if (r.reminded || r.missed) log(`[jobs] ${r.reminded} reminder(s) sent, ${r.missed} visit(s) marked missed`);
+      if (r.reminded || r.missed || r.receiptsSent || r.receiptsFailed)
+        log(`[jobs] ${r.reminded} reminder(s) sent, ${r.missed} visit(s) marked missed, ${r.receiptsSent} receipt(s) sent, ${r.receiptsFailed} receipt(s) still due`);
     } catch (error) {
       log(`[jobs] failed: ${error instanceof Error ? error.message : String(error)}`);
     } finally {

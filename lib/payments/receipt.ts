@@ -1,4 +1,4 @@
-import { eq } from "drizzle-orm";
+import { and, eq, isNull } from "drizzle-orm";
 import type { Database } from "@/db";
 import { getVisitDetail } from "@/db/queries/visits";
 import { payments, type Payment } from "@/db/schema";
@@ -36,4 +36,25 @@ export async function sendReceipt(db: Database, paymentId: string): Promise<bool
   await sendMail({ to: detail.clientEmail, subject: `Your receipt from ${detail.clinicName}`, ...message });
   await db.update(payments).set({ receiptSentAt: new Date() }).where(eq(payments.id, payment.id));
   return true;
+}
+
+/**
+ * Receipts still due: paid, never sent (the mail server was down when the payment came in). Run by the periodic jobs,
+ * so a paying client always gets one, once.
+ */
+export async function sendDueReceipts(db: Database): Promise<{ sent: number; failed: number }> {
+  const due = await db
+    .select({ id: payments.id })
+    .from(payments)
+    .where(and(eq(payments.status, "paid"), isNull(payments.receiptSentAt)));
+  let sent = 0;
+  let failed = 0;
+  for (const { id } of due) {
+    try {
+      if (await sendReceipt(db, id)) sent++;
+    } catch {
+      failed++;
+    }
+  }
+  return { sent, failed };
 }
