@@ -10,8 +10,9 @@ import type { CaptureSaveResponse, StoredAttempt } from "@/lib/captures/upload";
 import { CONDITIONS, MOTIONS, getReferenceEndRange, type CameraView, type Condition, type Digit, type MotionId, type RangeTableId, type Side } from "@/lib/motions/catalog";
 import { newCaptureUid } from "@/lib/tracking/capture-recorder";
 import { readyToStart } from "@/lib/tracking/setup-checks";
-import { useHandTracking } from "@/lib/tracking/use-hand-tracking";
+import { NEUTRAL_HOLD_MS, useHandTracking } from "@/lib/tracking/use-hand-tracking";
 import { analyzeCapture, type CaptureAnalysis } from "@/vision/analyze-capture";
+import { describeView, viewPolicy } from "@/vision/view-policy";
 import { HandOverlay } from "./hand-overlay";
 import { PositionIllustration } from "./position-illustration";
 
@@ -30,7 +31,7 @@ export interface SelfCheckFlowProps {
   practice?: { itemId: string; sessionId: string; motion: MotionId; digit: Digit | null; side: Side; condition: Condition; repetitions: number; notes: string };
 }
 
-type Step = "safety" | "choose" | "position" | "setup" | "countdown" | "recording" | "summary";
+type Step = "safety" | "choose" | "position" | "setup" | "neutral" | "countdown" | "recording" | "summary";
 
 const REPETITIONS = 3;
 const HOLD_SECONDS = 2;
@@ -44,9 +45,15 @@ const CONDITION_WORDS: Record<Condition, { title: string; hint: string }> = {
 };
 
 const CAMERA_WORDS: Record<CameraView, string> = {
-  side: "Set the camera level with your hand and off to one side, so it sees the joint bend in profile. A phone propped on its side against a mug works well.",
-  overhead: "Prop the camera so it looks down on your hand from above, for example a phone leaning over the edge of a shelf or a stack of books.",
-  front: "Set the camera facing your hand, about an arm's length away.",
+  side: "A phone propped on its side against a mug works well.",
+  overhead: "For example a phone leaning over the edge of a shelf or a stack of books.",
+  front: "About an arm's length away.",
+};
+
+const FOREARM_WORDS: Record<NonNullable<CaptureAnalysis["forearmSource"]>, string> = {
+  pose: "your forearm, seen by the camera",
+  "neutral-reading": "your straight-wrist reading",
+  "capture-start": "how your hand started (no straight-wrist reading)",
 };
 
 const DIGIT_WORDS: Record<Digit, string> = { thumb: "Thumb", index: "Index finger", middle: "Middle finger", ring: "Ring finger", little: "Little finger" };
@@ -72,8 +79,11 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
   const videoRef = useRef<HTMLVideoElement>(null);
 
   const def = MOTIONS[motion];
+  // Where the camera goes comes from the view policy, which follows the test position (vision/view-policy.ts).
+  const policy = useMemo(() => viewPolicy(motion, condition, digit), [motion, condition, digit]);
+  const isWrist = def.joint === "wrist";
   const reference = useMemo(() => getReferenceEndRange(motion, digit, props.rangeTable), [motion, digit, props.rangeTable]);
-  const cameraOn = step === "setup" || step === "countdown" || step === "recording";
+  const cameraOn = step === "setup" || step === "neutral" || step === "countdown" || step === "recording";
   const mirrored = facing === "user";
   const tracking = useHandTracking({ motion, side, digit, condition, videoRef, enabled: cameraOn, facing, displayMirrored: mirrored });
   const { startRecording } = tracking;
@@ -247,12 +257,14 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
             <ol className="list-decimal space-y-2 pl-5 text-sm text-ink">
               <li>Sit at a table with your {side} forearm resting on it, shoulder relaxed.</li>
               <li>{def.testPosition[condition]}</li>
-              <li>{CAMERA_WORDS[def.cameraView]}</li>
+              <li>
+                {policy.instruction} {CAMERA_WORDS[policy.placement]}
+              </li>
               <li>
                 Then you will {def.gradedOn === "arc" ? "make the movement" : "move as far as is comfortable"}, hold for {HOLD_SECONDS} seconds, and relax: {REPETITIONS} times.
               </li>
             </ol>
-            <PositionIllustration cameraView={def.cameraView} condition={condition} wrist={def.joint === "wrist"} />
+            <PositionIllustration cameraView={policy.placement} condition={condition} wrist={isWrist} />
           </div>
           <label className="mt-4 flex items-center gap-2 text-sm text-ink-soft">
             <input type="checkbox" checked={facing === "environment"} onChange={(e) => setFacing(e.target.checked ? "environment" : "user")} />
@@ -329,13 +341,54 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
                 <Button
                   disabled={!ready}
                   onClick={() => {
+                    // Wrist angles need a forearm line: a straight-wrist reading first, unless one is already taken.
+                    if (isWrist && tracking.neutral.status !== "taken") return setStep("neutral");
                     setCountdown(COUNTDOWN_SECONDS);
                     setStep("countdown");
                   }}
                 >
-                  Start
+                  {isWrist && tracking.neutral.status !== "taken" ? "Next: straight-wrist reading" : "Start"}
                 </Button>
                 <Button variant="quiet" onClick={() => setStep("position")}>
+                  Back
+                </Button>
+              </div>
+            </Card>
+          ) : null}
+
+          {step === "neutral" ? (
+            <Card title="Straight-wrist reading">
+              <p className="text-sm text-ink">
+                Rest your forearm on the table with your wrist straight, in line with the forearm, and your fingers relaxed. Keep your arm and the camera
+                where they are from now on: the camera measures the wrist against this position.
+              </p>
+              <p className="mt-2 text-sm" aria-live="polite" data-testid="neutral-status" data-status={tracking.neutral.status}>
+                {tracking.neutral.status === "holding" ? (
+                  <span className="font-medium text-tide-900">Hold still… {Math.max(1, Math.ceil(((1 - tracking.neutral.progress) * NEUTRAL_HOLD_MS) / 1000))}</span>
+                ) : tracking.neutral.status === "taken" ? (
+                  <span className="text-tide-700">Reading taken ({describeView(tracking.neutral.reading.view)} seen). Keep your forearm on the table.</span>
+                ) : tracking.neutral.status === "refused" ? (
+                  <span className="text-flag-rose">The reading could not be taken: {tracking.neutral.problem}</span>
+                ) : (
+                  <span className="text-ink-soft">Takes {NEUTRAL_HOLD_MS / 1000} seconds.</span>
+                )}
+              </p>
+              <div className="mt-4 flex flex-wrap gap-2">
+                {tracking.neutral.status === "taken" ? (
+                  <Button
+                    onClick={() => {
+                      setCountdown(COUNTDOWN_SECONDS);
+                      setStep("countdown");
+                    }}
+                  >
+                    Start
+                  </Button>
+                ) : (
+                  <Button disabled={tracking.status !== "running" || tracking.neutral.status === "holding"} onClick={() => tracking.takeNeutral()}>
+                    {tracking.neutral.status === "refused" ? "Try the reading again" : "Take the reading"}
+                  </Button>
+                )}
+                <Button variant="quiet" onClick={() => setStep("setup")}>
                   Back
                 </Button>
               </div>
@@ -422,6 +475,19 @@ function Summary({ local, saved, reference }: { local: CaptureAnalysis; saved: S
       <dd className="font-medium" data-testid="summary-plane">
         {shown.planeVerified ? "The camera confirmed the position." : "The camera could not confirm the position; your therapist will review it."}
       </dd>
+      <dt className="text-ink-soft">Camera view</dt>
+      <dd className="font-medium" data-testid="summary-view" data-quality={local.viewQuality ?? ""}>
+        {local.view ? `It saw ${describeView(local.view)}` : "It changed during the attempt"}
+        {local.viewQuality === "recommended" ? ", as it should." : local.viewQuality === "usable" ? ": usable, but the recommended side reads more truly." : ": this view measures poorly; your therapist will review it."}
+      </dd>
+      {local.forearmSource ? (
+        <>
+          <dt className="text-ink-soft">Wrist measured against</dt>
+          <dd className="font-medium" data-testid="summary-forearm" data-source={local.forearmSource}>
+            {FOREARM_WORDS[local.forearmSource]}
+          </dd>
+        </>
+      ) : null}
       <dt className="text-ink-soft">Hand tracked</dt>
       <dd className="font-medium">
         {shown.usableFrames} of {shown.frames} frames

@@ -138,14 +138,16 @@ describe("camera view check", () => {
     }
   });
 
-  it("the thumb side is advice to move round; the palm is a change, with the same words mirrored or not", () => {
+  it("the thumb side and the palm are advice on what to change, with the same words mirrored or not", () => {
     const radial = byId({ ...BASE, frames: withHand("right", "radial") }).view;
     expect(radial).toMatchObject({ status: "advice", measuredView: "radial", viewQuality: "usable" });
     expect(radial.instruction).toMatch(/little finger faces the camera/);
     const palm = byId({ ...BASE, frames: withHand("right", "palmRight") }).view;
-    expect(palm).toMatchObject({ status: "fix", measuredView: "palm", viewQuality: "poor" });
+    expect(palm).toMatchObject({ status: "advice", measuredView: "palm", viewQuality: "poor" });
+    expect(palm.instruction).toMatch(/sees your palm.*little-finger edge faces the camera/);
     expect(byId({ ...BASE, displayMirrored: false, frames: withHand("right", "palmRight") }).view.instruction).toBe(palm.instruction);
-    expect(readyToStart(runSetupChecks({ ...BASE, frames: withHand("right", "palmRight") }))).toBe(false);
+    // Not a block: the attempt is marked with its view instead (vision/pipeline.ts viewQuality and warning).
+    expect(readyToStart(runSetupChecks({ ...BASE, frames: withHand("right", "palmRight") }))).toBe(true);
   });
 
   it("the test position decides: sliding on the table wants the thumb side seen from above", () => {

@@ -12,6 +12,7 @@ import { createLivePipeline, type LivePipeline, type LiveUpdate } from "@/vision
 import type { HandTracker } from "@/vision/live/tracker";
 import type { ModelVariant, TrackedFrame } from "@/vision/live/types";
 import type { Vec3 } from "@/vision/vec";
+import { neutralReading, type NeutralFrame, type NeutralReading } from "@/vision/wrist-axis";
 import { CaptureRecorder } from "./capture-recorder";
 import { gravityInCamera, type CameraFacing } from "./gravity";
 import { meanLuma, runSetupChecks, type SetupCheck } from "./setup-checks";
@@ -45,7 +46,20 @@ export interface HandTrackingState {
   checks: SetupCheck[];
   recording: boolean;
   recordedFrames: number;
+  /** The straight-wrist reading for wrist motions: idle until asked for, then holding (0-1 done), then taken or refused. */
+  neutral: NeutralState;
+  /** The motion, side, digit and test position the neutral state belongs to; it is shown only for that target. */
+  neutralFor: string | null;
 }
+
+export type NeutralState =
+  | { status: "none" }
+  | { status: "holding"; progress: number }
+  | { status: "taken"; reading: NeutralReading }
+  | { status: "refused"; problem: string };
+
+/** How long the wrist is held straight for the neutral reading: long enough to average jitter, short enough to hold still. */
+export const NEUTRAL_HOLD_MS = 3000;
 
 const CHECK_WINDOW_MS = 1500;
 const LUMA_EVERY_MS = 500;
@@ -66,7 +80,13 @@ const INITIAL: HandTrackingState = {
   checks: [],
   recording: false,
   recordedFrames: 0,
+  neutral: { status: "none" },
+  neutralFor: null,
 };
+
+function targetKey(t: { motion: MotionId; side: Side; digit: Digit | null; condition: Condition }): string {
+  return `${t.motion}|${t.side}|${t.digit ?? ""}|${t.condition}`;
+}
 
 function cameraError(error: unknown): string {
   const name = error instanceof DOMException ? error.name : "";
@@ -87,6 +107,9 @@ export function useHandTracking(options: HandTrackingOptions) {
   const lumaRef = useRef<number | null>(null);
   const gravityRef = useRef<{ at: number; value: Vec3 } | null>(null);
   const targetRef = useRef({ motion, side, digit, condition });
+  // Frames of the neutral reading while it is held, and the frames and reading kept once it is taken.
+  const neutralHoldRef = useRef<{ startT: number | null; frames: NeutralFrame[] } | null>(null);
+  const neutralRef = useRef<{ frames: NeutralFrame[]; reading: NeutralReading } | null>(null);
   useLayoutEffect(() => {
     targetRef.current = { motion, side, digit, condition };
   }, [motion, side, digit, condition]);
@@ -104,11 +127,13 @@ export function useHandTracking(options: HandTrackingOptions) {
 
   const newPipeline = useCallback(() => {
     const t = targetRef.current;
-    pipelineRef.current = createLivePipeline({ ...t, gravity: freshGravity(), handModel: handModelRef.current });
+    pipelineRef.current = createLivePipeline({ ...t, gravity: freshGravity(), handModel: handModelRef.current, neutral: neutralRef.current?.reading ?? null });
   }, []);
 
-  // A new motion or side starts a fresh reading.
+  // A new motion or side starts a fresh reading, and a neutral reading taken for another one no longer holds.
   useEffect(() => {
+    neutralRef.current = null;
+    neutralHoldRef.current = null;
     newPipeline();
   }, [motion, side, digit, condition, handModel, newPipeline]);
 
@@ -144,6 +169,7 @@ export function useHandTracking(options: HandTrackingOptions) {
 
       const update = pipelineRef.current?.push({ t: frame.t, score: frame.score, hand: frame.hand, forearm: frame.forearm ?? null }) ?? null;
       recorderRef.current?.push(frame);
+      const neutral = holdNeutral(frame);
       const gravity = freshGravity();
       const t = targetRef.current;
       const checks = runSetupChecks({
@@ -155,6 +181,8 @@ export function useHandTracking(options: HandTrackingOptions) {
         videoHeight: video.videoHeight,
         displayMirrored,
         gravitySource: gravity ? "sensor" : "none",
+        condition: t.condition,
+        digit: t.digit,
       });
       setState((s) => ({
         ...s,
@@ -167,7 +195,24 @@ export function useHandTracking(options: HandTrackingOptions) {
         gravity,
         checks,
         recordedFrames: recorderRef.current?.frameCount ?? 0,
+        ...(neutral ? { neutral, neutralFor: targetKey(t) } : {}),
       }));
+    };
+
+    /** Collects a frame into the neutral hold; when the hold is over, takes the reading (or says why not). */
+    const holdNeutral = (frame: TrackedFrame): NeutralState | null => {
+      const hold = neutralHoldRef.current;
+      if (!hold) return null;
+      hold.startT ??= frame.t;
+      const t = frame.t - hold.startT;
+      hold.frames.push({ t, score: frame.score, hand: frame.hand });
+      if (t < NEUTRAL_HOLD_MS) return { status: "holding", progress: t / NEUTRAL_HOLD_MS };
+      neutralHoldRef.current = null;
+      const outcome = neutralReading(hold.frames, targetRef.current.side);
+      if (!outcome.ok) return { status: "refused", problem: outcome.problem };
+      neutralRef.current = { frames: hold.frames, reading: outcome.reading };
+      newPipeline();
+      return { status: "taken", reading: outcome.reading };
     };
 
     (async () => {
@@ -209,7 +254,17 @@ export function useHandTracking(options: HandTrackingOptions) {
       recorderRef.current = null;
       setState(INITIAL);
     };
-  }, [enabled, facing, handModel, displayMirrored, videoRef]);
+  }, [enabled, facing, handModel, displayMirrored, videoRef, newPipeline]);
+
+  /**
+   * Starts a neutral reading: the next NEUTRAL_HOLD_MS of frames, wrist straight and forearm still on the table. The
+   * attempts that follow read the wrist against it, and their capture files carry its frames for the server.
+   */
+  const takeNeutral = useCallback(() => {
+    neutralRef.current = null;
+    neutralHoldRef.current = { startT: null, frames: [] };
+    setState((s) => ({ ...s, neutral: { status: "holding", progress: 0 }, neutralFor: targetKey(targetRef.current) }));
+  }, []);
 
   /** Starts a fresh reading (repetitions counted from here) and records every frame until `stopRecording`. */
   const startRecording = useCallback(() => {
@@ -226,6 +281,14 @@ export function useHandTracking(options: HandTrackingOptions) {
     recorderRef.current = null;
     setState((s) => ({ ...s, recording: false }));
     const capture = recorder?.finish() ?? null;
+    // The neutral frames travel with the attempt, so the server takes the same reading the browser did.
+    if (capture && neutralRef.current) {
+      // As the recorder does: a broken landmark becomes "no hand" so one NaN cannot make the whole file unreadable.
+      const finiteHand = (hand: NeutralFrame["hand"]) => (hand && hand.length === 21 && hand.every((p) => p.every(Number.isFinite)) ? hand.map((p) => [p[0], p[1], p[2]] as [number, number, number]) : null);
+      capture.neutral = {
+        frames: neutralRef.current.frames.map((f) => ({ t: f.t, score: Number.isFinite(f.score) ? Math.min(1, Math.max(0, f.score)) : 0, hand: finiteHand(f.hand) })),
+      };
+    }
     const summary = pipelineRef.current?.summary() ?? null;
     return capture && summary ? { capture, summary } : null;
   }, []);
@@ -236,5 +299,7 @@ export function useHandTracking(options: HandTrackingOptions) {
     if (typeof request === "function") await request().catch(() => "denied");
   }, []);
 
-  return { ...state, startRecording, stopRecording, requestMotionSensors };
+  // A neutral reading taken for another motion, side or position does not hold for this one (the refs were cleared).
+  const neutral: NeutralState = state.neutralFor === targetKey({ motion, side, digit, condition }) ? state.neutral : { status: "none" };
+  return { ...state, neutral, startRecording, stopRecording, requestMotionSensors, takeNeutral };
 }
