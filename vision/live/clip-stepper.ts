@@ -121,16 +121,33 @@ export async function measureClipFps(video: HTMLVideoElement): Promise<number> {
   });
   video.pause();
   video.playbackRate = 1;
+  return frameRateFromMediaTimes(times) ?? FALLBACK_CLIP_FPS;
+}
+
+// Rates cameras and encoders use; a measured rate within 1% of one is that rate. A few frames on a millisecond clock
+// cannot tell 29.97 from 30 (0.1% apart); stepping an NTSC clip at 30 misplaces one frame in about 33 s.
+const COMMON_FPS = [12, 15, 24, 25, 30, 48, 50, 60, 90, 120];
+
+/**
+ * Frames a second from the media times of consecutive presented frames, or null when there are too few. Media times
+ * are rounded to the container's clock (whole ms in WebM), so single gaps read 33 or 34 ms at 30 fps: the rate is
+ * frames counted over time spanned, each gap counted as the whole number of frames it holds (a dropped frame makes
+ * a double gap).
+ */
+export function frameRateFromMediaTimes(times: readonly number[]): number | null {
   const gaps = times
     .slice(1)
     .map((t, i) => t - times[i])
-    .filter((g) => g > 1e-4)
-    .sort((a, b) => a - b);
-  if (gaps.length < 3) return FALLBACK_CLIP_FPS;
-  // The smallest common gap is one frame; dropped frames only make larger ones.
-  const frameS = gaps[Math.floor(gaps.length / 4)];
-  const fps = 1 / frameS;
-  return fps >= 1 && fps <= 240 ? Math.round(fps * 100) / 100 : FALLBACK_CLIP_FPS;
+    .filter((g) => g > 1e-4);
+  if (gaps.length < 3) return null;
+  const sorted = [...gaps].sort((a, b) => a - b);
+  // The smaller gaps are single frames; dropped frames only make larger ones.
+  const oneFrameS = sorted[Math.floor(sorted.length / 4)];
+  const frames = gaps.reduce((sum, g) => sum + Math.max(1, Math.round(g / oneFrameS)), 0);
+  const fps = frames / gaps.reduce((sum, g) => sum + g, 0);
+  if (!(fps >= 1 && fps <= 240)) return null;
+  const common = COMMON_FPS.find((c) => Math.abs(fps - c) / c <= 0.01);
+  return common ?? Math.round(fps * 100) / 100;
 }
 
 export interface StepOptions {
