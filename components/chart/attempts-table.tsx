@@ -10,9 +10,11 @@ import { Badge } from "@/components/ui/card";
 type AttemptJson = AttemptPageJson["rows"][number];
 const col = createColumnHelper<AttemptJson>();
 const deg = (v: number | null) => (v == null ? "—" : `${v.toFixed(1)}°`);
+const SOURCE_WORDS: Record<string, string> = { self_check: "self-check", visit: "visit", practice: "practice", upload: "uploaded clip" };
 
 const COLUMNS = [
   col.accessor("recordedAt", { header: "Recorded", cell: (c) => c.getValue().slice(0, 16).replace("T", " ") }),
+  col.accessor("source", { header: "From", enableSorting: false, cell: (c) => SOURCE_WORDS[c.getValue()] ?? c.getValue() }),
   col.accessor("condition", { header: "Position", enableSorting: false, cell: (c) => c.getValue().replace("_", " ") }),
   col.accessor("peakDeg", { header: "Peak", cell: (c) => `${deg(c.getValue())}${c.row.original.uncertaintyDeg ? ` ±${c.row.original.uncertaintyDeg.toFixed(0)}°` : ""}` }),
   col.accessor("arcDeg", { header: "Arc", cell: (c) => deg(c.getValue()) }),

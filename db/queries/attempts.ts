@@ -92,7 +92,7 @@ export interface AttemptListQuery {
 }
 
 export interface AttemptListPage {
-  rows: RecentAttempt[];
+  rows: (RecentAttempt & Pick<Attempt, "source">)[];
   total: number;
   page: number;
   pageSize: number;
@@ -124,6 +124,7 @@ export async function listAttempts(db: DbOrTx, clinicId: string, clientId: strin
       usableFrames: attempts.usableFrames,
       keptAt: attempts.keptAt,
       warnings: attempts.warnings,
+      source: attempts.source,
     })
     .from(attempts)
     .where(where)
