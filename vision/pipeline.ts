@@ -10,7 +10,7 @@ import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
 import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, type CorrectionModel, type HandModel } from "./correction";
 import { angleUncertaintyDeg, correctionHelps, UNCERTAINTY_TABLE, type UncertaintyTable, type ValidationView } from "./uncertainty";
 import { describeView, viewOfAxes, viewPolicy, viewQuality, type ViewPolicy, type ViewQuality } from "./view-policy";
-import { forearmFromNeutral, type ForearmSource, type NeutralReading } from "./wrist-axis";
+import { forearmFromNeutral, neutralReadingUncertaintyDeg, WRIST_AXIS_VALIDATION, type ForearmSource, type NeutralReading, type WristAxisValidation } from "./wrist-axis";
 
 /** How an angle was obtained: raw 3-D landmarks, or those corrected by a named correction ("world3d+kinarc-correction-1"). */
 export type MeasurementMethod = "world3d" | "image_plane" | `world3d+${string}`;
@@ -55,6 +55,7 @@ export interface LivePipelineOptions {
   /** Injectable for tests; the committed coefficients and validation table otherwise. */
   correctionModel?: CorrectionModel;
   uncertaintyTable?: UncertaintyTable;
+  wristAxisValidation?: WristAxisValidation;
 }
 
 export type FrameQuality = "ok" | "no_hand" | "low_score" | "bad_landmarks" | "degenerate";
@@ -159,6 +160,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   const policy = viewPolicy(options.motion, options.condition, options.digit);
   const forearmCounts = new Map<ForearmSource, number>();
   const neutralForearm = options.neutral ? forearmFromNeutral(options.neutral) : null;
+  const wristTable = options.wristAxisValidation ?? WRIST_AXIS_VALIDATION;
   let method: MeasurementMethod = "world3d";
 
   function skipped(t: number, score: number, quality: FrameQuality): LiveUpdate {
@@ -214,7 +216,10 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     const view = viewOfAxes(axes);
     let angleDeg = reading.deg;
     let frameMethod: MeasurementMethod = "world3d";
-    if (correctionTarget && Number.isFinite(reading.imagePlaneDeg) && correctionHelps(table, correctionTarget.group, handModel, view)) {
+    // kinarc-correction-1 was fitted on wrist angles read against the render's true forearm; against a neutral reading
+    // it moves them away from the truth (scripts/accuracy/report.md, wrist section), so they stay raw.
+    const againstNeutral = forearm?.source === "neutral-reading";
+    if (correctionTarget && !againstNeutral && Number.isFinite(reading.imagePlaneDeg) && correctionHelps(table, correctionTarget.group, handModel, view)) {
       const corrected = correctMotionAngle(correctionModel, handModel, options.motion, options.digit, {
         deg: reading.deg,
         imagePlaneDeg: reading.imagePlaneDeg,
@@ -253,7 +258,9 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       rep: { phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
       method: frameMethod,
       // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
-      uncertaintyDeg: angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
+      uncertaintyDeg:
+        (againstNeutral ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable) : null) ??
+        angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
       view,
       viewQuality: viewQuality(policy, view),
       forearmSource: forearm?.source ?? null,
@@ -303,7 +310,8 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       plane: repPlane.empty ? allFramesPlane.result() : repPlane.result(),
       method: summaryMethod,
       uncertaintyDeg: usable
-        ? angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames === usable ? "engine" : "raw")
+        ? ((forearmSource === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, meanUsableScore, wristTable) : null) ??
+          angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames === usable ? "engine" : "raw"))
         : null,
       view,
       viewQuality: quality,

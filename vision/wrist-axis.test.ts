@@ -8,7 +8,7 @@ import { WRIST } from "./landmarks";
 import { createLivePipeline } from "./pipeline";
 import { buildSyntheticCapture, neutralPose, poseHand, randomPlacement, SeededRandom, withMotionAngle, type Placement } from "./testing/synthetic-hand";
 import type { Vec3 } from "./vec";
-import { forearmFromNeutral, NEUTRAL_LIMITS, neutralReading, type NeutralFrame } from "./wrist-axis";
+import { forearmFromNeutral, NEUTRAL_LIMITS, neutralReading, neutralReadingUncertaintyDeg, WRIST_AXIS_VALIDATION, type NeutralFrame } from "./wrist-axis";
 
 // Exact synthetic hands read with the correction off: these check the forearm-line geometry, not the tracker.
 const RAW = { correction: "off" } as const;
@@ -152,5 +152,39 @@ describe("wrist angles against a neutral reading", () => {
     const sources = frames.map((f) => pipeline.push(f).forearmSource);
     expect(sources.slice(0, 4)).toEqual(["pose", "neutral-reading", "pose", "neutral-reading"]);
     expect(pipeline.summary().warnings.join(" ")).toMatch(/forearm line: pose in \d+ frames, neutral-reading in \d+ frames/);
+  });
+});
+
+describe("engine policy against a neutral reading", () => {
+  it("leaves wrist angles raw (the correction was fitted against a true forearm) and states the neutral-reading validation error", () => {
+    const side: Side = "right";
+    const placement = onTable(side);
+    const neutral = neutralReading(heldFrames(side, placement, 2000, 0, 1), side);
+    if (!neutral.ok) throw new Error(neutral.problem);
+    const hand = poseHand(withMotionAngle(neutralPose(), "wrist.flexion", null, 40), side, placement).landmarks;
+    const update = createLivePipeline({ motion: "wrist.flexion", side, digit: null, condition: "against_gravity", neutral: neutral.reading }).push({ t: 0, score: 0.95, hand });
+    expect(update).toMatchObject({ forearmSource: "neutral-reading", method: "world3d", correctionVersion: null });
+    expect(update.angleDeg).toBeCloseTo(40, 6);
+    const cell = WRIST_AXIS_VALIDATION.cells.find((c) => c.group === "wrist flexion (+) / extension (-)" && c.model === "lite" && c.view === update.view);
+    expect(cell, `a validation cell for ${update.view}`).toBeDefined();
+    // 90% half-width of a normal error with that MAE: 1.645 x sqrt(pi/2) x MAE (vision/uncertainty.ts), score 0.95: no widening.
+    expect(update.uncertaintyDeg).toBeCloseTo(1.645 * Math.sqrt(Math.PI / 2) * cell!.maeDeg, 1);
+    // Same hand with a pose forearm: the shipped correction policy applies as before.
+    const withPose = createLivePipeline({ motion: "wrist.flexion", side, digit: null, condition: "against_gravity" }).push({ t: 0, score: 0.95, hand, forearm: poseHand(neutralPose(), side, placement).forearm });
+    expect(withPose.forearmSource).toBe("pose");
+  });
+
+  it("the table the script wrote covers each wrist group in its recommended views for both hand models", () => {
+    for (const [group, views] of [["wrist flexion (+) / extension (-)", ["ulnar", "radial"]], ["wrist radial (+) / ulnar (-) deviation", ["down", "back"]]] as const) {
+      for (const view of views) {
+        for (const model of ["lite", "full"] as const) {
+          const cell = WRIST_AXIS_VALIDATION.cells.find((c) => c.group === group && c.view === view && c.model === model);
+          expect(cell, `${group} ${view} ${model}`).toBeDefined();
+          expect(cell!.detected).toBeGreaterThan(0);
+        }
+      }
+    }
+    expect(neutralReadingUncertaintyDeg("wrist.extension", "lite", null, 0.95)).toBeGreaterThanOrEqual(neutralReadingUncertaintyDeg("wrist.extension", "lite", "ulnar", 0.95)!);
+    expect(neutralReadingUncertaintyDeg("wrist.extension", "lite", "ulnar", 0.5)).toBeCloseTo(2 * neutralReadingUncertaintyDeg("wrist.extension", "lite", "ulnar", 0.95)!, 0);
   });
 });
