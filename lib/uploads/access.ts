@@ -1,4 +1,4 @@
-import type { Database } from "@/db";
+import type { Database, DbOrTx } from "@/db";
 import { getUpload } from "@/db/queries/uploads";
 import type { Upload } from "@/db/schema";
 import { recordAudit } from "@/lib/audit";
@@ -18,8 +18,20 @@ export async function requireUpload(actor: Actor, uploadId: string, opts: { db: 
   const upload = await getUpload(opts.db, actor.clinicId, uploadId);
   if (!upload) throw new AccessError(404, NOT_FOUND);
   if (actor.role === "client" && actor.clientId !== upload.clientId) throw new AccessError(404, NOT_FOUND);
-  await recordAudit(opts.db, {
-    action: opts.action,
+  await auditUpload(opts.db, actor, upload, opts.action, { address: opts.address });
+  return upload;
+}
+
+/** One audit event about an upload (read, download, review), with its client. */
+export async function auditUpload(
+  db: DbOrTx,
+  actor: Actor,
+  upload: Pick<Upload, "id" | "clientId">,
+  action: string,
+  opts: { address?: string | null; detail?: Record<string, unknown> } = {},
+): Promise<void> {
+  await recordAudit(db, {
+    action,
     clinicId: actor.clinicId,
     actorUserId: actor.userId,
     actorRole: actor.role,
@@ -27,6 +39,6 @@ export async function requireUpload(actor: Actor, uploadId: string, opts: { db: 
     subjectId: upload.id,
     clientId: upload.clientId,
     address: opts.address ?? null,
+    detail: opts.detail,
   });
-  return upload;
 }

@@ -1,10 +1,9 @@
 import { NextResponse } from "next/server";
 import { getDb } from "@/db";
 import { markUploadReviewed, setClipAttemptKept } from "@/db/queries/uploads";
-import { recordAudit } from "@/lib/audit";
 import { requestAddress } from "@/lib/auth/guard";
 import { BadRequest, readJson, route } from "@/lib/http";
-import { requireUpload, UPLOAD_REVIEW_ROLES, UPLOAD_ROLES } from "@/lib/uploads/access";
+import { auditUpload, requireUpload, UPLOAD_REVIEW_ROLES, UPLOAD_ROLES } from "@/lib/uploads/access";
 import { uploadJson } from "@/lib/uploads/save";
 import { uploadReviewSchema } from "@/lib/validation/upload";
 
@@ -31,17 +30,7 @@ export const PATCH = route<Params>(UPLOAD_REVIEW_ROLES, async ({ actor, request,
   await db.transaction(async (tx) => {
     await markUploadReviewed(tx, upload.id, actor.userId);
     if (review.counts !== undefined && attemptId) await setClipAttemptKept(tx, attemptId, review.counts ? actor.userId : null);
-    await recordAudit(tx, {
-      action: "upload.review",
-      clinicId: actor.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
-      subjectType: "upload",
-      subjectId: upload.id,
-      clientId: upload.clientId,
-      address,
-      detail: review.counts === undefined ? undefined : { attemptId, counts: review.counts },
-    });
+    await auditUpload(tx, actor, upload, "upload.review", { address, detail: review.counts === undefined ? undefined : { attemptId, counts: review.counts } });
   });
   const after = await requireUpload(actor, params.id, { db, address, action: "upload.read" });
   return NextResponse.json(uploadJson(after));
