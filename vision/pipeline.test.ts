@@ -75,7 +75,7 @@ describe("view quality of the frames and the capture", () => {
     expect(ulnar.summary.warnings.join(" ")).not.toMatch(/view:/);
     const radial = captureIn("radial");
     expect(radial.summary).toMatchObject({ view: "radial", viewQuality: "usable" });
-    expect(radial.summary.warnings.join(" ")).toMatch(/view: the camera saw the thumb side of your hand; the little-finger side of your hand measures more truly/);
+    expect(radial.summary.warnings.join(" ")).toMatch(/view: a thumb-side view; the little-finger-side view measures more truly/);
     const palm = captureIn("palm");
     expect(palm.summary).toMatchObject({ view: "palm", viewQuality: "poor" });
     expect(palm.summary.warnings.join(" ")).toMatch(/poor view/);

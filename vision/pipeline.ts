@@ -9,10 +9,10 @@ import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./
 import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
 import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, type CorrectionModel, type HandModel } from "./correction";
 import { angleUncertaintyDeg, correctionHelps, UNCERTAINTY_TABLE, type UncertaintyTable, type ValidationView } from "./uncertainty";
-import { describeView, viewOfAxes, viewPolicy, viewQuality, type ViewPolicy, type ViewQuality } from "./view-policy";
+import { viewName, viewOfAxes, viewPolicy, viewQuality, type ViewPolicy, type ViewQuality } from "./view-policy";
 import { forearmFromNeutral, neutralReadingUncertaintyDeg, WRIST_AXIS_VALIDATION, type ForearmSource, type NeutralReading, type WristAxisValidation } from "./wrist-axis";
 
-/** How an angle was obtained: raw 3-D landmarks, or those corrected by a named correction ("world3d+kinarc-correction-1"). */
+/** How an angle was obtained: raw 3-D landmarks, or those corrected by a named correction ("world3d+kinarc-correction-2"). */
 export type MeasurementMethod = "world3d" | "image_plane" | `world3d+${string}`;
 
 export interface PipelineFrame {
@@ -287,13 +287,12 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     let view: ValidationView | null = null;
     for (const [v, n] of viewCounts) if (n > usable / 2) view = v;
     const quality = summaryViewQuality(policy, view, viewCounts, usable);
-    const recommendedWords = policy.recommended.map(describeView).join(" or ");
+    const recommendedWords = policy.recommended.map(viewName).join(" or ");
+    const seen = view ? `a ${viewName(view)}` : "changing views";
     if (quality === "poor") {
-      warnings.push(
-        `view: the camera saw ${view ? describeView(view) : "the hand from changing sides"} in most frames, not ${recommendedWords}; the motion did not lie square to the camera, so these angles come from a poor view`,
-      );
+      warnings.push(`view: ${seen} in most frames, not the ${recommendedWords} this motion and position need; the motion did not lie square to the camera, so these angles come from a poor view`);
     } else if (quality === "usable") {
-      warnings.push(`view: the camera saw ${view ? describeView(view) : "the hand from changing sides"}; ${recommendedWords} measures more truly (validation error is larger from this side)`);
+      warnings.push(`view: ${seen}; the ${recommendedWords} measures more truly (validation error is larger from this side)`);
     }
     let forearmSource: ForearmSource | null = null;
     for (const [source, n] of forearmCounts) if (!forearmSource || n > (forearmCounts.get(forearmSource) ?? 0)) forearmSource = source;

@@ -138,7 +138,21 @@ const VIEW_WORDS: Record<ValidationView, string> = {
   down: "the back of your hand from above",
 };
 
-/** A plain description of a view, for set-up checks and notes: "the thumb side of your hand". */
+const VIEW_NAMES: Record<ValidationView, string> = {
+  palm: "palm view",
+  back: "back-of-hand view",
+  radial: "thumb-side view",
+  ulnar: "little-finger-side view",
+  oblique: "slanted view",
+  down: "looking-down view",
+};
+
+/** A view's name for notes a therapist reads: "thumb-side view". */
+export function viewName(view: ValidationView): string {
+  return VIEW_NAMES[view];
+}
+
+/** A plain description of a view, for the client's set-up checks: "the thumb side of your hand". */
 export function describeView(view: ValidationView): string {
   return VIEW_WORDS[view];
 }
