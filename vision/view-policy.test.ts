@@ -124,3 +124,35 @@ describe("view policy", () => {
     for (const view of [...VIEWS, "oblique"] as const) expect(viewInstruction(policy, view)).not.toMatch(/\b(left|right)\b/i);
   });
 });
+
+describe("a poor view reaches the grade through the stated uncertainty", () => {
+  // Daniels & Worthingham (Hislop, Avers & Brown 2014) grade against gravity by the share of the reference range; the
+  // AAOS 1965 MCP flexion reference is 90 degrees (lib/motions/catalog.ts), so the 50% line is 45 and the full line 81.
+  it("the same 65-degree MCP flexion is gradeable from the little-finger side and 'uncertain' from the palm", async () => {
+    const { analyzeCapture } = await import("./analyze-capture");
+    const { buildSyntheticCapture } = await import("./testing/synthetic-hand");
+    const { chooseReference, gradeMotion } = await import("@/lib/grading/grade");
+    const reference = chooseReference("mcp.flexion", "index")!;
+    const needs = (view: "ulnar" | "palm") => {
+      const capture = buildSyntheticCapture({
+        motion: "mcp.flexion", side: "right", digit: "index", condition: "against_gravity",
+        placement: placementFor(view, "right", 0), reps: [{ peakDeg: 65 }],
+      });
+      const analysis = analyzeCapture(capture);
+      expect(analysis.view).toBe(view);
+      // The plane is taken as verified against gravity for both, so only the view differs between the two grades.
+      const grade = gradeMotion({
+        motion: "mcp.flexion", reference, today: "2026-12-02",
+        attempts: [{ condition: "against_gravity", planeVerdict: "against_gravity", peakDeg: analysis.peakDeg, arcDeg: analysis.arcDeg, trackingOk: true, uncertaintyDeg: analysis.uncertaintyDeg }],
+      });
+      return { analysis, reasons: grade.inPerson.map((n) => n.reason) };
+    };
+    const ulnar = needs("ulnar");
+    const palm = needs("palm");
+    expect(ulnar.analysis.viewQuality).toBe("recommended");
+    expect(palm.analysis.viewQuality).toBe("poor");
+    expect(palm.analysis.uncertaintyDeg!).toBeGreaterThan(ulnar.analysis.uncertaintyDeg!);
+    expect(ulnar.reasons).not.toContain("uncertain");
+    expect(palm.reasons).toContain("uncertain");
+  });
+});
