@@ -2,7 +2,7 @@
 
 import { useRouter } from "next/navigation";
 import { useEffect, useMemo, useRef, useState } from "react";
-import { CartesianGrid, Line, LineChart, ReferenceDot, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
+import { CartesianGrid, Line, LineChart, ReferenceArea, ReferenceLine, ResponsiveContainer, Tooltip, XAxis, YAxis } from "recharts";
 import { HandOverlay } from "@/components/tracking/hand-overlay";
 import { Button } from "@/components/ui/button";
 import { Badge } from "@/components/ui/card";
@@ -32,7 +32,7 @@ export interface ClipReviewProps {
 }
 
 const deg = (v: number | null, digits = 0) => (v === null ? "—" : `${v.toFixed(digits)}°`);
-const PLANE_WORDS: Record<string, string> = { against_gravity: "against gravity", gravity_minimized: "gravity minimized", unclear: "unclear" };
+const PLANE_WORDS: Record<string, string> = { against_gravity: "against gravity", gravity_assisted: "gravity assisted", gravity_minimized: "gravity minimized", unclear: "unclear" };
 
 /** The stored clip as an object URL: fetched once through the owner-checked route, so the player can seek freely. */
 function useClipUrl(uploadId: string): { url: string | null; error: string | null } {
@@ -141,7 +141,7 @@ export function ClipReview({ upload, attempt, trace, digits, positions }: ClipRe
               <dt className="text-ink-soft">Method</dt>
               <dd>
                 {attempt.method ?? "—"}
-                {attempt.correctionVersion ? `, ${attempt.correctionVersion}` : ", raw angles"}
+                {attempt.correctionVersion ? "" : " (raw angles, no correction)"}
               </dd>
             </div>
           </dl>
@@ -205,16 +205,23 @@ export function ClipReview({ upload, attempt, trace, digits, positions }: ClipRe
                 <Tooltip formatter={(v) => `${Number(v).toFixed(1)}°`} labelFormatter={(v) => `${Number(v).toFixed(2)} s`} />
                 <Line name="angle" dataKey="angle" stroke="#c9bfae" strokeWidth={1} dot={false} isAnimationActive={false} connectNulls={false} />
                 <Line name="smoothed" dataKey="smoothed" stroke="#1b6f67" strokeWidth={2} dot={false} isAnimationActive={false} connectNulls={false} />
-                {trace.repetitionPeaks.map((p) => (
-                  <ReferenceDot key={p.t} x={p.t / 1000} y={p.peakDeg} r={4} fill="#b45309" stroke="none" />
+                {trace.repetitions.map((r) => (
+                  <ReferenceArea
+                    key={r.startMs}
+                    x1={r.startMs / 1000}
+                    x2={r.endMs / 1000}
+                    fill="#b45309"
+                    fillOpacity={0.08}
+                    label={{ value: `${r.peakDeg.toFixed(0)}°`, position: "insideTop", fontSize: 10, fill: "#b45309" }}
+                  />
                 ))}
                 {point ? <ReferenceLine x={point.t / 1000} stroke="#0b2f2b" strokeDasharray="2 2" /> : null}
               </LineChart>
             </ResponsiveContainer>
           </div>
           <figcaption className="text-xs text-ink-faint">
-            The engine&apos;s angle on every frame ({withAngle} of {trace.points.length} with a usable hand), smoothed line in green, each repetition&apos;s
-            peak marked.
+            The engine&apos;s angle on every frame ({withAngle} of {trace.points.length} with a usable hand), smoothed line in green; each repetition found is
+            shaded with its held peak.
           </figcaption>
         </figure>
       ) : null}

@@ -19,8 +19,8 @@ export interface ClipReviewTrace {
   points: TracePoint[];
   /** Picture landmarks per frame ([x, y] 0-1), null where none were kept or no hand was found. */
   images: ([number, number][] | null)[];
-  /** Where each repetition reached its peak, for marks on the trace. */
-  repetitionPeaks: { t: number; peakDeg: number }[];
+  /** Each repetition's span on the clip's clock and its held peak, for marks on the trace. */
+  repetitions: { startMs: number; endMs: number; peakDeg: number }[];
 }
 
 /** Rounded to 0.1 degree: finer than any angle the engine claims, and a minute of frames stays small to send. */
@@ -36,7 +36,7 @@ export function clipReviewTrace(capture: CaptureFile, options: Pick<AnalyzeOptio
   return {
     points,
     images: capture.frames.map((f) => (f.hand && f.image ? f.image.map((p) => [p[0], p[1]] as [number, number]) : null)),
-    repetitionPeaks: analysis.repetitions.map((r) => ({ t: r.startMs + r.timeToPeakMs, peakDeg: r.peakDeg })),
+    repetitions: analysis.repetitions.map((r) => ({ startMs: r.startMs, endMs: r.endMs, peakDeg: r.peakDeg })),
   };
 }
 
