@@ -1,4 +1,4 @@
-import { and, asc, desc, eq, isNull, sql, type SQL } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull, sql, type SQL } from "drizzle-orm";
 import type { DbOrTx } from "@/db";
 import { attempts, clients, uploads, users, type Upload, type UploadKind } from "@/db/schema";
 
@@ -81,4 +81,14 @@ export async function getClipAttempt(db: DbOrTx, upload: Pick<Upload, "attemptId
     .from(attempts)
     .where(and(eq(attempts.id, upload.attemptId), eq(attempts.clinicId, upload.clinicId), eq(attempts.clientId, upload.clientId)));
   return row ?? null;
+}
+
+/** The headline numbers of the attempts measured from a page of clips, by attempt id. */
+export async function clipAttemptSummaries(db: DbOrTx, clinicId: string, attemptIds: readonly string[]) {
+  if (attemptIds.length === 0) return new Map<string, { peakDeg: number | null; uncertaintyDeg: number | null; reps: number; kept: boolean }>();
+  const rows = await db
+    .select({ id: attempts.id, peakDeg: attempts.peakDeg, uncertaintyDeg: attempts.uncertaintyDeg, reps: attempts.reps, keptAt: attempts.keptAt })
+    .from(attempts)
+    .where(and(eq(attempts.clinicId, clinicId), inArray(attempts.id, [...attemptIds])));
+  return new Map(rows.map((r) => [r.id, { peakDeg: r.peakDeg, uncertaintyDeg: r.uncertaintyDeg, reps: r.reps, kept: r.keptAt !== null }]));
 }

@@ -222,9 +222,11 @@ describe("a client uploads a clip and the therapist reviews its analysis", () =>
     try {
       const page = therapist.pages()[0];
       await page.goto(`${app.appUrl}/uploads`);
-      await page.getByTestId("upload-row").filter({ hasText: "PIP" }).getByTestId("review-clip").click();
-      await page.waitForURL(`${app.appUrl}/uploads/${stored.upload.id}`);
       const attempt = stored.attempt!;
+      const row = page.getByTestId("upload-row").filter({ hasText: "PIP" });
+      await expect(row.getByTestId("clip-status").textContent()).resolves.toBe(`Measured: peak ${attempt.peakDeg!.toFixed(0)}° ± ${attempt.uncertaintyDeg!.toFixed(0)}°, ${attempt.reps} repetitions.`);
+      await row.getByTestId("review-clip").click();
+      await page.waitForURL(`${app.appUrl}/uploads/${stored.upload.id}`);
       const peak = page.getByTestId("clip-peak");
       await expect(peak.getAttribute("data-peak-deg")).resolves.toBe(String(attempt.peakDeg));
       await expect(peak.textContent()).resolves.toBe(`${attempt.peakDeg!.toFixed(0)}° ± ${attempt.uncertaintyDeg!.toFixed(0)}°`);

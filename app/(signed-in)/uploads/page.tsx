@@ -2,7 +2,7 @@ import Link from "next/link";
 import { notFound } from "next/navigation";
 import { getDb } from "@/db";
 import { listClients } from "@/db/queries/clients";
-import { listUploads } from "@/db/queries/uploads";
+import { clipAttemptSummaries, listUploads } from "@/db/queries/uploads";
 import { SafetyNote } from "@/components/safety-note";
 import { Badge, Card, PageTitle } from "@/components/ui/card";
 import { ReviewButton } from "@/components/uploads/review-button";
@@ -24,6 +24,11 @@ export default async function UploadsPage() {
   const db = getDb();
   const isClient = actor.role === "client";
   const rows = await listUploads(db, actor.clinicId, { clientId: isClient ? actor.clientId! : undefined });
+  const measured = await clipAttemptSummaries(
+    db,
+    actor.clinicId,
+    rows.flatMap((r) => (r.upload.attemptId ? [r.upload.attemptId] : [])),
+  );
   await recordAudit(db, { action: "upload.list", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role, clientId: isClient ? actor.clientId : null });
   const motions = MOTION_IDS.map((id) => ({ value: id, label: MOTIONS[id].label, digits: MOTIONS[id].digits, positions: MOTIONS[id].testPosition }));
   const limits = { clip: describeLimit("clip"), document: describeLimit("document") };
@@ -64,6 +69,7 @@ export default async function UploadsPage() {
                       {u.originalName} · sent {u.createdAt.toISOString().slice(0, 16).replace("T", " ")} UTC{uploaderName && !isClient ? ` by ${uploaderName}` : ""}
                     </p>
                     {u.note ? <p className="text-ink-soft">“{u.note}”</p> : null}
+                    {u.kind === "clip" ? <ClipStatus summary={u.attemptId ? (measured.get(u.attemptId) ?? null) : null} forClient={isClient} /> : null}
                     {u.kind === "clip" && !isClient ? (
                       // Fetched only when played; the same owner-checked, audited route as the download.
                       <video controls preload="none" className="mt-2 max-h-64 w-full rounded-lg bg-ink" src={`/api/v1/uploads/${u.id}/file`} aria-label={`Clip from ${clientGiven} ${clientFamily}`} />
@@ -95,5 +101,18 @@ export default async function UploadsPage() {
         </Card>
       </div>
     </>
+  );
+}
+
+/** Whether a clip has been measured yet; staff also see the headline numbers (the review page has the rest). */
+function ClipStatus({ summary, forClient }: { summary: { peakDeg: number | null; uncertaintyDeg: number | null; reps: number; kept: boolean } | null; forClient: boolean }) {
+  if (!summary) return <p className="text-ink-soft" data-testid="clip-status">{forClient ? "Not measured yet." : "Not measured yet: open it to measure it here."}</p>;
+  if (forClient) return <p className="text-ink-soft" data-testid="clip-status">Measured; your therapist reviews the result.</p>;
+  const peak = summary.peakDeg === null ? "no peak found" : `peak ${summary.peakDeg.toFixed(0)}°${summary.uncertaintyDeg === null ? "" : ` ± ${summary.uncertaintyDeg.toFixed(0)}°`}`;
+  return (
+    <p className="text-ink-soft" data-testid="clip-status">
+      Measured: {peak}, {summary.reps} repetition{summary.reps === 1 ? "" : "s"}
+      {summary.kept ? "; counts towards the grade" : ""}.
+    </p>
   );
 }
