@@ -53,8 +53,10 @@ export async function recentAttempts(db: DbOrTx, clinicId: string, clientId: str
              row_number() over (partition by motion, side, digit order by recorded_at desc) as rn,
              max(kept_at is not null) over (partition by motion, side, digit) as any_kept
       from attempts
-      -- Home practice informs the therapist and never becomes a grade (issue 7).
+      -- Home practice informs the therapist and never becomes a grade (issue 7). An uploaded clip was recorded with
+      -- nobody watching: it counts only once a therapist has reviewed it and kept it.
       where clinic_id = ${clinicId} and client_id = ${clientId} and source <> 'practice'
+        and (source <> 'upload' or kept_at is not null)
     )
     select a.id, a.motion, a.side, a.digit, a.condition, a.recorded_at, a.peak_deg, a.arc_deg, a.uncertainty_deg,
            a.plane_verdict, a.plane_verified, a.frames, a.usable_frames, a.kept_at, a.warnings

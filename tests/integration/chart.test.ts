@@ -170,3 +170,22 @@ describe("chart cache", () => {
     expect(after.rows.find((r) => r.key === "finger.abduction|left|little")?.passiveRangeDeg).toBe(15);
   });
 });
+
+describe("uploaded clips and grading", () => {
+  it("a clip's attempt counts towards a proposed grade only once a therapist has kept it", async () => {
+    // A row with no other attempts: the client's right little-finger DIP flexion, gravity minimized.
+    const { analyzeSynthetic, attemptRow } = await import("@/lib/chart/synthetic-attempts");
+    const { attempts } = await import("@/db/schema");
+    const { recentAttempts } = await import("@/db/queries/attempts");
+    const wren = await client("wren");
+    const analysis = analyzeSynthetic({ motion: "dip.flexion", side: "right", digit: "little", condition: "gravity_minimized", peakDeg: 60, seed: 9001 });
+    const [row] = await t.db
+      .insert(attempts)
+      .values({ ...attemptRow(analysis, { clinicId: wren.clinicId, clientId: wren.id, recordedByUserId: null }, new Date(`${TODAY}T08:00:00Z`), "clip-test-upload-1"), source: "upload" })
+      .returning();
+    const inGrading = async () => (await recentAttempts(t.db, wren.clinicId, wren.id)).some((a) => a.id === row.id);
+    expect(await inGrading()).toBe(false);
+    await t.db.update(attempts).set({ keptAt: new Date(), keptByUserId: therapist.userId }).where(eq(attempts.id, row.id));
+    expect(await inGrading()).toBe(true);
+  });
+});
