@@ -3,6 +3,7 @@ import { MOTIONS, type Digit, type MotionId } from "@/lib/motions/catalog";
 import { handAxes, readMotion } from "./angles";
 import COEFFICIENTS from "./correction-coefficients.json";
 import { CORRECTION_FEATURES, CORRECTION_MODEL, CORRECTION_VERSION, correctGroupAngle, correctionGroupFor, correctMotionAngle, type RawAngleFeatures } from "./correction";
+import { estimateFingerJointDeg } from "./estimator";
 import { createLivePipeline } from "./pipeline";
 import { neutralPose, poseHand, withMotionAngle, type Placement } from "./testing/synthetic-hand";
 import { UNCERTAINTY_TABLE, type UncertaintyTable } from "./uncertainty";
@@ -19,10 +20,14 @@ function featureValue(name: string, f: RawAngleFeatures): number {
 const SAMPLE: RawAngleFeatures = { deg: 41, imagePlaneDeg: 38, planeFacing: 0.8, radialTowardCamera: 0.9, palmTowardCamera: -0.2 };
 
 describe("the committed correction (vision/correction-coefficients.json)", () => {
-  it("is version kinarc-correction-1 with the engine's feature list and ten coefficients per fit", () => {
+  it("is version kinarc-correction-2 with the engine's feature list, ten coefficients per linear fit and the finger estimator", () => {
     expect(COEFFICIENTS.version).toBe(CORRECTION_VERSION);
+    expect(CORRECTION_VERSION).toBe("kinarc-correction-2");
     expect(COEFFICIENTS.features).toEqual([...CORRECTION_FEATURES]);
     for (const groups of Object.values(CORRECTION_MODEL.groups)) for (const fit of Object.values(groups)) expect(fit.coefficients).toHaveLength(10);
+    // Finger flexion is the estimator's alone: a linear fit beside it would never be read.
+    for (const groups of Object.values(CORRECTION_MODEL.groups)) for (const group of ["MCP flexion", "PIP flexion", "DIP flexion"]) expect(groups[group]).toBeUndefined();
+    expect(Object.keys(CORRECTION_MODEL.fingerEstimator!.fits).sort()).toEqual(["full", "lite"]);
   });
 
   it("applies each fit as the dot product of the file's coefficients and its named features", () => {
@@ -34,7 +39,8 @@ describe("the committed correction (vision/correction-coefficients.json)", () =>
         checked++;
       }
     }
-    expect(checked).toBeGreaterThanOrEqual(12);
+    // Wrist flexion, wrist deviation and finger abduction, for both hand models.
+    expect(checked).toBeGreaterThanOrEqual(6);
   });
 
   it("reads extension, ulnar deviation and adduction as the negatives of the fitted directions", () => {
@@ -42,13 +48,26 @@ describe("the committed correction (vision/correction-coefficients.json)", () =>
     const pairs: Array<[MotionId, MotionId, Digit | null]> = [
       ["wrist.extension", "wrist.flexion", null],
       ["wrist.ulnar_deviation", "wrist.radial_deviation", null],
-      ["mcp.extension", "mcp.flexion", "index"],
       ["finger.adduction", "finger.abduction", "ring"],
     ];
     for (const [reverse, forward, digit] of pairs) {
       const forwardValue = correctMotionAngle(CORRECTION_MODEL, "lite", forward, digit, negated)!;
       expect(correctMotionAngle(CORRECTION_MODEL, "lite", reverse, digit, SAMPLE)).toBeCloseTo(-forwardValue, 9);
     }
+    // The finger estimator reads flexion from the hand itself; MCP extension is its negative on the same hand.
+    const withHand = { ...SAMPLE, hand: frameAt(40, RADIAL_VIEW), side: "right" as const };
+    const flexion = correctMotionAngle(CORRECTION_MODEL, "lite", "mcp.flexion", "index", withHand)!;
+    expect(flexion).not.toBeNull();
+    expect(correctMotionAngle(CORRECTION_MODEL, "lite", "mcp.extension", "index", withHand)).toBeCloseTo(-flexion, 9);
+  });
+
+  it("reads finger flexion only with the hand's landmarks: without them the raw angle stands, never another model", () => {
+    expect(correctMotionAngle(CORRECTION_MODEL, "lite", "pip.flexion", "index", SAMPLE)).toBeNull();
+    const withHand = { ...SAMPLE, hand: frameAt(40, RADIAL_VIEW), side: "right" as const };
+    expect(correctMotionAngle(CORRECTION_MODEL, "lite", "pip.flexion", "index", withHand)).toBeCloseTo(
+      estimateFingerJointDeg(CORRECTION_MODEL.fingerEstimator!, "lite", "pip", withHand.hand, "right", "index")!,
+      12,
+    );
   });
 
   it("has no fit for the thumb or the middle finger's spread, so those stay raw", () => {
@@ -71,26 +90,28 @@ function frameAt(deg: number, placement: Placement) {
 }
 
 describe("the live pipeline with the correction", () => {
-  it("reports the corrected angle, the method and the version where validation shows the correction helps", () => {
+  it("reports the estimator's angle, the method and the version where validation shows the correction helps", () => {
+    // The cell's policy comes from the report; here it is set to "helps" so the check is of the engine's path.
+    const table: UncertaintyTable = {
+      ...UNCERTAINTY_TABLE,
+      cells: UNCERTAINTY_TABLE.cells.map((c) => (c.group === "PIP flexion" ? { ...c, correctionHelps: true, correctedMaeDeg: c.correctedMaeDeg ?? c.rawMaeDeg } : c)),
+    };
     const hand = frameAt(60, RADIAL_VIEW);
-    const update = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "index", condition: "against_gravity" }).push({ t: 0, score: 0.95, hand });
+    const update = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "index", condition: "against_gravity", uncertaintyTable: table }).push({
+      t: 0,
+      score: 0.95,
+      hand,
+    });
     expect(update.view).toBe("radial");
-    const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === "PIP flexion" && c.model === "lite" && c.view === "radial")!;
-    expect(cell.correctionHelps).toBe(true);
-    // Independently: the engine's raw reading, its features, and the file's coefficients.
+    // Independently: the estimator on the same landmarks, through the group API.
     const axes = handAxes(hand, "right")!;
     const raw = readMotion("pip.flexion", "index", hand, axes, null)!;
-    const expected = correctGroupAngle(CORRECTION_MODEL, "lite", "PIP flexion", {
-      deg: raw.deg,
-      imagePlaneDeg: raw.imagePlaneDeg,
-      planeFacing: Math.abs(raw.axis[2]),
-      radialTowardCamera: -axes.radialAxis[2],
-      palmTowardCamera: -axes.palmarNormal[2],
-    })!;
+    const expected = correctGroupAngle(CORRECTION_MODEL, "lite", "PIP flexion", { deg: raw.deg, imagePlaneDeg: raw.imagePlaneDeg, planeFacing: 1, radialTowardCamera: 1, palmTowardCamera: 0, hand, side: "right" }, "index")!;
     expect(update.angleDeg).toBeCloseTo(expected, 9);
-    expect(Math.abs(update.angleDeg! - raw.deg)).toBeGreaterThan(1);
-    expect(update.method).toBe("world3d+kinarc-correction-1");
-    expect(update.correctionVersion).toBe("kinarc-correction-1");
+    expect(Math.abs(update.angleDeg! - raw.deg)).toBeGreaterThan(0.1);
+    expect(update.method).toBe("world3d+kinarc-correction-2");
+    expect(update.correctionVersion).toBe("kinarc-correction-2");
+    const cell = table.cells.find((c) => c.group === "PIP flexion" && c.model === "lite" && c.view === "radial")!;
     expect(update.uncertaintyDeg).toBeCloseTo(cell.uncertaintyDeg, 6);
   });
 

@@ -1,9 +1,12 @@
-import type { Digit, MotionId } from "@/lib/motions/catalog";
+import type { Digit, MotionId, Side } from "@/lib/motions/catalog";
 import COEFFICIENTS from "./correction-coefficients.json";
+import { estimateFingerJointDeg, fingerJointOfGroup, type Finger, type FingerEstimatorModel } from "./estimator";
+import type { HandLandmarks } from "./landmarks";
 
 /**
- * Kinarc's angle correction, version 1: per joint group and hand model, a linear map from what the raw landmarks
- * give to the joint angle,
+ * Kinarc's angle correction, version 2. Finger MCP, PIP and DIP flexion come from the finger estimator
+ * (vision/estimator.ts), which reads the whole finger; the other joint groups keep version 1's form: per joint group
+ * and hand model, a linear map from what the raw landmarks give to the joint angle,
  *
  *   angle = b . [1, deg, ip, facing, deg*facing, ip*facing, radial, deg*radial, palm, deg*palm]
  *
@@ -27,7 +30,7 @@ export const CORRECTION_FEATURES = [
   "deg*palm",
 ] as const;
 
-export const CORRECTION_VERSION = "kinarc-correction-1";
+export const CORRECTION_VERSION = "kinarc-correction-2";
 
 /** Joint groups as the accuracy report names its rows: the four fingers share one fit per joint. */
 export const CORRECTION_GROUPS = [
@@ -58,6 +61,9 @@ export interface RawAngleFeatures {
   radialTowardCamera: number;
   /** cos between the palm's normal and the direction to the camera: +1 palm toward it. */
   palmTowardCamera: number;
+  /** The frame's 21 world landmarks and the hand's side: the finger estimator reads the whole finger from them. */
+  hand?: HandLandmarks;
+  side?: Side;
 }
 
 export interface CorrectionGroupFit {
@@ -73,20 +79,40 @@ export interface CorrectionModel {
   trainingSeed: number;
   trainingStills: number;
   ridgeLambda: number;
-  /** By hand model ("lite", "full"), then joint group label. */
+  /** By hand model ("lite", "full"), then joint group label: the linear maps. */
   groups: Record<string, Record<string, CorrectionGroupFit>>;
+  /** Finger MCP, PIP and DIP flexion; where it has a fit, it reads those groups instead of a linear map. */
+  fingerEstimator?: FingerEstimatorModel & { trainingSets: string[] };
 }
 
 /** The committed coefficients. */
-export const CORRECTION_MODEL: CorrectionModel = COEFFICIENTS;
+// The JSON module's inferred type is wider than the model's (tuples read as arrays); applyFingerFit and correctGroupAngle check sizes.
+export const CORRECTION_MODEL: CorrectionModel = COEFFICIENTS as unknown as CorrectionModel;
 
 export function correctionFeatures(f: RawAngleFeatures): number[] {
   const { deg, imagePlaneDeg: ip, planeFacing: c, radialTowardCamera: r, palmTowardCamera: p } = f;
   return [1, deg, ip, c, deg * c, ip * c, r, deg * r, p, deg * p];
 }
 
-/** The corrected angle for a joint group, or null when the model has no fit for it and this hand model. */
-export function correctGroupAngle(model: CorrectionModel, handModel: string, group: string, features: RawAngleFeatures): number | null {
+const FINGERS: readonly string[] = ["index", "middle", "ring", "little"];
+
+/**
+ * The corrected angle for a joint group (flexion positive for the finger estimator's groups), or null when the model
+ * has no fit for it and this hand model. `digit` names the finger for the finger estimator, which also needs the
+ * features' `hand` and `side`; without them its groups read null (the raw angle stands), never a different model.
+ */
+export function correctGroupAngle(
+  model: CorrectionModel,
+  handModel: string,
+  group: string,
+  features: RawAngleFeatures,
+  digit: Digit | null = null,
+): number | null {
+  const joint = fingerJointOfGroup(group);
+  if (joint && model.fingerEstimator?.fits[handModel]?.[joint]) {
+    if (!features.hand || !features.side || !digit || !FINGERS.includes(digit)) return null;
+    return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger);
+  }
   const fit = model.groups[handModel]?.[group];
   if (!fit) return null;
   if (fit.coefficients.length !== CORRECTION_FEATURES.length) {
@@ -143,10 +169,12 @@ export function correctMotionAngle(
   const target = correctionGroupFor(motion, digit);
   if (!target) return null;
   const { sign } = target;
-  const corrected = correctGroupAngle(model, handModel, target.group, {
-    ...features,
-    deg: sign * features.deg,
-    imagePlaneDeg: sign * features.imagePlaneDeg,
-  });
+  const corrected = correctGroupAngle(
+    model,
+    handModel,
+    target.group,
+    { ...features, deg: sign * features.deg, imagePlaneDeg: sign * features.imagePlaneDeg },
+    digit,
+  );
   return corrected === null ? null : sign * corrected;
 }

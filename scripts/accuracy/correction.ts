@@ -1,4 +1,5 @@
 import { Matrix, solve } from "ml-matrix";
+import type { Digit } from "@/lib/motions/catalog";
 import type { AngleEstimate } from "./estimates";
 import type { PoseKey } from "./hand-pose";
 import { JOINT_GROUPS } from "./joint-groups";
@@ -95,5 +96,5 @@ export function fitCorrection(
 /** The corrected angle, or null when the model has no fit for this joint and hand model. */
 export function applyCorrection(model: CorrectionModel, handModel: string, key: PoseKey, estimate: AngleEstimate): number | null {
   const group = jointGroupOf(key);
-  return group ? correctGroupAngle(model, handModel, group, estimate) : null;
+  return group ? correctGroupAngle(model, handModel, group, estimate, key.split(".")[0] as Digit) : null;
 }

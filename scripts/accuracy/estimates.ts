@@ -39,6 +39,9 @@ export interface AngleEstimate {
   radialTowardCamera: number;
   /** cos of the angle between the palm's normal and the direction to the camera: +1 palm toward it. */
   palmTowardCamera: number;
+  /** The landmarks and side the reading came from: the finger estimator reads the whole finger. */
+  hand?: readonly Vec3[];
+  side?: Side;
 }
 
 /**
@@ -64,6 +67,8 @@ export function estimateAngles(
             planeFacing: Math.abs(reading.axis[2]),
             radialTowardCamera: -axes.radialAxis[2],
             palmTowardCamera: -axes.palmarNormal[2],
+            hand,
+            side,
           }
         : null;
   }

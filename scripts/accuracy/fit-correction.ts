@@ -1,13 +1,17 @@
 /**
- * Fits the angle correction on training renders (seed TRAINING_SEED, never the validation seed) tracked by the app's
- * own tracking code, and writes vision/correction-coefficients.json. Re-run after changing the tracker, the engine's
- * angle maths or the render set; the version string in the file changes only when the model's form changes.
+ * Fits the angle correction on training renders (never the validation seed) tracked by the app's own tracking code,
+ * and writes vision/correction-coefficients.json: the linear maps of the wrist and abduction groups (on the test
+ * motions of TRAINING_SEED) and the finger estimator for MCP, PIP and DIP flexion (on ESTIMATOR_TRAINING_SETS, with
+ * the pooling and penalty chosen by select-estimator.ts on training seeds only). Re-run after changing the tracker,
+ * the engine's angle maths or the render sets; the version string changes only when the model's form changes.
  *
  *   npx tsx scripts/accuracy/fit-correction.ts [--per-motion 100] [--models lite,full] [--reuse]
  */
 import { writeFileSync } from "node:fs";
 import { parseArgs } from "node:util";
-import { fitCorrection, type CorrectionSample } from "./correction";
+import { FINGER_FEATURES, FINGER_JOINTS, type FingerEstimatorModel, type FingerJoint } from "@/vision/estimator";
+import { fitCorrection, HUBER_DEG, jointGroupOf, type CorrectionSample } from "./correction";
+import { fingerSamples, fitFingerJoint, loadTrackedSet, sampleWeight } from "./estimator-fit";
 import { estimateAngles } from "./estimates";
 import { getPoseAngle } from "./hand-pose";
 import { CORRECTION_FILE, parseCount, parseModels, VALIDATION_SEED } from "./run-accuracy";
@@ -16,8 +20,52 @@ import { motionSetFrame, trackRenderedSet } from "./tracked-set";
 
 export const TRAINING_SEED: number = 77_000_001;
 
+/**
+ * Training sets of the finger estimator (tests/.cache/renders/tracked/set-<name>-lite-full.json, made by
+ * track-training.ts): the test motions of two training seeds.
+ */
+export const ESTIMATOR_TRAINING_SETS = ["motions-77000001-600", "finger-motions-77000002-900"] as const;
+/** Chosen by select-estimator.ts on training seeds (see scripts/accuracy/README.md, "Estimator selection"). */
+export const ESTIMATOR_RIDGE_LAMBDA = 10;
+/**
+ * How much the fingers-flexed-together stills (set fingers-77000101-600) count, per joint: none. Any weight raised
+ * the held-out error on the test motions of training seed 77000002 for the lite model (README, "Estimator selection").
+ */
+export const ESTIMATOR_TOGETHER_WEIGHT: Record<FingerJoint, number> = { mcp: 0, pip: 0, dip: 0 };
+
+const FINGER_GROUPS = new Set(["MCP flexion", "PIP flexion", "DIP flexion"]);
+
 function round(value: number): number {
   return Math.round(value * 1e6) / 1e6;
+}
+
+export function fitFingerEstimator(models: readonly string[], setNames: readonly string[] = ESTIMATOR_TRAINING_SETS): FingerEstimatorModel & { trainingSets: string[] } {
+  const samples = setNames.flatMap((name) => fingerSamples(loadTrackedSet(name), name));
+  const fits: FingerEstimatorModel["fits"] = {};
+  for (const model of models) {
+    fits[model] = {};
+    for (const joint of FINGER_JOINTS) {
+      const weightOf = (s: (typeof samples)[number]) => sampleWeight(s, joint, ESTIMATOR_TOGETHER_WEIGHT[joint]);
+      const rows = samples.filter((s) => s.model === model && weightOf(s) > 0);
+      const fit = fitFingerJoint(
+        rows.map((s) => s.base),
+        rows.map((s) => s.truthDeg[joint]),
+        { ridgeLambda: ESTIMATOR_RIDGE_LAMBDA, huberDeg: HUBER_DEG, weights: rows.map(weightOf) },
+      );
+      fits[model][joint] = {
+        ...fit,
+        means: fit.means.map(round),
+        sds: fit.sds.map(round),
+        zMin: fit.zMin.map(round),
+        zMax: fit.zMax.map(round),
+        coefficients: fit.coefficients.map(round),
+        outputRangeDeg: [round(fit.outputRangeDeg[0]), round(fit.outputRangeDeg[1])],
+        trainingMaeDeg: round(fit.trainingMaeDeg),
+      };
+      console.log(`${model} ${joint} (estimator): ${fit.trainingSamples} samples, training MAE ${fit.trainingMaeDeg.toFixed(1)} deg`);
+    }
+  }
+  return { features: FINGER_FEATURES, trainingSets: [...setNames], fits };
 }
 
 async function main(): Promise<void> {
@@ -26,9 +74,9 @@ async function main(): Promise<void> {
     options: { "per-motion": { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" } },
   });
   const models = parseModels(values.models);
-  // Trained on test motions in their recommended view only: that is what the app measures. On random poses in any
-  // view the raw readings carry too little of the angle for a linear map (measured: PIP correlation 0.1 there
-  // against 0.85 in a side view), and pooling them in dragged every coefficient toward the mean.
+  // The linear maps are trained on test motions in their recommended view only: that is what the app measures. On
+  // random poses in any view the raw readings carry too little of the angle for a linear map (measured: PIP
+  // correlation 0.1 there against 0.85 in a side view), and pooling them in dragged every coefficient toward the mean.
   const motions = await trackRenderedSet({
     name: "motions", seed: TRAINING_SEED, count: parseCount("per-motion", values["per-motion"], 100) * MOTION_SETS.length, models,
     makeFrame: motionSetFrame(), reuse: values.reuse,
@@ -43,7 +91,10 @@ async function main(): Promise<void> {
     // that every joint is nearly straight (seen: a first fit read MCP flexion 23 degrees short on held-out stills).
     for (const key of testedKeys.get(still.motion ?? "") ?? []) {
       const estimate = estimates[key];
-      if (estimate) samples.push({ model: still.model, key, estimate, truthDeg: getPoseAngle(still.truth.commandedDeg, key) });
+      // Finger flexion is the estimator's; a linear fit of it would never be used.
+      if (estimate && !FINGER_GROUPS.has(jointGroupOf(key) ?? "")) {
+        samples.push({ model: still.model, key, estimate, truthDeg: getPoseAngle(still.truth.commandedDeg, key) });
+      }
     }
   }
   const model = fitCorrection(samples, { trainingSeed: TRAINING_SEED, trainingStills: count });
@@ -53,6 +104,7 @@ async function main(): Promise<void> {
       fit.trainingMaeDeg = round(fit.trainingMaeDeg);
     }
   }
+  model.fingerEstimator = fitFingerEstimator(models);
   writeFileSync(CORRECTION_FILE, `${JSON.stringify(model, null, 2)}\n`);
   for (const [handModel, groups] of Object.entries(model.groups)) {
     for (const [group, fit] of Object.entries(groups)) {
@@ -62,7 +114,9 @@ async function main(): Promise<void> {
   console.error(`correction -> ${CORRECTION_FILE}`);
 }
 
-main().catch((error: unknown) => {
-  console.error(error instanceof Error ? error.message : error);
-  process.exitCode = 2;
-});
+if (process.argv[1]?.endsWith("fit-correction.ts")) {
+  main().catch((error: unknown) => {
+    console.error(error instanceof Error ? error.message : error);
+    process.exitCode = 2;
+  });
+}

@@ -60,3 +60,49 @@ export function motionFrame(rigs: Record<HandSide, HandRig>, seed: number, set: 
   const camera = placeCamera(side, placement, handCentre(poseHand(rig, pose)));
   return { ...buildFrame(rig, pose, camera, placement, look), seed, motion: set.id };
 }
+
+/**
+ * Training stills for the finger estimator (kinarc-correction-2): MCP, PIP and DIP of all four fingers flexed
+ * together, as in making a fist or a hook, not one joint at a time. Half the stills close the hand along one curl
+ * (each joint a share of its range, a little apart per finger); the rest draw each joint level on its own, so the
+ * estimator sees the joints apart too. Views: the side views the catalog recommends for finger flexion, plus the
+ * palm and back views a client's open hand or fist is often seen from. Never used for validation.
+ */
+/** The `motion` label of these stills. */
+export const FINGER_FLEXION_SET = "fingers.flexion-together";
+export const FINGER_FLEXION_VIEWS: readonly CameraView[] = ["radial", "ulnar", "palm", "back", "radial", "ulnar", "oblique"];
+const FINGER_FLEXION_RANGES_DEG = { mcpFlexionDeg: [0, 90], pipFlexionDeg: [0, 100], dipFlexionDeg: [0, 80] } as const;
+
+export function fingerFlexionFrame(rigs: Record<HandSide, HandRig>, seed: number, index: number) {
+  const rng = makeRng(seed);
+  const uniform = (low: number, high: number) => low + (high - low) * uniformFloat64(rng);
+  const side: HandSide = uniformInt(rng, 0, 1) === 0 ? "left" : "right";
+  const view = FINGER_FLEXION_VIEWS[index % FINGER_FLEXION_VIEWS.length];
+  const pose = restPose();
+  for (const key of POSE_KEYS) {
+    const [low, high] = POSE_RANGES_DEG[key];
+    setPoseAngle(pose, key, Math.min(high, Math.max(low, uniform(-OTHER_JOINT_JITTER_DEG, OTHER_JOINT_JITTER_DEG))));
+  }
+  const coupled = uniformFloat64(rng) < 0.5;
+  const curl = uniformFloat64(rng);
+  const levels = Object.fromEntries(
+    Object.keys(FINGER_FLEXION_RANGES_DEG).map((joint) => [joint, coupled ? Math.min(1, Math.max(0, curl + uniform(-0.15, 0.15))) : uniformFloat64(rng)]),
+  ) as Record<keyof typeof FINGER_FLEXION_RANGES_DEG, number>;
+  for (const finger of ["index", "middle", "ring", "little"] as const) {
+    for (const joint of Object.keys(FINGER_FLEXION_RANGES_DEG) as (keyof typeof FINGER_FLEXION_RANGES_DEG)[]) {
+      const [low, high] = FINGER_FLEXION_RANGES_DEG[joint];
+      const value = low + (high - low) * levels[joint] + uniform(-2 * FINGER_SPREAD_DEG, 2 * FINGER_SPREAD_DEG);
+      setPoseAngle(pose, `${finger}.${joint}` as PoseKey, Math.min(high, Math.max(low, value)));
+    }
+  }
+  // A closing hand brings the thumb in with it.
+  if (coupled) {
+    setPoseAngle(pose, "thumb.mcpFlexionDeg", 50 * curl * uniform(0.5, 1));
+    setPoseAngle(pose, "thumb.ipFlexionDeg", 60 * curl * uniform(0.3, 1));
+  }
+  const placement = sampleCamera(rng, view, [0.3, 0.7]);
+  const look = sampleLook(rng);
+  const rig = rigs[side];
+  const camera = placeCamera(side, placement, handCentre(poseHand(rig, pose)));
+  return { ...buildFrame(rig, pose, camera, placement, look), seed, motion: FINGER_FLEXION_SET };
+}

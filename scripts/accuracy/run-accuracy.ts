@@ -72,6 +72,15 @@ function acceptanceLines(rows: AccuracyRow[]): string[] {
   return lines;
 }
 
+/**
+ * Sections other tools write into report.md between `<!-- name: begin … -->` and `<!-- name: end -->` (e.g.
+ * wrist-axis.ts) are carried over from the old report, so a new accuracy run does not erase them.
+ */
+export function withKeptSections(report: string, previous: string): string {
+  const kept = [...previous.matchAll(/<!-- ([\w-]+): begin[^>]*-->[\s\S]*?<!-- \1: end -->/g)].map((m) => m[0]);
+  return kept.length ? `${report.replace(/\s*$/, "")}\n\n${kept.join("\n\n")}\n` : report;
+}
+
 async function main(): Promise<void> {
   const { values } = parseArgs({
     options: { "per-view": { type: "string" }, "per-motion": { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" } },
@@ -91,7 +100,9 @@ async function main(): Promise<void> {
   let correction: CorrectionModel | null = null;
   if (existsSync(CORRECTION_FILE)) {
     correction = JSON.parse(readFileSync(CORRECTION_FILE, "utf8")) as CorrectionModel;
-    if (correction.trainingSeed === VALIDATION_SEED) throw new Error(`${CORRECTION_FILE}: fitted on the validation seed; refit on another seed`);
+    if (correction.trainingSeed === VALIDATION_SEED || correction.fingerEstimator?.trainingSets.some((set) => set.includes(String(VALIDATION_SEED)))) {
+      throw new Error(`${CORRECTION_FILE}: fitted on the validation seed; refit on another seed`);
+    }
   }
   const motionRows = MOTION_SETS.flatMap((set) =>
     accuracyRows(
@@ -118,7 +129,11 @@ async function main(): Promise<void> {
       `${HOLD_MS} ms at ${CLIP_FPS} fps and played at ${PLAYBACK_RATE}x; angles from the measurement engine (vision/angles, readMotion) ` +
       "on the 3-D world landmarks or their image-plane counterpart.",
     correction
-      ? `- Correction: ${correction.version}, fitted on seed ${correction.trainingSeed} (${correction.trainingStills} stills, never the validation seed) by scripts/accuracy/fit-correction.ts; coefficients in vision/correction-coefficients.json.`
+      ? `- Correction: ${correction.version}, fitted by scripts/accuracy/fit-correction.ts, never on the validation seed; coefficients in vision/correction-coefficients.json. ` +
+        `Wrist and abduction: linear maps on seed ${correction.trainingSeed} (${correction.trainingStills} stills). ` +
+        (correction.fingerEstimator
+          ? `Finger MCP, PIP and DIP flexion: the finger estimator (vision/estimator.ts: ridge regression on the whole finger's features and their pairwise products, per joint and hand model), on ${correction.fingerEstimator.trainingSets.join(", ")}.`
+          : "")
       : "- Correction: none fitted yet (run scripts/accuracy/fit-correction.ts).",
     "- Wrist rows use the render's true forearm line (the pose landmarker cannot see an upper body here): they measure the hand landmarks only.",
     "- Perfect-tracker bias: the same engine on the exact rig landmarks; the rig places wrist and MCP points a little off the " +
@@ -139,7 +154,7 @@ async function main(): Promise<void> {
     randomTable,
     "",
   ].join("\n");
-  writeFileSync(REPORT_FILE, report);
+  writeFileSync(REPORT_FILE, withKeptSections(report, existsSync(REPORT_FILE) ? readFileSync(REPORT_FILE, "utf8") : ""));
   console.log(["## Acceptance", ...acceptance, "", "## Test motions in their recommended view", motionTable, "", "## Random poses in every view", randomTable].join("\n"));
   console.error(`report -> ${REPORT_FILE}`);
 }

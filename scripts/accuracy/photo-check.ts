@@ -1,0 +1,126 @@
+/**
+ * The real-photo check of issues 4 and 8: the eight hand photos of Debian's gcompris-qt-data (open hands and fists,
+ * palm and back; scripts/fixtures/hand-photos.ts, fetched at run time, never committed) tracked frame by frame by the
+ * app's own tracking code, then read by the measurement engine with the correction as the app applies it ("auto")
+ * and raw ("off"). Prints, per photo, the median over frames of the mean over the four fingers of MCP, PIP and DIP
+ * flexion. The bar: an open hand reads at most 10 degrees, a fist at least 70 degrees at MCP and PIP.
+ *
+ *   npx tsx scripts/accuracy/photo-check.ts [--models lite,full] [--reuse]
+ */
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
+import path from "node:path";
+import { parseArgs } from "node:util";
+import { FINGERS, type MotionId } from "@/lib/motions/catalog";
+import { createLivePipeline } from "@/vision/pipeline";
+import type { TrackedFrame } from "@/vision/live";
+import { STANDARD_CLIPS, makeHandClip, type PhotoId } from "../fixtures/hand-photos";
+import { launchChromium, openHarnessPage, startHarnessServer } from "../../tests/harness/tracking-harness";
+import { RENDER_OUTPUT_ROOT } from "./renderer";
+import { parseModels } from "./run-accuracy";
+import type { HandModelVariant } from "./tracked-set";
+
+/** Issue 8's real-photo bar. */
+export const OPEN_HAND_MAX_DEG = 10;
+export const FIST_MIN_DEG = 70;
+const FPS = 30;
+const PHOTOS = STANDARD_CLIPS.allPhotosVideo.photos as readonly PhotoId[];
+
+async function trackPhotos(model: HandModelVariant, reuse: boolean): Promise<TrackedFrame[]> {
+  const folder = path.join(RENDER_OUTPUT_ROOT, "tracked");
+  mkdirSync(folder, { recursive: true });
+  const saved = path.join(folder, `photos-${model}.json`);
+  if (reuse && existsSync(saved)) return JSON.parse(readFileSync(saved, "utf8")) as TrackedFrame[];
+  const clip = makeHandClip(STANDARD_CLIPS.allPhotosVideo);
+  const server = await startHarnessServer(Number(process.env.KINARC_ACCURACY_PORT ?? 4322));
+  const browser = await launchChromium();
+  try {
+    const page = await openHarnessPage(browser, server, { clip: server.fileUrl(clip), step: true, fps: FPS, model });
+    await page.waitForFunction(() => window.kinarcHarness?.status === "ended" || window.kinarcHarness?.status === "failed", null, {
+      timeout: 600_000,
+      polling: 500,
+    });
+    const state = await page.evaluate(() => window.kinarcHarness);
+    if (state.status === "failed") throw new Error(`harness: ${state.error}`);
+    writeFileSync(saved, JSON.stringify(state.frames));
+    return state.frames;
+  } finally {
+    await browser.close();
+    await server.close();
+  }
+}
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted.length ? sorted[Math.floor(sorted.length / 2)] : Number.NaN;
+}
+
+export interface PhotoReading {
+  photo: PhotoId;
+  model: string;
+  correction: "auto" | "off";
+  mcpDeg: number;
+  pipDeg: number;
+  dipDeg: number;
+  /** Share of the frames' finger readings the correction was applied to. */
+  correctedShare: number;
+}
+
+/** Every frame of one photo through one pipeline per finger and motion, as the app would read a capture of it. */
+export function readPhoto(frames: readonly TrackedFrame[], photo: PhotoId, model: HandModelVariant, correction: "auto" | "off"): PhotoReading {
+  const side = photo.startsWith("left") ? "left" : "right";
+  let corrected = 0;
+  let total = 0;
+  const jointMedian = (motion: MotionId) => {
+    const perFinger = FINGERS.map((digit) => {
+      const pipeline = createLivePipeline({ motion, side, digit, condition: "gravity_minimized", handModel: model, correction });
+      return frames.map((f) => {
+        const update = pipeline.push({ t: f.t, score: f.score ?? 0, hand: f.hand ?? null });
+        if (update.angleDeg !== null) {
+          total += 1;
+          if (update.correctionVersion) corrected += 1;
+        }
+        return update.angleDeg;
+      });
+    });
+    const means = frames.flatMap((_, i) => {
+      const values = perFinger.map((series) => series[i]);
+      return values.every((v) => v !== null) ? [values.reduce((a, b) => a! + b!, 0)! / values.length] : [];
+    });
+    return median(means);
+  };
+  const mcpDeg = jointMedian("mcp.flexion");
+  const pipDeg = jointMedian("pip.flexion");
+  const dipDeg = jointMedian("dip.flexion");
+  return { photo, model, correction, mcpDeg, pipDeg, dipDeg, correctedShare: total ? corrected / total : 0 };
+}
+
+export function meetsBar(reading: PhotoReading): boolean {
+  if (reading.photo.includes("-open-")) return reading.mcpDeg <= OPEN_HAND_MAX_DEG && reading.pipDeg <= OPEN_HAND_MAX_DEG;
+  return reading.mcpDeg >= FIST_MIN_DEG && reading.pipDeg >= FIST_MIN_DEG;
+}
+
+async function main(): Promise<void> {
+  const { values } = parseArgs({ options: { models: { type: "string" }, reuse: { type: "boolean" } } });
+  const lines: string[] = ["| photo | model | correction | MCP ° | PIP ° | DIP ° | corrected | bar |", "| --- | --- | --- | ---: | ---: | ---: | ---: | --- |"];
+  for (const model of parseModels(values.models)) {
+    const frames = await trackPhotos(model, values.reuse ?? false);
+    for (const [index, photo] of PHOTOS.entries()) {
+      // Leave out the frames next to a cut: the encoder may blend or shift a frame there.
+      const own = frames.filter((f) => f.t >= index * 1000 + 50 && f.t < (index + 1) * 1000 - 50);
+      for (const correction of ["off", "auto"] as const) {
+        const r = readPhoto(own, photo, model, correction);
+        lines.push(
+          `| ${photo} | ${model} | ${correction} | ${r.mcpDeg.toFixed(0)} | ${r.pipDeg.toFixed(0)} | ${r.dipDeg.toFixed(0)} | ${Math.round(r.correctedShare * 100)}% | ${meetsBar(r) ? "meets" : "misses"} |`,
+        );
+      }
+    }
+  }
+  console.log(lines.join("\n"));
+}
+
+if (process.argv[1]?.endsWith("photo-check.ts")) {
+  main().catch((error: unknown) => {
+    console.error(error instanceof Error ? error.message : error);
+    process.exitCode = 2;
+  });
+}

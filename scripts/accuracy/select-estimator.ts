@@ -1,0 +1,76 @@
+/**
+ * Model selection for the finger estimator on training seeds only (never the validation seed): the ridge penalty and
+ * how much the fingers-flexed-together stills count, judged the way issue 8 judges the result (the tested joint of
+ * the MCP, PIP and DIP test motions, in their recommended views: MAE and slope). With --holdout it fits on --sets and
+ * scores on the held-out training set; without, 3-fold cross-validation over the test-motion stills, grouped by still.
+ *
+ *   npx tsx scripts/accuracy/select-estimator.ts [--sets a,b] [--holdout finger-motions-77000002-900] [--models lite]
+ */
+import { parseArgs } from "node:util";
+import { applyFingerFit, FINGER_JOINTS, type FingerJoint } from "@/vision/estimator";
+import { HUBER_DEG } from "./correction";
+import { fingerSamples, fitFingerJoint, loadTrackedSet, sampleWeight, type FingerSample } from "./estimator-fit";
+import { FINGER_FLEXION_SET } from "./motion-sets";
+import { summarizeErrors } from "./stats";
+
+const FOLDS = 3;
+
+function foldOf(sample: FingerSample): number {
+  // Test motions take turns by still index (six motions in the full set), so fold by index / 6 to keep every motion in every fold.
+  return Math.floor(Number(sample.stillId.split("#")[1]) / 6) % FOLDS;
+}
+
+function isTestMotion(sample: FingerSample): boolean {
+  return sample.motion !== null && sample.motion !== FINGER_FLEXION_SET;
+}
+
+function scoreJoint(train: FingerSample[], test: FingerSample[], joint: FingerJoint, lambda: number, togetherWeight: number) {
+  const rows = train.filter((s) => sampleWeight(s, joint, togetherWeight) > 0);
+  const fit = fitFingerJoint(rows.map((s) => s.base), rows.map((s) => s.truthDeg[joint]), {
+    ridgeLambda: lambda,
+    huberDeg: HUBER_DEG,
+    weights: rows.map((s) => sampleWeight(s, joint, togetherWeight)),
+  });
+  return test.filter((s) => sampleWeight(s, joint, 0) === 1).map((s) => ({ view: s.view, truthDeg: s.truthDeg[joint], estimateDeg: applyFingerFit(fit, s.base) }));
+}
+
+async function main(): Promise<void> {
+  const { values } = parseArgs({
+    options: { sets: { type: "string" }, holdout: { type: "string" }, models: { type: "string" }, lambdas: { type: "string" }, weights: { type: "string" } },
+  });
+  const setNames = (values.sets ?? "motions-77000001-600,fingers-77000101-600").split(",");
+  const all = setNames.flatMap((name) => fingerSamples(loadTrackedSet(name), name));
+  const holdout = values.holdout ? fingerSamples(loadTrackedSet(values.holdout), values.holdout) : null;
+  const lambdas = (values.lambdas ?? "3,10,30").split(",").map(Number);
+  const weights = (values.weights ?? "0,0.1,0.3").split(",").map(Number);
+  for (const model of (values.models ?? "lite,full").split(",")) {
+    for (const joint of FINGER_JOINTS) {
+      for (const lambda of lambdas) {
+        for (const weight of weights) {
+          const own = all.filter((s) => s.model === model);
+          const results = holdout
+            ? scoreJoint(own, holdout.filter((s) => s.model === model), joint, lambda, weight)
+            : Array.from({ length: FOLDS }, (_, fold) =>
+                scoreJoint(
+                  own.filter((s) => !isTestMotion(s) || foldOf(s) !== fold),
+                  own.filter((s) => isTestMotion(s) && foldOf(s) === fold),
+                  joint,
+                  lambda,
+                  weight,
+                ),
+              ).flat();
+          const cells = ["radial", "ulnar"].map((view) => {
+            const s = summarizeErrors(results.filter((r) => r.view === view));
+            return `${view} MAE ${s.meanAbsoluteErrorDeg?.toFixed(1)} slope ${s.slope?.toFixed(2)}`;
+          });
+          console.log(`${model} ${joint} lambda ${lambda} together-weight ${weight}: ${cells.join(" | ")}`);
+        }
+      }
+    }
+  }
+}
+
+main().catch((error: unknown) => {
+  console.error(error instanceof Error ? error.message : error);
+  process.exitCode = 2;
+});

@@ -1,0 +1,51 @@
+/**
+ * Renders and tracks a training set for the angle correction and saves it under tests/.cache/renders/tracked/, where
+ * fit-correction.ts reads it. Refuses the validation seed.
+ *
+ *   npx tsx scripts/accuracy/track-training.ts --set motions|finger-motions|fingers --seed 77000002 --count 600 [--models lite,full]
+ */
+import { parseArgs } from "node:util";
+import { fingerFlexionFrame, MOTION_SETS, motionFrame } from "./motion-sets";
+import { loadHandRig } from "./rig-files";
+import { parseCount, parseModels, VALIDATION_SEED } from "./run-accuracy";
+import { trackRenderedSet, type SetFrame } from "./tracked-set";
+
+/** The finger joints' test motions only (MCP, PIP, DIP flexion), in turn: three times the finger stills per render. */
+const FINGER_MOTION_SETS = MOTION_SETS.filter((set) => ["mcp.flexion", "pip.flexion", "dip.flexion"].includes(set.id));
+
+function rigs() {
+  return { left: loadHandRig("left"), right: loadHandRig("right") };
+}
+
+export const TRAINING_SET_KINDS: Record<string, () => (frameSeed: number, index: number) => SetFrame> = {
+  motions: () => {
+    const r = rigs();
+    return (frameSeed, index) => motionFrame(r, frameSeed, MOTION_SETS[index % MOTION_SETS.length]);
+  },
+  "finger-motions": () => {
+    const r = rigs();
+    return (frameSeed, index) => motionFrame(r, frameSeed, FINGER_MOTION_SETS[index % FINGER_MOTION_SETS.length]);
+  },
+  fingers: () => {
+    const r = rigs();
+    return (frameSeed, index) => fingerFlexionFrame(r, frameSeed, index);
+  },
+};
+
+async function main(): Promise<void> {
+  const { values } = parseArgs({
+    options: { set: { type: "string" }, seed: { type: "string" }, count: { type: "string" }, models: { type: "string" } },
+  });
+  const kind = values.set ?? "";
+  if (!(kind in TRAINING_SET_KINDS)) throw new Error(`--set: expected ${Object.keys(TRAINING_SET_KINDS).join(" or ")}; got '${values.set}'`);
+  const seed = parseCount("seed", values.seed, Number.NaN);
+  if (seed === VALIDATION_SEED) throw new Error(`--seed: ${VALIDATION_SEED} is the validation seed; expected a training seed`);
+  const count = parseCount("count", values.count, kind === "motions" ? 100 * MOTION_SETS.length : 600);
+  const set = await trackRenderedSet({ name: kind, seed, count, models: parseModels(values.models), makeFrame: TRAINING_SET_KINDS[kind]() });
+  console.log(`${kind} seed ${seed}: ${set.stills.filter((s) => s.hand).length}/${set.stills.length} tracked stills`);
+}
+
+main().catch((error: unknown) => {
+  console.error(error instanceof Error ? error.message : error);
+  process.exitCode = 2;
+});

@@ -1,0 +1,170 @@
+import type { Side } from "@/lib/motions/catalog";
+import { handAxes, readMotion, type HandAxes } from "./angles";
+import { DIGIT_CHAIN, MIDDLE_MCP, WRIST, type HandLandmarks } from "./landmarks";
+import { length, sub, type Vec3 } from "./vec";
+
+/**
+ * Kinarc's finger-joint estimator (part of kinarc-correction-2). The landmark model does not put a finger's flexion
+ * at the joint that made it: it spreads it over the finger's joints, under-reads PIP and DIP, and past about 60
+ * degrees of PIP the reading folds back. One joint's own reading cannot undo that, so the estimator reads the whole
+ * finger: its three joint angles in 3-D and in the image plane, how far the fingertip has come toward the MCP and the
+ * wrist (a curl shortens both, whatever joint it sits in), how much each phalanx is foreshortened (a depth cue the
+ * angle formula ignores), and which side of the hand faces the camera. A ridge regression on those features and
+ * their pairwise products, fitted per joint (MCP, PIP, DIP) and hand model on training renders
+ * (scripts/accuracy/fit-correction.ts), maps them to the joint's angle.
+ *
+ * The tracker's hand-presence score is not a feature: the renders were all tracked with high scores, so a fit could
+ * not learn what a low score means; the uncertainty widens with it instead (vision/uncertainty.ts).
+ */
+export const FINGER_FEATURES = [
+  "mcpDeg",
+  "pipDeg",
+  "dipDeg",
+  "mcpImageDeg",
+  "pipImageDeg",
+  "dipImageDeg",
+  // Tip-to-MCP distance over the finger's length, in 3-D and as seen in the image (x, y of camera axes).
+  "tipToMcp",
+  "tipToMcpImage",
+  // Tip-to-wrist distance over the palm's length (wrist to middle MCP), 3-D and image.
+  "tipToWrist",
+  "tipToWristImage",
+  // Each phalanx's length in the image over its 3-D length: 1 when it lies across the line of sight.
+  "proximalInImage",
+  "middleInImage",
+  "distalInImage",
+  // Cosines of the palm normal, the radial axis and the long axis with the direction to the camera.
+  "palmTowardCamera",
+  "radialTowardCamera",
+  "distalTowardCamera",
+] as const;
+export type FingerFeatureName = (typeof FINGER_FEATURES)[number];
+
+export const FINGER_JOINTS = ["mcp", "pip", "dip"] as const;
+export type FingerJoint = (typeof FINGER_JOINTS)[number];
+export type Finger = "index" | "middle" | "ring" | "little";
+export const ESTIMATOR_FINGERS: readonly Finger[] = ["index", "middle", "ring", "little"];
+
+/** One fitted joint: standardisation of the base features, the product terms and their coefficients. */
+export interface FingerJointFit {
+  /** Per base feature: training mean and standard deviation (z = (x - mean) / sd), and the z range seen in training. */
+  means: number[];
+  sds: number[];
+  zMin: number[];
+  zMax: number[];
+  /** Terms after the intercept: [i] a base feature, [i, j] a product (i may equal j). */
+  terms: number[][];
+  /** Intercept first, then one per term. */
+  coefficients: number[];
+  /** Estimates are held to the training truth's range widened by this margin, never extrapolated past it. */
+  outputRangeDeg: [number, number];
+  ridgeLambda: number;
+  trainingSamples: number;
+  trainingMaeDeg: number;
+}
+
+export interface FingerEstimatorModel {
+  features: readonly string[];
+  /** By hand model, then joint. */
+  fits: Record<string, Partial<Record<FingerJoint, FingerJointFit>>>;
+}
+
+const GROUP_JOINT: Record<string, FingerJoint> = { "MCP flexion": "mcp", "PIP flexion": "pip", "DIP flexion": "dip" };
+/** The estimator's joint for a correction group label, or null for groups it does not cover. */
+export function fingerJointOfGroup(group: string): FingerJoint | null {
+  return GROUP_JOINT[group] ?? null;
+}
+
+function ratio(numerator: number, denominator: number): number {
+  return denominator > 1e-9 ? numerator / denominator : Number.NaN;
+}
+
+const planar = (v: Vec3): number => Math.hypot(v[0], v[1]);
+
+/**
+ * The base features of one finger, in FINGER_FEATURES order, from 21 world landmarks (metres, camera axes). Null
+ * when the hand's axes or a joint angle cannot be read.
+ */
+export function fingerFeatures(hand: HandLandmarks, side: Side, finger: Finger, axes: HandAxes | null = handAxes(hand, side)): number[] | null {
+  if (!axes) return null;
+  const mcpReading = readMotion("mcp.flexion", finger, hand, axes, null);
+  const pipReading = readMotion("pip.flexion", finger, hand, axes, null);
+  const dipReading = readMotion("dip.flexion", finger, hand, axes, null);
+  if (!mcpReading || !pipReading || !dipReading) return null;
+  const [mcp, pip, dip, tip] = DIGIT_CHAIN[finger];
+  const proximal = sub(hand[pip], hand[mcp]);
+  const middle = sub(hand[dip], hand[pip]);
+  const distal = sub(hand[tip], hand[dip]);
+  const fingerLength = length(proximal) + length(middle) + length(distal);
+  const palmLength = length(sub(hand[MIDDLE_MCP], hand[WRIST]));
+  const tipFromMcp = sub(hand[tip], hand[mcp]);
+  const tipFromWrist = sub(hand[tip], hand[WRIST]);
+  const values = [
+    mcpReading.deg,
+    pipReading.deg,
+    dipReading.deg,
+    mcpReading.imagePlaneDeg,
+    pipReading.imagePlaneDeg,
+    dipReading.imagePlaneDeg,
+    ratio(length(tipFromMcp), fingerLength),
+    ratio(planar(tipFromMcp), fingerLength),
+    ratio(length(tipFromWrist), palmLength),
+    ratio(planar(tipFromWrist), palmLength),
+    ratio(planar(proximal), length(proximal)),
+    ratio(planar(middle), length(middle)),
+    ratio(planar(distal), length(distal)),
+    // Camera axes: z points away from the camera, so "toward the camera" is -z.
+    -axes.palmarNormal[2],
+    -axes.radialAxis[2],
+    -axes.longAxis[2],
+  ];
+  return values.every(Number.isFinite) ? values : null;
+}
+
+/** All base features and their pairwise products (squares included): the small polynomial basis of the fit. */
+export function quadraticTerms(featureCount: number): number[][] {
+  const terms: number[][] = [];
+  for (let i = 0; i < featureCount; i++) terms.push([i]);
+  for (let i = 0; i < featureCount; i++) for (let j = i; j < featureCount; j++) terms.push([i, j]);
+  return terms;
+}
+
+/** Standardised base features, each held within the range training saw: a polynomial must not extrapolate. */
+export function standardize(fit: Pick<FingerJointFit, "means" | "sds" | "zMin" | "zMax">, base: readonly number[]): number[] {
+  return base.map((x, i) => Math.min(fit.zMax[i], Math.max(fit.zMin[i], (x - fit.means[i]) / fit.sds[i])));
+}
+
+/** The design row of a fit: intercept, then each term's product of standardised features. */
+export function designRow(terms: readonly (readonly number[])[], z: readonly number[]): number[] {
+  return [1, ...terms.map((term) => term.reduce((product, i) => product * z[i], 1))];
+}
+
+export function applyFingerFit(fit: FingerJointFit, base: readonly number[]): number {
+  if (base.length !== fit.means.length) {
+    throw new Error(`finger estimator: expected ${fit.means.length} base features, got ${base.length}; refit`);
+  }
+  if (fit.coefficients.length !== fit.terms.length + 1) {
+    throw new Error(`finger estimator: expected ${fit.terms.length + 1} coefficients for ${fit.terms.length} terms, got ${fit.coefficients.length}; refit`);
+  }
+  const row = designRow(fit.terms, standardize(fit, base));
+  const value = row.reduce((sum, x, i) => sum + x * fit.coefficients[i], 0);
+  return Math.min(fit.outputRangeDeg[1], Math.max(fit.outputRangeDeg[0], value));
+}
+
+/**
+ * The estimated flexion of one finger joint (degrees, flexion positive), or null when the model has no fit for the
+ * joint and hand model or the finger's features cannot be read.
+ */
+export function estimateFingerJointDeg(
+  model: FingerEstimatorModel,
+  handModel: string,
+  joint: FingerJoint,
+  hand: HandLandmarks,
+  side: Side,
+  finger: Finger,
+): number | null {
+  const fit = model.fits[handModel]?.[joint];
+  if (!fit) return null;
+  const base = fingerFeatures(hand, side, finger);
+  return base ? applyFingerFit(fit, base) : null;
+}
