@@ -3,7 +3,10 @@ import { getPoseAngle } from "./hand-pose";
 import type { TrackedStill } from "./report";
 import { loadHandRig } from "./rig-files";
 import {
+  fitWristNeutral,
+  MIN_FIT_SAMPLES,
   MOVED_STILLS,
+  neutralRawSamples,
   NEUTRAL_STILLS,
   parseStillLabel,
   SECTION_BEGIN,
@@ -100,5 +103,30 @@ describe("report section", () => {
     expect(again).toContain("DO NOT EDIT");
     expect(again.startsWith("# Report\n\nmain tables\n")).toBe(true);
     expect(again.endsWith("\ntrailing note\n")).toBe(true);
+  });
+});
+
+describe("kinarc-wrist-neutral-1 fit", () => {
+  it("recovers a known line by least squares per group, measured view and model, and skips cells with too few samples", () => {
+    // Ordinary least squares recovers an exact line y = a + b x (any spread of x).
+    const samples = Array.from({ length: 30 }, (_, i) => ({ group: WRIST_GROUPS[0].label, motion: "wrist.flexion" as const, measuredView: "ulnar" as const, model: "lite", rawDeg: -60 + i * 4, truthDeg: 3 + 1.2 * (-60 + i * 4) }));
+    const few = samples.slice(0, MIN_FIT_SAMPLES - 1).map((s) => ({ ...s, model: "full" }));
+    const fit = fitWristNeutral(77, [...samples, ...few]);
+    expect(fit).toMatchObject({ version: "kinarc-wrist-neutral-1", trainingSeed: 77 });
+    expect(fit.cells).toHaveLength(1);
+    expect(fit.cells[0]).toMatchObject({ group: WRIST_GROUPS[0].label, view: "ulnar", model: "lite", samples: 30 });
+    expect(fit.cells[0].intercept).toBeCloseTo(3, 3);
+    expect(fit.cells[0].slope).toBeCloseTo(1.2, 4);
+  });
+
+  it("on exact landmarks the raw samples are the commanded angle, so a fit on them is the identity line", () => {
+    const samples = neutralRawSamples(exact(frames));
+    expect(samples.length).toBeGreaterThan(0);
+    for (const s of samples) expect(Math.abs(s.rawDeg - s.truthDeg)).toBeLessThan(3);
+    const fit = fitWristNeutral(1, samples.map((s) => ({ ...s, measuredView: "ulnar" as const })));
+    for (const c of fit.cells) {
+      expect(c.slope).toBeGreaterThan(0.97);
+      expect(c.slope).toBeLessThan(1.03);
+    }
   });
 });
