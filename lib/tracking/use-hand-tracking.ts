@@ -14,6 +14,7 @@ import type { ModelVariant, TrackedFrame } from "@/vision/live/types";
 import type { Vec3 } from "@/vision/vec";
 import { neutralReading, type NeutralFrame, type NeutralReading } from "@/vision/wrist-axis";
 import { CaptureRecorder } from "./capture-recorder";
+import { withNeutralFrames } from "./neutral-frames";
 import { gravityInCamera, type CameraFacing } from "./gravity";
 import { meanLuma, runSetupChecks, type SetupCheck } from "./setup-checks";
 
@@ -282,15 +283,9 @@ export function useHandTracking(options: HandTrackingOptions) {
     setState((s) => ({ ...s, recording: false }));
     const capture = recorder?.finish() ?? null;
     // The neutral frames travel with the attempt, so the server takes the same reading the browser did.
-    if (capture && neutralRef.current) {
-      // As the recorder does: a broken landmark becomes "no hand" so one NaN cannot make the whole file unreadable.
-      const finiteHand = (hand: NeutralFrame["hand"]) => (hand && hand.length === 21 && hand.every((p) => p.every(Number.isFinite)) ? hand.map((p) => [p[0], p[1], p[2]] as [number, number, number]) : null);
-      capture.neutral = {
-        frames: neutralRef.current.frames.map((f) => ({ t: f.t, score: Number.isFinite(f.score) ? Math.min(1, Math.max(0, f.score)) : 0, hand: finiteHand(f.hand) })),
-      };
-    }
+    const withNeutral = capture && neutralRef.current ? withNeutralFrames(capture, neutralRef.current.frames) : capture;
     const summary = pipelineRef.current?.summary() ?? null;
-    return capture && summary ? { capture, summary } : null;
+    return withNeutral && summary ? { capture: withNeutral, summary } : null;
   }, []);
 
   /** iOS asks for permission to read motion sensors, and only from a tap: call this from a button's handler. */
