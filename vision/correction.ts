@@ -123,6 +123,12 @@ export function correctGroupAngle(
   return correctionFeatures(features).reduce((sum, value, i) => sum + value * fit.coefficients[i], 0);
 }
 
+/** Whether the model has a fit (linear or the finger estimator) for a group and hand model. */
+export function hasGroupFit(model: CorrectionModel, handModel: string, group: string): boolean {
+  const joint = fingerJointOfGroup(group);
+  return Boolean(model.groups[handModel]?.[group] || (joint && model.fingerEstimator?.fits[handModel]?.[joint]));
+}
+
 /**
  * Which correction group reads a motion, and the sign from the motion's reported angle to the group's (the groups
  * were fitted on flexion, radial deviation and abduction; extension, ulnar deviation and adduction are their

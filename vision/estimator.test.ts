@@ -7,6 +7,7 @@ import {
   FINGER_FEATURES,
   FINGER_JOINTS,
   fingerFeatures,
+  inTrainingDomain,
   quadraticTerms,
   standardize,
   type FingerJointFit,
@@ -72,6 +73,8 @@ describe("the polynomial basis and a fit's arithmetic", () => {
     sds: [5, 2],
     zMin: [-2, -3],
     zMax: [2, 3],
+    domainLowZ: [-1.5, -2],
+    domainHighZ: [1.5, 2],
     terms: quadraticTerms(2),
     // 40 + 10 z0 + 0 z1 + 1 z0^2 + 2 z0 z1 + 0 z1^2
     coefficients: [40, 10, 0, 1, 2, 0],
@@ -87,6 +90,13 @@ describe("the polynomial basis and a fit's arithmetic", () => {
     // z0 = 10 is far past training's 2: held at 2, so the estimate is the polynomial at the range's edge.
     expect(standardize(fit, [60, 1])).toEqual([2, 0]);
     expect(applyFingerFit(fit, [60, 1])).toBeCloseTo(40 + 20 + 4, 12);
+  });
+
+  it("speaks only inside the training domain: each feature within its 1st-99th percentile range plus the margin", () => {
+    // z = (x - mean) / sd: [15, 3] -> [1, 1], inside; [25, 1] -> z0 = 3, past 1.5 + 1.
+    expect(inTrainingDomain(fit, [15, 3], 1)).toBe(true);
+    expect(inTrainingDomain(fit, [25, 1], 1)).toBe(false);
+    expect(inTrainingDomain(fit, [25, 1], 2)).toBe(true);
   });
 
   it("never leaves the output range and refuses a base of the wrong width", () => {
@@ -108,6 +118,13 @@ describe("the committed estimator (vision/correction-coefficients.json)", () => 
       }
     }
     for (const set of estimator.trainingSets) expect(set).not.toContain("20261202");
+  });
+
+  it("reads an MCP test position (fingers straight) but declines a curled finger, which its test motion never shows", () => {
+    const mcpOnly = estimateFingerJointDeg(estimator, "lite", "mcp", handWith(0, 0, ULNAR_VIEW, 60), "right", "middle");
+    expect(mcpOnly).not.toBeNull();
+    const fist = estimateFingerJointDeg(estimator, "lite", "mcp", handWith(100, 80, ULNAR_VIEW, 85), "right", "middle");
+    expect(fist).toBeNull();
   });
 
   it("is deterministic and reads more PIP flexion for a more bent PIP in a side view", () => {

@@ -52,6 +52,9 @@ export interface FingerJointFit {
   sds: number[];
   zMin: number[];
   zMax: number[];
+  /** The 1st and 99th percentiles of each standardised feature in training: the domain the fit speaks for. */
+  domainLowZ: number[];
+  domainHighZ: number[];
   /** Terms after the intercept: [i] a base feature, [i, j] a product (i may equal j). */
   terms: number[][];
   /** Intercept first, then one per term. */
@@ -129,6 +132,28 @@ export function quadraticTerms(featureCount: number): number[][] {
   return terms;
 }
 
+/**
+ * How far (in training standard deviations) a feature may lie outside the range training saw before the estimator
+ * declines to read the frame. The fit only knows its joint's test motion (the others held near straight, as the
+ * catalog's test positions ask); a finger outside that, e.g. curled into a fist while the MCP is read, is not
+ * something the fit has seen, and the raw angle (with its own, wider uncertainty) is the honest reading there.
+ * Chosen on training seeds (select-estimator.ts --margins, holdout finger-motions-77000002-900): the smallest margin
+ * that keeps the estimator on at least 95% of the held-out test-motion samples of every joint, view and model.
+ */
+export const DOMAIN_MARGIN_SD = 2;
+
+/**
+ * Whether each standardised base feature lies within its 1st-99th percentile range in training, widened by
+ * `marginSd`. Percentiles, not the extremes: training holds a few gross tracker misreadings, and a range stretched to
+ * them would admit almost anything.
+ */
+export function inTrainingDomain(fit: Pick<FingerJointFit, "means" | "sds" | "domainLowZ" | "domainHighZ">, base: readonly number[], marginSd = DOMAIN_MARGIN_SD): boolean {
+  return base.every((x, i) => {
+    const z = (x - fit.means[i]) / fit.sds[i];
+    return z >= fit.domainLowZ[i] - marginSd && z <= fit.domainHighZ[i] + marginSd;
+  });
+}
+
 /** Standardised base features, each held within the range training saw: a polynomial must not extrapolate. */
 export function standardize(fit: Pick<FingerJointFit, "means" | "sds" | "zMin" | "zMax">, base: readonly number[]): number[] {
   return base.map((x, i) => Math.min(fit.zMax[i], Math.max(fit.zMin[i], (x - fit.means[i]) / fit.sds[i])));
@@ -153,7 +178,7 @@ export function applyFingerFit(fit: FingerJointFit, base: readonly number[]): nu
 
 /**
  * The estimated flexion of one finger joint (degrees, flexion positive), or null when the model has no fit for the
- * joint and hand model or the finger's features cannot be read.
+ * joint and hand model, the finger's features cannot be read, or they lie outside the fit's training domain.
  */
 export function estimateFingerJointDeg(
   model: FingerEstimatorModel,
@@ -166,5 +191,5 @@ export function estimateFingerJointDeg(
   const fit = model.fits[handModel]?.[joint];
   if (!fit) return null;
   const base = fingerFeatures(hand, side, finger);
-  return base ? applyFingerFit(fit, base) : null;
+  return base && inTrainingDomain(fit, base) ? applyFingerFit(fit, base) : null;
 }

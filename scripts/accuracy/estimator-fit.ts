@@ -175,6 +175,12 @@ export function fitFingerJoint(baseRows: readonly number[][], targets: readonly 
   const zRows = baseRows.map((r) => r.map((x, i) => (x - means[i]) / sds[i]));
   const zMin = Array.from({ length: width }, (_, i) => Math.min(...zRows.map((r) => r[i])));
   const zMax = Array.from({ length: width }, (_, i) => Math.max(...zRows.map((r) => r[i])));
+  const percentile = (i: number, q: number) => {
+    const sorted = zRows.map((r) => r[i]).sort((a, b) => a - b);
+    return sorted[Math.min(sorted.length - 1, Math.max(0, Math.round(q * (sorted.length - 1))))];
+  };
+  const domainLowZ = Array.from({ length: width }, (_, i) => percentile(i, 0.01));
+  const domainHighZ = Array.from({ length: width }, (_, i) => percentile(i, 0.99));
   const terms = quadraticTerms(width);
   const design = zRows.map((z) => designRow(terms, z));
   const coefficients = huberRidge(design, targets, options.ridgeLambda, options.huberDeg, 12, options.weights);
@@ -186,6 +192,8 @@ export function fitFingerJoint(baseRows: readonly number[][], targets: readonly 
     sds,
     zMin,
     zMax,
+    domainLowZ,
+    domainHighZ,
     terms,
     coefficients,
     outputRangeDeg,

@@ -58,6 +58,8 @@ export function fitFingerEstimator(models: readonly string[], setNames: readonly
         sds: fit.sds.map(round),
         zMin: fit.zMin.map(round),
         zMax: fit.zMax.map(round),
+        domainLowZ: fit.domainLowZ.map(round),
+        domainHighZ: fit.domainHighZ.map(round),
         coefficients: fit.coefficients.map(round),
         outputRangeDeg: [round(fit.outputRangeDeg[0]), round(fit.outputRangeDeg[1])],
         trainingMaeDeg: round(fit.trainingMaeDeg),

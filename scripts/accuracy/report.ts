@@ -1,4 +1,5 @@
 import type { Vec3 } from "@/vision/vec";
+import { hasGroupFit } from "@/vision/correction";
 import { applyCorrection, type CorrectionModel } from "./correction";
 import { estimateAngles, type AngleEstimate } from "./estimates";
 import { getPoseAngle, type PoseKey } from "./hand-pose";
@@ -63,8 +64,10 @@ export function accuracyRows(
         for (const model of models) {
           const inCell = estimated.filter((e) => e.still.model === model && e.still.truth.view === view);
           if (inCell.length === 0) continue;
+          // As the engine does: where the correction has a fit but declines a frame (the finger estimator outside its
+          // training domain), the raw 3-D angle stands.
           const corrector = (key: PoseKey) => (estimate: AngleEstimate) =>
-            correction ? applyCorrection(correction, model, key, estimate) : null;
+            correction ? (applyCorrection(correction, model, key, estimate) ?? (hasGroupFit(correction, model, group.label) ? estimate.deg : null)) : null;
           const samples = inCell.flatMap((e) =>
             group.keys.map((key) => ({
               truthDeg: getPoseAngle(e.still.truth.commandedDeg, key),

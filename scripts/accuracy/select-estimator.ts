@@ -7,7 +7,7 @@
  *   npx tsx scripts/accuracy/select-estimator.ts [--sets a,b] [--holdout finger-motions-77000002-900] [--models lite]
  */
 import { parseArgs } from "node:util";
-import { applyFingerFit, FINGER_JOINTS, type FingerJoint } from "@/vision/estimator";
+import { applyFingerFit, DOMAIN_MARGIN_SD, FINGER_JOINTS, inTrainingDomain, type FingerJoint } from "@/vision/estimator";
 import { HUBER_DEG } from "./correction";
 import { fingerSamples, fitFingerJoint, loadTrackedSet, sampleWeight, type FingerSample } from "./estimator-fit";
 import { FINGER_FLEXION_SET } from "./motion-sets";
@@ -24,32 +24,46 @@ function isTestMotion(sample: FingerSample): boolean {
   return sample.motion !== null && sample.motion !== FINGER_FLEXION_SET;
 }
 
-function scoreJoint(train: FingerSample[], test: FingerSample[], joint: FingerJoint, lambda: number, togetherWeight: number) {
+function scoreJoint(train: FingerSample[], test: FingerSample[], joint: FingerJoint, lambda: number, togetherWeight: number, marginSd: number) {
   const rows = train.filter((s) => sampleWeight(s, joint, togetherWeight) > 0);
   const fit = fitFingerJoint(rows.map((s) => s.base), rows.map((s) => s.truthDeg[joint]), {
     ridgeLambda: lambda,
     huberDeg: HUBER_DEG,
     weights: rows.map((s) => sampleWeight(s, joint, togetherWeight)),
   });
-  return test.filter((s) => sampleWeight(s, joint, 0) === 1).map((s) => ({ view: s.view, truthDeg: s.truthDeg[joint], estimateDeg: applyFingerFit(fit, s.base) }));
+  // Outside the training domain the engine keeps the raw angle; scored the same way, with the share kept.
+  return test
+    .filter((s) => sampleWeight(s, joint, 0) === 1)
+    .map((s) => {
+      const inDomain = inTrainingDomain(fit, s.base, marginSd);
+      return { view: s.view, truthDeg: s.truthDeg[joint], estimateDeg: inDomain ? applyFingerFit(fit, s.base) : s.base[FINGER_JOINTS.indexOf(joint)], inDomain };
+    });
 }
 
 async function main(): Promise<void> {
   const { values } = parseArgs({
-    options: { sets: { type: "string" }, holdout: { type: "string" }, models: { type: "string" }, lambdas: { type: "string" }, weights: { type: "string" } },
+    options: {
+      sets: { type: "string" },
+      holdout: { type: "string" },
+      models: { type: "string" },
+      lambdas: { type: "string" },
+      weights: { type: "string" },
+      margins: { type: "string" },
+    },
   });
   const setNames = (values.sets ?? "motions-77000001-600,fingers-77000101-600").split(",");
   const all = setNames.flatMap((name) => fingerSamples(loadTrackedSet(name), name));
   const holdout = values.holdout ? fingerSamples(loadTrackedSet(values.holdout), values.holdout) : null;
   const lambdas = (values.lambdas ?? "3,10,30").split(",").map(Number);
   const weights = (values.weights ?? "0,0.1,0.3").split(",").map(Number);
+  const margins = (values.margins ?? String(DOMAIN_MARGIN_SD)).split(",").map(Number);
   for (const model of (values.models ?? "lite,full").split(",")) {
     for (const joint of FINGER_JOINTS) {
       for (const lambda of lambdas) {
-        for (const weight of weights) {
+        for (const weight of weights) for (const marginSd of margins) {
           const own = all.filter((s) => s.model === model);
           const results = holdout
-            ? scoreJoint(own, holdout.filter((s) => s.model === model), joint, lambda, weight)
+            ? scoreJoint(own, holdout.filter((s) => s.model === model), joint, lambda, weight, marginSd)
             : Array.from({ length: FOLDS }, (_, fold) =>
                 scoreJoint(
                   own.filter((s) => !isTestMotion(s) || foldOf(s) !== fold),
@@ -57,13 +71,15 @@ async function main(): Promise<void> {
                   joint,
                   lambda,
                   weight,
+                  marginSd,
                 ),
               ).flat();
           const cells = ["radial", "ulnar"].map((view) => {
             const s = summarizeErrors(results.filter((r) => r.view === view));
-            return `${view} MAE ${s.meanAbsoluteErrorDeg?.toFixed(1)} slope ${s.slope?.toFixed(2)}`;
+            const kept = results.filter((r) => r.view === view && r.inDomain).length / Math.max(1, results.filter((r) => r.view === view).length);
+            return `${view} MAE ${s.meanAbsoluteErrorDeg?.toFixed(1)} slope ${s.slope?.toFixed(2)} estimator ${Math.round(kept * 100)}%`;
           });
-          console.log(`${model} ${joint} lambda ${lambda} together-weight ${weight}: ${cells.join(" | ")}`);
+          console.log(`${model} ${joint} lambda ${lambda} together-weight ${weight} margin ${marginSd} sd: ${cells.join(" | ")}`);
         }
       }
     }
