@@ -313,6 +313,10 @@ export const attempts = sqliteTable(
     /** The plane check agreed with the declared condition. */
     planeVerified: integer("plane_verified", { mode: "boolean" }).notNull(),
     method: text("method"),
+    /** The camera view most frames saw (vision/view-policy.ts), how it serves this motion, and the wrist's forearm line. */
+    cameraView: text("camera_view"),
+    viewQuality: text("view_quality"),
+    forearmSource: text("forearm_source"),
     engineVersion: text("engine_version").notNull(),
     correctionVersion: text("correction_version"),
     warnings: text("warnings", { mode: "json" }).$type<string[]>().notNull().default(sql`'[]'`),

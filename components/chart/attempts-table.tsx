@@ -6,10 +6,13 @@ import { useState } from "react";
 import type { ChartRow } from "@/lib/chart/chart";
 import { attemptsOptions, type AttemptPageJson } from "@/lib/chart/queries";
 import { Badge } from "@/components/ui/card";
+import { describeView } from "@/vision/view-policy";
+import type { ValidationView } from "@/vision/uncertainty";
 
 type AttemptJson = AttemptPageJson["rows"][number];
 const col = createColumnHelper<AttemptJson>();
 const deg = (v: number | null) => (v == null ? "—" : `${v.toFixed(1)}°`);
+const FOREARM_WORDS: Record<string, string> = { pose: "the forearm seen by the camera", "neutral-reading": "a straight-wrist reading", "capture-start": "how the hand started" };
 const SOURCE_WORDS: Record<string, string> = { self_check: "self-check", visit: "visit", practice: "practice", upload: "uploaded clip" };
 
 const COLUMNS = [
@@ -22,6 +25,22 @@ const COLUMNS = [
     header: "Plane check",
     enableSorting: false,
     cell: (c) => (c.getValue() ? <Badge tone="good">verified</Badge> : <Badge tone="alert">{c.row.original.planeVerdict.replace("_", " ")}</Badge>),
+  }),
+  col.accessor("cameraView", {
+    header: "Camera view",
+    enableSorting: false,
+    cell: (c) => {
+      const view = c.getValue() as ValidationView | null;
+      if (!view) return "—";
+      const quality = c.row.original.viewQuality;
+      const forearm = c.row.original.forearmSource;
+      return (
+        <span title={forearm ? `wrist measured against ${FOREARM_WORDS[forearm] ?? forearm}` : undefined}>
+          {describeView(view)}
+          {quality && quality !== "recommended" ? <Badge tone="alert">{quality === "poor" ? "poor view" : "usable view"}</Badge> : null}
+        </span>
+      );
+    },
   }),
   col.display({
     id: "quality",

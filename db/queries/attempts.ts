@@ -94,7 +94,7 @@ export interface AttemptListQuery {
 }
 
 export interface AttemptListPage {
-  rows: (RecentAttempt & Pick<Attempt, "source">)[];
+  rows: (RecentAttempt & Pick<Attempt, "source" | "cameraView" | "viewQuality" | "forearmSource">)[];
   total: number;
   page: number;
   pageSize: number;
@@ -127,6 +127,9 @@ export async function listAttempts(db: DbOrTx, clinicId: string, clientId: strin
       keptAt: attempts.keptAt,
       warnings: attempts.warnings,
       source: attempts.source,
+      cameraView: attempts.cameraView,
+      viewQuality: attempts.viewQuality,
+      forearmSource: attempts.forearmSource,
     })
     .from(attempts)
     .where(where)

@@ -70,6 +70,9 @@ export interface StoredAttempt {
   planeVerified: boolean;
   axisToGravityDeg: number | null;
   method: string | null;
+  cameraView: string | null;
+  viewQuality: string | null;
+  forearmSource: string | null;
   engineVersion: string;
   /** The angle correction applied, e.g. "kinarc-correction-1"; null when the angles are raw. */
   correctionVersion: string | null;

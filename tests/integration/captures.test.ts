@@ -69,6 +69,9 @@ describe("saving a capture", () => {
     // The engine's correction and stated uncertainty land on the stored attempt (lib/captures/columns.ts).
     expect(saved.attempt).toMatchObject({ uncertaintyDeg: expected.uncertaintyDeg, correctionVersion: expected.correctionVersion, method: expected.method });
     expect(saved.attempt.uncertaintyDeg).toBeGreaterThan(0);
+    // The measured camera view and how it serves the motion are kept as columns for the chart (issue 8 item 5).
+    expect(saved.attempt).toMatchObject({ cameraView: expected.view, viewQuality: expected.viewQuality, forearmSource: null });
+    expect(saved.attempt.cameraView).not.toBeNull();
     expect(saved.attempt.reps).toBe(3);
     // Within 3 degrees of the synthetic hand's true 90 (the engine's own stated target for 1-2 mm noise is 5).
     expect(Math.abs(saved.attempt.peakDeg! - 90)).toBeLessThanOrEqual(5);
