@@ -6,6 +6,7 @@ import { browserOutbox, runOutbox } from "@/lib/captures/outbox";
 import type { CaptureSaveResponse } from "@/lib/captures/upload";
 import { clipCaptureUid, clipLabel, type ClipTarget } from "@/lib/uploads/clip-target";
 import { MOTIONS } from "@/lib/motions/catalog";
+import type { ClipNeutral } from "@/vision/live/clip-capture";
 import type { TrackedFrame } from "@/vision/live/types";
 
 export interface ClipToAnalyze {
@@ -36,6 +37,7 @@ export function ClipAnalyzer({ clip, target, showNumbers, onSaved }: { clip: Cli
   const [phase, setPhase] = useState<Phase>({ kind: "loading" });
   const [frame, setFrame] = useState<TrackedFrame | null>(null);
   const [size, setSize] = useState({ width: 640, height: 480 });
+  const [neutral, setNeutral] = useState<ClipNeutral | null>(null);
   const onSavedRef = useRef(onSaved);
   useEffect(() => {
     onSavedRef.current = onSaved;
@@ -72,6 +74,7 @@ export function ClipAnalyzer({ clip, target, showNumbers, onSaved }: { clip: Cli
           onFrame: (f) => setFrame(f),
         });
         setSize({ width: result.stepped.videoWidth, height: result.stepped.videoHeight });
+        setNeutral(result.neutral);
         await outbox.enqueue({ captureUid, source: "upload", clientId: clip.clientId, uploadId: clip.uploadId, recordedAt: clip.sentAt, capture: result.capture }, clipLabel(target));
         setPhase((p) => (p.kind === "saved" ? p : { kind: "queued" }));
       } catch (error) {
@@ -126,6 +129,13 @@ export function ClipAnalyzer({ clip, target, showNumbers, onSaved }: { clip: Cli
             : `The clip could not be measured here: ${phase.message}. It was still sent; your therapist can measure it.`
           : null}
       </p>
+      {neutral ? (
+        <p className={`text-sm ${neutral.ok ? "text-tide-700" : "text-flag-amber"}`} data-testid="clip-neutral" data-status={neutral.ok ? "taken" : "refused"}>
+          {neutral.ok
+            ? `Straight-wrist reading taken from ${(neutral.startMs / 1000).toFixed(1)} s into the clip: the wrist is measured against it.`
+            : `No straight-wrist reading: ${neutral.problem} The wrist is measured from how the hand started instead.`}
+        </p>
+      ) : null}
     </section>
   );
 }

@@ -5,7 +5,9 @@ import { useEffect, useRef, useState } from "react";
 import { deletePendingClip, listPendingClips, savePendingClip, type PendingClip } from "@/lib/uploads/pending-clips";
 import { Button } from "@/components/ui/button";
 import { SelectField, TextArea } from "@/components/ui/field";
+import { MOTIONS, type MotionId } from "@/lib/motions/catalog";
 import { clipTarget, type ClipTarget } from "@/lib/uploads/clip-target";
+import { CLIP_NEUTRAL } from "@/vision/live/clip-capture";
 import { ClipAnalyzer, type ClipToAnalyze } from "./clip-analyzer";
 import { ClipRecorder } from "./clip-recorder";
 
@@ -210,6 +212,13 @@ export function UploadForm({ clientId, clients, motions, limits, allowClip }: Up
                 { value: "gravity_minimized", label: motionDef.positions.gravity_minimized },
               ]}
             />
+          ) : null}
+          {MOTIONS[motion as MotionId]?.joint === "wrist" ? (
+            // The clip's still start becomes the straight-wrist reading the wrist is measured against (vision/live/clip-capture.ts).
+            <p className="rounded-lg bg-tide-50 px-3 py-2 text-sm text-tide-900" data-testid="clip-neutral-instruction">
+              Start the clip with {CLIP_NEUTRAL.holdMs / 1000} seconds of a straight, still wrist: forearm resting on the table, wrist in line with the
+              forearm, fingers relaxed. Then make the movement without moving your forearm or the camera.
+            </p>
           ) : null}
         </>
       ) : null}

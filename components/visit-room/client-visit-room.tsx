@@ -11,6 +11,7 @@ import { useHandTracking } from "@/lib/tracking/use-hand-tracking";
 import { encodeTelemetry, type ControlMessage } from "@/lib/visits/telemetry";
 import { useVisitRoom } from "@/lib/visits/use-visit-room";
 import { MicCheck } from "./mic-check";
+import { ClientNeutralReading } from "./neutral-reading";
 import { CONDITION_LABELS } from "./test-picker";
 import { TrackAudio, TrackVideo } from "./track-video";
 
@@ -38,6 +39,9 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
   const seq = useRef(0);
   const lastSent = useRef(0);
   const peak = useRef<number | null>(null);
+  // The therapist's request for a straight-wrist reading in progress, answered when the reading is taken or refused.
+  const neutralAsk = useRef<string | null>(null);
+  const [neutralAsked, setNeutralAsked] = useState(false);
   const trackingRef = useRef(tracking);
   useEffect(() => {
     trackingRef.current = tracking;
@@ -51,10 +55,23 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
       setTest(next);
       setPrompted(true);
       setKept(null);
+      setNeutralAsked(false);
       peak.current = null;
       await room.sendControl({ type: "test", ...next, targetDeg: getReferenceEndRange(next.motion, next.digit)?.endRangeDeg ?? null }).catch(() => undefined);
       // The attempt starts now; the hook starts a fresh reading for the new test on the next frame.
       setTimeout(() => trackingRef.current.startRecording(), 0);
+    }
+    if (m.type === "neutral-ask") {
+      const t = testRef.current;
+      const base = { type: "neutral", requestId: m.requestId, motion: t.motion, side: t.side, view: null, spreadDeg: null } as const;
+      if (MOTIONS[t.motion].joint !== "wrist") {
+        await room.sendControl({ ...base, status: "refused", problem: "the straight-wrist reading is for wrist tests; ask for a wrist test first." }).catch(() => undefined);
+        return;
+      }
+      neutralAsk.current = m.requestId;
+      setNeutralAsked(true);
+      trackingRef.current.takeNeutral();
+      await room.sendControl({ ...base, status: "holding", problem: null }).catch(() => undefined);
     }
     if (m.type === "keep") {
       const result = trackingRef.current.stopRecording();
@@ -80,6 +97,36 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
   };
 
   const room = useVisitRoom(visitId, { onControl: (m) => void onControl(m) });
+  const testRef = useRef(test);
+  useEffect(() => {
+    testRef.current = test;
+  });
+
+  // The reading's outcome goes back to the therapist; once taken, the attempt starts over from it, so the kept
+  // attempt's angles (and its capture's neutral frames) all belong to the same forearm line.
+  const neutral = tracking.neutral;
+  useEffect(() => {
+    const requestId = neutralAsk.current;
+    if (requestId === null || (neutral.status !== "taken" && neutral.status !== "refused")) return;
+    neutralAsk.current = null;
+    if (neutral.status === "taken") {
+      peak.current = null;
+      trackingRef.current.startRecording();
+    }
+    const t = testRef.current;
+    void room
+      .sendControl({
+        type: "neutral",
+        requestId,
+        status: neutral.status,
+        motion: t.motion,
+        side: t.side,
+        problem: neutral.status === "refused" ? neutral.problem : null,
+        view: neutral.status === "taken" ? neutral.reading.view : null,
+        spreadDeg: neutral.status === "taken" ? Math.round(neutral.reading.spreadDeg * 10) / 10 : null,
+      })
+      .catch(() => undefined);
+  }, [neutral, room]);
 
   // Telemetry: one compact packet per tracked frame, at most every 66 ms.
   useEffect(() => {
@@ -105,6 +152,7 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
         score: f.score,
         uncertaintyDeg: u?.uncertaintyDeg ?? null,
         image: f.image ? f.image.map((p) => [p[0], p[1]] as [number, number]) : null,
+        forearmSource: u?.forearmSource ?? null,
       }),
     );
   }, [tracking.frame, tracking.update, room]);
@@ -184,6 +232,7 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
               <p className="mt-2 text-4xl font-semibold tabular-nums" aria-live="polite">
                 {tracking.update?.smoothedDeg == null ? "—" : `${Math.round(tracking.update.smoothedDeg)}°`}
               </p>
+              {neutralAsked && def.joint === "wrist" ? <ClientNeutralReading neutral={tracking.neutral} /> : null}
               {fixes.length ? (
                 <ul className="mt-2 space-y-1 text-sm text-flag-amber">
                   {fixes.map((c) => (

@@ -11,6 +11,7 @@ import { TelemetryAligner, type TelemetryFrame } from "@/lib/visits/telemetry";
 import type { VisitSummary } from "@/lib/visits/summary";
 import { useVisitRoom } from "@/lib/visits/use-visit-room";
 import { DeviceCheck } from "./device-check";
+import { ConsoleNeutralStatus, FOREARM_LINE_WORDS, type ConsoleNeutral } from "./neutral-reading";
 import { CONDITION_LABELS, TestPicker, type TestChoice } from "./test-picker";
 import { TrackAudio, TrackVideo } from "./track-video";
 import { VisitOverlay } from "./visit-overlay";
@@ -40,6 +41,11 @@ export function VisitConsole(props: VisitConsoleProps) {
   const [frame, setFrame] = useState<TelemetryFrame | null>(null);
   const [test, setTest] = useState<TestChoice | null>(null);
   const [keepState, setKeepState] = useState<{ requestId: string; status: "asked" | "saved" | "queued" } | null>(null);
+  const testRef = useRef<TestChoice | null>(null);
+  useEffect(() => {
+    testRef.current = test;
+  });
+  const [neutral, setNeutral] = useState<(ConsoleNeutral & { requestId: string }) | null>(null);
   const [notes, setNotes] = useState("");
   const [ended, setEnded] = useState(false);
   const [videoSize, setVideoSize] = useState({ width: 0, height: 0 });
@@ -49,7 +55,16 @@ export function VisitConsole(props: VisitConsoleProps) {
   const { state, join, leave, sendControl } = useVisitRoom(props.visitId, {
     onTelemetry: (f, arrival) => aligner.current.push(f, arrival),
     onControl: (m) => {
-      if (m.type === "test") setTest({ motion: m.motion as MotionId, side: m.side, digit: m.digit as TestChoice["digit"], condition: m.condition });
+      if (m.type === "test") {
+        // A reading holds only for the motion and side it was taken for, as on the client's device.
+        const prev = testRef.current;
+        if (prev?.motion !== m.motion || prev?.side !== m.side) setNeutral(null);
+        setTest({ motion: m.motion as MotionId, side: m.side, digit: m.digit as TestChoice["digit"], condition: m.condition });
+      }
+      if (m.type === "neutral") {
+        // Only the answer to the latest request counts; a late answer to an earlier one is dropped.
+        setNeutral((prev) => (prev && m.requestId !== null && m.requestId !== prev.requestId ? prev : { ...m, requestId: m.requestId ?? prev?.requestId ?? "" }));
+      }
       if (m.type === "kept") {
         setKeepState({ requestId: m.requestId, status: m.queued ? "queued" : "saved" });
         void queryClient.invalidateQueries({ queryKey: summaryKey });
@@ -101,7 +116,14 @@ export function VisitConsole(props: VisitConsoleProps) {
 
   const prompt = async (choice: TestChoice) => {
     await sendControl({ type: "prompt", ...choice });
+    if (test?.motion !== choice.motion || test?.side !== choice.side) setNeutral(null);
     setTest(choice);
+  };
+  const askNeutral = async () => {
+    if (!test) return;
+    const requestId = crypto.randomUUID();
+    setNeutral({ requestId, status: "asked", motion: test.motion, side: test.side, problem: null, view: null, spreadDeg: null });
+    await sendControl({ type: "neutral-ask", requestId });
   };
   const keep = async () => {
     const requestId = crypto.randomUUID();
@@ -111,6 +133,7 @@ export function VisitConsole(props: VisitConsoleProps) {
 
   const initialSide = props.affectedSide === "left" ? "left" : "right";
   const target = test ? MOTIONS[test.motion] : null;
+  const isWrist = target?.joint === "wrist";
 
   return (
     <div className="grid gap-6 lg:grid-cols-[1fr_22rem]">
@@ -168,6 +191,11 @@ export function VisitConsole(props: VisitConsoleProps) {
                 <p className="text-xs text-ink-faint">tracking {frame ? frame.quality.replace("_", " ") : "—"}</p>
               </div>
             </section>
+            {isWrist ? (
+              <p className="text-sm text-ink-soft" data-testid="live-forearm" data-source={frame?.forearmSource ?? ""}>
+                Wrist angle read against: {frame?.forearmSource ? FOREARM_LINE_WORDS[frame.forearmSource] : "—"}
+              </p>
+            ) : null}
           </>
         )}
       </div>
@@ -182,6 +210,19 @@ export function VisitConsole(props: VisitConsoleProps) {
             <p className="mb-3 text-sm text-ink-soft">No test asked yet.</p>
           )}
           <TestPicker initial={{ motion: "wrist.extension", side: initialSide, digit: null, condition: "against_gravity" }} onPrompt={(c) => void prompt(c)} disabled={state.phase !== "connected" || !state.remote} />
+          {isWrist ? (
+            <div className="mt-3">
+              <button
+                type="button"
+                onClick={() => void askNeutral()}
+                disabled={state.phase !== "connected" || !state.remote || neutral?.status === "asked" || neutral?.status === "holding"}
+                className="w-full rounded-lg bg-white px-3 py-2 text-sm font-semibold text-tide-700 ring-1 ring-tide-200 disabled:opacity-40"
+              >
+                {neutral?.status === "taken" || neutral?.status === "refused" ? "Take the straight-wrist reading again" : "Ask for the straight-wrist reading"}
+              </button>
+              <ConsoleNeutralStatus neutral={neutral} />
+            </div>
+          ) : null}
           <button
             type="button"
             onClick={() => void keep()}

@@ -14,6 +14,7 @@ function frame(over: Partial<TelemetryFrame> = {}): TelemetryFrame {
     score: 0.93,
     uncertaintyDeg: 6,
     image: Array.from({ length: 21 }, (_, i) => [i / 21, 1 - i / 42] as [number, number]),
+    forearmSource: null,
     ...over,
   };
 }
@@ -53,6 +54,27 @@ describe("telemetry packets", () => {
     const other = bytes.slice();
     other[0] = 9;
     expect(decodeTelemetry(other)).toBeNull();
+  });
+
+  it("carries the wrist's forearm line in the flags without growing the packet, and not the other flags' bits", () => {
+    for (const forearmSource of ["pose", "neutral-reading", "capture-start", null] as const) {
+      for (const image of [frame().image, null]) {
+        const bytes = encodeTelemetry(frame({ forearmSource, image, plane: null }));
+        expect(bytes.byteLength).toBe(18 + (image ? 21 * 4 : 0));
+        expect(decodeTelemetry(bytes)).toMatchObject({ forearmSource, plane: null, image: image ? expect.any(Array) : null });
+      }
+    }
+    // A packet from a sender that predates the field (bits 2-3 clear) reads as "no forearm line", not as a source.
+    const old = encodeTelemetry(frame({ forearmSource: "neutral-reading" }));
+    old[1] &= 0b11;
+    expect(decodeTelemetry(old)).toMatchObject({ forearmSource: null, plane: "against_gravity" });
+  });
+
+  it("straight-wrist reading messages round-trip", () => {
+    const ask = { type: "neutral-ask", requestId: "r1" } as const;
+    const told = { type: "neutral", requestId: "r1", status: "refused", motion: "wrist.extension", side: "left", problem: "the hand moved 12 degrees", view: null, spreadDeg: 12 } as const;
+    expect(decodeControl(encodeControl(ask))).toEqual(ask);
+    expect(decodeControl(encodeControl(told))).toEqual(told);
   });
 
   it("control messages round-trip and garbage is ignored", () => {

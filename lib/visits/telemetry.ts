@@ -4,10 +4,13 @@
  * reliable channel for the test in progress, the therapist's prompts and "keep this attempt".
  *
  * Frame packet, little-endian (version 1):
- *   u8 version | u8 flags (1 hand present, 2 plane verdict known) | u16 sequence | u32 t (ms, sender's clock)
+ *   u8 version | u8 flags (1 hand present, 2 plane verdict known, bits 2-3 the wrist's forearm line: 0 none or not a
+ *   wrist motion, 1 pose, 2 straight-wrist reading, 3 capture start) | u16 sequence | u32 t (ms, sender's clock)
  *   i16 angle ×10 | i16 peak ×10 | u8 quality | u8 plane verdict | u8 repetitions | u8 rep phase | u8 score ×255
  *   u8 uncertainty (whole degrees, 255 = unknown) | 21 × (u16 x, u16 y) image landmarks ×65535 when a hand is present
  */
+
+import { FOREARM_SOURCES, type ForearmSource } from "@/vision/wrist-axis";
 
 export const TELEMETRY_TOPIC = "kinarc.telemetry";
 export const CONTROL_TOPIC = "kinarc.control";
@@ -32,6 +35,8 @@ export interface TelemetryFrame {
   uncertaintyDeg: number | null;
   /** Normalized image coordinates (0..1), as the tracker reports them, or null when no hand. */
   image: [number, number][] | null;
+  /** Wrist motions: where this frame's forearm line came from (vision/wrist-axis.ts); null for finger motions. */
+  forearmSource: ForearmSource | null;
 }
 
 const NO_ANGLE = -32768;
@@ -45,7 +50,9 @@ export function encodeTelemetry(f: TelemetryFrame): Uint8Array {
   const bytes = new Uint8Array(HEADER_BYTES + (f.image ? LANDMARKS * 4 : 0));
   const view = new DataView(bytes.buffer);
   view.setUint8(0, TELEMETRY_VERSION);
-  view.setUint8(1, (f.image ? 1 : 0) | (f.plane ? 2 : 0));
+  // Older senders leave bits 2-3 clear, which reads as "no forearm line", so the packet version stays 1.
+  const forearm = f.forearmSource ? FOREARM_SOURCES.indexOf(f.forearmSource) + 1 : 0;
+  view.setUint8(1, (f.image ? 1 : 0) | (f.plane ? 2 : 0) | ((forearm & 3) << 2));
   view.setUint16(2, f.seq & 0xffff, true);
   view.setUint32(4, Math.max(0, Math.round(f.t)) >>> 0, true);
   view.setInt16(8, f.angleDeg === null ? NO_ANGLE : clampInt(f.angleDeg * 10, -32767, 32767), true);
@@ -96,6 +103,7 @@ export function decodeTelemetry(bytes: Uint8Array): TelemetryFrame | null {
     score: view.getUint8(16) / 255,
     uncertaintyDeg: uncertainty === 255 ? null : uncertainty,
     image,
+    forearmSource: FOREARM_SOURCES[((flags >> 2) & 3) - 1] ?? null,
   };
 }
 
@@ -105,7 +113,14 @@ export type ControlMessage =
   | { type: "prompt"; motion: string; side: "left" | "right"; digit: string | null; condition: "against_gravity" | "gravity_minimized" }
   | { type: "keep"; requestId: string }
   | { type: "kept"; requestId: string; captureUid: string; attemptId: string | null; queued: boolean }
-  | { type: "clock"; sentAt: number };
+  | { type: "clock"; sentAt: number }
+  /** Therapist to client: take the straight-wrist reading now, for the wrist test in progress. */
+  | { type: "neutral-ask"; requestId: string }
+  /** Client to therapist: how the straight-wrist reading went (sent when it starts, and when it is taken or refused). */
+  | { type: "neutral"; requestId: string | null; status: NeutralStatus; motion: string; side: "left" | "right"; problem: string | null; view: string | null; spreadDeg: number | null };
+
+export const NEUTRAL_STATUSES = ["holding", "taken", "refused"] as const;
+export type NeutralStatus = (typeof NEUTRAL_STATUSES)[number];
 
 export function encodeControl(message: ControlMessage): Uint8Array {
   return new TextEncoder().encode(JSON.stringify(message));

@@ -5,7 +5,7 @@
  */
 import type { CaptureFile } from "@/lib/capture/schema";
 import type { CaptureTarget } from "@/lib/tracking/capture-recorder";
-import { captureFromClipFrames, otherHandSeen } from "./clip-capture";
+import { clipCapture, otherHandSeen, type ClipNeutral } from "./clip-capture";
 import { loadClip, stepThroughClip, type SteppedClip } from "./clip-stepper";
 import { createHandTracker } from "./tracker";
 import type { ModelVariant, TrackedFrame } from "./types";
@@ -26,6 +26,8 @@ export interface ClipAnalysisResult {
   stepped: SteppedClip;
   /** Set when the tracker saw the other hand than the target's side in most frames with a hand. */
   otherHand: ReturnType<typeof otherHandSeen>;
+  /** Wrist motions: the straight-wrist reading from the clip's still start (in `capture.neutral`), or why not; null otherwise. */
+  neutral: ClipNeutral | null;
 }
 
 /** Analyzes the clip at `src` (an object URL of the picked file, or the stored file's URL) into a capture for `target`. */
@@ -36,7 +38,8 @@ export async function analyzeClipInBrowser(video: HTMLVideoElement, src: string,
     await tracker.warmUp(video);
     const stepped = await stepThroughClip(video, tracker, { onProgress: options.onProgress, signal: options.signal });
     unsubscribe();
-    return { capture: captureFromClipFrames(target, stepped.frames, "the clip"), stepped, otherHand: otherHandSeen(stepped.frames, target.side) };
+    const { capture, neutral } = clipCapture(target, stepped.frames, "the clip");
+    return { capture, neutral, stepped, otherHand: otherHandSeen(stepped.frames, target.side) };
   } finally {
     tracker.close();
   }
