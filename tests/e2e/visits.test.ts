@@ -193,6 +193,23 @@ describe("a video visit through the local media server", () => {
     expect(await db((d) => d.select().from(attempts).where(eq(attempts.visitId, visitId)))).toHaveLength(2);
   });
 
+  it("a straight-wrist reading asked for while the hand keeps changing is refused, and the reason reaches the console", async () => {
+    const picker = therapistPage.getByRole("form", { name: "Next test" });
+    await picker.getByLabel("Motion").selectOption("wrist.extension");
+    await picker.getByLabel("Condition").selectOption("against_gravity");
+    await picker.getByRole("button", { name: "Ask the client to do this" }).click();
+    await expect.poll(() => clientPage.getByTestId("client-test").textContent(), { timeout: 15_000 }).toMatch(/Wrist extension \(right\)/);
+    await therapistPage.getByRole("button", { name: "Ask for the straight-wrist reading" }).click();
+    // The camera alternates an open hand and a fist every second: not a still, straight wrist.
+    await expect.poll(() => therapistPage.getByTestId("console-neutral").getAttribute("data-status"), { timeout: 30_000 }).toBe("refused");
+    const reason = (await clientPage.getByTestId("neutral-status").textContent())!.replace(/^The reading could not be taken: /, "");
+    expect(reason.length).toBeGreaterThan(10);
+    expect(await therapistPage.getByTestId("console-neutral").textContent()).toContain(reason);
+    // Without a reading the wrist is read from how the hand started, and the console says so.
+    await expect.poll(() => therapistPage.getByTestId("live-forearm").getAttribute("data-source"), { timeout: 15_000 }).toBe("capture-start");
+    expect(await therapistPage.getByRole("button", { name: "Take the straight-wrist reading again" }).isEnabled()).toBe(true);
+  });
+
   it("ending the visit saves its notes and a summary of the kept attempts", async () => {
     const stored = await db((d) => d.select().from(attempts).where(eq(attempts.visitId, visitId)));
     await therapistPage.getByLabel("Visit notes").fill("Good effort; fist closes well.");
