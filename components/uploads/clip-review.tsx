@@ -11,6 +11,8 @@ import type { StoredAttempt } from "@/lib/captures/upload";
 import type { Condition, Digit, MotionId } from "@/lib/motions/catalog";
 import { frameIndexAt, type ClipReviewTrace } from "@/lib/uploads/clip-review";
 import { clipTarget, type ClipTarget } from "@/lib/uploads/clip-target";
+import { FOREARM_LINE_WORDS } from "@/components/visit-room/neutral-reading";
+import { FOREARM_SOURCES, type ForearmSource } from "@/vision/wrist-axis";
 import { ClipAnalyzer, type ClipToAnalyze } from "./clip-analyzer";
 
 export interface ClipReviewProps {
@@ -137,6 +139,14 @@ export function ClipReview({ upload, attempt, trace, digits, positions }: ClipRe
                 hand usable in {attempt.usableFrames} of {attempt.frames} frames ({Math.round((100 * attempt.usableFrames) / Math.max(1, attempt.frames))}%)
               </dd>
             </div>
+            {attempt.forearmSource && (FOREARM_SOURCES as readonly string[]).includes(attempt.forearmSource) ? (
+              <div>
+                <dt className="text-ink-soft">Wrist angle read against</dt>
+                <dd data-testid="clip-forearm" data-source={attempt.forearmSource}>
+                  {FOREARM_LINE_WORDS[attempt.forearmSource as ForearmSource]}
+                </dd>
+              </div>
+            ) : null}
             <div>
               <dt className="text-ink-soft">Method</dt>
               <dd>

@@ -87,6 +87,17 @@ describe("an uploaded wrist clip with a still start", () => {
       expect(analysis.forearmSource).toBe("neutral-reading");
       expect(analysis.neutral?.usableFrames ?? 0).toBeGreaterThanOrEqual(1.5 * CLIP_FPS);
       console.log(`uploaded wrist clip: ${neutral.length} neutral frames, spread ${analysis.neutral?.spreadDeg.toFixed(1)} deg, view ${analysis.neutral?.view}, usable ${attempt.usableFrames}/${attempt.frames}`);
+      // The therapist's review of the clip says which forearm line the stored wrist angles use.
+      const staff = await browser.newContext();
+      const review = await staff.newPage();
+      await signInWithPassword(review, app.appUrl, "therapist@kinarc.test", DEMO_PASSWORD);
+      await review.waitForURL(`${app.appUrl}/home`);
+      await review.goto(`${app.appUrl}/uploads/${upload.id}`);
+      const forearm = review.getByTestId("clip-forearm");
+      await forearm.waitFor({ timeout: 30_000 });
+      expect(await forearm.getAttribute("data-source")).toBe("neutral-reading");
+      expect(await forearm.textContent()).toMatch(/straight-wrist reading/);
+      await staff.close();
     } finally {
       client.close();
     }
