@@ -2,13 +2,25 @@
 import type { CaptureFile } from "@/lib/capture/schema";
 import type { CaptureTarget } from "@/lib/tracking/capture-recorder";
 import type { Side } from "@/lib/motions/catalog";
-import { ClipCaptureError, captureFromClipFrames, otherHandSeen } from "@/vision/live/clip-capture";
+import { ClipCaptureError, clipCapture, otherHandSeen } from "@/vision/live/clip-capture";
 import type { TrackedFrame } from "@/vision/live/types";
 import { ClipInputError } from "./options";
 
-export function captureFromFrames(target: CaptureTarget, frames: readonly TrackedFrame[], clipLabel: string): CaptureFile {
+/**
+ * The clip's capture; for wrist motions with the straight-wrist reading from the clip's still start in its neutral
+ * frames. When the start is not still enough, `note` says so (on stderr by default, as the CLI's other notes) and the
+ * wrist is read from the capture's start, as the app's upload does.
+ */
+export function captureFromFrames(
+  target: CaptureTarget,
+  frames: readonly TrackedFrame[],
+  clipLabel: string,
+  note: (text: string) => void = (text) => process.stderr.write(`analyze-clip: note: ${text}\n`),
+): CaptureFile {
   try {
-    return captureFromClipFrames(target, frames, clipLabel);
+    const { capture, neutral } = clipCapture(target, frames, clipLabel);
+    if (neutral && !neutral.ok) note(`no straight-wrist reading: ${neutral.problem} The wrist is read from how the hand started.`);
+    return capture;
   } catch (error) {
     if (error instanceof ClipCaptureError) throw new ClipInputError(error.message);
     throw error;

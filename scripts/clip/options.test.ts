@@ -71,6 +71,32 @@ describe("tracked frames to a capture", () => {
     expect(() => captureFromFrames(target, [frame(0, false), frame(33, false)], "c.webm")).toThrow(new ClipInputError("CLIP: no hand in view in any of the 2 frames of c.webm"));
   });
 
+  it("takes a wrist clip's straight-wrist reading from its still start, and notes a start that is not still", () => {
+    const wrist = { motion: "wrist.flexion", side: "right", digit: null, condition: "against_gravity" } as const;
+    // A hand drawn as a fan of points, turned by `deg` about the camera's z axis: still when `deg` is constant.
+    const turned = (deg: number) => {
+      const r = (deg * Math.PI) / 180;
+      return Array.from({ length: 21 }, (_, i) => {
+        const along = 0.004 * i;
+        const across = 0.01 * ((i % 4) - 1.5);
+        return [along * Math.cos(r) - across * Math.sin(r), along * Math.sin(r) + across * Math.cos(r), 0.002 * (i % 3)] as [number, number, number];
+      });
+    };
+    const clip = (degAt: (t: number) => number) => Array.from({ length: 121 }, (_, i) => ({ t: (i * 1000) / 30, score: 0.9, handedness: "right" as const, hand: turned(degAt((i * 1000) / 30)), image: null }));
+    const notes: string[] = [];
+    const still = captureFromFrames(wrist, clip(() => 10), "c.webm", (n) => notes.push(n));
+    // 3 s at 30 fps, both ends included.
+    expect(still.neutral?.frames).toHaveLength(91);
+    expect(notes).toEqual([]);
+    const swinging = captureFromFrames(wrist, clip((t) => 40 * Math.sin((2 * Math.PI * t) / 1000)), "c.webm", (n) => notes.push(n));
+    expect(swinging.neutral).toBeUndefined();
+    expect(notes).toHaveLength(1);
+    expect(notes[0]).toMatch(/^no straight-wrist reading: the first 5 seconds of the clip did not show a still, straight wrist: .* The wrist is read from how the hand started\.$/);
+    // Finger clips take no reading and say nothing about it.
+    expect(captureFromFrames(target, [frame(0, true)], "c.webm", (n) => notes.push(n)).neutral).toBeUndefined();
+    expect(notes).toHaveLength(1);
+  });
+
   it("notes a --side the tracker disagrees with in most frames, and only then", () => {
     expect(handednessNote([frame(0, true, "left"), frame(33, true, "left"), frame(67, true, "right")], "right")).toBe(
       "the tracker saw a left hand in 2 of 3 frames with a hand, but --side is right",
