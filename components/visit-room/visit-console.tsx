@@ -34,6 +34,9 @@ export interface VisitConsoleProps {
   precautionNote: string;
 }
 
+const sameTest = (a: Pick<TestChoice, "motion" | "side" | "digit" | "condition"> | null, b: { motion: string; side: string; digit: string | null; condition: string }) =>
+  !!a && a.motion === b.motion && a.side === b.side && a.digit === b.digit && a.condition === b.condition;
+
 /** The therapist's side of a video visit. */
 export function VisitConsole(props: VisitConsoleProps) {
   const queryClient = useQueryClient();
@@ -56,9 +59,8 @@ export function VisitConsole(props: VisitConsoleProps) {
     onTelemetry: (f, arrival) => aligner.current.push(f, arrival),
     onControl: (m) => {
       if (m.type === "test") {
-        // A reading holds only for the motion and side it was taken for, as on the client's device.
-        const prev = testRef.current;
-        if (prev?.motion !== m.motion || prev?.side !== m.side) setNeutral(null);
+        // A reading holds only for the test it was taken for, as on the client's device (use-hand-tracking.ts).
+        if (!sameTest(testRef.current, m)) setNeutral(null);
         setTest({ motion: m.motion as MotionId, side: m.side, digit: m.digit as TestChoice["digit"], condition: m.condition });
       }
       if (m.type === "neutral") {
@@ -116,7 +118,7 @@ export function VisitConsole(props: VisitConsoleProps) {
 
   const prompt = async (choice: TestChoice) => {
     await sendControl({ type: "prompt", ...choice });
-    if (test?.motion !== choice.motion || test?.side !== choice.side) setNeutral(null);
+    if (!sameTest(test, choice)) setNeutral(null);
     setTest(choice);
   };
   const askNeutral = async () => {
