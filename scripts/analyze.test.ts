@@ -31,6 +31,8 @@ describe("analyze command", () => {
     expect(out.captures).toHaveLength(2);
     expect(out.captures[0]).toMatchObject({ file: "ag.json", motion: "wrist.flexion", side: "right", digit: null, reps: 2, plane: { verdict: "against_gravity" } });
     expect(Math.abs(out.captures[0].peakDeg! - 60)).toBeLessThan(3);
+    // A synthetic capture carries no neutral frames: the wrist is read against a forearm line, and the JSON says which.
+    expect(["pose", "capture-start"]).toContain(out.captures[0].forearmSource);
     expect(out.captures[1].plane!.verdict).toBe("gravity_minimized");
     expect(out.reference.endRangeDeg).toBe(80);
     expect(out.grade).toMatchObject({ scale: "daniels", value: "3-", ceiling: false });

@@ -71,9 +71,11 @@ function captureReport(file: string, a: CaptureAnalysis) {
     method: a.method,
     correctionVersion: a.correctionVersion,
     // 90% interval half-width of startDeg, peakDeg and each repetition's angles (vision/uncertainty.ts); view is the
-    // camera view most frames saw.
+    // camera view most frames saw and how it serves the motion; wrist motions say which forearm line they used.
     uncertaintyDeg: a.uncertaintyDeg,
     view: a.view,
+    viewQuality: a.viewQuality,
+    forearmSource: a.forearmSource,
     repetitions: a.repetitions.map((r) => ({
       complete: r.complete,
       startDeg: round(r.startDeg),

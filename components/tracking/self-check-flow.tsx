@@ -11,6 +11,7 @@ import { CONDITIONS, MOTIONS, getReferenceEndRange, type CameraView, type Condit
 import { newCaptureUid } from "@/lib/tracking/capture-recorder";
 import { readyToStart } from "@/lib/tracking/setup-checks";
 import { NEUTRAL_HOLD_MS, useHandTracking } from "@/lib/tracking/use-hand-tracking";
+import { NEUTRAL_INSTRUCTION } from "@/components/visit-room/neutral-reading";
 import { analyzeCapture, type CaptureAnalysis } from "@/vision/analyze-capture";
 import { describeView, viewPolicy } from "@/vision/view-policy";
 import { HandOverlay } from "./hand-overlay";
@@ -358,10 +359,7 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
 
           {step === "neutral" ? (
             <Card title="Straight-wrist reading">
-              <p className="text-sm text-ink">
-                Rest your forearm on the table with your wrist straight, in line with the forearm, and your fingers relaxed. Keep your arm and the camera
-                where they are from now on: the camera measures the wrist against this position.
-              </p>
+              <p className="text-sm text-ink">{NEUTRAL_INSTRUCTION}</p>
               <p className="mt-2 text-sm" aria-live="polite" data-testid="neutral-status" data-status={tracking.neutral.status}>
                 {tracking.neutral.status === "holding" ? (
                   <span className="font-medium text-tide-900">Hold still… {Math.max(1, Math.ceil(((1 - tracking.neutral.progress) * NEUTRAL_HOLD_MS) / 1000))}</span>
