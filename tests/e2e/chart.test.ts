@@ -2,10 +2,9 @@ import { readFileSync } from "node:fs";
 import ICAL from "ical.js";
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_PASSWORD } from "@/db/seed/demo";
 import { zonedToUtc } from "@/lib/visits/time";
 import { pdfText } from "../integration/pdf-text";
-import { signInWithPassword, startTestApp, type TestApp } from "./support/app";
+import { signedInContext, startTestApp, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
 // The chart, the follow-up queue, the invitation with its calendar file, the in-person result and the PDF summary,
@@ -15,11 +14,7 @@ let browser: Browser;
 let therapist: BrowserContext;
 
 async function signedIn(email: string): Promise<BrowserContext> {
-  const context = await browser.newContext({ acceptDownloads: true });
-  const page = await context.newPage();
-  await signInWithPassword(page, app.appUrl, email, DEMO_PASSWORD);
-  await page.waitForURL(`${app.appUrl}/home`);
-  return context;
+  return (await signedInContext(browser, app.appUrl, email, { acceptDownloads: true })).context;
 }
 
 const LEFT_EXT = "wrist.extension|left|-";

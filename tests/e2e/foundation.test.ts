@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, BrowserContext } from "playwright-core";
-import { DEMO_PASSWORD, DEMO_SIGN_INS } from "@/db/seed/demo";
-import { startTestApp, signInWithPassword, type TestApp } from "./support/app";
+import { DEMO_SIGN_INS } from "@/db/seed/demo";
+import { signedInContext, startTestApp, signInWithPassword, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
 let app: TestApp;
@@ -18,11 +18,7 @@ afterAll(async () => {
 });
 
 async function signedIn(email: string): Promise<BrowserContext> {
-  const context = await browser.newContext();
-  const page = await context.newPage();
-  await signInWithPassword(page, app.appUrl, email, DEMO_PASSWORD);
-  await page.waitForURL(`${app.appUrl}/home`);
-  return context;
+  return (await signedInContext(browser, app.appUrl, email)).context;
 }
 
 describe("sign-in", () => {

@@ -4,9 +4,8 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, BrowserContext } from "playwright-core";
 import { openDatabase } from "@/db";
 import { payments, users, visits } from "@/db/schema";
-import { DEMO_PASSWORD } from "@/db/seed/demo";
 import { LOCAL_DEFAULTS } from "@/lib/env";
-import { signInWithPassword, startTestApp, type TestApp } from "./support/app";
+import { signedInContext, startTestApp, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
 let app: TestApp;
@@ -14,11 +13,7 @@ let browser: Browser;
 let visitId: string;
 
 async function signedIn(email: string): Promise<BrowserContext> {
-  const context = await browser.newContext();
-  const page = await context.newPage();
-  await signInWithPassword(page, app.appUrl, email, DEMO_PASSWORD);
-  await page.waitForURL(`${app.appUrl}/home`);
-  return context;
+  return (await signedInContext(browser, app.appUrl, email)).context;
 }
 
 async function paymentRows() {

@@ -12,11 +12,10 @@ import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { openDatabase, type Database } from "@/db";
 import { attempts, homeProgramItems, practiceSessions } from "@/db/schema";
-import { DEMO_PASSWORD } from "@/db/seed/demo";
 import { makeHandClip } from "../../scripts/fixtures/hand-photos";
 import { buildModels } from "../../scripts/models/build";
 import { startLocalStack, type LocalStack } from "../../scripts/lib/local-stack";
-import { signInWithPassword, startTestApp, TEST_PORTS, type TestApp } from "./support/app";
+import { signedInContext, startTestApp, TEST_PORTS, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
 const REPO_ROOT = path.resolve(__dirname, "..", "..");
@@ -47,12 +46,7 @@ afterAll(async () => {
 });
 
 async function signedIn(email: string): Promise<Page> {
-  const context = await browser.newContext();
-  const page = await context.newPage();
-  page.on("pageerror", (error) => console.error(`page error: ${error.message}`));
-  await signInWithPassword(page, app.appUrl, email, DEMO_PASSWORD);
-  await page.waitForURL(`${app.appUrl}/home`);
-  return page;
+  return (await signedInContext(browser, app.appUrl, email)).page;
 }
 
 describe("home practice", () => {

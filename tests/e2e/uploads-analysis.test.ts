@@ -20,12 +20,11 @@ import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { openDatabase } from "@/db";
 import { attemptCaptures, attempts, uploads } from "@/db/schema";
-import { DEMO_PASSWORD } from "@/db/seed/demo";
 import { parseCaptureText } from "@/lib/capture/parse";
 import { clipReviewTrace } from "@/lib/uploads/clip-review";
 import { correctionGroupFor } from "@/vision/correction";
 import { UNCERTAINTY_TABLE, validationCell } from "@/vision/uncertainty";
-import { signInWithPassword, startTestApp, type TestApp } from "./support/app";
+import { signedInContext, startTestApp, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
 const REPO_ROOT = path.resolve(__dirname, "..", "..");
@@ -46,11 +45,7 @@ let clip: string;
 let truth: { fps: number; frameCount: number; frames: TruthFrame[] };
 
 async function signedIn(email: string): Promise<BrowserContext> {
-  const context = await browser.newContext();
-  const page = await context.newPage();
-  await signInWithPassword(page, app.appUrl, email, DEMO_PASSWORD);
-  await page.waitForURL(`${app.appUrl}/home`);
-  return context;
+  return (await signedInContext(browser, app.appUrl, email)).context;
 }
 
 async function withDb<T>(read: (db: ReturnType<typeof openDatabase>["db"]) => Promise<T>): Promise<T> {

@@ -8,10 +8,9 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, BrowserContext } from "playwright-core";
 import { openDatabase } from "@/db";
 import { auditEvents, uploads } from "@/db/schema";
-import { DEMO_PASSWORD } from "@/db/seed/demo";
 import { startLocalStack } from "../../scripts/lib/local-stack";
 import { pdfBytes, webmBytes } from "../integration/upload-fixtures";
-import { signInWithPassword, startTestApp, TEST_PORTS, type TestApp } from "./support/app";
+import { signedInContext, startTestApp, TEST_PORTS, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
 const AUTH_SECRET = "e2e-test-secret-that-is-long-enough-0123456789";
@@ -21,11 +20,7 @@ let browser: Browser;
 let dorian: BrowserContext;
 
 async function signedIn(email: string): Promise<BrowserContext> {
-  const context = await browser.newContext({ acceptDownloads: true });
-  const page = await context.newPage();
-  await signInWithPassword(page, app.appUrl, email, DEMO_PASSWORD);
-  await page.waitForURL(`${app.appUrl}/home`);
-  return context;
+  return (await signedInContext(browser, app.appUrl, email, { acceptDownloads: true })).context;
 }
 
 async function uploadRows(uploadUid?: string) {

@@ -14,12 +14,11 @@ import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { openDatabase } from "@/db";
 import { attemptCaptures, attempts, clients, users, visits } from "@/db/schema";
-import { DEMO_PASSWORD } from "@/db/seed/demo";
 import { parseCapture } from "@/lib/capture/parse";
 import { analyzeCapture } from "@/vision/analyze-capture";
 import { makeHandClip, STANDARD_CLIPS } from "../../scripts/fixtures/hand-photos";
 import { buildModels } from "../../scripts/models/build";
-import { signInWithPassword, startTestApp, type TestApp } from "./support/app";
+import { signedInContext, startTestApp, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
 const REPO_ROOT = path.resolve(__dirname, "..", "..");
@@ -32,12 +31,7 @@ let client: BrowserContext;
 let visitId: string;
 
 async function signedIn(browser: Browser, email: string): Promise<BrowserContext> {
-  const context = await browser.newContext({ permissions: ["camera", "microphone"] });
-  const page = await context.newPage();
-  page.on("pageerror", (error) => console.error(`page error (${email}): ${error.message}`));
-  await signInWithPassword(page, app.appUrl, email, DEMO_PASSWORD);
-  await page.waitForURL(`${app.appUrl}/home`);
-  return context;
+  return (await signedInContext(browser, app.appUrl, email, { permissions: ["camera", "microphone"] })).context;
 }
 
 async function db<T>(fn: (d: ReturnType<typeof openDatabase>["db"]) => Promise<T>): Promise<T> {

@@ -5,11 +5,10 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { openDatabase } from "@/db";
 import { attemptCaptures, attempts, visits } from "@/db/schema";
-import { DEMO_PASSWORD } from "@/db/seed/demo";
 import { LOCAL_DEFAULTS } from "@/lib/env";
 import { toLocalInput } from "@/lib/visits/time";
 import { makeHandClip, STANDARD_CLIPS } from "../../scripts/fixtures/hand-photos";
-import { signInWithPassword, startTestApp, type TestApp } from "./support/app";
+import { signedInContext, startTestApp, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
 let app: TestApp;
@@ -20,11 +19,7 @@ let client: BrowserContext;
 let visitId: string;
 
 async function signedIn(browser: Browser, email: string): Promise<BrowserContext> {
-  const context = await browser.newContext({ permissions: ["camera", "microphone"] });
-  const page = await context.newPage();
-  await signInWithPassword(page, app.appUrl, email, DEMO_PASSWORD);
-  await page.waitForURL(`${app.appUrl}/home`);
-  return context;
+  return (await signedInContext(browser, app.appUrl, email, { permissions: ["camera", "microphone"] })).context;
 }
 
 async function db<T>(fn: (d: ReturnType<typeof openDatabase>["db"]) => Promise<T>): Promise<T> {

@@ -1,6 +1,7 @@
 import { mkdirSync, rmSync } from "node:fs";
 import path from "node:path";
-import type { Page } from "playwright-core";
+import type { Browser, BrowserContext, BrowserContextOptions, Page } from "playwright-core";
+import { DEMO_PASSWORD } from "@/db/seed/demo";
 import { openDatabase } from "@/db";
 import { seedDemo, type SeedResult } from "@/db/seed/demo";
 import { migrateDatabase } from "../../../scripts/migrate";
@@ -72,4 +73,17 @@ export async function signInWithPassword(page: Page, appUrl: string, email: stri
   await form.getByLabel("E-mail").fill(email);
   await form.getByLabel("Password").fill(password);
   await form.getByRole("button", { name: "Sign in" }).click();
+}
+
+/**
+ * A new browser context signed in as a demo user (password form) and landed on their home page. Page errors are
+ * printed with the user's e-mail so a failing suite shows which side broke.
+ */
+export async function signedInContext(browser: Browser, appUrl: string, email: string, options: BrowserContextOptions = {}): Promise<{ context: BrowserContext; page: Page }> {
+  const context = await browser.newContext(options);
+  const page = await context.newPage();
+  page.on("pageerror", (error) => console.error(`page error (${email}): ${error.message}`));
+  await signInWithPassword(page, appUrl, email, DEMO_PASSWORD);
+  await page.waitForURL(`${appUrl}/home`);
+  return { context, page };
 }
