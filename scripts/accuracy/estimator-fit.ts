@@ -19,15 +19,16 @@ import { FINGER_FLEXION_SET } from "./motion-sets";
 import { getPoseAngle, type PoseKey } from "./hand-pose";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
 import type { TrackedStill } from "./report";
-import { VALIDATION_SEED } from "./run-accuracy";
-import type { TrackedSet } from "./tracked-set";
+import { VALIDATION_SEED, withMovingKeys } from "./run-accuracy";
+import { singleFingerMotionSetFrame, type TrackedSet } from "./tracked-set";
 
 /** A tracked set saved by track-training.ts or an earlier fit, by name (`motions-77000001-600`); never the validation seed. */
 export function loadTrackedSet(name: string): TrackedSet {
   if (name.includes(String(VALIDATION_SEED))) throw new Error(`${name}: the validation seed is never used for fitting or selection`);
   const file = path.join(RENDER_OUTPUT_ROOT, "tracked", `set-${name}-lite-full.json`);
   if (!existsSync(file)) throw new Error(`${file}: no such tracked set; render it with scripts/accuracy/track-training.ts`);
-  return JSON.parse(readFileSync(file, "utf8")) as TrackedSet;
+  const set = JSON.parse(readFileSync(file, "utf8")) as TrackedSet;
+  return name.startsWith("single-finger-motions") ? withMovingKeys(set, singleFingerMotionSetFrame()) : set;
 }
 
 export interface FingerSample {
@@ -37,6 +38,8 @@ export interface FingerSample {
   motion: string | null;
   view: string;
   finger: string;
+  /** In a single-finger still: whether this finger is the one moving (null in other stills). */
+  moving: boolean | null;
   base: number[];
   truthDeg: Record<FingerJoint, number>;
 }
@@ -68,6 +71,7 @@ export function fingerSamples(set: { stills: readonly TrackedStill[]; count: num
         motion: still.motion ?? null,
         view: still.truth.view,
         finger,
+        moving: still.movingKeys ? still.movingKeys.some((key) => key.startsWith(`${finger}.`)) : null,
         base,
         truthDeg: Object.fromEntries(FINGER_JOINTS.map((joint) => [joint, getPoseAngle(still.truth.commandedDeg, fingerPoseKey(finger, joint))])) as Record<
           FingerJoint,
@@ -83,12 +87,13 @@ const TESTED_JOINT: Record<string, FingerJoint> = { "mcp.flexion": "mcp", "pip.f
 
 /**
  * How much a sample counts in the fit of `joint`: a still of that joint's test motion counts 1; a still of the
- * fingers-flexed-together set counts `togetherWeight`; anything else 0. A test motion moves one joint with the others
+ * fingers-flexed-together set counts `togetherWeight`; a resting finger of a single-finger still counts
+ * `restingWeight`; anything else 0. A test motion moves one joint with the others
  * near rest, which is how the app asks a client to move, and the estimator is fitted to read that motion (measured
  * on training seeds: pooling the together set at full weight doubled held-out PIP error on the test motions).
  */
-export function sampleWeight(sample: Pick<FingerSample, "motion">, joint: FingerJoint, togetherWeight: number): number {
-  if (sample.motion && sample.motion in TESTED_JOINT) return TESTED_JOINT[sample.motion] === joint ? 1 : 0;
+export function sampleWeight(sample: Pick<FingerSample, "motion" | "moving">, joint: FingerJoint, togetherWeight: number, restingWeight = 1): number {
+  if (sample.motion && sample.motion in TESTED_JOINT) return TESTED_JOINT[sample.motion] === joint ? (sample.moving === false ? restingWeight : 1) : 0;
   return sample.motion === FINGER_FLEXION_SET ? togetherWeight : 0;
 }
 

@@ -37,8 +37,12 @@ const OTHER_JOINT_JITTER_DEG = 5;
 /** Fingers flexed together still differ a little from each other. */
 const FINGER_SPREAD_DEG = 4;
 
-/** One still of `set`, fully determined by `seed`. */
-export function motionFrame(rigs: Record<HandSide, HandRig>, seed: number, set: MotionSet) {
+/**
+ * One still of `set`, fully determined by `seed`. With `singleFinger`, only one finger (drawn from the seed) moves
+ * the tested joint and the others stay near rest, as when a client is asked to bend one finger: the landmark model
+ * reads that very differently from four fingers bending together (a straight neighbour hides the bent finger).
+ */
+export function motionFrame(rigs: Record<HandSide, HandRig>, seed: number, set: MotionSet, singleFinger = false) {
   const rng = makeRng(seed);
   const uniform = (low: number, high: number) => low + (high - low) * uniformFloat64(rng);
   const side: HandSide = uniformInt(rng, 0, 1) === 0 ? "left" : "right";
@@ -49,7 +53,8 @@ export function motionFrame(rigs: Record<HandSide, HandRig>, seed: number, set: 
     setPoseAngle(pose, key, Math.min(high, Math.max(low, uniform(-OTHER_JOINT_JITTER_DEG, OTHER_JOINT_JITTER_DEG))));
   }
   const shared = uniform(set.rangeDeg[0], set.rangeDeg[1]);
-  for (const key of set.keys) {
+  const moving = singleFinger ? [set.keys[uniformInt(rng, 0, set.keys.length - 1)]] : set.keys;
+  for (const key of moving) {
     const spread = set.keys.length > 1 ? uniform(-FINGER_SPREAD_DEG, FINGER_SPREAD_DEG) : 0;
     setPoseAngle(pose, key, Math.min(set.rangeDeg[1], Math.max(set.rangeDeg[0], shared + spread)));
   }
@@ -58,7 +63,7 @@ export function motionFrame(rigs: Record<HandSide, HandRig>, seed: number, set: 
   const look = sampleLook(rng);
   const rig = rigs[side];
   const camera = placeCamera(side, placement, handCentre(poseHand(rig, pose)));
-  return { ...buildFrame(rig, pose, camera, placement, look), seed, motion: set.id };
+  return { ...buildFrame(rig, pose, camera, placement, look), seed, motion: set.id, ...(singleFinger ? { movingKeys: moving } : {}) };
 }
 
 /**

@@ -54,3 +54,13 @@ describe("accuracy rows", () => {
     expect(markdown).toContain("| PIP flexion | palm | blind | 16 | 0% | - | - | - | - | - |");
   });
 });
+
+describe("single-finger stills", () => {
+  it("score only the moving finger's joint", () => {
+    const truths = frameSeeds(43, 6).map((seed) => randomFrame(rigs, seed, { views: ["ulnar"] }).truth);
+    const stills: TrackedStill[] = truths.map((truth) => ({ truth, model: "exact", hand: truth.landmarksCameraM, score: 1, movingKeys: ["ring.pipFlexionDeg"] }));
+    const [row] = accuracyRows(stills, null, [JOINT_GROUPS.find((g) => g.label === "PIP flexion")!]);
+    // Six stills, one scored joint each (four fingers otherwise).
+    expect(row.summary.samples).toBe(6);
+  });
+});

@@ -14,6 +14,8 @@ export interface TrackedStill {
   truth: FrameTruth;
   /** The motion a motion-set still shows (scripts/accuracy/motion-sets.ts). */
   motion?: string;
+  /** The joints that move in a single-finger still: only these are scored. */
+  movingKeys?: PoseKey[];
   model: string;
   hand: Vec3[] | null;
   /** The same landmarks in the image: x, y in 0-1 of width and height. Absent in sets saved before it was kept. */
@@ -29,6 +31,10 @@ export interface AccuracyRow {
   summary: ErrorSummary;
   /** Mean error of the engine on the exact landmarks: the part of the bias owed to the rig's landmark convention. */
   perfectTrackerBiasDeg: number | null;
+}
+
+function scoredKeys(still: TrackedStill, group: JointGroup): readonly PoseKey[] {
+  return still.movingKeys ? group.keys.filter((key) => still.movingKeys!.includes(key)) : group.keys;
 }
 
 function pick(
@@ -69,7 +75,7 @@ export function accuracyRows(
           const corrector = (key: PoseKey) => (estimate: AngleEstimate) =>
             correction ? (applyCorrection(correction, model, key, estimate) ?? (hasGroupFit(correction, model, group.label) ? estimate.deg : null)) : null;
           const samples = inCell.flatMap((e) =>
-            group.keys.map((key) => ({
+            scoredKeys(e.still, group).map((key) => ({
               truthDeg: getPoseAngle(e.still.truth.commandedDeg, key),
               estimateDeg: e.tracked ? pick(e.tracked[key], method, corrector(key)) : null,
             })),
@@ -79,7 +85,7 @@ export function accuracyRows(
             method === "corrected"
               ? []
               : inCell.flatMap((e) =>
-                  group.keys.map((key) => ({
+                  scoredKeys(e.still, group).map((key) => ({
                     truthDeg: getPoseAngle(e.still.truth.commandedDeg, key),
                     estimateDeg: pick(e.perfect[key], method, corrector(key)),
                   })),

@@ -13,8 +13,12 @@ import { parseArgs } from "node:util";
 import type { CorrectionModel } from "./correction";
 import { MOTION_SETS } from "./motion-sets";
 import { accuracyMarkdown, accuracyRows, type AccuracyRow } from "./report";
-import { CAMERA_VIEWS } from "./scene";
+import { CAMERA_VIEWS, frameSeeds } from "./scene";
 import {
+  FINGER_MOTION_SETS,
+  singleFingerMotionSetFrame,
+  type SetFrame,
+  type TrackedSet,
   CLIP_FPS,
   HOLD_MS,
   motionSetFrame,
@@ -72,6 +76,14 @@ function acceptanceLines(rows: AccuracyRow[]): string[] {
   return lines;
 }
 
+/** Fills in which joints move in each still of a set saved before tracked sets kept it (the frames are rebuilt from the seed). */
+export function withMovingKeys(set: TrackedSet, makeFrame: (frameSeed: number, index: number) => SetFrame): TrackedSet {
+  if (set.stills.every((still) => still.movingKeys)) return set;
+  const seeds = frameSeeds(set.seed, set.count);
+  const moving = seeds.map((seed, i) => makeFrame(seed, i).movingKeys);
+  return { ...set, stills: set.stills.map((still, i) => ({ ...still, movingKeys: still.movingKeys ?? (moving[i % set.count] ? [...moving[i % set.count]!] : undefined) })) };
+}
+
 /**
  * Sections other tools write into report.md between `<!-- name: begin … -->` and `<!-- name: end -->` (e.g.
  * wrist-axis.ts) are carried over from the old report, so a new accuracy run does not erase them.
@@ -83,7 +95,13 @@ export function withKeptSections(report: string, previous: string): string {
 
 async function main(): Promise<void> {
   const { values } = parseArgs({
-    options: { "per-view": { type: "string" }, "per-motion": { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" } },
+    options: {
+      "per-view": { type: "string" },
+      "per-motion": { type: "string" },
+      "single-per-motion": { type: "string" },
+      models: { type: "string" },
+      reuse: { type: "boolean" },
+    },
   });
   const perView = parseCount("per-view", values["per-view"], 40);
   const perMotion = parseCount("per-motion", values["per-motion"], 60);
@@ -92,6 +110,16 @@ async function main(): Promise<void> {
   const motions = await trackRenderedSet({
     name: "motions", seed: VALIDATION_SEED, count: motionCount, models, makeFrame: motionSetFrame(), reuse: values.reuse,
   });
+  // One finger moving, the others near rest: how a client may well do a finger test, and read very differently by
+  // the landmark model than four fingers moving together.
+  const singlePerMotion = parseCount("single-per-motion", values["single-per-motion"], 60);
+  const singleMakeFrame = singleFingerMotionSetFrame();
+  const single = withMovingKeys(
+    await trackRenderedSet({
+      name: "single-finger-motions", seed: VALIDATION_SEED, count: singlePerMotion * FINGER_MOTION_SETS.length, models, makeFrame: singleMakeFrame, reuse: values.reuse,
+    }),
+    singleMakeFrame,
+  );
   const randomCount = perView * CAMERA_VIEWS.length;
   const random = await trackRenderedSet({
     name: "random", seed: VALIDATION_SEED, count: randomCount, models, makeFrame: randomSetFrame(), reuse: values.reuse,
@@ -112,8 +140,17 @@ async function main(): Promise<void> {
     ),
   );
   const motionTable = accuracyMarkdown(motionRows);
+  const singleRows = FINGER_MOTION_SETS.flatMap((set) =>
+    accuracyRows(
+      single.stills.filter((still) => still.motion === set.id),
+      correction,
+      [{ label: set.label, keys: set.keys }],
+    ),
+  );
   const randomTable = accuracyMarkdown(accuracyRows(random.stills, correction));
-  const acceptance = correction ? acceptanceLines(motionRows) : ["- No correction fitted yet."];
+  const acceptance = correction
+    ? [...acceptanceLines(motionRows), "", "One finger moving, the others near rest (not issue 8's set; the same bars, for comparison):", "", ...acceptanceLines(singleRows)]
+    : ["- No correction fitted yet."];
   const report = [
     "# Angle accuracy on rendered hands",
     "",
@@ -152,6 +189,14 @@ async function main(): Promise<void> {
     "## Random poses in every view",
     "",
     randomTable,
+    "",
+    // After the random poses: readers of the test-motion tables take everything up to "## Random poses".
+    "## Single-finger test motions in their recommended view",
+    "",
+    `Held-out seed ${VALIDATION_SEED}, ${single.count} stills (${singlePerMotion} per finger motion): one finger, drawn from the seed, moves the tested joint; ` +
+      "the others stay within 5 degrees of rest. Only the moving finger is scored.",
+    "",
+    accuracyMarkdown(singleRows),
     "",
   ].join("\n");
   writeFileSync(REPORT_FILE, withKeptSections(report, existsSync(REPORT_FILE) ? readFileSync(REPORT_FILE, "utf8") : ""));

@@ -24,19 +24,34 @@ function isTestMotion(sample: FingerSample): boolean {
   return sample.motion !== null && sample.motion !== FINGER_FLEXION_SET;
 }
 
-function scoreJoint(train: FingerSample[], test: FingerSample[], joint: FingerJoint, lambda: number, togetherWeight: number, marginSd: number) {
-  const rows = train.filter((s) => sampleWeight(s, joint, togetherWeight) > 0);
+function scoreJoint(
+  train: FingerSample[],
+  test: FingerSample[],
+  joint: FingerJoint,
+  lambda: number,
+  togetherWeight: number,
+  marginSd: number,
+  restingWeight: number,
+) {
+  const weightOf = (s: FingerSample) => sampleWeight(s, joint, togetherWeight, restingWeight);
+  const rows = train.filter((s) => weightOf(s) > 0);
   const fit = fitFingerJoint(rows.map((s) => s.base), rows.map((s) => s.truthDeg[joint]), {
     ridgeLambda: lambda,
     huberDeg: HUBER_DEG,
-    weights: rows.map((s) => sampleWeight(s, joint, togetherWeight)),
+    weights: rows.map(weightOf),
   });
   // Outside the training domain the engine keeps the raw angle; scored the same way, with the share kept.
   return test
-    .filter((s) => sampleWeight(s, joint, 0) === 1)
+    // Scored as the report scores: the tested joint of every finger in four-finger stills, the moving finger in single ones.
+    .filter((s) => sampleWeight(s, joint, 0, 0) === 1)
     .map((s) => {
       const inDomain = inTrainingDomain(fit, s.base, marginSd);
-      return { view: s.view, truthDeg: s.truthDeg[joint], estimateDeg: inDomain ? applyFingerFit(fit, s.base) : s.base[FINGER_JOINTS.indexOf(joint)], inDomain };
+      return {
+        view: `${s.stillId.startsWith("single") ? "single " : ""}${s.view}`,
+        truthDeg: s.truthDeg[joint],
+        estimateDeg: inDomain ? applyFingerFit(fit, s.base) : s.base[FINGER_JOINTS.indexOf(joint)],
+        inDomain,
+      };
     });
 }
 
@@ -49,6 +64,7 @@ async function main(): Promise<void> {
       lambdas: { type: "string" },
       weights: { type: "string" },
       margins: { type: "string" },
+      resting: { type: "string" },
     },
   });
   const setNames = (values.sets ?? "motions-77000001-600,fingers-77000101-600").split(",");
@@ -57,13 +73,14 @@ async function main(): Promise<void> {
   const lambdas = (values.lambdas ?? "3,10,30").split(",").map(Number);
   const weights = (values.weights ?? "0,0.1,0.3").split(",").map(Number);
   const margins = (values.margins ?? String(DOMAIN_MARGIN_SD)).split(",").map(Number);
+  const restingWeights = (values.resting ?? "1").split(",").map(Number);
   for (const model of (values.models ?? "lite,full").split(",")) {
     for (const joint of FINGER_JOINTS) {
       for (const lambda of lambdas) {
-        for (const weight of weights) for (const marginSd of margins) {
+        for (const weight of weights) for (const marginSd of margins) for (const resting of restingWeights) {
           const own = all.filter((s) => s.model === model);
           const results = holdout
-            ? scoreJoint(own, holdout.filter((s) => s.model === model), joint, lambda, weight, marginSd)
+            ? scoreJoint(own, holdout.filter((s) => s.model === model), joint, lambda, weight, marginSd, resting)
             : Array.from({ length: FOLDS }, (_, fold) =>
                 scoreJoint(
                   own.filter((s) => !isTestMotion(s) || foldOf(s) !== fold),
@@ -72,14 +89,15 @@ async function main(): Promise<void> {
                   lambda,
                   weight,
                   marginSd,
+                  resting,
                 ),
               ).flat();
-          const cells = ["radial", "ulnar"].map((view) => {
+          const cells = ["radial", "ulnar", "single radial", "single ulnar"].filter((view) => results.some((r) => r.view === view)).map((view) => {
             const s = summarizeErrors(results.filter((r) => r.view === view));
             const kept = results.filter((r) => r.view === view && r.inDomain).length / Math.max(1, results.filter((r) => r.view === view).length);
             return `${view} MAE ${s.meanAbsoluteErrorDeg?.toFixed(1)} slope ${s.slope?.toFixed(2)} estimator ${Math.round(kept * 100)}%`;
           });
-          console.log(`${model} ${joint} lambda ${lambda} together-weight ${weight} margin ${marginSd} sd: ${cells.join(" | ")}`);
+          console.log(`${model} ${joint} lambda ${lambda} together-weight ${weight} margin ${marginSd} sd resting ${resting}: ${cells.join(" | ")}`);
         }
       }
     }

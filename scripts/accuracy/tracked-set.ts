@@ -12,6 +12,7 @@ import { launchChromium, openHarnessPage, startHarnessServer, waitForFrames } fr
 import { renderStillsClip } from "./render-jobs";
 import { HandRenderer, RENDER_OUTPUT_ROOT } from "./renderer";
 import { MOTION_SETS, motionFrame } from "./motion-sets";
+import type { PoseKey } from "./hand-pose";
 import type { RenderFrameSpec } from "./render-spec";
 import { framesForStills, type TrackedStill } from "./report";
 import { loadHandRig } from "./rig-files";
@@ -57,6 +58,7 @@ export interface SetFrame {
   truth: FrameTruth;
   /** The motion a motion-set still shows. */
   motion?: string;
+  movingKeys?: readonly PoseKey[];
 }
 
 /** Random poses in every view in turn: the general set. */
@@ -69,6 +71,15 @@ export function randomSetFrame(): (frameSeed: number, index: number) => SetFrame
 export function motionSetFrame(): (frameSeed: number, index: number) => SetFrame {
   const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
   return (frameSeed, index) => motionFrame(rigs, frameSeed, MOTION_SETS[index % MOTION_SETS.length]);
+}
+
+/** The finger joints' test motions only (MCP, PIP, DIP flexion). */
+export const FINGER_MOTION_SETS = MOTION_SETS.filter((set) => ["mcp.flexion", "pip.flexion", "dip.flexion"].includes(set.id));
+
+/** The finger motions in turn, one finger moving (scripts/accuracy/motion-sets.ts motionFrame, singleFinger). */
+export function singleFingerMotionSetFrame(): (frameSeed: number, index: number) => SetFrame {
+  const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
+  return (frameSeed, index) => motionFrame(rigs, frameSeed, FINGER_MOTION_SETS[index % FINGER_MOTION_SETS.length], true);
 }
 
 /**
@@ -114,6 +125,7 @@ export async function trackRenderedSet(options: {
       stills.push({
         truth: frames[i].truth,
         ...(frames[i].motion ? { motion: frames[i].motion } : {}),
+        ...(frames[i].movingKeys ? { movingKeys: [...frames[i].movingKeys!] } : {}),
         model,
         hand: (frame?.hand as Vec3[] | null) ?? null,
         image: (frame?.image as Vec3[] | null) ?? null,
