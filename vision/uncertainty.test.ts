@@ -45,12 +45,12 @@ describe("the interval rule", () => {
 });
 
 describe("the committed table (vision/uncertainty-table.json) against its own figures", () => {
-  it("applies the correction exactly where its held-out error is lower, and states the error of the method used", () => {
+  it("applies the correction only where its held-out error is lower, and states the error of the method used", () => {
+    // Where exactly (a win beyond two standard errors) is checked in scripts/accuracy/derive-uncertainty.test.ts.
     expect(UNCERTAINTY_TABLE.cells.length).toBeGreaterThan(40);
     for (const c of UNCERTAINTY_TABLE.cells) {
-      const helps = c.correctedMaeDeg !== null && c.correctedMaeDeg < c.rawMaeDeg;
-      expect(c.correctionHelps, `${c.group} ${c.view} ${c.model}`).toBe(helps);
-      expect(c.uncertaintyDeg).toBeCloseTo(uncertaintyFromMaeDeg(helps ? c.correctedMaeDeg! : c.rawMaeDeg), 1);
+      if (c.correctionHelps) expect(c.correctedMaeDeg!, `${c.group} ${c.view} ${c.model}`).toBeLessThan(c.rawMaeDeg);
+      expect(c.uncertaintyDeg).toBeCloseTo(uncertaintyFromMaeDeg(c.correctionHelps ? c.correctedMaeDeg! : c.rawMaeDeg), 1);
     }
   });
 

@@ -1,7 +1,7 @@
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { UNCERTAINTY_TABLE } from "@/vision/uncertainty";
-import { deriveUncertaintyTable, parseAccuracyReport, REPORT_FILE } from "./derive-uncertainty";
+import { ABS_ERROR_SD_PER_MEAN, correctionClearlyHelps, deriveUncertaintyTable, parseAccuracyReport, REPORT_FILE } from "./derive-uncertainty";
 
 describe("uncertainty table from the accuracy report", () => {
   const report = parseAccuracyReport(readFileSync(REPORT_FILE, "utf8"));
@@ -27,6 +27,20 @@ describe("uncertainty table from the accuracy report", () => {
       expect(cell.rawMaeDeg).toBe(row.maeDeg);
     }
     expect(UNCERTAINTY_TABLE.cells.some((c) => c.source === "random poses")).toBe(true);
+  });
+
+  it("applies the correction only where it wins by more than two standard errors of the raw MAE", () => {
+    // |e| of a normal error: mean sigma*sqrt(2/pi), SD sigma*sqrt(1-2/pi); their ratio is sqrt(pi/2-1) (half-normal
+    // distribution, e.g. Leone, Nelson & Nottingham, Technometrics 3(4), 1961).
+    expect(ABS_ERROR_SD_PER_MEAN).toBeCloseTo(Math.sqrt(1 - 2 / Math.PI) / Math.sqrt(2 / Math.PI), 12);
+    // 160 samples at 39.7: SE 2.37, so 36.3 (a 3.4 degree win) is within noise and 34.9 is not.
+    expect(correctionClearlyHelps(39.7, 36.3, 160)).toBe(false);
+    expect(correctionClearlyHelps(39.7, 34.9, 160)).toBe(true);
+    expect(correctionClearlyHelps(27.6, 5.1, 140)).toBe(true);
+    // The committed table follows the rule in every cell.
+    for (const c of UNCERTAINTY_TABLE.cells) {
+      expect(c.correctionHelps).toBe(c.correctedMaeDeg !== null && correctionClearlyHelps(c.rawMaeDeg, c.correctedMaeDeg, c.samples));
+    }
   });
 
   it("names the table that is missing", () => {
