@@ -7,10 +7,12 @@ export {
   CORRECTION_VERSION,
   correctMotionAngle,
   correctionGroupFor,
+  hasGroupFit,
   type CorrectionModel,
   type HandModel,
   type RawAngleFeatures,
 } from "./correction";
+export { estimateFingerJointDeg, fingerFeatures, FINGER_FEATURES, inTrainingDomain, type Finger, type FingerJoint } from "./estimator";
 export { DIGIT_CHAIN, LANDMARK_COUNT, type HandLandmarks } from "./landmarks";
 export { DEFAULT_ONE_EURO, OneEuroFilter, type OneEuroParams } from "./one-euro";
 export {
@@ -36,3 +38,27 @@ export {
   type ValidationView,
 } from "./uncertainty";
 export type { Vec3 } from "./vec";
+export {
+  describeView,
+  majorityView,
+  measureView,
+  viewInstruction,
+  viewName,
+  viewPolicy,
+  viewQuality,
+  type CameraPlacement,
+  type ViewPolicy,
+  type ViewQuality,
+} from "./view-policy";
+export {
+  FOREARM_SOURCES,
+  forearmFromNeutral,
+  NEUTRAL_LIMITS,
+  neutralReading,
+  neutralReadingUncertaintyDeg,
+  WRIST_AXIS_VALIDATION,
+  type ForearmSource,
+  type NeutralFrame,
+  type NeutralOutcome,
+  type NeutralReading,
+} from "./wrist-axis";
