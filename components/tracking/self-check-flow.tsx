@@ -10,6 +10,7 @@ import type { CaptureSaveResponse, StoredAttempt } from "@/lib/captures/upload";
 import { CONDITIONS, MOTIONS, getReferenceEndRange, type CameraView, type Condition, type Digit, type MotionId, type RangeTableId, type Side } from "@/lib/motions/catalog";
 import { newCaptureUid } from "@/lib/tracking/capture-recorder";
 import { readyToStart } from "@/lib/tracking/setup-checks";
+import { fingersTogetherNote } from "@/lib/tracking/self-check-plan";
 import { NEUTRAL_HOLD_MS, useHandTracking } from "@/lib/tracking/use-hand-tracking";
 import { NEUTRAL_INSTRUCTION } from "@/components/visit-room/neutral-reading";
 import { analyzeCapture, type CaptureAnalysis } from "@/vision/analyze-capture";
@@ -258,6 +259,7 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
             <ol className="list-decimal space-y-2 pl-5 text-sm text-ink">
               <li>Sit at a table with your {side} forearm resting on it, shoulder relaxed.</li>
               <li>{def.testPosition[condition]}</li>
+              {fingersTogetherNote(motion, digit) ? <li>{fingersTogetherNote(motion, digit)}</li> : null}
               <li>
                 {policy.instruction} {CAMERA_WORDS[policy.placement]}
               </li>

@@ -11,6 +11,7 @@ import { useHandTracking } from "@/lib/tracking/use-hand-tracking";
 import { encodeTelemetry, type ControlMessage } from "@/lib/visits/telemetry";
 import { useVisitRoom } from "@/lib/visits/use-visit-room";
 import { MicCheck } from "./mic-check";
+import { fingersTogetherNote } from "@/lib/tracking/self-check-plan";
 import { ClientNeutralReading } from "./neutral-reading";
 import { CONDITION_LABELS } from "./test-picker";
 import { TrackAudio, TrackVideo } from "./track-video";
@@ -226,7 +227,9 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
                 {test.digit ? `, ${test.digit} finger` : ""} ({test.side}) · {CONDITION_LABELS[test.condition]}
               </p>
               <div className="mt-2 grid gap-3 md:grid-cols-[1fr_14rem]">
-                <p className="text-base">{def.testPosition[test.condition]}</p>
+                <p className="text-base">
+                  {def.testPosition[test.condition]} {fingersTogetherNote(test.motion, test.digit) ?? ""}
+                </p>
                 <PositionIllustration cameraView={def.cameraView} condition={test.condition} wrist={def.joint === "wrist"} />
               </div>
               <p className="mt-2 text-4xl font-semibold tabular-nums" aria-live="polite">

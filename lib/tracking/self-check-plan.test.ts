@@ -28,3 +28,18 @@ describe("self-check plan", () => {
     }
   });
 });
+
+describe("fingersTogetherNote", () => {
+  it("asks for all four fingers in finger flexion checks, and only there", async () => {
+    const { fingersTogetherNote } = await import("./self-check-plan");
+    const report = (await import("node:fs")).readFileSync(new URL("../../scripts/accuracy/report.md", import.meta.url), "utf8");
+    // The evidence the note rests on: the report's one-finger comparison misses far more than the four-finger set.
+    expect(report).toContain("One finger moving, the others near rest");
+    expect(fingersTogetherNote("pip.flexion", "middle")).toMatch(/all four fingers together.*middle finger/);
+    expect(fingersTogetherNote("mcp.flexion", "index")).not.toBeNull();
+    expect(fingersTogetherNote("dip.flexion", "little")).not.toBeNull();
+    expect(fingersTogetherNote("mcp.flexion", "thumb")).toBeNull();
+    expect(fingersTogetherNote("wrist.flexion", null)).toBeNull();
+    expect(fingersTogetherNote("mcp.extension", "index")).toBeNull();
+  });
+});

@@ -52,3 +52,16 @@ export function selfCheckPlan(client: { affectedSide: "left" | "right" | "both";
   }
   return { sides, offered, withheld };
 }
+
+const FINGER_FLEXION: readonly MotionId[] = ["mcp.flexion", "pip.flexion", "dip.flexion"];
+
+/**
+ * For finger flexion the client bends all four fingers together while the camera reads the chosen one: on held-out
+ * renders a finger bent on its own next to straight ones reads 19-32 degrees off at every joint, while four fingers
+ * together read 3.8 (MCP) and 5.1 (PIP) degrees off from the little-finger side (scripts/accuracy/report.md, the
+ * acceptance list and its one-finger comparison). Null for other motions and for the thumb.
+ */
+export function fingersTogetherNote(motion: MotionId, digit: string | null): string | null {
+  if (!FINGER_FLEXION.includes(motion) || !digit || digit === "thumb") return null;
+  return `Bend all four fingers together, even though the check is for your ${digit} finger: the camera reads a finger far better when its neighbours move with it.`;
+}
