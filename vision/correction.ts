@@ -1,6 +1,7 @@
 import type { Digit, MotionId, Side } from "@/lib/motions/catalog";
 import COEFFICIENTS from "./correction-coefficients.json";
 import { estimateFingerJointDeg, fingerJointOfGroup, type Finger, type FingerEstimatorModel } from "./estimator";
+import type { HandAxes } from "./angles";
 import type { HandLandmarks } from "./landmarks";
 
 /**
@@ -64,6 +65,8 @@ export interface RawAngleFeatures {
   /** The frame's 21 world landmarks and the hand's side: the finger estimator reads the whole finger from them. */
   hand?: HandLandmarks;
   side?: Side;
+  /** The hand's axes when the caller already has them for this frame (saves computing them again per frame). */
+  axes?: HandAxes;
 }
 
 export interface CorrectionGroupFit {
@@ -111,7 +114,7 @@ export function correctGroupAngle(
   const joint = fingerJointOfGroup(group);
   if (joint && model.fingerEstimator?.fits[handModel]?.[joint]) {
     if (!features.hand || !features.side || !digit || !FINGERS.includes(digit)) return null;
-    return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger);
+    return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes);
   }
   const fit = model.groups[handModel]?.[group];
   if (!fit) return null;

@@ -187,9 +187,10 @@ export function estimateFingerJointDeg(
   hand: HandLandmarks,
   side: Side,
   finger: Finger,
+  axes?: HandAxes,
 ): number | null {
   const fit = model.fits[handModel]?.[joint];
   if (!fit) return null;
-  const base = fingerFeatures(hand, side, finger);
+  const base = fingerFeatures(hand, side, finger, axes ?? handAxes(hand, side));
   return base && inTrainingDomain(fit, base) ? applyFingerFit(fit, base) : null;
 }

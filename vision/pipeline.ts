@@ -216,7 +216,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     const view = viewOfAxes(axes);
     let angleDeg = reading.deg;
     let frameMethod: MeasurementMethod = "world3d";
-    // kinarc-correction-1 was fitted on wrist angles read against the render's true forearm; against a neutral reading
+    // The correction's wrist maps were fitted on angles read against the render's true forearm; against a neutral reading
     // it moves them away from the truth (scripts/accuracy/report.md, wrist section), so they stay raw.
     const againstNeutral = forearm?.source === "neutral-reading";
     if (correctionTarget && !againstNeutral && Number.isFinite(reading.imagePlaneDeg) && correctionHelps(table, correctionTarget.group, handModel, view)) {
@@ -228,6 +228,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
         palmTowardCamera: -axes.palmarNormal[2],
         hand: frame.hand,
         side: options.side,
+        axes,
       });
       if (corrected !== null && Number.isFinite(corrected)) {
         angleDeg = corrected;
