@@ -11,17 +11,14 @@ import { CAPTURE_BODY_LIMIT_BYTES } from "@/lib/captures/upload";
 import { BadRequest } from "@/lib/http";
 import { analyzeCapture } from "@/vision/analyze-capture";
 import { buildSyntheticCapture, type SyntheticCaptureSpec } from "@/vision/testing/synthetic-hand";
-import { tempDatabase, type TempDb } from "./support";
+import { actorByEmail as actorByEmailIn, tempDatabase, type TempDb } from "./support";
 
 let t: TempDb;
 let seed: SeedResult;
 let dorian: Actor;
 let therapist: Actor;
 
-async function actorByEmail(email: string): Promise<Actor> {
-  const [u] = await t.db.select().from(users).where(eq(users.email, email));
-  return (await actorForUser(t.db, u.id))!;
-}
+const actorByEmail = (email: string) => actorByEmailIn(t.db, email);
 
 // The synthetic hand (vision/testing) bends the middle finger's PIP joint to a known 90 degrees three times: the
 // stored peak must come from the server's own analysis of the landmarks, whatever the browser claims.

@@ -1,14 +1,14 @@
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { clients, gradeEntries, users } from "@/db/schema";
+import { clients, gradeEntries } from "@/db/schema";
 import { seedDemo, type SeedResult } from "@/db/seed/demo";
-import { actorForUser, type Actor } from "@/lib/auth/guard";
+import type { Actor } from "@/lib/auth/guard";
 import { buildChart, clientProgress } from "@/lib/chart/chart";
 import { buildQueue } from "@/lib/chart/follow-ups";
 import { cosignGrade, recordGrade, recordInPersonResult, recordPassiveRange } from "@/lib/chart/record";
 import { gradeInputSchema, inPersonResultSchema } from "@/lib/chart/schemas";
 import { BadRequest } from "@/lib/http";
-import { tempDatabase, type TempDb } from "./support";
+import { actorByEmail as actorByEmailIn, tempDatabase, type TempDb } from "./support";
 
 // The demo's attempts come from the measurement engine run on synthetic captures (db/seed/chart.ts); grades from
 // lib/grading. Grade ladder: Hislop, Avers & Brown, Daniels and Worthingham's Muscle Testing, 9th ed., 2014.
@@ -18,10 +18,7 @@ let seed: SeedResult;
 let therapist: Actor;
 let assistant: Actor;
 
-async function actor(email: string) {
-  const [u] = await t.db.select().from(users).where(eq(users.email, email));
-  return (await actorForUser(t.db, u.id))!;
-}
+const actor = (email: string) => actorByEmailIn(t.db, email);
 async function client(key: string) {
   const [c] = await t.db.select().from(clients).where(eq(clients.id, seed.clientIds![key]));
   return c;

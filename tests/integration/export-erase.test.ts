@@ -7,13 +7,13 @@ import { strFromU8, unzipSync } from "fflate";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { attempts, auditEvents, clientErasures, clients, consents, gradeEntries, uploads, users, visits } from "@/db/schema";
 import { seedDemo, type SeedResult } from "@/db/seed/demo";
-import { actorForUser, requireClientRecord, type Actor } from "@/lib/auth/guard";
+import { requireClientRecord, type Actor } from "@/lib/auth/guard";
 import { buildClientExport, tablesWithClientId } from "@/lib/export/client-export";
 import { eraseClient, ErasureRefused } from "@/lib/export/erase";
 import { DiskStore } from "@/lib/storage";
 import { saveUpload } from "@/lib/uploads/save";
 import { uploadFieldsSchema } from "@/lib/validation/upload";
-import { tempDatabase, type TempDb } from "./support";
+import { actorByEmail as actorByEmailIn, tempDatabase, type TempDb } from "./support";
 import { pdfBytes, webmBytes } from "./upload-fixtures";
 
 let t: TempDb;
@@ -23,10 +23,7 @@ let store: DiskStore;
 let admin: Actor;
 let dorian: Actor;
 
-async function actorByEmail(email: string): Promise<Actor> {
-  const [u] = await t.db.select().from(users).where(eq(users.email, email));
-  return (await actorForUser(t.db, u.id))!;
-}
+const actorByEmail = (email: string) => actorByEmailIn(t.db, email);
 
 beforeAll(async () => {
   t = await tempDatabase();

@@ -2,9 +2,9 @@ import { and, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { auditEvents, staffActivity, users } from "@/db/schema";
 import { seedDemo } from "@/db/seed/demo";
-import { actorForUser, type Actor } from "@/lib/auth/guard";
+import type { Actor } from "@/lib/auth/guard";
 import { staffSessionActive } from "@/lib/auth/idle";
-import { tempDatabase, type TempDb } from "./support";
+import { actorByEmail as actorByEmailIn, tempDatabase, type TempDb } from "./support";
 
 let t: TempDb;
 let therapist: Actor;
@@ -13,10 +13,7 @@ const T0 = new Date("2026-12-01T09:00:00Z").getTime();
 const at = (minutes: number) => new Date(T0 + minutes * 60_000);
 const IDLE_MIN = 30;
 
-async function actorByEmail(email: string): Promise<Actor> {
-  const [u] = await t.db.select().from(users).where(eq(users.email, email));
-  return (await actorForUser(t.db, u.id))!;
-}
+const actorByEmail = (email: string) => actorByEmailIn(t.db, email);
 
 beforeAll(async () => {
   t = await tempDatabase();

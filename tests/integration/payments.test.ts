@@ -14,7 +14,7 @@ import { paymentServiceFor } from "@/lib/payments/service";
 import { visitPaymentState } from "@/lib/payments/status";
 import { handlePaymentWebhook } from "@/lib/payments/webhook";
 import { startPaymentFake, type PaymentFake } from "../../scripts/payment-fake/server";
-import { tempDatabase, type TempDb } from "./support";
+import { actorByEmail as actorByEmailIn, tempDatabase, type TempDb } from "./support";
 
 const SECRET_KEY = "sk_test_integration_only";
 const WEBHOOK_SECRET = "whsec_integration_only_0001";
@@ -29,10 +29,7 @@ let admin: Actor;
 let visitId: string;
 const received: { status: number; body: Record<string, unknown> }[] = [];
 
-async function actorByEmail(email: string): Promise<Actor> {
-  const [u] = await t.db.select().from(users).where(eq(users.email, email));
-  return (await actorForUser(t.db, u.id))!;
-}
+const actorByEmail = (email: string) => actorByEmailIn(t.db, email);
 
 async function newVisit(clientKey: string, kind: "video" | "in_person" = "video"): Promise<string> {
   const [therapist] = await t.db.select().from(users).where(eq(users.email, "therapist@kinarc.test"));

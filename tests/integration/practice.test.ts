@@ -17,7 +17,7 @@ import { clientPractice, programOverview } from "@/lib/practice/program";
 import { readProgramFor } from "@/lib/practice/read";
 import { practiceTarget } from "@/lib/practice/start";
 import { buildSyntheticCapture, type SyntheticCaptureSpec } from "@/vision/testing/synthetic-hand";
-import { tempDatabase, type TempDb } from "./support";
+import { actorByEmail as actorByEmailIn, tempDatabase, type TempDb } from "./support";
 
 describe("assigning, practising and reading a home program", () => {
   let t: TempDb;
@@ -39,10 +39,7 @@ describe("assigning, practising and reading a home program", () => {
   let uid = 0;
   const captureUid = () => `practice-capture-${String(++uid).padStart(6, "0")}`;
 
-  async function actorByEmail(email: string): Promise<Actor> {
-    const [u] = await t.db.select().from(users).where(eq(users.email, email));
-    return (await actorForUser(t.db, u.id))!;
-  }
+  const actorByEmail = (email: string) => actorByEmailIn(t.db, email);
 
   beforeAll(async () => {
     t = await tempDatabase();

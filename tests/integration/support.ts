@@ -1,7 +1,10 @@
 import { mkdtempSync, rmSync } from "node:fs";
 import os from "node:os";
 import path from "node:path";
+import { eq } from "drizzle-orm";
 import { openDatabase, type Database } from "@/db";
+import { users } from "@/db/schema";
+import { actorForUser, type Actor } from "@/lib/auth/guard";
 import { migrateDatabase } from "../../scripts/migrate";
 
 export interface TempDb {
@@ -24,4 +27,11 @@ export async function tempDatabase(): Promise<TempDb> {
       rmSync(dir, { recursive: true, force: true });
     },
   };
+}
+
+/** The access actor of a seeded user, looked up by e-mail (the demo seed's sign-ins). */
+export async function actorByEmail(db: Database, email: string): Promise<Actor> {
+  const [u] = await db.select().from(users).where(eq(users.email, email));
+  if (!u) throw new Error(`no user ${email} in the test database`);
+  return (await actorForUser(db, u.id))!;
 }

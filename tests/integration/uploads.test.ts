@@ -13,7 +13,7 @@ import { requireUpload } from "@/lib/uploads/access";
 import { inspectUpload, RefusedUpload, UPLOAD_RULES } from "@/lib/uploads/content";
 import { saveUpload, UploadConflict, uploadStorageKey } from "@/lib/uploads/save";
 import { uploadFieldsSchema } from "@/lib/validation/upload";
-import { tempDatabase, type TempDb } from "./support";
+import { actorByEmail as actorByEmailIn, tempDatabase, type TempDb } from "./support";
 import { mp4Bytes, pdfBytes, pngBytes, webmBytes } from "./upload-fixtures";
 
 let t: TempDb;
@@ -23,10 +23,7 @@ let store: BlobStore;
 let dorian: Actor;
 let therapist: Actor;
 
-async function actorByEmail(email: string): Promise<Actor> {
-  const [u] = await t.db.select().from(users).where(eq(users.email, email));
-  return (await actorForUser(t.db, u.id))!;
-}
+const actorByEmail = (email: string) => actorByEmailIn(t.db, email);
 
 function clipFields(clientId: string, uploadUid = randomUUID()) {
   return uploadFieldsSchema.parse({ clientId, uploadUid, kind: "clip", motion: "wrist.flexion", side: "right", note: "" });

@@ -2,14 +2,14 @@ import ICAL from "ical.js";
 import { eq } from "drizzle-orm";
 import { TokenVerifier } from "livekit-server-sdk";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { clients, users, visits } from "@/db/schema";
+import { clients, visits } from "@/db/schema";
 import { seedDemo, type SeedResult } from "@/db/seed/demo";
-import { actorForUser, type Actor } from "@/lib/auth/guard";
+import type { Actor } from "@/lib/auth/guard";
 import { LOCAL_DEFAULTS } from "@/lib/env";
 import { changeVisitStatus, requireVisit, runVisitJobs, scheduleVisit } from "@/lib/visits/service";
 import { visitToken } from "@/lib/visits/token";
 import { startMailCatcher, type MailCatcher } from "../../scripts/mail-catcher";
-import { tempDatabase, type TempDb } from "./support";
+import { actorByEmail as actorByEmailIn, tempDatabase, type TempDb } from "./support";
 
 // Mail goes to a catcher of this file's own; env() is read on first use, after this line.
 process.env.SMTP_URL = "smtp://127.0.0.1:2626";
@@ -20,10 +20,7 @@ let seed: SeedResult;
 let therapist: Actor;
 let dorian: Actor;
 
-async function actor(email: string): Promise<Actor> {
-  const [u] = await t.db.select().from(users).where(eq(users.email, email));
-  return (await actorForUser(t.db, u.id))!;
-}
+const actor = (email: string) => actorByEmailIn(t.db, email);
 
 const NOW = new Date("2026-12-02T09:00:00Z");
 
