@@ -18,13 +18,13 @@ import { gunzipSync } from "node:zlib";
 import { eq } from "drizzle-orm";
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { openDatabase } from "@/db";
+import type { Database } from "@/db";
 import { attemptCaptures, attempts, uploads } from "@/db/schema";
 import { parseCaptureText } from "@/lib/capture/parse";
 import { clipReviewTrace } from "@/lib/uploads/clip-review";
 import { correctionGroupFor } from "@/vision/correction";
 import { UNCERTAINTY_TABLE, validationCell } from "@/vision/uncertainty";
-import { signedInContext, startTestApp, type TestApp } from "./support/app";
+import { signedInContext, startTestApp, withAppDatabase, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
 const REPO_ROOT = path.resolve(__dirname, "..", "..");
@@ -48,14 +48,7 @@ async function signedIn(email: string): Promise<BrowserContext> {
   return (await signedInContext(browser, app.appUrl, email)).context;
 }
 
-async function withDb<T>(read: (db: ReturnType<typeof openDatabase>["db"]) => Promise<T>): Promise<T> {
-  const { db, client } = openDatabase(app.databaseUrl);
-  try {
-    return await read(db);
-  } finally {
-    client.close();
-  }
-}
+const withDb = <T>(fn: (d: Database) => Promise<T>) => withAppDatabase(app, fn);
 
 async function clipRecord(uploadUid: string) {
   return withDb(async (db) => {

@@ -12,13 +12,13 @@ import { gunzipSync } from "node:zlib";
 import { eq } from "drizzle-orm";
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { openDatabase } from "@/db";
+import type { Database } from "@/db";
 import { attemptCaptures, attempts, clients, users, visits } from "@/db/schema";
 import { parseCapture } from "@/lib/capture/parse";
 import { analyzeCapture } from "@/vision/analyze-capture";
 import { makeHandClip, STANDARD_CLIPS } from "../../scripts/fixtures/hand-photos";
 import { buildModels } from "../../scripts/models/build";
-import { signedInContext, startTestApp, type TestApp } from "./support/app";
+import { signedInContext, startTestApp, withAppDatabase, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
 const REPO_ROOT = path.resolve(__dirname, "..", "..");
@@ -34,14 +34,7 @@ async function signedIn(browser: Browser, email: string): Promise<BrowserContext
   return (await signedInContext(browser, app.appUrl, email, { permissions: ["camera", "microphone"] })).context;
 }
 
-async function db<T>(fn: (d: ReturnType<typeof openDatabase>["db"]) => Promise<T>): Promise<T> {
-  const { db: d, client: c } = openDatabase(app.databaseUrl);
-  try {
-    return await fn(d);
-  } finally {
-    c.close();
-  }
-}
+const db = <T>(fn: (d: Database) => Promise<T>) => withAppDatabase(app, fn);
 
 beforeAll(async () => {
   buildModels({ repoRoot: REPO_ROOT });

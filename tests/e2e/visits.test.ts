@@ -3,12 +3,12 @@ import { eq } from "drizzle-orm";
 import { TokenVerifier } from "livekit-server-sdk";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, BrowserContext, Page } from "playwright-core";
-import { openDatabase } from "@/db";
+import type { Database } from "@/db";
 import { attemptCaptures, attempts, visits } from "@/db/schema";
 import { LOCAL_DEFAULTS } from "@/lib/env";
 import { toLocalInput } from "@/lib/visits/time";
 import { makeHandClip, STANDARD_CLIPS } from "../../scripts/fixtures/hand-photos";
-import { signedInContext, startTestApp, type TestApp } from "./support/app";
+import { signedInContext, startTestApp, withAppDatabase, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
 let app: TestApp;
@@ -22,14 +22,7 @@ async function signedIn(browser: Browser, email: string): Promise<BrowserContext
   return (await signedInContext(browser, app.appUrl, email, { permissions: ["camera", "microphone"] })).context;
 }
 
-async function db<T>(fn: (d: ReturnType<typeof openDatabase>["db"]) => Promise<T>): Promise<T> {
-  const { db: d, client: c } = openDatabase(app.databaseUrl);
-  try {
-    return await fn(d);
-  } finally {
-    c.close();
-  }
-}
+const db = <T>(fn: (d: Database) => Promise<T>) => withAppDatabase(app, fn);
 
 beforeAll(async () => {
   // The client's fake camera shows real hand photos (Debian's gcompris-qt-data), open hand then fist, looping.

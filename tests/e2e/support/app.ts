@@ -2,7 +2,7 @@ import { mkdirSync, rmSync } from "node:fs";
 import path from "node:path";
 import type { Browser, BrowserContext, BrowserContextOptions, Page } from "playwright-core";
 import { DEMO_PASSWORD } from "@/db/seed/demo";
-import { openDatabase } from "@/db";
+import { openDatabase, type Database } from "@/db";
 import { seedDemo, type SeedResult } from "@/db/seed/demo";
 import { migrateDatabase } from "../../../scripts/migrate";
 import { ROOT, startLocalStack, type LocalStack } from "../../../scripts/lib/local-stack";
@@ -86,4 +86,14 @@ export async function signedInContext(browser: Browser, appUrl: string, email: s
   await signInWithPassword(page, appUrl, email, DEMO_PASSWORD);
   await page.waitForURL(`${appUrl}/home`);
   return { context, page };
+}
+
+/** Runs `fn` on a connection to the test app's database file, closed afterwards. */
+export async function withAppDatabase<T>(app: Pick<TestApp, "databaseUrl">, fn: (db: Database) => Promise<T>): Promise<T> {
+  const { db, client } = openDatabase(app.databaseUrl);
+  try {
+    return await fn(db);
+  } finally {
+    client.close();
+  }
 }
