@@ -1,5 +1,7 @@
 import type { Database } from "@/db";
 import { auditEvents } from "@/db/schema";
+// Type only: lib/auth/guard.ts imports this module at run time.
+import type { Actor } from "@/lib/auth/guard";
 
 export interface AuditInput {
   action: string;
@@ -28,6 +30,24 @@ export async function recordAudit(db: Writer, event: AuditInput): Promise<void> 
     address: event.address ?? null,
     detail: event.detail ?? null,
   });
+}
+
+/** The part of the signed-in person an audit event names (lib/auth/guard.ts `Actor` fits it). */
+export type AuditActor = Pick<Actor, "userId" | "role" | "clinicId">;
+
+/**
+ * An event done by a signed-in person. `clinicId` is the clinic of the record when the call site has it, so the row
+ * names the record's clinic as before; without it, the actor's (the guard makes the two equal).
+ */
+export type ActorEventInput = Omit<AuditInput, "actorUserId" | "actorRole">;
+
+/**
+ * Appends one audit event whose actor, role and (by default) clinic come from the signed-in person. Pass the
+ * transaction when the audited change is part of one. Events without a person (sign-in attempts, webhooks, jobs) use
+ * `recordAudit`.
+ */
+export function auditActorEvent(db: Writer, actor: AuditActor, event: ActorEventInput): Promise<void> {
+  return recordAudit(db, { ...event, clinicId: event.clinicId ?? actor.clinicId, actorUserId: actor.userId, actorRole: actor.role });
 }
 
 /**

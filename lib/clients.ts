@@ -1,7 +1,7 @@
 import type { Database } from "@/db";
 import { createClientRecord, getClient, isClinicianOf, updateClientRecord } from "@/db/queries/clients";
 import type { Client } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import type { Actor } from "@/lib/auth/guard";
 import { AccessError, NOT_FOUND } from "@/lib/auth/guard";
 import { BadRequest } from "@/lib/http";
@@ -48,11 +48,8 @@ export async function createClientFor(db: Database, actor: Actor, input: ClientI
   await checkTherapist(db, actor.clinicId, input.primaryTherapistId);
   return db.transaction(async (tx) => {
     const created = await createClientRecord(tx, actor.clinicId, input);
-    await recordAudit(tx, {
+    await auditActorEvent(tx, actor, {
       action: "client.create",
-      clinicId: actor.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
       subjectType: "client",
       subjectId: created.id,
       clientId: created.id,
@@ -71,11 +68,8 @@ export async function updateClientFor(db: Database, actor: Actor, clientId: stri
     if (problem) throw new BadRequest(`Invalid input (precautionFlags: ${problem})`, { precautionFlags: problem });
     const updated = await updateClientRecord(tx, actor.clinicId, clientId, patch);
     if (!updated) throw new AccessError(404, NOT_FOUND);
-    await recordAudit(tx, {
+    await auditActorEvent(tx, actor, {
       action: "client.update",
-      clinicId: actor.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
       subjectType: "client",
       subjectId: clientId,
       clientId,

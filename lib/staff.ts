@@ -2,7 +2,7 @@ import { createHash, randomBytes } from "node:crypto";
 import { and, eq, gt, isNull } from "drizzle-orm";
 import type { Database } from "@/db";
 import { passwordTokens, users } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent, recordAudit } from "@/lib/audit";
 import type { Actor } from "@/lib/auth/guard";
 import { hashPassword } from "@/lib/auth/password";
 import { env } from "@/lib/env";
@@ -25,11 +25,8 @@ export async function inviteStaff(db: Database, admin: Actor, input: { name: str
     if (existing) throw new BadRequest("Invalid input (email: already has a Kinarc account)", { email: "already has a Kinarc account" });
     const [user] = await tx.insert(users).values({ clinicId: admin.clinicId, name: input.name, email: input.email, role: input.role }).returning();
     await tx.insert(passwordTokens).values({ tokenHash: sha256(token), userId: user.id, purpose: "invite", expiresAt: new Date(Date.now() + INVITE_LIFETIME_MS) });
-    await recordAudit(tx, {
+    await auditActorEvent(tx, admin, {
       action: "staff.invite",
-      clinicId: admin.clinicId,
-      actorUserId: admin.userId,
-      actorRole: admin.role,
       subjectType: "user",
       subjectId: user.id,
       detail: { role: input.role },

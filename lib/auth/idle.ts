@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import type { Database } from "@/db";
 import { staffActivity, users, type Role } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 
 /** Activity is written at most this often per person, so a busy page does not write on every request. */
 export const ACTIVITY_WRITE_EVERY_MS = 60_000;
@@ -40,7 +40,7 @@ export async function staffSessionActive(
     if (active >= signIn) {
       // First request after the limit: note it once, and mark the activity as spent so only a new sign-in revives it.
       await db.update(staffActivity).set({ lastActiveAt: new Date(0) }).where(eq(staffActivity.userId, user.userId));
-      await recordAudit(db, { action: "auth.idle_sign_out", clinicId: user.clinicId, actorUserId: user.userId, actorRole: user.role, detail: { idleMinutes } });
+      await auditActorEvent(db, user, { action: "auth.idle_sign_out", detail: { idleMinutes } });
     }
     return false;
   }

@@ -8,7 +8,7 @@ import { and, eq } from "drizzle-orm";
 import type { Database } from "@/db";
 import { getAttemptByCaptureUid, insertAttemptWithCapture } from "@/db/queries/captures";
 import { visits, type Attempt, type Client } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { AccessError, NOT_FOUND, type Actor } from "@/lib/auth/guard";
 import { CaptureFormatError, parseCapture } from "@/lib/capture/parse";
 import { BadRequest } from "@/lib/http";
@@ -145,11 +145,9 @@ async function saveNow(db: Database, actor: Actor, client: Client, rawBody: unkn
         stored,
       );
       if (clip) await linkClipAttempt(tx, clip.id, created.id);
-      await recordAudit(tx, {
+      await auditActorEvent(tx, actor, {
         action: "attempt.create",
         clinicId: client.clinicId,
-        actorUserId: actor.userId,
-        actorRole: actor.role,
         subjectType: "attempt",
         subjectId: created.id,
         clientId: client.id,

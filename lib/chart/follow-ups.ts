@@ -4,7 +4,7 @@ import type { Database } from "@/db";
 import { listQueueClients, listUpcomingInPerson, setPlannedTests } from "@/db/queries/follow-ups";
 import { clients, clinics, users, type Visit } from "@/db/schema";
 import type { Actor } from "@/lib/auth/guard";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { BadRequest } from "@/lib/http";
 import { scheduleVisit } from "@/lib/visits/service";
 import { formatInZone, zonedToUtc } from "@/lib/visits/time";
@@ -136,11 +136,8 @@ export async function scheduleInPersonTest(db: Database, actor: Actor, input: Ap
   );
   await db.transaction(async (tx) => {
     await setPlannedTests(tx, result.visit.id, input.plannedTests);
-    await recordAudit(tx, {
+    await auditActorEvent(tx, actor, {
       action: "follow_up.schedule",
-      clinicId: actor.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
       subjectType: "visit",
       subjectId: result.visit.id,
       clientId: input.clientId,

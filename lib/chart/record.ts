@@ -7,7 +7,7 @@ import { cosignGradeEntry, createGradeEntry, getGradeEntry, listGradeEntries } f
 import { createPassiveRange, listPassiveRanges } from "@/db/queries/passive-ranges";
 import { clinics, strengthReadings, visits, type Client, type GradeEntry } from "@/db/schema";
 import type { Actor } from "@/lib/auth/guard";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { chooseReference, DEFAULT_GRADE_SCALE, GRADE_SCALES, type GradeScale } from "@/lib/grading/grade";
 import { RANGE_TABLE_IDS, type RangeTableId } from "@/lib/motions/catalog";
 import { KG_PER_LB } from "@/lib/norms/grip-pinch";
@@ -25,11 +25,8 @@ interface Ctx {
 }
 
 function audit(tx: Tx, ctx: Ctx, action: string, subjectType: string, subjectId: string, detail?: Record<string, unknown>) {
-  return recordAudit(tx, {
+  return auditActorEvent(tx, ctx.actor, {
     action,
-    clinicId: ctx.actor.clinicId,
-    actorUserId: ctx.actor.userId,
-    actorRole: ctx.actor.role,
     subjectType,
     subjectId,
     clientId: ctx.client.id,

@@ -1,7 +1,7 @@
 import { and, desc, eq } from "drizzle-orm";
 import type { Database } from "@/db";
 import { consents } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import type { Actor } from "@/lib/auth/guard";
 import { consentTextSha256, TELEHEALTH_CONSENT } from "./telehealth";
 
@@ -34,11 +34,8 @@ export async function signTelehealthConsent(db: Database, actor: Actor, signedNa
         address,
       })
       .returning();
-    await recordAudit(tx, {
+    await auditActorEvent(tx, actor, {
       action: "consent.sign",
-      clinicId: actor.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
       subjectType: "consent",
       subjectId: row.id,
       clientId: actor.clientId,

@@ -2,7 +2,7 @@ import { and, count, eq, getTableName, isNull, ne, sql } from "drizzle-orm";
 import { getTableConfig } from "drizzle-orm/sqlite-core";
 import type { Database } from "@/db";
 import * as schema from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import type { Actor } from "@/lib/auth/guard";
 import type { BlobStore } from "@/lib/storage";
 import { tablesWithClientId } from "./client-export";
@@ -112,11 +112,8 @@ export async function eraseClient(db: Database, store: BlobStore, actor: Actor, 
     }
     const summary: ErasureSummary = { rule: ERASURE_RULE, deleted, kept, unclassifiedTablesKept };
     await tx.insert(schema.clientErasures).values({ clinicId: actor.clinicId, clientId, requestedAt: opts.requestedAt, erasedAt: new Date(), erasedByUserId: actor.userId, summary: { ...summary } });
-    await recordAudit(tx, {
+    await auditActorEvent(tx, actor, {
       action: "client.erase",
-      clinicId: actor.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
       subjectType: "client",
       subjectId: clientId,
       clientId,

@@ -5,7 +5,7 @@ import { getClient } from "@/db/queries/clients";
 import { createPayment, getVisitPrice, listVisitPayments, updatePayment } from "@/db/queries/payments";
 import { getVisit } from "@/db/queries/visits";
 import type { Payment } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { AccessError, NOT_FOUND, type Actor } from "@/lib/auth/guard";
 import { markPaid } from "./events";
 
@@ -85,11 +85,9 @@ export async function startCheckout(
       checkoutUrl: session.url,
       createdByUserId: actor.userId,
     });
-    await recordAudit(tx, {
+    await auditActorEvent(tx, actor, {
       action: "payment.checkout",
       clinicId: visit.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
       subjectType: "payment",
       subjectId: paymentId,
       clientId: client.id,
@@ -107,11 +105,9 @@ export async function refundPayment(db: Database, stripe: Stripe, actor: Actor, 
   const done = refund.status === "succeeded";
   await db.transaction(async (tx) => {
     await updatePayment(tx, payment.id, { refundId: refund.id, ...(done ? { status: "refunded", refundedAt: new Date() } : {}) });
-    await recordAudit(tx, {
+    await auditActorEvent(tx, actor, {
       action: "payment.refund",
       clinicId: payment.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
       subjectType: "payment",
       subjectId: payment.id,
       clientId: payment.clientId,

@@ -5,7 +5,7 @@
 import type { Database } from "@/db";
 import { createProgramItem, endProgramItem, getProgramItem, updateProgramItem } from "@/db/queries/practice";
 import type { HomeProgramItem } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { AccessError, assertRole, requireClientRecord, type Actor } from "@/lib/auth/guard";
 import { BadRequest } from "@/lib/http";
 import { programItemSchema } from "@/lib/validation/practice";
@@ -31,12 +31,10 @@ async function parseFor(db: Database, actor: Actor, clientId: string, raw: unkno
 }
 
 /** The audit event of a change to a program item, written in the change's transaction. */
-function auditItem(tx: Parameters<typeof recordAudit>[0], actor: Actor, action: string, item: HomeProgramItem, ctx: Ctx, withDetail: boolean) {
-  return recordAudit(tx, {
+function auditItem(tx: Parameters<typeof auditActorEvent>[0], actor: Actor, action: string, item: HomeProgramItem, ctx: Ctx, withDetail: boolean) {
+  return auditActorEvent(tx, actor, {
     action,
     clinicId: item.clinicId,
-    actorUserId: actor.userId,
-    actorRole: actor.role,
     subjectType: "home_program_item",
     subjectId: item.id,
     clientId: item.clientId,

@@ -1,7 +1,7 @@
 import type { Database, DbOrTx } from "@/db";
 import { getUpload } from "@/db/queries/uploads";
 import type { Upload } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { AccessError, NOT_FOUND, type Actor } from "@/lib/auth/guard";
 import { z } from "zod";
 
@@ -30,11 +30,8 @@ export async function auditUpload(
   action: string,
   opts: { address?: string | null; detail?: Record<string, unknown> } = {},
 ): Promise<void> {
-  await recordAudit(db, {
+  await auditActorEvent(db, actor, {
     action,
-    clinicId: actor.clinicId,
-    actorUserId: actor.userId,
-    actorRole: actor.role,
     subjectType: "upload",
     subjectId: upload.id,
     clientId: upload.clientId,

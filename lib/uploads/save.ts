@@ -2,7 +2,7 @@ import { createHash } from "node:crypto";
 import type { Database } from "@/db";
 import { createUpload, getUploadByUid } from "@/db/queries/uploads";
 import type { Client, Upload } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import type { Actor } from "@/lib/auth/guard";
 import type { BlobStore } from "@/lib/storage";
 import type { UploadFields } from "@/lib/validation/upload";
@@ -62,11 +62,9 @@ export async function saveUpload(
         uploadedByUserId: actor.userId,
         uploadedByRole: actor.role,
       });
-      await recordAudit(tx, {
+      await auditActorEvent(tx, actor, {
         action: "upload.create",
         clinicId: client.clinicId,
-        actorUserId: actor.userId,
-        actorRole: actor.role,
         subjectType: "upload",
         subjectId: row.id,
         clientId: client.id,

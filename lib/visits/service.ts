@@ -3,7 +3,7 @@ import type { Database } from "@/db";
 import { getClient } from "@/db/queries/clients";
 import { getVisit, getVisitDetail, listRemindersDue, updateVisit, type VisitDetail } from "@/db/queries/visits";
 import { clinics, users, visits, type Visit, type VisitStatus } from "@/db/schema";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent, recordAudit } from "@/lib/audit";
 import { AccessError, NOT_FOUND, type Actor } from "@/lib/auth/guard";
 import { env } from "@/lib/env";
 import { BadRequest } from "@/lib/http";
@@ -54,11 +54,8 @@ export async function scheduleVisit(db: Database, actor: Actor, input: ScheduleV
         createdByUserId: actor.userId,
       })
       .returning();
-    await recordAudit(tx, {
+    await auditActorEvent(tx, actor, {
       action: "visit.schedule",
-      clinicId: actor.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
       subjectType: "visit",
       subjectId: row.id,
       clientId: client.id,
@@ -146,11 +143,9 @@ export async function changeVisitStatus(db: Database, actor: Actor, visit: Visit
   if (to === "finished") patch.endedAt = now;
   await db.transaction(async (tx) => {
     await updateVisit(tx, visit.id, patch);
-    await recordAudit(tx, {
+    await auditActorEvent(tx, actor, {
       action: `visit.${to}`,
       clinicId: visit.clinicId,
-      actorUserId: actor.userId,
-      actorRole: actor.role,
       subjectType: "visit",
       subjectId: visit.id,
       clientId: visit.clientId,

@@ -6,7 +6,7 @@ import { headers } from "next/headers";
 import { getDb } from "@/db";
 import { getPayment, upsertVisitPrice } from "@/db/queries/payments";
 import { guardedAction, type FormState } from "@/lib/actions";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { AccessError, NOT_FOUND, requestAddress } from "@/lib/auth/guard";
 import { PaymentRefused, refundPayment } from "@/lib/payments/checkout";
 import { paymentService } from "@/lib/payments/service";
@@ -20,7 +20,7 @@ export async function saveVisitPriceAction(_prev: FormState, formData: FormData)
     const db = getDb();
     await db.transaction(async (tx) => {
       await upsertVisitPrice(tx, { clinicId: actor.clinicId, visitKind: input.visitKind, amountMinor: input.amount, currency: input.currency, label: input.label, updatedByUserId: actor.userId });
-      await recordAudit(tx, { action: "billing.price_set", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role, detail: { visitKind: input.visitKind, amountMinor: input.amount, currency: input.currency } });
+      await auditActorEvent(tx, actor, { action: "billing.price_set", detail: { visitKind: input.visitKind, amountMinor: input.amount, currency: input.currency } });
     });
     revalidatePath("/admin-billing");
     return { ok: true, message: "Price saved. New checkouts use it; ones already open keep theirs." };

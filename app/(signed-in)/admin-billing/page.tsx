@@ -7,7 +7,7 @@ import { PaymentBadge } from "@/components/payments/payment-badge";
 import { PriceForm } from "@/components/payments/price-form";
 import { RefundForm } from "@/components/payments/refund-form";
 import { Card, PageTitle } from "@/components/ui/card";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { currentActor } from "@/lib/auth/guard";
 import { formatMoney, visitPaymentState } from "@/lib/payments/status";
 import { CURRENCIES } from "@/lib/validation/payment";
@@ -22,7 +22,7 @@ export default async function AdminBillingPage() {
   if (!actor || actor.role !== "admin") notFound();
   const db = getDb();
   const [prices, rows, clinic] = await Promise.all([listVisitPrices(db, actor.clinicId), listSelfPayVisits(db, actor.clinicId), getClinic(db, actor.clinicId)]);
-  await recordAudit(db, { action: "payment.list", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role });
+  await auditActorEvent(db, actor, { action: "payment.list" });
   const tz = clinic?.timezone ?? "UTC";
   const when = (d: Date) => new Intl.DateTimeFormat("en-GB", { dateStyle: "medium", timeStyle: "short", timeZone: tz }).format(d);
   return (

@@ -4,7 +4,7 @@ import { revalidatePath } from "next/cache";
 import { getDb } from "@/db";
 import { updateClinic } from "@/db/queries/clinics";
 import { guardedAction, type FormState } from "@/lib/actions";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { formDataToObject } from "@/lib/validation/common";
 import { clinicSettingsSchema } from "@/lib/validation/staff";
 import { RANGE_TABLE_IDS } from "@/lib/motions/catalog";
@@ -20,7 +20,7 @@ export async function saveClinicSettingsAction(_prev: FormState, formData: FormD
     const db = getDb();
     await db.transaction(async (tx) => {
       await updateClinic(tx, actor.clinicId, input);
-      await recordAudit(tx, { action: "clinic.settings_update", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role, detail: { fields: Object.keys(input) } });
+      await auditActorEvent(tx, actor, { action: "clinic.settings_update", detail: { fields: Object.keys(input) } });
     });
     revalidatePath("/clinic");
     return { ok: true, message: "Settings saved." };

@@ -4,7 +4,7 @@ import { revalidatePath } from "next/cache";
 import { getDb } from "@/db";
 import { getStaffMember, updateStaffMember } from "@/db/queries/users";
 import { guardedAction, type FormState } from "@/lib/actions";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { inviteStaff } from "@/lib/staff";
 import { formDataToObject } from "@/lib/validation/common";
 import { changeRoleSchema, inviteStaffSchema, setActiveSchema } from "@/lib/validation/staff";
@@ -32,7 +32,7 @@ export async function changeRoleAction(_prev: FormState, formData: FormData): Pr
     if (member.id === actor.userId && input.role !== "admin") return { ok: false, message: "You cannot remove your own admin role; ask another admin." };
     await db.transaction(async (tx) => {
       await updateStaffMember(tx, actor.clinicId, member.id, { role: input.role });
-      await recordAudit(tx, { action: "staff.role_change", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role, subjectType: "user", subjectId: member.id, detail: { from: member.role, to: input.role } });
+      await auditActorEvent(tx, actor, { action: "staff.role_change", subjectType: "user", subjectId: member.id, detail: { from: member.role, to: input.role } });
     });
     revalidatePath("/team");
     return { ok: true, message: `${member.name ?? member.email} is now ${input.role === "admin" ? "an admin" : `a ${input.role}`}.` };
@@ -48,7 +48,7 @@ export async function setActiveAction(_prev: FormState, formData: FormData): Pro
     if (member.id === actor.userId) return { ok: false, message: "You cannot deactivate your own account." };
     await db.transaction(async (tx) => {
       await updateStaffMember(tx, actor.clinicId, member.id, { active: input.active });
-      await recordAudit(tx, { action: input.active ? "staff.reactivate" : "staff.deactivate", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role, subjectType: "user", subjectId: member.id });
+      await auditActorEvent(tx, actor, { action: input.active ? "staff.reactivate" : "staff.deactivate", subjectType: "user", subjectId: member.id });
     });
     revalidatePath("/team");
     return { ok: true, message: `${member.name ?? member.email} ${input.active ? "can sign in again" : "can no longer sign in"}.` };

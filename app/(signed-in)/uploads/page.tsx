@@ -7,7 +7,7 @@ import { SafetyNote } from "@/components/safety-note";
 import { Badge, Card, PageTitle } from "@/components/ui/card";
 import { ReviewButton } from "@/components/uploads/review-button";
 import { UploadForm } from "@/components/uploads/upload-form";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { currentActor } from "@/lib/auth/guard";
 import { MOTION_IDS, MOTIONS } from "@/lib/motions/catalog";
 import { UPLOAD_ROLES } from "@/lib/uploads/access";
@@ -29,7 +29,7 @@ export default async function UploadsPage() {
     actor.clinicId,
     rows.flatMap((r) => (r.upload.attemptId ? [r.upload.attemptId] : [])),
   );
-  await recordAudit(db, { action: "upload.list", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role, clientId: isClient ? actor.clientId : null });
+  await auditActorEvent(db, actor, { action: "upload.list", clientId: isClient ? actor.clientId : null });
   const motions = MOTION_IDS.map((id) => ({ value: id, label: MOTIONS[id].label, digits: MOTIONS[id].digits, positions: MOTIONS[id].testPosition }));
   const limits = { clip: describeLimit("clip"), document: describeLimit("document") };
   const clientOptions = isClient

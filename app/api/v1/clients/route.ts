@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { getDb } from "@/db";
 import { listClients } from "@/db/queries/clients";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { CLIENT_EDITORS, clientJson, createClientFor, STAFF } from "@/lib/clients";
 import { readJson, route } from "@/lib/http";
 import { clientInputSchema, clientListQuerySchema } from "@/lib/validation/client";
@@ -11,11 +11,8 @@ export const GET = route(STAFF, async ({ actor, request }) => {
   const query = clientListQuerySchema.parse(params);
   const db = getDb();
   const page = await listClients(db, actor.clinicId, query);
-  await recordAudit(db, {
+  await auditActorEvent(db, actor, {
     action: "client.list",
-    clinicId: actor.clinicId,
-    actorUserId: actor.userId,
-    actorRole: actor.role,
     detail: { q: query.q ?? null, page: query.page, count: page.rows.length },
   });
   return NextResponse.json(page);

@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { getDb } from "@/db";
 import { listSelfPayVisits } from "@/db/queries/payments";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { requestAddress, requireClientRecord } from "@/lib/auth/guard";
 import { route } from "@/lib/http";
 import { visitPaymentState } from "@/lib/payments/status";
@@ -14,7 +14,7 @@ export const GET = route(["client", "admin"], async ({ actor, request }) => {
   const address = requestAddress(request.headers);
   const clientId = actor.role === "client" ? actor.clientId! : query.clientId;
   if (clientId) await requireClientRecord(actor, clientId, { db, address, purpose: "payment.list" });
-  else await recordAudit(db, { action: "payment.list", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role, address });
+  else await auditActorEvent(db, actor, { action: "payment.list", address });
   const rows = await listSelfPayVisits(db, actor.clinicId, clientId);
   return NextResponse.json({
     rows: rows.map((r) => ({

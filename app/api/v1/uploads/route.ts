@@ -1,7 +1,7 @@
 import { NextResponse } from "next/server";
 import { getDb } from "@/db";
 import { listUploads } from "@/db/queries/uploads";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { requestAddress, requireClientRecord } from "@/lib/auth/guard";
 import { BadRequest, route } from "@/lib/http";
 import { getStorage } from "@/lib/storage";
@@ -49,7 +49,7 @@ export const GET = route(UPLOAD_ROLES, async ({ actor, request }) => {
   let clientId = query.clientId;
   if (actor.role === "client") clientId = actor.clientId!;
   if (clientId) await requireClientRecord(actor, clientId, { db, address, purpose: "upload.list" });
-  else await recordAudit(db, { action: "upload.list", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role, address });
+  else await auditActorEvent(db, actor, { action: "upload.list", address });
   const rows = await listUploads(db, actor.clinicId, { clientId, kind: query.kind });
   return NextResponse.json({
     rows: rows.map((r) => ({ ...uploadJson(r.upload), clientName: `${r.clientGiven} ${r.clientFamily}`, uploaderName: r.uploaderName })),

@@ -1,5 +1,5 @@
 import { getDb } from "@/db";
-import { recordAudit } from "@/lib/audit";
+import { auditActorEvent } from "@/lib/audit";
 import { requestAddress, requireClientRecord } from "@/lib/auth/guard";
 import { buildClientExport } from "@/lib/export/client-export";
 import { route } from "@/lib/http";
@@ -11,7 +11,7 @@ export const GET = route<{ id: string }>(["admin", "therapist"], async ({ actor,
   const address = requestAddress(request.headers);
   const client = await requireClientRecord(actor, params.id, { db, address, purpose: "client.export" });
   const { zip, files } = await buildClientExport(db, getStorage(), client.id);
-  await recordAudit(db, { action: "client.export", clinicId: actor.clinicId, actorUserId: actor.userId, actorRole: actor.role, subjectType: "client", subjectId: client.id, clientId: client.id, address, detail: { files: files.length, bytes: zip.byteLength } });
+  await auditActorEvent(db, actor, { action: "client.export", subjectType: "client", subjectId: client.id, clientId: client.id, address, detail: { files: files.length, bytes: zip.byteLength } });
   return new Response(new Uint8Array(zip), {
     headers: {
       "Content-Type": "application/zip",
