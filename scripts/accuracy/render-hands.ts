@@ -11,7 +11,7 @@ import type { HandSide } from "./rig";
 const USAGE = `Renders labelled hands with known joint angles (output under tests/.cache/renders/ unless --out).
 
   npm run -s render-hands -- set   --seed N --count N [--views palm,back,...] [--sides left,right] [--out DIR]
-  npm run -s render-hands -- sweep --joint index.pipFlexionDeg --from 0 --to 80 [--cycles 3] [--cycle-seconds 2]
+  npm run -s render-hands -- sweep --joint index.pipFlexionDeg[,middle.pipFlexionDeg,...] --from 0 --to 80 [--cycles 3] [--cycle-seconds 2]
                                    [--fps 30] [--view radial] [--side right] [--distance 0.45] [--seed 1]
                                    [--no-webm] [--name NAME] [--out DIR]
 
@@ -82,7 +82,7 @@ async function main(): Promise<void> {
     return;
   }
   const options = validateSweepOptions({
-    joint: (values.joint ?? "index.pipFlexionDeg") as PoseKey,
+    joints: (values.joint ?? "index.pipFlexionDeg").split(",").filter(Boolean) as PoseKey[],
     fromDeg: numberOption(values, "from", 0),
     toDeg: numberOption(values, "to", 80),
     cycles: numberOption(values, "cycles", 3),
@@ -93,7 +93,8 @@ async function main(): Promise<void> {
     distanceM: numberOption(values, "distance", 0.45),
     seed: numberOption(values, "seed", 1),
   });
-  const name = values.name ?? `${options.side}-${options.joint.replace(".", "-")}-${options.view}-${options.seed}`;
+  const jointsName = options.joints.length === 1 ? options.joints[0].replace(".", "-") : `${options.joints.length}x-${options.joints[0].split(".")[1]}`;
+  const name = values.name ?? `${options.side}-${jointsName}-${options.view}-${options.seed}`;
   const folder = values.out ?? path.join(RENDER_OUTPUT_ROOT, "clips");
   await withRenderer(async (renderer, glName) => {
     const clip = await renderSweepClip(renderer, loadHandRig(options.side), options, folder, name, { webm: !values["no-webm"] });

@@ -74,7 +74,7 @@ function runFfmpeg(args: string[], input: Buffer[]): Promise<void> {
 }
 
 /**
- * Renders a one-joint sweep as a clip: `<name>.mjpeg` (what Chromium's fake camera reads), optionally `<name>.webm`
+ * Renders a sweep as a clip: `<name>.mjpeg` (what Chromium's fake camera reads), optionally `<name>.webm`
  * (what a video element plays), and `<name>.json` with each frame's time and truth.
  */
 export async function renderSweepClip(

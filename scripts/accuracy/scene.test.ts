@@ -98,9 +98,9 @@ describe("camera and projection", () => {
   });
 });
 
-describe("one-joint sweeps", () => {
+describe("sweeps", () => {
   const options: SweepOptions = {
-    joint: "index.pipFlexionDeg",
+    joints: ["index.pipFlexionDeg"],
     fromDeg: 0,
     toDeg: 80,
     cycles: 3,
@@ -134,8 +134,19 @@ describe("one-joint sweeps", () => {
     expect(frames[30].truth.landmarksImagePx[INDEX_MCP + 2]).not.toEqual(frames[0].truth.landmarksImagePx[INDEX_MCP + 2]);
   });
 
+  it("moves several joints through the same angles together, the others still", () => {
+    const together = ["index.pipFlexionDeg", "middle.pipFlexionDeg", "ring.pipFlexionDeg", "little.pipFlexionDeg"] as const;
+    const frames = buildSweepFrames(rigs.right, { ...options, joints: together, cycles: 1 });
+    for (const joint of together) expect(sweptAnglesOf(frames, joint)).toEqual(sweepAnglesDeg(0, 80, 1, 60));
+    for (const frame of frames) {
+      for (const key of POSE_KEYS) if (!(together as readonly string[]).includes(key)) expect(getPoseAngle(frame.truth.commandedDeg, key)).toBe(0);
+    }
+  });
+
   it("names the bad field when options are wrong", () => {
-    expect(() => validateSweepOptions({ ...options, joint: "index.pip" as never })).toThrow(/^joint: expected one of/);
+    expect(() => validateSweepOptions({ ...options, joints: ["index.pip" as never] })).toThrow(/^joints: expected some of .*got 'index\.pip'/);
+    expect(() => validateSweepOptions({ ...options, joints: [] })).toThrow(/^joints: expected at least one/);
+    expect(() => validateSweepOptions({ ...options, joints: ["index.pipFlexionDeg", "index.pipFlexionDeg"] })).toThrow(/^joints: expected each joint once/);
     expect(() => validateSweepOptions({ ...options, fps: 0 })).toThrow(/^fps: expected a positive number/);
     expect(() => validateSweepOptions({ ...options, view: "top" as never })).toThrow(/^view: expected one of/);
     expect(() => validateSweepOptions({ ...options, cycles: 1.5 })).toThrow(/^cycles: expected a whole number/);

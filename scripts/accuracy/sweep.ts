@@ -23,7 +23,11 @@ import {
 } from "./scene";
 
 export interface SweepOptions {
-  joint: PoseKey;
+  /**
+   * The joints that move, all through the same angles (e.g. the PIP of all four fingers, as Kinarc asks a client to
+   * bend them: scripts/accuracy/report.md shows one finger moving alone reads 19-32 degrees off).
+   */
+  joints: readonly PoseKey[];
   fromDeg: number;
   toDeg: number;
   cycles: number;
@@ -40,9 +44,11 @@ export interface SweepOptions {
 
 /** Checks options from the command line or a caller; every message names the field and what it expects. */
 export function validateSweepOptions(options: SweepOptions): SweepOptions {
-  if (!POSE_KEYS.includes(options.joint)) {
-    throw new Error(`joint: expected one of ${POSE_KEYS.join(", ")}; got '${options.joint}'`);
+  if (options.joints.length === 0) throw new Error(`joints: expected at least one of ${POSE_KEYS.join(", ")}; got none`);
+  for (const joint of options.joints) {
+    if (!POSE_KEYS.includes(joint)) throw new Error(`joints: expected some of ${POSE_KEYS.join(", ")}; got '${joint}'`);
   }
+  if (new Set(options.joints).size !== options.joints.length) throw new Error(`joints: expected each joint once; got ${options.joints.join(", ")}`);
   if (!CAMERA_VIEWS.includes(options.view)) throw new Error(`view: expected one of ${CAMERA_VIEWS.join(", ")}; got '${options.view}'`);
   if (options.side !== "left" && options.side !== "right") throw new Error(`side: expected left or right; got '${options.side}'`);
   const positive: [keyof SweepOptions, number][] = [
@@ -82,7 +88,7 @@ export interface SweepFrame {
   truth: FrameTruth;
 }
 
-/** Every frame of a one-joint sweep, camera and look fixed from the seed. */
+/** Every frame of a sweep, camera and look fixed from the seed. */
 export function buildSweepFrames(rig: HandRig, rawOptions: SweepOptions): SweepFrame[] {
   const options = validateSweepOptions(rawOptions);
   if (rig.side !== options.side) throw new Error(`side: the rig is the ${rig.side} hand but the sweep asks for ${options.side}`);
@@ -94,11 +100,11 @@ export function buildSweepFrames(rig: HandRig, rawOptions: SweepOptions): SweepF
   const angles = sweepAnglesDeg(options.fromDeg, options.toDeg, options.cycles, framesPerCycle);
   // Aim at the hand halfway through the motion so it stays in view at both ends.
   const middlePose = clonePose(base);
-  setPoseAngle(middlePose, options.joint, (options.fromDeg + options.toDeg) / 2);
+  for (const joint of options.joints) setPoseAngle(middlePose, joint, (options.fromDeg + options.toDeg) / 2);
   const camera = placeCamera(options.side, placement, handCentre(poseHand(rig, middlePose)));
   return angles.map((angleDeg, index) => {
     const pose = clonePose(base);
-    setPoseAngle(pose, options.joint, angleDeg);
+    for (const joint of options.joints) setPoseAngle(pose, joint, angleDeg);
     const { spec, truth } = buildFrame(rig, pose, camera, placement, look);
     return { index, timeMs: (index * 1000) / options.fps, spec, truth };
   });

@@ -79,7 +79,7 @@ describe("hand render harness (headless Chromium, software WebGL)", () => {
     const clip = await renderSweepClip(
       renderer,
       rigs.right,
-      { joint: "index.pipFlexionDeg", fromDeg: 0, toDeg: 80, cycles: 1, cycleSeconds: 1, fps: 12, view: "radial", side: "right", seed: 3, distanceM: 0.45 },
+      { joints: ["index.pipFlexionDeg"], fromDeg: 0, toDeg: 80, cycles: 1, cycleSeconds: 1, fps: 12, view: "radial", side: "right", seed: 3, distanceM: 0.45 },
       folder,
       "pip-sweep",
     );
