@@ -1,8 +1,9 @@
 /**
- * analyze-clip end to end: the app's tracking code in headless Chromium on a rendered clip with known truth (index PIP
- * 0 -> 80 -> 0 degrees, three cycles, little-finger side view: the side view the motion catalog names for PIP
- * flexion), and the refusals for bad input. Truth is the renderer's commanded angle (scripts/accuracy, MIT-licensed
- * rigged hand of @webxr-input-profiles/assets); frame counts are checked against Debian's ffprobe.
+ * analyze-clip end to end: the app's tracking code in headless Chromium on a rendered clip with known truth (the PIP of
+ * all four fingers 0 -> 80 -> 0 degrees, three cycles, little-finger side view: the view vision/view-policy.ts names
+ * for finger flexion against gravity, and the four-finger motion the self-check asks for), and the refusals for bad
+ * input. Truth is the renderer's commanded angle (scripts/accuracy, MIT-licensed rigged hand of
+ * @webxr-input-profiles/assets); frame counts are checked against Debian's ffprobe.
  */
 import { execFileSync, spawnSync } from "node:child_process";
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from "node:fs";
@@ -16,8 +17,9 @@ import { UNCERTAINTY_TABLE, validationCell } from "@/vision/uncertainty";
 import { analyzeCapture } from "@/vision/analyze-capture";
 
 const REPO_ROOT = path.resolve(__dirname, "..", "..");
-const SWEEP = { joint: "index.pipFlexionDeg", fromDeg: 0, toDeg: 80, cycles: 3, view: "ulnar", side: "right" } as const;
-const TARGET = ["--motion", "pip.flexion", "--side", SWEEP.side, "--digit", "index", "--condition", "gravity_minimized"];
+const DIGITS = ["index", "middle", "ring", "little"] as const;
+const SWEEP = { joints: DIGITS.map((digit) => `${digit}.pipFlexionDeg`).join(","), fromDeg: 0, toDeg: 80, cycles: 3, view: "ulnar", side: "right" } as const;
+const TARGET = ["--motion", "pip.flexion", "--side", SWEEP.side, "--digit", "index", "--condition", "against_gravity"];
 
 let folder: string;
 let webmClip: string;
@@ -57,7 +59,7 @@ beforeAll(() => {
   folder = mkdtempSync(path.join(os.tmpdir(), "kinarc-analyze-clip-"));
   // Rendered fresh from the default seed, so the clip always matches the current renderer (about 15 s).
   const render = run("accuracy/render-hands.ts", [
-    "sweep", "--joint", SWEEP.joint, "--from", String(SWEEP.fromDeg), "--to", String(SWEEP.toDeg), "--cycles", String(SWEEP.cycles),
+    "sweep", "--joint", SWEEP.joints, "--from", String(SWEEP.fromDeg), "--to", String(SWEEP.toDeg), "--cycles", String(SWEEP.cycles),
     "--view", SWEEP.view, "--side", SWEEP.side, "--name", "sweep", "--out", folder,
   ]);
   if (render.status !== 0) throw new Error(`render-hands failed: ${render.stderr}`);
@@ -70,7 +72,7 @@ afterAll(() => {
   if (folder) rmSync(folder, { recursive: true, force: true });
 });
 
-describe("analyze-clip on a rendered index PIP sweep, 0-80-0 degrees x3, ulnar view", () => {
+describe("analyze-clip on a rendered four-finger PIP sweep, 0-80-0 degrees x3, ulnar view", () => {
   let result: Run;
   let capturePath: string;
 
@@ -87,41 +89,44 @@ describe("analyze-clip on a rendered index PIP sweep, 0-80-0 degrees x3, ulnar v
     // One capture frame per video frame: ffprobe's count of the clip's decoded frames and the renderer's own count.
     expect(capture.frames).toHaveLength(countFrames(webmClip));
     expect(capture.frames).toHaveLength(truth.frameCount);
-    expect(capture).toMatchObject({ motion: "pip.flexion", side: "right", digit: "index", condition: "gravity_minimized" });
+    expect(capture).toMatchObject({ motion: "pip.flexion", side: "right", digit: "index", condition: "against_gravity" });
     const analyze = run("analyze.ts", [capturePath]);
     expect(analyze.status).toBe(0);
     expect(result.stdout).toBe(analyze.stdout);
   });
 
-  it("sees the hand, finds every one of the three flexion cycles and reports the peak (figures printed)", () => {
+  it("sees the hand, counts the three flexion cycles and reads each finger's peak within the stated uncertainty (figures printed)", () => {
     const report = JSON.parse(result.stdout) as { captures: Array<{ reps: number; peakDeg: number | null; usableFrames: number; frames: number; method: string }> };
     const [clip] = report.captures;
     const capture = parseCaptureText(readFileSync(capturePath, "utf8"), capturePath);
-    const analysis = analyzeCapture(capture);
-    // The validation error of the method the engine used, for this joint, view and the app's (lite) model, as the
-    // accuracy report (scripts/accuracy/report.md) states it, read through the engine's table rather than typed here.
+    // The validation error for this joint, view and the app's (lite) model, as the accuracy report
+    // (scripts/accuracy/report.md) states it, read through the engine's table rather than typed here.
     const group = correctionGroupFor("pip.flexion", "index")!.group;
     const cell = validationCell(UNCERTAINTY_TABLE, group, "lite", "ulnar")!;
     const validationMaeDeg = cell.correctionHelps ? cell.correctedMaeDeg! : cell.rawMaeDeg;
-    const cycleMs = (capture.frames[capture.frames.length - 1].t / SWEEP.cycles);
-    console.log(
-      `analyze-clip figures: truth peak ${SWEEP.toDeg} deg, reported peak ${clip.peakDeg} deg (${clip.method}), error ${
-        clip.peakDeg === null ? "n/a" : (clip.peakDeg - SWEEP.toDeg).toFixed(1)
-      } deg, validation MAE ${validationMaeDeg} deg (90% interval ${cell.uncertaintyDeg} deg); repetitions ${clip.reps} (truth ${SWEEP.cycles}); ` +
-        `peaks ${analysis.repetitions.map((r) => r.peakDeg.toFixed(0)).join(", ")}; usable frames ${clip.usableFrames}/${clip.frames}`,
-    );
+    const cycleMs = capture.frames[capture.frames.length - 1].t / SWEEP.cycles;
     // Detection: issue 8 asks for at least 95% on held-out renders.
     expect(clip.usableFrames / clip.frames).toBeGreaterThanOrEqual(0.95);
-    // Each true cycle (a third of the clip) holds the peak of at least one reported repetition.
-    for (let cycle = 0; cycle < SWEEP.cycles; cycle++) {
-      const inCycle = analysis.repetitions.filter((r) => r.startMs + r.timeToPeakMs >= cycle * cycleMs && r.startMs + r.timeToPeakMs < (cycle + 1) * cycleMs);
-      expect(inCycle.length, `cycle ${cycle + 1}`).toBeGreaterThanOrEqual(1);
+    // The capture holds every finger's landmarks: the same frames analyzed for each digit the therapist could pick.
+    for (const digit of DIGITS) {
+      const analysis = analyzeCapture({ ...capture, digit });
+      const errorDeg = analysis.peakDeg === null ? null : analysis.peakDeg - SWEEP.toDeg;
+      console.log(
+        `analyze-clip figures (${digit}): truth peak ${SWEEP.toDeg} deg, reported ${analysis.peakDeg} ± ${analysis.uncertaintyDeg} deg (${analysis.method}), ` +
+          `error ${errorDeg === null ? "n/a" : errorDeg.toFixed(1)} deg, validation MAE ${validationMaeDeg} deg; repetitions ${analysis.reps} (truth ${SWEEP.cycles}), ` +
+          `peaks ${analysis.repetitions.map((r) => r.peakDeg.toFixed(0)).join(", ")}`,
+      );
+      expect(analysis.reps, digit).toBe(SWEEP.cycles);
+      // Each true cycle (a third of the clip) holds exactly one reported repetition's peak.
+      for (let cycle = 0; cycle < SWEEP.cycles; cycle++) {
+        const inCycle = analysis.repetitions.filter((r) => r.startMs + r.timeToPeakMs >= cycle * cycleMs && r.startMs + r.timeToPeakMs < (cycle + 1) * cycleMs);
+        expect(inCycle.length, `${digit}, cycle ${cycle + 1}`).toBe(1);
+      }
+      // "Within the validation error": inside the 90% interval the engine derives from it and shows the therapist.
+      expect(analysis.uncertaintyDeg, digit).toBe(cell.uncertaintyDeg);
+      expect(Math.abs(errorDeg!), digit).toBeLessThanOrEqual(cell.uncertaintyDeg);
     }
-    expect(clip.reps).toBeGreaterThanOrEqual(SWEEP.cycles);
-    // Never over-read: a peak above the truth by more than the validation error would inflate a range-based grade.
-    expect(clip.peakDeg).not.toBeNull();
-    expect(clip.peakDeg!).toBeLessThanOrEqual(SWEEP.toDeg + validationMaeDeg);
-    expect(clip.peakDeg!).toBeGreaterThan(SWEEP.fromDeg);
+    expect(clip.reps).toBe(SWEEP.cycles);
   });
 
   it("reads the same clip as MJPEG (converted with ffmpeg first) frame for frame", () => {
