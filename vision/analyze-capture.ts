@@ -1,5 +1,5 @@
 import { MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
-import { createLivePipeline, type LivePipelineOptions, type MeasurementMethod, type PipelineFrame } from "./pipeline";
+import { createLivePipeline, type LiveUpdate, type LivePipelineOptions, type MeasurementMethod, type PipelineFrame } from "./pipeline";
 import type { PlaneReading } from "./plane";
 import type { Repetition } from "./reps";
 import type { ValidationView } from "./uncertainty";
@@ -66,10 +66,12 @@ export interface CaptureAnalysis {
 
 export type AnalyzeOptions = Omit<LivePipelineOptions, "motion" | "side" | "digit" | "condition" | "gravity" | "neutral"> & {
   tracking?: Partial<TrackingLimits>;
+  /** Sees each frame's reading in order (the accuracy tools compare them with the truth frame by frame). */
+  onUpdate?: (update: LiveUpdate, frameIndex: number) => void;
 };
 
 /** Runs a whole capture through the same pipeline the live view uses, then sums it up. */
-export function analyzeCapture(capture: CaptureInput, options: AnalyzeOptions = {}): CaptureAnalysis {
+export function analyzeCapture(capture: CaptureInput, { onUpdate, ...options }: AnalyzeOptions = {}): CaptureAnalysis {
   // The neutral reading is taken again here from its frames, so the server reads the same forearm line the browser did.
   const neutral = capture.neutral?.frames.length ? neutralReading(capture.neutral.frames, capture.side) : null;
   const isWrist = MOTIONS[capture.motion].joint === "wrist";
@@ -82,7 +84,10 @@ export function analyzeCapture(capture: CaptureInput, options: AnalyzeOptions = 
     condition: capture.condition,
     gravity: capture.gravity ?? null,
   });
-  for (const frame of capture.frames) pipeline.push(frame);
+  capture.frames.forEach((frame, index) => {
+    const update = pipeline.push(frame);
+    onUpdate?.(update, index);
+  });
   const summary = pipeline.summary();
   const limits = { ...DEFAULT_TRACKING_LIMITS, ...options.tracking };
 

@@ -143,7 +143,17 @@ describe("sweeps", () => {
     }
   });
 
+  it("holds still at the start angle for the hold, then sweeps", () => {
+    const frames = buildSweepFrames(rigs.right, { ...options, cycles: 1, holdSeconds: 1 });
+    const angles = sweptAnglesOf(frames, "index.pipFlexionDeg");
+    expect(angles).toHaveLength(30 + 61);
+    expect(angles.slice(0, 31).every((a) => a === 0)).toBe(true);
+    expect(angles.slice(30)).toEqual(sweepAnglesDeg(0, 80, 1, 60));
+    expect(frames[45].timeMs).toBeCloseTo(1500, 9);
+  });
+
   it("names the bad field when options are wrong", () => {
+    expect(() => validateSweepOptions({ ...options, holdSeconds: -1 })).toThrow(/^holdSeconds: expected zero or more seconds/);
     expect(() => validateSweepOptions({ ...options, joints: ["index.pip" as never] })).toThrow(/^joints: expected some of .*got 'index\.pip'/);
     expect(() => validateSweepOptions({ ...options, joints: [] })).toThrow(/^joints: expected at least one/);
     expect(() => validateSweepOptions({ ...options, joints: ["index.pipFlexionDeg", "index.pipFlexionDeg"] })).toThrow(/^joints: expected each joint once/);

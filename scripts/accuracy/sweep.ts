@@ -40,6 +40,11 @@ export interface SweepOptions {
   distanceM: number;
   /** Angles of the joints that do not move; the rest pose when omitted. */
   basePose?: HandPose;
+  /**
+   * Seconds held still at `fromDeg` before the first cycle, as a client settles before moving (an uploaded wrist clip
+   * takes its straight-wrist reading from such a still start: vision/live/clip-capture.ts). None when omitted.
+   */
+  holdSeconds?: number;
 }
 
 /** Checks options from the command line or a caller; every message names the field and what it expects. */
@@ -65,6 +70,9 @@ export function validateSweepOptions(options: SweepOptions): SweepOptions {
     if (!Number.isFinite(options[field])) throw new Error(`${field}: expected an angle in degrees; got ${options[field]}`);
   }
   if (!Number.isInteger(options.seed)) throw new Error(`seed: expected an integer; got ${options.seed}`);
+  if (options.holdSeconds !== undefined && !(Number.isFinite(options.holdSeconds) && options.holdSeconds >= 0)) {
+    throw new Error(`holdSeconds: expected zero or more seconds; got ${options.holdSeconds}`);
+  }
   return options;
 }
 
@@ -97,7 +105,8 @@ export function buildSweepFrames(rig: HandRig, rawOptions: SweepOptions): SweepF
   const look = sampleLook(rng);
   const base = options.basePose ? clonePose(options.basePose) : restPose();
   const framesPerCycle = Math.round(options.cycleSeconds * options.fps);
-  const angles = sweepAnglesDeg(options.fromDeg, options.toDeg, options.cycles, framesPerCycle);
+  const held = Array.from({ length: Math.round((options.holdSeconds ?? 0) * options.fps) }, () => options.fromDeg);
+  const angles = [...held, ...sweepAnglesDeg(options.fromDeg, options.toDeg, options.cycles, framesPerCycle)];
   // Aim at the hand halfway through the motion so it stays in view at both ends.
   const middlePose = clonePose(base);
   for (const joint of options.joints) setPoseAngle(middlePose, joint, (options.fromDeg + options.toDeg) / 2);

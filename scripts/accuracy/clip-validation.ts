@@ -1,0 +1,311 @@
+/**
+ * Held-out clips: continuous motions, measured the way Kinarc measures a client (issue 8's bars on its real path).
+ *
+ * The still-based report (run-accuracy.ts) jumps from one random pose to the next, so the tracker must find the hand
+ * afresh on every still; a client moves continuously and the tracker follows the hand from frame to frame. Here each
+ * test motion is rendered as a clip (a still start, then two cycles from rest to a drawn end of range and back, 30 fps)
+ * in the view vision/view-policy.ts recommends for it against gravity, tracked frame by frame by the app's own code
+ * (tests/harness/tracking, step mode, as analyze-clip), turned into a capture by the upload's own builder
+ * (vision/live/clip-capture.ts: for wrist motions the straight-wrist reading from the still start) and read by the
+ * engine's capture analysis (vision/analyze-capture.ts, correction as shipped). Finger motions move all four fingers
+ * together, as the self-check asks; each finger is read from the same frames.
+ *
+ * Per frame: truth = the commanded angle, estimate = the engine's angle for that frame (null when it reported none).
+ * Per clip and finger: the peak of the best repetition against the truth's end of range, and the repetition count.
+ * Seed 20261205 is held out: nothing is fitted or chosen on it.
+ *
+ *   npx tsx scripts/accuracy/clip-validation.ts [--clips 6] [--seed 20261205] [--models lite,full] [--reuse]
+ */
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
+import path from "node:path";
+import { parseArgs } from "node:util";
+import type { Browser } from "playwright-core";
+import type { Digit, MotionId } from "@/lib/motions/catalog";
+import { analyzeCapture } from "@/vision/analyze-capture";
+import { clipCapture } from "@/vision/live/clip-capture";
+import type { TrackedFrame } from "@/vision/live/types";
+import { viewPolicy } from "@/vision/view-policy";
+import { launchChromium, openHarnessPage, startHarnessServer, waitForFrames, type HarnessServer } from "../../tests/harness/tracking-harness";
+import { FINGERS, getPoseAngle, type PoseKey } from "./hand-pose";
+import { renderSweepClip } from "./render-jobs";
+import { HandRenderer, RENDER_OUTPUT_ROOT } from "./renderer";
+import { loadHandRig } from "./rig-files";
+import type { HandSide } from "./rig";
+import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
+import { makeRng, type CameraView, type FrameTruth } from "./scene";
+import { summarizeErrors, type ErrorSample, type ErrorSummary } from "./stats";
+import { parseCount, parseModels } from "./run-accuracy";
+import type { HandModelVariant } from "./tracked-set";
+
+export const CLIP_VALIDATION_SEED = 20_261_205;
+const FPS = 30;
+const CYCLES = 2;
+const CYCLE_SECONDS = 2.5;
+const REPORT_FILE = path.join(__dirname, "clip-report.md");
+const HARNESS_PORT = Number(process.env.KINARC_ACCURACY_PORT ?? 4324);
+
+/** Issue 8's bars: recommended view, after correction. */
+const BARS: Record<string, { maeDeg: number; slope: [number, number] | null }> = {
+  mcp: { maeDeg: 5, slope: [0.9, 1.1] },
+  pip: { maeDeg: 5, slope: [0.9, 1.1] },
+  dip: { maeDeg: 8, slope: null },
+  wrist: { maeDeg: 5, slope: [0.9, 1.1] },
+};
+const MIN_DETECTION = 0.95;
+
+export interface ClipMotion {
+  motion: MotionId;
+  label: string;
+  bar: keyof typeof BARS;
+  /** Joints moved together, all through the same angles. */
+  joints: readonly PoseKey[];
+  /** How the engine's positive angle relates to the commanded angle (extension is negative wrist flexion). */
+  sign: 1 | -1;
+  /** The drawn end of range, commanded degrees. */
+  toDeg: [number, number];
+  digits: readonly (Digit | null)[];
+  holdSeconds: number;
+}
+
+const fingerKeys = (joint: "mcpFlexionDeg" | "pipFlexionDeg" | "dipFlexionDeg") => FINGERS.map((finger) => `${finger}.${joint}` as PoseKey);
+
+/** Ends of range within the rig's ranges and the motion catalog's normal values (lib/motions/catalog.ts). */
+export const CLIP_MOTIONS: readonly ClipMotion[] = [
+  { motion: "mcp.flexion", label: "MCP flexion", bar: "mcp", joints: fingerKeys("mcpFlexionDeg"), sign: 1, toDeg: [55, 90], digits: FINGERS, holdSeconds: 1 },
+  { motion: "pip.flexion", label: "PIP flexion", bar: "pip", joints: fingerKeys("pipFlexionDeg"), sign: 1, toDeg: [60, 100], digits: FINGERS, holdSeconds: 1 },
+  { motion: "dip.flexion", label: "DIP flexion", bar: "dip", joints: fingerKeys("dipFlexionDeg"), sign: 1, toDeg: [45, 80], digits: FINGERS, holdSeconds: 1 },
+  { motion: "wrist.flexion", label: "wrist flexion", bar: "wrist", joints: ["wrist.flexionDeg"], sign: 1, toDeg: [45, 80], digits: [null], holdSeconds: 3 },
+  { motion: "wrist.extension", label: "wrist extension", bar: "wrist", joints: ["wrist.flexionDeg"], sign: -1, toDeg: [-70, -40], digits: [null], holdSeconds: 3 },
+];
+
+export interface ClipPlan {
+  name: string;
+  motion: ClipMotion;
+  side: HandSide;
+  view: CameraView;
+  seed: number;
+  toDeg: number;
+  distanceM: number;
+}
+
+/** The clips of one seed: for each motion, `count` clips alternating right and left hands, each drawn from its own seed. */
+export function planClips(seed: number, count: number): ClipPlan[] {
+  return CLIP_MOTIONS.flatMap((motion, m) =>
+    Array.from({ length: count }, (_, i) => {
+      const clipSeed = seed * 100 + m * 10 + i;
+      const rng = makeRng(clipSeed);
+      const toDeg = motion.toDeg[0] + (motion.toDeg[1] - motion.toDeg[0]) * uniformFloat64(rng);
+      const distanceM = 0.3 + 0.4 * uniformFloat64(rng);
+      const view = viewPolicy(motion.motion, "against_gravity", motion.digits[0]).recommended[0] as CameraView;
+      const side: HandSide = i % 2 === 0 ? "right" : "left";
+      return { name: `${motion.motion}-${seed}-${i}`, motion, side, view, seed: clipSeed, toDeg, distanceM };
+    }),
+  );
+}
+
+interface ClipTruthFile {
+  frameCount: number;
+  frames: { index: number; timeMs: number; truth: FrameTruth }[];
+}
+
+async function renderClips(plans: readonly ClipPlan[], folder: string, reuse: boolean): Promise<void> {
+  const todo = plans.filter((plan) => !(reuse && existsSync(path.join(folder, `${plan.name}.webm`)) && existsSync(path.join(folder, `${plan.name}.json`))));
+  if (!todo.length) return;
+  const renderer = await HandRenderer.start();
+  try {
+    for (const plan of todo) {
+      await renderSweepClip(
+        renderer,
+        loadHandRig(plan.side),
+        {
+          joints: plan.motion.joints,
+          fromDeg: 0,
+          toDeg: plan.toDeg,
+          cycles: CYCLES,
+          cycleSeconds: CYCLE_SECONDS,
+          fps: FPS,
+          view: plan.view,
+          side: plan.side,
+          seed: plan.seed,
+          distanceM: plan.distanceM,
+          holdSeconds: plan.motion.holdSeconds,
+        },
+        folder,
+        plan.name,
+      );
+      process.stderr.write(`rendered ${plan.name}\n`);
+    }
+  } finally {
+    await renderer.close();
+  }
+}
+
+async function trackClips(plans: readonly ClipPlan[], folder: string, model: HandModelVariant, reuse: boolean): Promise<Map<string, TrackedFrame[]>> {
+  const tracked = new Map<string, TrackedFrame[]>();
+  const savedOf = (plan: ClipPlan) => path.join(folder, `${plan.name}-${model}.tracked.json`);
+  for (const plan of plans) if (reuse && existsSync(savedOf(plan))) tracked.set(plan.name, JSON.parse(readFileSync(savedOf(plan), "utf8")) as TrackedFrame[]);
+  const todo = plans.filter((plan) => !tracked.has(plan.name));
+  if (!todo.length) return tracked;
+  let server: HarnessServer | null = null;
+  let browser: Browser | null = null;
+  try {
+    server = await startHarnessServer({ port: HARNESS_PORT, allowDirs: [folder] });
+    browser = await launchChromium();
+    for (const plan of todo) {
+      const page = await openHarnessPage(browser, server, { clip: server.fileUrl(path.join(folder, `${plan.name}.webm`)), step: true, fps: FPS, model });
+      const state = await waitForFrames(page, Number.MAX_SAFE_INTEGER, 15 * 60_000);
+      await page.close();
+      writeFileSync(savedOf(plan), JSON.stringify(state.frames));
+      tracked.set(plan.name, state.frames);
+      process.stderr.write(`tracked ${plan.name} (${model})\n`);
+    }
+  } finally {
+    await browser?.close();
+    await server?.close();
+  }
+  return tracked;
+}
+
+export interface ClipReading {
+  plan: ClipPlan;
+  model: HandModelVariant;
+  digit: Digit | null;
+  samples: ErrorSample[];
+  truthPeakDeg: number;
+  peakDeg: number | null;
+  reps: number;
+  neutralUsed: boolean | null;
+  forearmSource: string | null;
+  method: string;
+}
+
+/** The engine's reading of one clip for one finger (or the wrist), frame by frame against the truth. */
+export function readClip(plan: ClipPlan, model: HandModelVariant, digit: Digit | null, frames: readonly TrackedFrame[], truth: ClipTruthFile): ClipReading {
+  if (frames.length !== truth.frameCount) throw new Error(`${plan.name} (${model}): tracked ${frames.length} frames, the clip has ${truth.frameCount}`);
+  const target = { motion: plan.motion.motion, side: plan.side, digit, condition: "against_gravity" as const };
+  const { capture } = clipCapture(target, frames, plan.name);
+  const angles: (number | null)[] = [];
+  const analysis = analyzeCapture(capture, { onUpdate: (update) => angles.push(update.angleDeg) });
+  const key = digit ? (plan.motion.joints.find((joint) => joint.startsWith(`${digit}.`)) as PoseKey) : plan.motion.joints[0];
+  const truthDeg = truth.frames.map((frame) => plan.motion.sign * getPoseAngle(frame.truth.commandedDeg, key));
+  return {
+    plan,
+    model,
+    digit,
+    samples: truthDeg.map((value, i) => ({ truthDeg: value, estimateDeg: angles[i] ?? null })),
+    truthPeakDeg: Math.max(...truthDeg),
+    peakDeg: analysis.peakDeg,
+    reps: analysis.reps,
+    neutralUsed: plan.motion.bar === "wrist" ? analysis.neutral !== null : null,
+    forearmSource: analysis.forearmSource,
+    method: analysis.method,
+  };
+}
+
+export interface ClipRow {
+  label: string;
+  bar: keyof typeof BARS;
+  view: CameraView;
+  model: HandModelVariant;
+  readings: number;
+  frames: ErrorSummary;
+  peakMaeDeg: number | null;
+  peakWorstDeg: number | null;
+  repsRight: number;
+  neutralUsed: string;
+}
+
+export function summarizeClipReadings(readings: readonly ClipReading[]): Omit<ClipRow, "label" | "bar" | "view" | "model"> {
+  const peaks = readings.filter((r) => r.peakDeg !== null).map((r) => r.peakDeg! - r.truthPeakDeg);
+  const wrist = readings.filter((r) => r.neutralUsed !== null);
+  return {
+    readings: readings.length,
+    frames: summarizeErrors(readings.flatMap((r) => r.samples)),
+    peakMaeDeg: peaks.length ? peaks.reduce((a, e) => a + Math.abs(e), 0) / peaks.length : null,
+    peakWorstDeg: peaks.length ? peaks.reduce((worst, e) => (Math.abs(e) > Math.abs(worst) ? e : worst), 0) : null,
+    repsRight: readings.filter((r) => r.reps === CYCLES).length,
+    neutralUsed: wrist.length ? `${wrist.filter((r) => r.neutralUsed).length}/${wrist.length}` : "-",
+  };
+}
+
+const fmt = (value: number | null, digits = 1) => (value === null ? "-" : value.toFixed(digits));
+const pct = (value: number | null) => (value === null ? "-" : `${Math.round(value * 100)}%`);
+
+function verdict(row: Pick<ClipRow, "bar" | "frames">): string {
+  const bar = BARS[row.bar];
+  const { meanAbsoluteErrorDeg: mae, slope, detectionRate } = row.frames;
+  const meets = mae !== null && mae <= bar.maeDeg && (!bar.slope || (slope !== null && slope >= bar.slope[0] && slope <= bar.slope[1])) && detectionRate >= MIN_DETECTION;
+  const parts = [`MAE ${fmt(mae)} of at most ${bar.maeDeg}`];
+  parts.push(bar.slope ? `slope ${fmt(slope, 2)} in ${bar.slope[0]}-${bar.slope[1]}` : `slope ${fmt(slope, 2)}`);
+  parts.push(`detected ${pct(detectionRate)} of at least ${MIN_DETECTION * 100}%`);
+  return `${meets ? "meets" : "misses"} (${parts.join(", ")})`;
+}
+
+export function clipReport(rows: readonly ClipRow[], meta: { seed: number; clips: number; glName: string }): string {
+  const lines = [
+    "# Angle accuracy on held-out clips (continuous motion)",
+    "",
+    "Written by `npx tsx scripts/accuracy/clip-validation.ts` (see its header); do not edit by hand.",
+    "",
+    `- Held-out clips: seed ${meta.seed}, never used to fit or choose anything. ${meta.clips} clips per motion (half right hands, half left), each a still start ` +
+      `(1 s; 3 s for the wrist, the straight-wrist reading), then ${CYCLES} cycles of ${CYCLE_SECONDS} s from rest to an end of range drawn from the seed and back, ${FPS} fps, ` +
+      "camera 0.3-0.7 m, skin, light and background drawn from the seed, in the view vision/view-policy.ts recommends against gravity. Finger motions move all four fingers together; each finger is a reading.",
+    "- Path: the app's tracking code frame by frame (step mode, as analyze-clip and the upload review), the upload's capture builder, the engine's capture analysis as shipped (correction where it clearly helps, wrist read against the clip's straight-wrist reading).",
+    "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles.",
+    `- Renderer: ${meta.glName}.`,
+    "",
+    "## Acceptance (issue 8: recommended view, after correction, every frame)",
+    "",
+    ...rows.map((row) => `- ${row.label}, ${row.view}, ${row.model}: ${verdict(row)}`),
+    "",
+    "| motion | view | model | readings | frames | detected | bias ° | MAE ° | slope | within 5° | within 10° | peak MAE ° | worst peak error ° | repetitions right | straight-wrist reading used |",
+    "| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
+    ...rows.map(
+      (row) =>
+        `| ${row.label} | ${row.view} | ${row.model} | ${row.readings} | ${row.frames.samples} | ${pct(row.frames.detectionRate)} | ${fmt(row.frames.biasDeg)} | ${fmt(row.frames.meanAbsoluteErrorDeg)} | ` +
+        `${fmt(row.frames.slope, 2)} | ${pct(row.frames.within5)} | ${pct(row.frames.within10)} | ${fmt(row.peakMaeDeg)} | ${fmt(row.peakWorstDeg)} | ${row.repsRight}/${row.readings} | ${row.neutralUsed} |`,
+    ),
+    "",
+  ];
+  return lines.join("\n");
+}
+
+async function main(): Promise<void> {
+  const { values } = parseArgs({
+    options: { clips: { type: "string" }, seed: { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" } },
+  });
+  const clips = parseCount("clips", values.clips, 6);
+  const seed = parseCount("seed", values.seed, CLIP_VALIDATION_SEED);
+  const models = parseModels(values.models);
+  const reuse = values.reuse ?? false;
+  const folder = path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
+  mkdirSync(folder, { recursive: true });
+  const plans = planClips(seed, clips);
+  await renderClips(plans, folder, reuse);
+  const renderer = await HandRenderer.start();
+  const glName = await renderer.glRenderer();
+  await renderer.close();
+  const rows: ClipRow[] = [];
+  for (const model of models) {
+    const tracked = await trackClips(plans, folder, model, reuse);
+    for (const group of ["mcp", "pip", "dip", "wrist"] as const) {
+      const groupPlans = plans.filter((plan) => plan.motion.bar === group);
+      const readings = groupPlans.flatMap((plan) => {
+        const truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
+        return plan.motion.digits.map((digit) => readClip(plan, model, digit, tracked.get(plan.name)!, truth));
+      });
+      const label = group === "wrist" ? "wrist flexion (+) / extension (-)" : groupPlans[0].motion.label;
+      rows.push({ label, bar: group, view: groupPlans[0].view, model, ...summarizeClipReadings(readings) });
+    }
+  }
+  const text = clipReport(rows, { seed, clips, glName });
+  writeFileSync(REPORT_FILE, text);
+  process.stdout.write(text);
+}
+
+if (!process.env.VITEST) {
+  main().catch((error: unknown) => {
+    console.error(error instanceof Error ? (error.stack ?? error.message) : error);
+    process.exitCode = 1;
+  });
+}
