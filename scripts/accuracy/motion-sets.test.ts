@@ -1,7 +1,17 @@
 import { describe, expect, it } from "vitest";
 import { MOTIONS, type MotionId } from "@/lib/motions/catalog";
 import { getPoseAngle, POSE_KEYS } from "./hand-pose";
-import { FINGER_FLEXION_SET, FINGER_FLEXION_VIEWS, fingerFlexionFrame, MOTION_SETS, motionFrame } from "./motion-sets";
+import {
+  FINGER_FLEXION_SET,
+  FINGER_FLEXION_VIEWS,
+  fingerFlexionFrame,
+  HAND_SHAPE_NAMES,
+  HAND_SHAPE_SET,
+  HAND_SHAPE_VIEWS,
+  handShapeFrame,
+  MOTION_SETS,
+  motionFrame,
+} from "./motion-sets";
 import { loadHandRig } from "./rig-files";
 import { frameSeeds } from "./scene";
 
@@ -59,5 +69,50 @@ describe("the fingers-flexed-together training set", () => {
 
   it("is reproducible from its seed", () => {
     expect(JSON.stringify(fingerFlexionFrame(rigs, 5, 2))).toBe(JSON.stringify(fingerFlexionFrame(rigs, 5, 2)));
+  });
+});
+
+describe("the whole-hand-shape stills (palm, back and oblique views)", () => {
+  const frames = frameSeeds(13, 140).map((seed, i) => handShapeFrame(rigs, seed, i));
+  const fingers = ["index", "middle", "ring", "little"] as const;
+  const joint = (f: (typeof frames)[number], finger: string, dof: string) => getPoseAngle(f.truth.commandedDeg, `${finger}.${dof}` as (typeof POSE_KEYS)[number]);
+
+  it("takes the views in turn and bends all four fingers alike", () => {
+    frames.forEach((f, i) => {
+      expect(f.truth.view).toBe(HAND_SHAPE_VIEWS[i % HAND_SHAPE_VIEWS.length]);
+      expect(f.motion).toBe(HAND_SHAPE_SET);
+      for (const dof of ["mcpFlexionDeg", "pipFlexionDeg", "dipFlexionDeg"]) {
+        const values = fingers.map((finger) => joint(f, finger, dof));
+        // One shared level per joint, each finger within FINGER_SPREAD_DEG (4) of it.
+        expect(Math.max(...values) - Math.min(...values)).toBeLessThanOrEqual(8 + 1e-9);
+      }
+    });
+  });
+
+  it("draws every named shape with its tendon-gliding joint pattern [common practice]", () => {
+    const byShape = (name: string) => frames.filter((f) => f.shape === name);
+    for (const name of HAND_SHAPE_NAMES) expect(byShape(name).length).toBeGreaterThan(5);
+    const each = (name: string, check: (mcp: number, pip: number, dip: number) => boolean) => {
+      for (const f of byShape(name)) for (const finger of fingers) {
+        expect(check(joint(f, finger, "mcpFlexionDeg"), joint(f, finger, "pipFlexionDeg"), joint(f, finger, "dipFlexionDeg"))).toBe(true);
+      }
+    };
+    // Open hand: straight fingers; full fist: every joint well bent; straight fist: DIP straight; hook: MCP straight,
+    // PIP and DIP bent; tabletop: MCP bent, PIP and DIP straight.
+    each("open", (m, p, d) => m <= 15 && p <= 15 && d <= 15);
+    each("fist", (m, p, d) => m >= 60 && p >= 80 && d >= 40);
+    each("straight fist", (m, p, d) => m >= 60 && p >= 80 && d <= 20);
+    each("hook", (m, p, d) => m <= 20 && p >= 65 && d >= 40);
+    each("tabletop", (m, p, d) => m >= 60 && p <= 15 && d <= 15);
+  });
+
+  it("brings the thumb in as the hand closes", () => {
+    const thumb = (f: (typeof frames)[number]) => getPoseAngle(f.truth.commandedDeg, "thumb.mcpFlexionDeg");
+    const mean = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / xs.length;
+    expect(mean(frames.filter((f) => f.shape === "fist").map(thumb))).toBeGreaterThan(mean(frames.filter((f) => f.shape === "open").map(thumb)) + 20);
+  });
+
+  it("is reproducible from its seed", () => {
+    expect(JSON.stringify(handShapeFrame(rigs, 5, 1))).toBe(JSON.stringify(handShapeFrame(rigs, 5, 1)));
   });
 });

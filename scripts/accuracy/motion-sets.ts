@@ -111,3 +111,62 @@ export function fingerFlexionFrame(rigs: Record<HandSide, HandRig>, seed: number
   const camera = placeCamera(side, placement, handCentre(poseHand(rig, pose)));
   return { ...buildFrame(rig, pose, camera, placement, look), seed, motion: FINGER_FLEXION_SET };
 }
+
+/**
+ * Whole-hand shapes seen from the palm, the back or obliquely: how an open hand or a fist is often shown to a camera
+ * held in front of it. All four fingers take the same shape (a little apart per finger). The named shapes are the
+ * tendon-gliding positions of hand therapy [common practice]: open (straight), full fist, straight fist (MCP and PIP
+ * bent, DIP straight), hook (MCP straight, PIP and DIP bent) and tabletop (MCP bent, PIP and DIP straight); the rest
+ * close the hand along one curl or draw each joint on its own, so a fit also sees shapes in between. Used for the
+ * whole-hand-shape estimator (training seeds 77000xxx) and its one held-out set (seed 20261206).
+ */
+export const HAND_SHAPE_SET = "fingers.hand-shape";
+export const HAND_SHAPE_VIEWS: readonly CameraView[] = ["palm", "back", "oblique"];
+/** Levels of each joint as a share of its range [low, high] per named shape. */
+const HAND_SHAPES: Record<string, Record<"mcp" | "pip" | "dip", readonly [number, number]>> = {
+  open: { mcp: [0, 0.1], pip: [0, 0.1], dip: [0, 0.1] },
+  fist: { mcp: [0.75, 1], pip: [0.85, 1], dip: [0.6, 1] },
+  "straight fist": { mcp: [0.75, 1], pip: [0.85, 1], dip: [0, 0.15] },
+  hook: { mcp: [0, 0.15], pip: [0.7, 1], dip: [0.6, 1] },
+  tabletop: { mcp: [0.75, 1], pip: [0, 0.1], dip: [0, 0.1] },
+};
+export const HAND_SHAPE_NAMES = [...Object.keys(HAND_SHAPES), "curl", "apart"] as const;
+const HAND_SHAPE_RANGES_DEG = { mcp: [0, 90], pip: [0, 100], dip: [0, 80] } as const;
+
+export function handShapeFrame(rigs: Record<HandSide, HandRig>, seed: number, index: number) {
+  const rng = makeRng(seed);
+  const uniform = (low: number, high: number) => low + (high - low) * uniformFloat64(rng);
+  const side: HandSide = uniformInt(rng, 0, 1) === 0 ? "left" : "right";
+  const view = HAND_SHAPE_VIEWS[index % HAND_SHAPE_VIEWS.length];
+  const pose = restPose();
+  for (const key of POSE_KEYS) {
+    const [low, high] = POSE_RANGES_DEG[key];
+    setPoseAngle(pose, key, Math.min(high, Math.max(low, uniform(-OTHER_JOINT_JITTER_DEG, OTHER_JOINT_JITTER_DEG))));
+  }
+  const shape = HAND_SHAPE_NAMES[uniformInt(rng, 0, HAND_SHAPE_NAMES.length - 1)];
+  const curl = uniformFloat64(rng);
+  const levels = Object.fromEntries(
+    (["mcp", "pip", "dip"] as const).map((joint) => {
+      const named = HAND_SHAPES[shape]?.[joint];
+      const level = named ? uniform(named[0], named[1]) : shape === "curl" ? curl + uniform(-0.15, 0.15) : uniformFloat64(rng);
+      return [joint, Math.min(1, Math.max(0, level))];
+    }),
+  ) as Record<"mcp" | "pip" | "dip", number>;
+  for (const finger of ["index", "middle", "ring", "little"] as const) {
+    for (const joint of ["mcp", "pip", "dip"] as const) {
+      const [low, high] = HAND_SHAPE_RANGES_DEG[joint];
+      const value = low + (high - low) * levels[joint] + uniform(-FINGER_SPREAD_DEG, FINGER_SPREAD_DEG);
+      setPoseAngle(pose, `${finger}.${joint}FlexionDeg` as PoseKey, Math.min(high, Math.max(low, value)));
+    }
+  }
+  // A closing hand brings the thumb in with it; an open hand may spread the fingers.
+  const closed = (levels.mcp + levels.pip) / 2;
+  setPoseAngle(pose, "thumb.mcpFlexionDeg", 50 * closed * uniform(0.5, 1));
+  setPoseAngle(pose, "thumb.ipFlexionDeg", 60 * closed * uniform(0.3, 1));
+  if (closed < 0.3) for (const finger of ["index", "ring", "little"] as const) setPoseAngle(pose, `${finger}.mcpAbductionDeg`, uniform(-5, 15));
+  const placement = sampleCamera(rng, view, [0.3, 0.7]);
+  const look = sampleLook(rng);
+  const rig = rigs[side];
+  const camera = placeCamera(side, placement, handCentre(poseHand(rig, pose)));
+  return { ...buildFrame(rig, pose, camera, placement, look), seed, motion: HAND_SHAPE_SET, shape };
+}

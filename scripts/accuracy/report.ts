@@ -16,6 +16,8 @@ export interface TrackedStill {
   motion?: string;
   /** The joints that move in a single-finger still: only these are scored. */
   movingKeys?: PoseKey[];
+  /** The named whole-hand shape of a hand-shape still (motion-sets.ts handShapeFrame). */
+  shape?: string;
   model: string;
   hand: Vec3[] | null;
   /** The same landmarks in the image: x, y in 0-1 of width and height. Absent in sets saved before it was kept. */

@@ -2,10 +2,10 @@
  * Renders and tracks a training set for the angle correction and saves it under tests/.cache/renders/tracked/, where
  * fit-correction.ts reads it. Refuses the validation seed.
  *
- *   npx tsx scripts/accuracy/track-training.ts --set motions|finger-motions|single-finger-motions|fingers --seed 77000002 --count 600 [--models lite,full]
+ *   npx tsx scripts/accuracy/track-training.ts --set motions|finger-motions|single-finger-motions|fingers|hand-shapes --seed 77000002 --count 600 [--models lite,full]
  */
 import { parseArgs } from "node:util";
-import { fingerFlexionFrame, MOTION_SETS, motionFrame } from "./motion-sets";
+import { fingerFlexionFrame, handShapeFrame, MOTION_SETS, motionFrame } from "./motion-sets";
 import { loadHandRig } from "./rig-files";
 import { parseCount, parseModels, VALIDATION_SEED } from "./run-accuracy";
 import { FINGER_MOTION_SETS, singleFingerMotionSetFrame, trackRenderedSet, type SetFrame } from "./tracked-set";
@@ -28,6 +28,10 @@ export const TRAINING_SET_KINDS: Record<string, () => (frameSeed: number, index:
   fingers: () => {
     const r = rigs();
     return (frameSeed, index) => fingerFlexionFrame(r, frameSeed, index);
+  },
+  "hand-shapes": () => {
+    const r = rigs();
+    return (frameSeed, index) => handShapeFrame(r, frameSeed, index);
   },
 };
 

@@ -59,6 +59,8 @@ export interface SetFrame {
   /** The motion a motion-set still shows. */
   motion?: string;
   movingKeys?: readonly PoseKey[];
+  /** The named whole-hand shape of a hand-shape still (motion-sets.ts handShapeFrame). */
+  shape?: string;
 }
 
 /** Random poses in every view in turn: the general set. */
@@ -126,6 +128,7 @@ export async function trackRenderedSet(options: {
         truth: frames[i].truth,
         ...(frames[i].motion ? { motion: frames[i].motion } : {}),
         ...(frames[i].movingKeys ? { movingKeys: [...frames[i].movingKeys!] } : {}),
+        ...(frames[i].shape ? { shape: frames[i].shape } : {}),
         model,
         hand: (frame?.hand as Vec3[] | null) ?? null,
         image: (frame?.image as Vec3[] | null) ?? null,
