@@ -1,6 +1,7 @@
 import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
 import { MOTIONS } from "@/lib/motions/catalog";
 import { handAxes, readMotion } from "./angles";
+import { PalmContinuity } from "./depth-mirror";
 import type { HandLandmarks } from "./landmarks";
 import { LANDMARK_COUNT } from "./landmarks";
 import { OneEuroFilter, type OneEuroParams } from "./one-euro";
@@ -162,6 +163,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   const neutralForearm = options.neutral ? forearmFromNeutral(options.neutral) : null;
   const wristTable = options.wristAxisValidation ?? WRIST_AXIS_VALIDATION;
   let method: MeasurementMethod = "world3d";
+  const palmContinuity = new PalmContinuity(options.side);
 
   function skipped(t: number, score: number, quality: FrameQuality): LiveUpdate {
     return {
@@ -206,10 +208,13 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     if (!frame.hand) return skipped(frame.t, score, "no_hand");
     if (score < minScore) return skipped(frame.t, score, "low_score");
     if (!landmarksUsable(frame.hand)) return skipped(frame.t, score, "bad_landmarks");
-    const axes = handAxes(frame.hand, options.side);
-    if (!axes) return skipped(frame.t, score, "degenerate");
+    const seenAxes = handAxes(frame.hand, options.side);
+    if (!seenAxes) return skipped(frame.t, score, "degenerate");
+    // After a gap the hand may really have turned: the palm's direction is taken afresh.
+    if (!Number.isNaN(lastUsableMs) && frame.t - lastUsableMs > maxGapMs) palmContinuity.reset();
+    const { hand, axes } = palmContinuity.check(frame.hand, seenAxes);
     const forearm = isWrist ? forearmFor(frame, axes.longAxis) : null;
-    const reading = readMotion(options.motion, options.digit, frame.hand, axes, forearm?.direction ?? null);
+    const reading = readMotion(options.motion, options.digit, hand, axes, forearm?.direction ?? null);
     if (!reading || !Number.isFinite(reading.deg)) return skipped(frame.t, score, "degenerate");
     if (forearm) forearmCounts.set(forearm.source, (forearmCounts.get(forearm.source) ?? 0) + 1);
 
@@ -226,7 +231,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
         planeFacing: Math.abs(reading.axis[2]),
         radialTowardCamera: -axes.radialAxis[2],
         palmTowardCamera: -axes.palmarNormal[2],
-        hand: frame.hand,
+        hand,
         side: options.side,
         axes,
       });
@@ -281,6 +286,9 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     if (frames > 0 && usable / frames < 0.8) warnings.push(`only ${usable} of ${frames} frames had a usable hand`);
     if (usable > 0 && repetitions.length === 0) warnings.push("no repetition found: the joint did not move clearly away from its resting angle");
     if (repetitions.some((r) => !r.complete)) warnings.push("the capture ended before the last repetition returned to rest");
+    if (palmContinuity.mirroredFrames > 0) {
+      warnings.push(`${palmContinuity.mirroredFrames} of ${usable} usable frames read mirrored front to back (the tracker turned the palm the other way for a moment; vision/depth-mirror.ts)`);
+    }
     if (correctedFrames > 0 && correctedFrames < usable) {
       warnings.push(`angle correction applied on ${correctedFrames} of ${usable} usable frames (only in views where validation shows it helps)`);
     }
