@@ -33,6 +33,18 @@ describe("depth mirror of an edge-on hand", () => {
     expect(continuity.mirroredFrames).toBe(1);
   });
 
+  it("a jump in the picture (a cut, another hand, a real turn) is not mirrored: the palm's direction is taken afresh", () => {
+    const continuity = new PalmContinuity("right");
+    for (const deg of [0, 20, 40]) continuity.check(mcpAt(deg), handAxes(mcpAt(deg), "right")!);
+    // The same hand turned about its long axis to show the other side: the picture is a left-right mirror image.
+    const turned = mcpAt(40).map(([x, y, z]) => [-x, y, -z] as const);
+    const read = continuity.check(turned, handAxes(turned, "right")!);
+    expect(read.mirrored).toBe(false);
+    expect(read.hand).toBe(turned);
+    // From then on the turned hand is the reference.
+    expect(continuity.check(turned, handAxes(turned, "right")!).mirrored).toBe(false);
+  });
+
   it("the pipeline reads a flipped frame at the end of range as flexion, not hyperextension; a first frame has nothing to compare with", () => {
     const options = { motion: "mcp.flexion", side: "right", digit: "middle", condition: "against_gravity", correction: "off" } as const;
     const pipeline = createLivePipeline(options);

@@ -32,7 +32,7 @@ import { HandRenderer, RENDER_OUTPUT_ROOT } from "./renderer";
 import { loadHandRig } from "./rig-files";
 import type { HandSide } from "./rig";
 import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
-import { makeRng, type CameraView, type FrameTruth } from "./scene";
+import { frameSeeds, makeRng, type CameraView, type FrameTruth } from "./scene";
 import { summarizeErrors, type ErrorSample, type ErrorSummary } from "./stats";
 import { parseCount, parseModels } from "./run-accuracy";
 import type { HandModelVariant } from "./tracked-set";
@@ -90,15 +90,18 @@ export interface ClipPlan {
 
 /** The clips of one seed: for each motion, `count` clips alternating right and left hands, each drawn from its own seed. */
 export function planClips(seed: number, count: number): ClipPlan[] {
+  // Render seeds from the set's own generator (as scene.ts frameSeeds) and the drawn ends of range and distances in
+  // sequence from one more: xoroshiro128+ started from neighbouring or similar seeds gives alike first numbers.
+  const seeds = frameSeeds(seed, CLIP_MOTIONS.length * count);
+  const draws = makeRng(seeds[0] ^ 0x2545f491);
   return CLIP_MOTIONS.flatMap((motion, m) =>
     Array.from({ length: count }, (_, i) => {
-      const clipSeed = seed * 100 + m * 10 + i;
-      const rng = makeRng(clipSeed);
-      const toDeg = motion.toDeg[0] + (motion.toDeg[1] - motion.toDeg[0]) * uniformFloat64(rng);
-      const distanceM = 0.3 + 0.4 * uniformFloat64(rng);
+      const clipSeed = seeds[m * count + i];
+      const toDeg = motion.toDeg[0] + (motion.toDeg[1] - motion.toDeg[0]) * uniformFloat64(draws);
+      const distanceM = 0.3 + 0.4 * uniformFloat64(draws);
       const view = viewPolicy(motion.motion, "against_gravity", motion.digits[0]).recommended[0] as CameraView;
       const side: HandSide = i % 2 === 0 ? "right" : "left";
-      return { name: `${motion.motion}-${seed}-${i}`, motion, side, view, seed: clipSeed, toDeg, distanceM };
+      return { name: `${motion.motion}-${seed}-${i}-${clipSeed}`, motion, side, view, seed: clipSeed, toDeg, distanceM };
     }),
   );
 }
