@@ -53,6 +53,8 @@ export interface LivePipelineOptions {
    * model; "off" reads raw 3-D angles (for checks of the angle geometry on exact landmarks).
    */
   correction?: "auto" | "off";
+  /** Read a frame whose palm flips against the frames before it mirrored in depth (vision/depth-mirror.ts). Default true. */
+  depthMirror?: boolean;
   /** Injectable for tests; the committed coefficients and validation table otherwise. */
   correctionModel?: CorrectionModel;
   uncertaintyTable?: UncertaintyTable;
@@ -212,7 +214,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     if (!seenAxes) return skipped(frame.t, score, "degenerate");
     // After a gap the hand may really have turned: the palm's direction is taken afresh.
     if (!Number.isNaN(lastUsableMs) && frame.t - lastUsableMs > maxGapMs) palmContinuity.reset();
-    const { hand, axes } = palmContinuity.check(frame.hand, seenAxes);
+    const { hand, axes } = options.depthMirror === false ? { hand: frame.hand, axes: seenAxes } : palmContinuity.check(frame.hand, seenAxes);
     const forearm = isWrist ? forearmFor(frame, axes.longAxis) : null;
     const reading = readMotion(options.motion, options.digit, hand, axes, forearm?.direction ?? null);
     if (!reading || !Number.isFinite(reading.deg)) return skipped(frame.t, score, "degenerate");

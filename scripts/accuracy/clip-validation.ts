@@ -169,8 +169,16 @@ async function trackClips(plans: readonly ClipPlan[], folder: string, model: Han
   return tracked;
 }
 
+/**
+ * How the engine reads: as shipped; without the depth mirror (vision/depth-mirror.ts), to show what it changes; raw
+ * (no correction, no depth mirror), the landmarks' own angles.
+ */
+export const CLIP_VARIANTS = ["engine", "without depth mirror", "raw"] as const;
+export type ClipVariant = (typeof CLIP_VARIANTS)[number];
+
 export interface ClipReading {
   plan: ClipPlan;
+  variant: ClipVariant;
   model: HandModelVariant;
   digit: Digit | null;
   samples: ErrorSample[];
@@ -183,16 +191,29 @@ export interface ClipReading {
 }
 
 /** The engine's reading of one clip for one finger (or the wrist), frame by frame against the truth. */
-export function readClip(plan: ClipPlan, model: HandModelVariant, digit: Digit | null, frames: readonly TrackedFrame[], truth: ClipTruthFile): ClipReading {
+export function readClip(
+  plan: ClipPlan,
+  model: HandModelVariant,
+  digit: Digit | null,
+  frames: readonly TrackedFrame[],
+  truth: ClipTruthFile,
+  variant: ClipVariant = "engine",
+): ClipReading {
   if (frames.length !== truth.frameCount) throw new Error(`${plan.name} (${model}): tracked ${frames.length} frames, the clip has ${truth.frameCount}`);
   const target = { motion: plan.motion.motion, side: plan.side, digit, condition: "against_gravity" as const };
   const { capture } = clipCapture(target, frames, plan.name);
   const angles: (number | null)[] = [];
-  const analysis = analyzeCapture(capture, { onUpdate: (update) => angles.push(update.angleDeg) });
+  const analysis = analyzeCapture(capture, {
+    handModel: model,
+    correction: variant === "raw" ? "off" : "auto",
+    depthMirror: variant === "engine",
+    onUpdate: (update) => angles.push(update.angleDeg),
+  });
   const key = digit ? (plan.motion.joints.find((joint) => joint.startsWith(`${digit}.`)) as PoseKey) : plan.motion.joints[0];
   const truthDeg = truth.frames.map((frame) => plan.motion.sign * getPoseAngle(frame.truth.commandedDeg, key));
   return {
     plan,
+    variant,
     model,
     digit,
     samples: truthDeg.map((value, i) => ({ truthDeg: value, estimateDeg: angles[i] ?? null })),
@@ -207,6 +228,7 @@ export function readClip(plan: ClipPlan, model: HandModelVariant, digit: Digit |
 
 export interface ClipRow {
   label: string;
+  variant: ClipVariant;
   bar: keyof typeof BARS;
   view: CameraView;
   model: HandModelVariant;
@@ -218,7 +240,7 @@ export interface ClipRow {
   neutralUsed: string;
 }
 
-export function summarizeClipReadings(readings: readonly ClipReading[]): Omit<ClipRow, "label" | "bar" | "view" | "model"> {
+export function summarizeClipReadings(readings: readonly ClipReading[]): Omit<ClipRow, "label" | "variant" | "bar" | "view" | "model"> {
   const peaks = readings.filter((r) => r.peakDeg !== null).map((r) => r.peakDeg! - r.truthPeakDeg);
   const wrist = readings.filter((r) => r.neutralUsed !== null);
   return {
@@ -259,13 +281,13 @@ export function clipReport(rows: readonly ClipRow[], meta: { seed: number; clips
     "",
     "## Acceptance (issue 8: recommended view, after correction, every frame)",
     "",
-    ...rows.map((row) => `- ${row.label}, ${row.view}, ${row.model}: ${verdict(row)}`),
+    ...rows.filter((row) => row.variant === "engine").map((row) => `- ${row.label}, ${row.view}, ${row.model}: ${verdict(row)}`),
     "",
-    "| motion | view | model | readings | frames | detected | bias ° | MAE ° | slope | within 5° | within 10° | peak MAE ° | worst peak error ° | repetitions right | straight-wrist reading used |",
-    "| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
+    "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope | within 5° | within 10° | peak MAE ° | worst peak error ° | repetitions right | straight-wrist reading used |",
+    "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
     ...rows.map(
       (row) =>
-        `| ${row.label} | ${row.view} | ${row.model} | ${row.readings} | ${row.frames.samples} | ${pct(row.frames.detectionRate)} | ${fmt(row.frames.biasDeg)} | ${fmt(row.frames.meanAbsoluteErrorDeg)} | ` +
+        `| ${row.label} | ${row.view} | ${row.model} | ${row.variant} | ${row.readings} | ${row.frames.samples} | ${pct(row.frames.detectionRate)} | ${fmt(row.frames.biasDeg)} | ${fmt(row.frames.meanAbsoluteErrorDeg)} | ` +
         `${fmt(row.frames.slope, 2)} | ${pct(row.frames.within5)} | ${pct(row.frames.within10)} | ${fmt(row.peakMaeDeg)} | ${fmt(row.peakWorstDeg)} | ${row.repsRight}/${row.readings} | ${row.neutralUsed} |`,
     ),
     "",
@@ -293,12 +315,14 @@ async function main(): Promise<void> {
     const tracked = await trackClips(plans, folder, model, reuse);
     for (const group of ["mcp", "pip", "dip", "wrist"] as const) {
       const groupPlans = plans.filter((plan) => plan.motion.bar === group);
-      const readings = groupPlans.flatMap((plan) => {
-        const truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
-        return plan.motion.digits.map((digit) => readClip(plan, model, digit, tracked.get(plan.name)!, truth));
-      });
       const label = group === "wrist" ? "wrist flexion (+) / extension (-)" : groupPlans[0].motion.label;
-      rows.push({ label, bar: group, view: groupPlans[0].view, model, ...summarizeClipReadings(readings) });
+      for (const variant of CLIP_VARIANTS) {
+        const readings = groupPlans.flatMap((plan) => {
+          const truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
+          return plan.motion.digits.map((digit) => readClip(plan, model, digit, tracked.get(plan.name)!, truth, variant));
+        });
+        rows.push({ label, variant, bar: group, view: groupPlans[0].view, model, ...summarizeClipReadings(readings) });
+      }
     }
   }
   const text = clipReport(rows, { seed, clips, glName });

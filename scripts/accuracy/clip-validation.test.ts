@@ -1,0 +1,97 @@
+import { describe, expect, it } from "vitest";
+import { viewPolicy } from "@/vision/view-policy";
+import { neutralPose, poseHand, withMotionAngle } from "@/vision/testing/synthetic-hand";
+import type { TrackedFrame } from "@/vision/live/types";
+import { CLIP_MOTIONS, clipReport, planClips, readClip, summarizeClipReadings, type ClipReading } from "./clip-validation";
+import { restPose, setPoseAngle } from "./hand-pose";
+import { sweepAnglesDeg } from "./sweep";
+import type { FrameTruth } from "./scene";
+
+describe("held-out clip plans", () => {
+  const plans = planClips(20261205, 8);
+
+  it("are the same every time, a clip per motion and index, hands alternating, in the view the policy recommends", () => {
+    expect(planClips(20261205, 8)).toEqual(plans);
+    expect(plans).toHaveLength(CLIP_MOTIONS.length * 8);
+    for (const motion of CLIP_MOTIONS) {
+      const mine = plans.filter((plan) => plan.motion === motion);
+      expect(mine.map((plan) => plan.side)).toEqual(["right", "left", "right", "left", "right", "left", "right", "left"]);
+      for (const plan of mine) expect(plan.view).toBe(viewPolicy(motion.motion, "against_gravity", motion.digits[0]).recommended[0]);
+    }
+    expect(new Set(plans.map((plan) => plan.seed)).size).toBe(plans.length);
+  });
+
+  it("draw ends of range and distances across their whole span (neighbouring seeds once gave near-identical clips)", () => {
+    for (const motion of CLIP_MOTIONS) {
+      const ends = plans.filter((plan) => plan.motion === motion).map((plan) => plan.toDeg);
+      const [low, high] = motion.toDeg;
+      for (const end of ends) expect(end).toBeGreaterThanOrEqual(low), expect(end).toBeLessThanOrEqual(high);
+      // Eight uniform draws spanning less than a third of the range would happen about once in 10,000 sets.
+      expect(Math.max(...ends) - Math.min(...ends)).toBeGreaterThan((high - low) / 3);
+    }
+    const distances = plans.map((plan) => plan.distanceM);
+    expect(Math.min(...distances)).toBeGreaterThanOrEqual(0.3);
+    expect(Math.max(...distances)).toBeLessThanOrEqual(0.7);
+    expect(Math.max(...distances) - Math.min(...distances)).toBeGreaterThan(0.2);
+  });
+});
+
+describe("reading a clip against its truth", () => {
+  // Exact landmarks of our synthetic hand sweeping all four PIPs 0 -> 70 -> 0 twice, seen from the little-finger side.
+  const ulnarView = { forearmDistal: [0, -1, 0] as const, forearmRadial: [0, 0, 1] as const, wrist: [0, 0.05, 0.45] as const };
+  const anglesDeg = [...Array.from({ length: 30 }, () => 0), ...sweepAnglesDeg(0, 70, 2, 60)];
+  const plan = { ...planClips(20261205, 1).find((p) => p.motion.motion === "pip.flexion")!, side: "right" as const, toDeg: 70 };
+  const frames: TrackedFrame[] = anglesDeg.map((deg, i) => {
+    let pose = neutralPose();
+    for (const digit of ["index", "middle", "ring", "little"] as const) pose = withMotionAngle(pose, "pip.flexion", digit, deg);
+    const hand = poseHand(pose, "right", ulnarView).landmarks.map((p) => [...p] as [number, number, number]);
+    // A tracker that lost the hand for frames 40-44.
+    const lost = i >= 40 && i < 45;
+    return { t: (i * 1000) / 30, score: lost ? 0 : 0.95, handedness: lost ? null : "right", hand: lost ? null : hand, image: lost ? null : hand };
+  });
+  const truth = {
+    frameCount: frames.length,
+    frames: anglesDeg.map((deg, index) => {
+      const commandedDeg = restPose();
+      for (const digit of ["index", "middle", "ring", "little"] as const) setPoseAngle(commandedDeg, `${digit}.pipFlexionDeg`, deg);
+      return { index, timeMs: (index * 1000) / 30, truth: { commandedDeg } as unknown as FrameTruth };
+    }),
+  };
+
+  it("pairs each frame's reading with that frame's truth, and counts lost frames as undetected", () => {
+    const reading = readClip(plan, "lite", "ring", frames, truth, "raw");
+    expect(reading.samples).toHaveLength(frames.length);
+    expect(reading.samples.filter((s) => s.estimateDeg === null)).toHaveLength(5);
+    // Raw angles of exact landmarks: the engine's geometry reads our hand's PIP to well under a degree.
+    for (const sample of reading.samples) if (sample.estimateDeg !== null) expect(Math.abs(sample.estimateDeg - sample.truthDeg)).toBeLessThan(0.5);
+    expect(reading.truthPeakDeg).toBeCloseTo(70, 9);
+    expect(reading.reps).toBe(2);
+    // The peak is read from the smoothed angle (One Euro filter), which rounds the turn off by a degree or two.
+    expect(Math.abs(reading.peakDeg! - 70)).toBeLessThan(2);
+    const summary = summarizeClipReadings([reading]);
+    expect(summary.frames.detectionRate).toBeCloseTo((frames.length - 5) / frames.length, 9);
+    expect(summary.repsRight).toBe(1);
+  });
+
+  it("refuses a clip whose tracked frames do not match its truth", () => {
+    expect(() => readClip(plan, "lite", "ring", frames.slice(1), truth, "raw")).toThrow(new RegExp(`tracked ${frames.length - 1} frames, the clip has ${frames.length}`));
+  });
+
+  it("summarizes peaks, repetitions and the verdict against issue 8's bars", () => {
+    const make = (peakDeg: number | null, reps: number, errorDeg: number): ClipReading => ({
+      ...readClip(plan, "lite", "ring", frames, truth, "raw"),
+      peakDeg,
+      reps,
+      samples: anglesDeg.map((deg) => ({ truthDeg: deg, estimateDeg: deg + errorDeg })),
+    });
+    const summary = summarizeClipReadings([make(76, 2, 4), make(58, 3, -4), make(null, 0, 4)]);
+    expect(summary.peakMaeDeg).toBeCloseTo((6 + 12) / 2, 9);
+    expect(summary.peakWorstDeg).toBeCloseTo(-12, 9);
+    expect(summary.repsRight).toBe(1);
+    expect(summary.frames.meanAbsoluteErrorDeg).toBeCloseTo(4, 9);
+    const row = { label: "PIP flexion", variant: "engine" as const, bar: "pip" as const, view: "ulnar" as const, model: "lite" as const, ...summary };
+    expect(clipReport([row], { seed: 1, clips: 1, glName: "test" })).toContain("- PIP flexion, ulnar, lite: meets (MAE 4.0 of at most 5, slope 1.00 in 0.9-1.1, detected 100% of at least 95%)");
+    const worse = { ...row, ...summarizeClipReadings([make(76, 2, 6)]) };
+    expect(clipReport([worse], { seed: 1, clips: 1, glName: "test" })).toContain("- PIP flexion, ulnar, lite: misses (MAE 6.0 of at most 5");
+  });
+});
