@@ -25,7 +25,10 @@ describe("held-out clip plans", () => {
     for (const motion of CLIP_MOTIONS) {
       const ends = plans.filter((plan) => plan.motion === motion).map((plan) => plan.toDeg);
       const [low, high] = motion.toDeg;
-      for (const end of ends) expect(end).toBeGreaterThanOrEqual(low), expect(end).toBeLessThanOrEqual(high);
+      for (const end of ends) {
+        expect(end).toBeGreaterThanOrEqual(low);
+        expect(end).toBeLessThanOrEqual(high);
+      }
       // Eight uniform draws spanning less than a third of the range would happen about once in 10,000 sets.
       expect(Math.max(...ends) - Math.min(...ends)).toBeGreaterThan((high - low) / 3);
     }
