@@ -19,6 +19,9 @@ describe("held-out clip plans", () => {
       for (const plan of mine) expect(plan.view).toBe(viewPolicy(motion.motion, "against_gravity", motion.digits[0]).recommended[0]);
     }
     expect(new Set(plans.map((plan) => plan.seed)).size).toBe(plans.length);
+    // More clips keep the clips of fewer (their renders and tracking are reused).
+    const fewer = planClips(20261205, 3);
+    for (const plan of fewer) expect(plans).toContainEqual(plan);
   });
 
   it("draw ends of range and distances across their whole span (neighbouring seeds once gave near-identical clips)", () => {

@@ -89,14 +89,19 @@ export interface ClipPlan {
 }
 
 /** The clips of one seed: for each motion, `count` clips alternating right and left hands, each drawn from its own seed. */
+/** Clip seeds per motion drawn up front, so a plan with more clips keeps the clips of a smaller one. */
+const SEEDS_PER_MOTION = 100;
+
 export function planClips(seed: number, count: number): ClipPlan[] {
-  // Render seeds from the set's own generator (as scene.ts frameSeeds) and the drawn ends of range and distances in
-  // sequence from one more: xoroshiro128+ started from neighbouring or similar seeds gives alike first numbers.
-  const seeds = frameSeeds(seed, CLIP_MOTIONS.length * count);
-  const draws = makeRng(seeds[0] ^ 0x2545f491);
+  if (count > SEEDS_PER_MOTION) throw new Error(`--clips: expected at most ${SEEDS_PER_MOTION}; got ${count}`);
+  // Render seeds from the set's own generator (as scene.ts frameSeeds): neighbouring seeds start xoroshiro128+ alike.
+  const seeds = frameSeeds(seed, CLIP_MOTIONS.length * SEEDS_PER_MOTION);
   return CLIP_MOTIONS.flatMap((motion, m) =>
     Array.from({ length: count }, (_, i) => {
-      const clipSeed = seeds[m * count + i];
+      const clipSeed = seeds[m * SEEDS_PER_MOTION + i];
+      const draws = makeRng(clipSeed ^ 0x2545f491);
+      // The first number of a freshly seeded generator depends little on small seeds; it is not used.
+      uniformFloat64(draws);
       const toDeg = motion.toDeg[0] + (motion.toDeg[1] - motion.toDeg[0]) * uniformFloat64(draws);
       const distanceM = 0.3 + 0.4 * uniformFloat64(draws);
       const view = viewPolicy(motion.motion, "against_gravity", motion.digits[0]).recommended[0] as CameraView;
