@@ -1,23 +1,27 @@
 import type { Side } from "@/lib/motions/catalog";
-import { handAxes, type HandAxes } from "./angles";
+import { handAxes, readMotion, type HandAxes } from "./angles";
 import type { HandLandmarks } from "./landmarks";
 import { add, dot, normalize, scale, type Vec3 } from "./vec";
 
 /**
  * Depth mirror ambiguity of one camera. A hand seen edge-on (the little-finger side view Kinarc asks for in finger
  * flexion) looks almost the same in the picture when it is mirrored front to back, and the landmark model sometimes
- * answers with the mirrored hand: the index and little MCPs swap in depth, the palm normal flips, and a finger bent
- * 80 degrees toward the palm reads as 60 degrees of hyperextension. Measured on held-out clips (seed 20261205, four
- * fingers flexing at the MCP to 83 degrees, little-finger side, lite model): 28 of 181 frames flipped, all near the end
- * of range, each reading -30 to -67 degrees (scripts/accuracy/clip-report.md).
+ * answers with the mirrored hand: the index and little MCPs swap in depth, the palm normal flips, and every finger
+ * angle changes sign, so four fingers bent 75 degrees at the MCP read as 75 degrees of hyperextension. Measured on
+ * held-out clips (scripts/accuracy/clip-report.md): in one clip of ten the tracker held the mirrored hand for most
+ * of the motion, and reading it as seen put that clip's MCP error at 24 degrees.
  *
- * A real hand cannot turn its palm through more than a right angle between two camera frames. So the palm normal of
- * the frames already accepted is the reference, and a frame whose palm faces the other way is read mirrored in depth
- * (every landmark's z reflected through the wrist), which is the other answer the picture allows. [Our reasoning from
- * the camera geometry; the figures before and after are in the clip report.] The mirror leaves the picture as it
- * was, so it is only considered when the picture did not jump since the frame before (landmarks moved less than
- * `MAX_PICTURE_JUMP` hand lengths across the image on average): a jump is a real turn, a cut in a clip or another
- * hand, and the reference starts again from that frame, as it does after a gap in tracking.
+ * Which of the two answers is the hand is decided by anatomy, never by a single frame's landmarks alone:
+ * - Decisive frames: the four fingers together read more than `DECISIVE_MCP_DEG` of hyperextension at the MCP (the
+ *   AAOS normal is 45: clinical-references.md; clawing from an ulnar nerve lesion shows less) or more than
+ *   `DECISIVE_PIP_DEG` at the PIP (beyond the swan-neck deformities of rheumatoid hands [from memory: rarely over
+ *   40]). The other answer reads the same amount of flexion, which a hand can do, so that answer is taken.
+ * - In between (near straight fingers, where the sign is a few degrees either way, or part-way through a motion) the
+ *   palm's direction in the decisive frames before it is the reference: a real hand cannot turn its palm through more
+ *   than a right angle between two camera frames. Without a decisive frame yet, the frame is read as seen.
+ * The mirror leaves the picture as it was, so the reference holds only while the picture does not jump (landmarks
+ * moving less than `MAX_PICTURE_JUMP` hand lengths on average since the frame before): a jump is a real turn, a cut
+ * in a clip or another hand, and the reference is dropped, as it is after a gap in tracking.
  */
 export interface DepthMirrorCheck {
   hand: HandLandmarks;
@@ -26,7 +30,11 @@ export interface DepthMirrorCheck {
   mirrored: boolean;
 }
 
-/** How far the reference follows each accepted frame's palm normal: slow enough that one odd frame cannot turn it. */
+/** Mean MCP hyperextension of the four fingers beyond which a hand is taken to be the mirror image. */
+export const DECISIVE_MCP_DEG = 50;
+/** Mean PIP hyperextension of the four fingers beyond which a hand is taken to be the mirror image. */
+export const DECISIVE_PIP_DEG = 45;
+/** How far the reference follows each decisive frame's palm normal. */
 const REFERENCE_WEIGHT = 0.2;
 /**
  * Mean movement across the picture between two frames, in hand lengths (wrist to middle MCP), beyond which the picture
@@ -35,20 +43,40 @@ const REFERENCE_WEIGHT = 0.2;
  */
 export const MAX_PICTURE_JUMP = 0.35;
 
-function pictureJump(before: HandLandmarks, after: HandLandmarks): number {
-  const [wx, wy] = before[0];
-  const [mx, my] = before[9];
-  const handLength = Math.hypot(mx - wx, my - wy, before[9][2] - before[0][2]);
-  if (!(handLength > 0)) return Number.POSITIVE_INFINITY;
-  let sum = 0;
-  for (let i = 0; i < before.length; i++) sum += Math.hypot(after[i][0] - before[i][0], after[i][1] - before[i][1]);
-  return sum / before.length / handLength;
-}
+const FINGER_DIGITS = ["index", "middle", "ring", "little"] as const;
 
 /** Every landmark reflected through the plane z = wrist z (camera depth). Angles do not depend on the plane chosen. */
 export function mirrorInDepth(hand: HandLandmarks): HandLandmarks {
   const wristZ = hand[0][2];
   return hand.map(([x, y, z]) => [x, y, 2 * wristZ - z] as Vec3);
+}
+
+/** Mean flexion of the four fingers at one joint as the landmarks stand (negative = hyperextension); null if unreadable. */
+function meanFlexionDeg(hand: HandLandmarks, axes: HandAxes, motion: "mcp.flexion" | "pip.flexion"): number | null {
+  let sum = 0;
+  for (const digit of FINGER_DIGITS) {
+    const reading = readMotion(motion, digit, hand, axes, null);
+    if (!reading || !Number.isFinite(reading.deg)) return null;
+    sum += reading.deg;
+  }
+  return sum / FINGER_DIGITS.length;
+}
+
+/** Whether the landmarks, as they stand, show a hand bent backwards beyond what a hand does: the mirror is the hand. */
+export function anatomicallyMirrored(hand: HandLandmarks, axes: HandAxes): boolean {
+  const mcp = meanFlexionDeg(hand, axes, "mcp.flexion");
+  const pip = meanFlexionDeg(hand, axes, "pip.flexion");
+  return (mcp !== null && mcp < -DECISIVE_MCP_DEG) || (pip !== null && pip < -DECISIVE_PIP_DEG);
+}
+
+function pictureJump(before: HandLandmarks, after: HandLandmarks): number {
+  const [wx, wy, wz] = before[0];
+  const [mx, my, mz] = before[9];
+  const handLength = Math.hypot(mx - wx, my - wy, mz - wz);
+  if (!(handLength > 0)) return Number.POSITIVE_INFINITY;
+  let sum = 0;
+  for (let i = 0; i < before.length; i++) sum += Math.hypot(after[i][0] - before[i][0], after[i][1] - before[i][1]);
+  return sum / before.length / handLength;
 }
 
 export class PalmContinuity {
@@ -64,22 +92,32 @@ export class PalmContinuity {
     this.previousSeen = null;
   }
 
-  /** The frame as it should be read, given the palm's direction in the frames before it. */
+  /** The frame as it should be read. */
   check(hand: HandLandmarks, axes: HandAxes): DepthMirrorCheck {
-    let result: DepthMirrorCheck = { hand, axes, mirrored: false };
     if (this.previousSeen && pictureJump(this.previousSeen, hand) > MAX_PICTURE_JUMP) this.reference = null;
     this.previousSeen = hand;
-    if (this.reference && dot(axes.palmarNormal, this.reference) < 0) {
-      const mirroredHand = mirrorInDepth(hand);
-      const mirroredAxes = handAxes(mirroredHand, this.side);
-      if (mirroredAxes && dot(mirroredAxes.palmarNormal, this.reference) > 0) {
-        result = { hand: mirroredHand, axes: mirroredAxes, mirrored: true };
-        this.mirroredFrames += 1;
-      }
+    const seen: DepthMirrorCheck = { hand, axes, mirrored: false };
+    const mirroredHand = mirrorInDepth(hand);
+    const mirroredAxes = handAxes(mirroredHand, this.side);
+    if (!mirroredAxes) return seen;
+    const mirrored: DepthMirrorCheck = { hand: mirroredHand, axes: mirroredAxes, mirrored: true };
+
+    let chosen: DepthMirrorCheck = seen;
+    if (anatomicallyMirrored(hand, axes)) {
+      chosen = mirrored;
+      this.follow(mirroredAxes.palmarNormal);
+    } else if (anatomicallyMirrored(mirroredHand, mirroredAxes)) {
+      this.follow(axes.palmarNormal);
+    } else if (this.reference && dot(axes.palmarNormal, this.reference) < 0 && dot(mirroredAxes.palmarNormal, this.reference) > 0) {
+      chosen = mirrored;
     }
+    if (chosen.mirrored) this.mirroredFrames += 1;
+    return chosen;
+  }
+
+  private follow(palmarNormal: Vec3): void {
     this.reference = this.reference
-      ? (normalize(add(scale(this.reference, 1 - REFERENCE_WEIGHT), scale(result.axes.palmarNormal, REFERENCE_WEIGHT))) ?? result.axes.palmarNormal)
-      : result.axes.palmarNormal;
-    return result;
+      ? (normalize(add(scale(this.reference, 1 - REFERENCE_WEIGHT), scale(palmarNormal, REFERENCE_WEIGHT))) ?? palmarNormal)
+      : palmarNormal;
   }
 }
