@@ -1,12 +1,17 @@
 import type { Digit, MotionId, Side } from "@/lib/motions/catalog";
 import COEFFICIENTS from "./correction-coefficients.json";
+import HAND_SHAPE_FIT from "./correction-hand-shape.json";
+import { estimateHandShapeJointDeg, type HandShapeEstimatorModel } from "./correction-hand-shape";
 import { estimateFingerJointDeg, fingerJointOfGroup, type Finger, type FingerEstimatorModel } from "./estimator";
-import type { HandAxes } from "./angles";
+import { handAxes, type HandAxes } from "./angles";
+import { viewFromHand, type ValidationView } from "./correction-views";
 import type { HandLandmarks } from "./landmarks";
 
 /**
- * Kinarc's angle correction, version 2. Finger MCP, PIP and DIP flexion come from the finger estimator
- * (vision/estimator.ts), which reads the whole finger; the other joint groups keep version 1's form: per joint group
+ * Kinarc's angle correction, version 3. Finger MCP, PIP and DIP flexion come from the finger estimator
+ * (vision/estimator.ts), which reads the whole finger, fitted on side views; seen from the palm, the back or obliquely
+ * they come from the whole-hand-shape estimator (vision/correction-hand-shape.ts) instead. The other joint groups
+ * keep version 1's form: per joint group
  * and hand model, a linear map from what the raw landmarks give to the joint angle,
  *
  *   angle = b . [1, deg, ip, facing, deg*facing, ip*facing, radial, deg*radial, palm, deg*palm]
@@ -31,7 +36,7 @@ export const CORRECTION_FEATURES = [
   "deg*palm",
 ] as const;
 
-export const CORRECTION_VERSION = "kinarc-correction-2";
+export const CORRECTION_VERSION = "kinarc-correction-3";
 
 /** Joint groups as the accuracy report names its rows: the four fingers share one fit per joint. */
 export const CORRECTION_GROUPS = [
@@ -86,11 +91,18 @@ export interface CorrectionModel {
   groups: Record<string, Record<string, CorrectionGroupFit>>;
   /** Finger MCP, PIP and DIP flexion; where it has a fit, it reads those groups instead of a linear map. */
   fingerEstimator?: FingerEstimatorModel & { trainingSets: string[] };
+  /** Finger MCP, PIP and DIP flexion in the palm, back and oblique views, where it has a fit (version 3). */
+  handShapeEstimator?: HandShapeEstimatorModel;
 }
 
 /** The committed coefficients. */
 // The JSON module's inferred type is wider than the model's (tuples read as arrays); applyFingerFit and correctGroupAngle check sizes.
-export const CORRECTION_MODEL: CorrectionModel = COEFFICIENTS as unknown as CorrectionModel;
+export const HAND_SHAPE_MODEL: HandShapeEstimatorModel = HAND_SHAPE_FIT as unknown as HandShapeEstimatorModel;
+export const CORRECTION_MODEL: CorrectionModel = {
+  ...(COEFFICIENTS as unknown as CorrectionModel),
+  version: CORRECTION_VERSION,
+  handShapeEstimator: HAND_SHAPE_MODEL,
+};
 
 export function correctionFeatures(f: RawAngleFeatures): number[] {
   const { deg, imagePlaneDeg: ip, planeFacing: c, radialTowardCamera: r, palmTowardCamera: p } = f;
@@ -98,6 +110,13 @@ export function correctionFeatures(f: RawAngleFeatures): number[] {
 }
 
 const FINGERS: readonly string[] = ["index", "middle", "ring", "little"];
+
+/** The frame's view as the engine classifies it (vision/view-policy.ts viewOfAxes), from the features' hand axes. */
+function viewOfFeatures(features: RawAngleFeatures): ValidationView {
+  const axes = features.axes ?? (features.hand && features.side ? handAxes(features.hand, features.side) : null);
+  if (axes) return viewFromHand(-axes.palmarNormal[2], -axes.radialAxis[2], -axes.longAxis[2]);
+  return viewFromHand(features.palmTowardCamera, features.radialTowardCamera, 0);
+}
 
 /**
  * The corrected angle for a joint group (flexion positive for the finger estimator's groups), or null when the model
@@ -112,8 +131,14 @@ export function correctGroupAngle(
   digit: Digit | null = null,
 ): number | null {
   const joint = fingerJointOfGroup(group);
-  if (joint && model.fingerEstimator?.fits[handModel]?.[joint]) {
+  const handShape = joint ? model.handShapeEstimator : undefined;
+  if (joint && (model.fingerEstimator?.fits[handModel]?.[joint] || handShape?.fits[handModel]?.[joint])) {
     if (!features.hand || !features.side || !digit || !FINGERS.includes(digit)) return null;
+    // In its views the hand-shape estimator reads the frame or nobody does: the side-view fit was not chosen there.
+    if (handShape?.fits[handModel]?.[joint] && handShape.views.includes(viewOfFeatures(features))) {
+      return estimateHandShapeJointDeg(handShape, handModel, joint, features.hand, features.side, digit as Finger, features.axes);
+    }
+    if (!model.fingerEstimator?.fits[handModel]?.[joint]) return null;
     return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes);
   }
   const fit = model.groups[handModel]?.[group];
@@ -129,7 +154,9 @@ export function correctGroupAngle(
 /** Whether the model has a fit (linear or the finger estimator) for a group and hand model. */
 export function hasGroupFit(model: CorrectionModel, handModel: string, group: string): boolean {
   const joint = fingerJointOfGroup(group);
-  return Boolean(model.groups[handModel]?.[group] || (joint && model.fingerEstimator?.fits[handModel]?.[joint]));
+  return Boolean(
+    model.groups[handModel]?.[group] || (joint && (model.fingerEstimator?.fits[handModel]?.[joint] || model.handShapeEstimator?.fits[handModel]?.[joint])),
+  );
 }
 
 /**

@@ -4,7 +4,7 @@ import { DIGIT_CHAIN, MIDDLE_MCP, WRIST, type HandLandmarks } from "./landmarks"
 import { length, sub, type Vec3 } from "./vec";
 
 /**
- * Kinarc's finger-joint estimator (part of kinarc-correction-2). The landmark model does not put a finger's flexion
+ * Kinarc's finger-joint estimator (part of kinarc-correction-2 and -3; side views). The landmark model does not put a finger's flexion
  * at the joint that made it: it spreads it over the finger's joints, under-reads PIP and DIP, and past about 60
  * degrees of PIP the reading folds back. One joint's own reading cannot undo that, so the estimator reads the whole
  * finger: its three joint angles in 3-D and in the image plane, how far the fingertip has come toward the MCP and the

@@ -1,5 +1,6 @@
 import type { Digit, MotionId } from "@/lib/motions/catalog";
 import { correctionGroupFor, type HandModel } from "./correction";
+import type { ValidationView } from "./correction-views";
 import TABLE from "./uncertainty-table.json";
 
 /**
@@ -8,19 +9,27 @@ import TABLE from "./uncertainty-table.json";
  * The table (vision/uncertainty-table.json) is written from the report by scripts/accuracy/derive-uncertainty.ts.
  */
 
-/** Camera views of the validation renders (scripts/accuracy/scene.ts CAMERA_VIEWS). */
-export const VALIDATION_VIEWS = ["palm", "back", "radial", "ulnar", "oblique", "down"] as const;
-export type ValidationView = (typeof VALIDATION_VIEWS)[number];
+// The views and their classifier live beside the correction, which picks its estimator by view; re-exported here.
+export { VALIDATION_VIEWS, viewFromHand, type ValidationView } from "./correction-views";
 
 export interface ValidationCell {
   group: string;
   view: ValidationView;
   model: HandModel;
-  /** Which held-out set the figures come from: one motion in its view ("test motions") or any pose ("random poses"). */
-  source: "test motions" | "random poses";
+  /**
+   * Which held-out set the figures come from: one motion in its view ("test motions"), all four fingers in one
+   * whole-hand shape seen from the palm, back or obliquely ("hand shapes"), or any pose ("random poses").
+   */
+  source: "test motions" | "hand shapes" | "random poses";
   samples: number;
   rawMaeDeg: number;
   correctedMaeDeg: number | null;
+  /**
+   * For a "hand shapes" cell: the raw 3-D MAE of the same group, view and model on random poses. A frame the
+   * hand-shape estimator declines (or read with the correction off) is not known to be a whole-hand shape, so its raw
+   * uncertainty takes the worse of the two.
+   */
+  rawAnyPoseMaeDeg?: number;
   /** The correction lowered the held-out mean absolute error here, so the engine applies it. */
   correctionHelps: boolean;
   /** Half-width of the 90% interval for the method the engine uses here (see UncertaintyTable.rule). */
@@ -67,7 +76,8 @@ export function correctionHelps(table: UncertaintyTable, group: string, model: H
 export type UncertaintyMethod = "engine" | "raw";
 
 function cellUncertaintyDeg(cell: ValidationCell, method: UncertaintyMethod): number {
-  return method === "raw" ? Math.round(uncertaintyFromMaeDeg(cell.rawMaeDeg) * 10) / 10 : cell.uncertaintyDeg;
+  if (method === "engine") return cell.uncertaintyDeg;
+  return Math.round(uncertaintyFromMaeDeg(Math.max(cell.rawMaeDeg, cell.rawAnyPoseMaeDeg ?? 0)) * 10) / 10;
 }
 
 /**
@@ -100,33 +110,6 @@ export function trackingFactor(score: number): number {
   const s = Number.isFinite(score) ? Math.min(1, Math.max(0, score)) : 0;
   if (s >= FULL_CONFIDENCE_SCORE) return 1;
   return 1 + (FULL_CONFIDENCE_SCORE - s) / (FULL_CONFIDENCE_SCORE - LOWEST_READ_SCORE);
-}
-
-/**
- * Which validation view the camera has, from the hand's own axes: cosines of the palm normal, the radial axis and the
- * long axis (wrist to fingers) with the direction to the camera. The nearest of the views' directions in
- * scripts/accuracy/scene.ts VIEW_GEOMETRY (palm, ulnar, distal components) by cosine.
- */
-const VIEW_DIRECTIONS: Record<ValidationView, [palm: number, radial: number, distal: number]> = {
-  palm: [1, 0, 0],
-  back: [-1, 0, 0],
-  radial: [0, 1, 0],
-  ulnar: [0, -1, 0],
-  oblique: [-0.65, 0.65, 0.35],
-  down: [-Math.sin((55 * Math.PI) / 180), 0, Math.cos((55 * Math.PI) / 180)],
-};
-export function viewFromHand(palmTowardCamera: number, radialTowardCamera: number, distalTowardCamera: number): ValidationView {
-  let best: ValidationView = "palm";
-  let bestCos = -Infinity;
-  for (const view of VALIDATION_VIEWS) {
-    const [p, r, d] = VIEW_DIRECTIONS[view];
-    const cos = (p * palmTowardCamera + r * radialTowardCamera + d * distalTowardCamera) / Math.hypot(p, r, d);
-    if (cos > bestCos) {
-      best = view;
-      bestCos = cos;
-    }
-  }
-  return best;
 }
 
 /** Uncertainty of a motion's angle: validation error for its joint, view and model, widened by tracking score. */

@@ -1,13 +1,13 @@
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { UNCERTAINTY_TABLE } from "@/vision/uncertainty";
-import { ABS_ERROR_SD_PER_MEAN, correctionClearlyHelps, deriveUncertaintyTable, parseAccuracyReport, REPORT_FILE } from "./derive-uncertainty";
+import { ABS_ERROR_SD_PER_MEAN, correctionClearlyHelps, deriveUncertaintyTable, parseAccuracyReport, readHandShapeRows, REPORT_FILE } from "./derive-uncertainty";
 
 describe("uncertainty table from the accuracy report", () => {
   const report = parseAccuracyReport(readFileSync(REPORT_FILE, "utf8"));
 
   it("the committed table is exactly what the committed report gives (re-run derive-uncertainty after the report)", () => {
-    expect(deriveUncertaintyTable(report)).toEqual(UNCERTAINTY_TABLE);
+    expect(deriveUncertaintyTable(report, readHandShapeRows())).toEqual(UNCERTAINTY_TABLE);
   });
 
   it("reads the report's own rows: PIP flexion, ulnar view, lite model, 27.6 raw and 5.1 corrected", () => {

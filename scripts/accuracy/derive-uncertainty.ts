@@ -6,7 +6,7 @@
  *
  *   npx tsx scripts/accuracy/derive-uncertainty.ts
  */
-import { readFileSync, writeFileSync } from "node:fs";
+import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { CORRECTION_VERSION, type HandModel } from "@/vision/correction";
@@ -16,6 +16,18 @@ const HERE = path.dirname(fileURLToPath(import.meta.url));
 export const REPORT_FILE = path.join(HERE, "report.md");
 export const UNCERTAINTY_FILE = path.join(HERE, "..", "..", "vision", "uncertainty-table.json");
 export const UNCERTAINTY_VERSION = "kinarc-uncertainty-1";
+/** The whole-hand-shape estimator's held-out cells (scripts/accuracy/hand-shape-fit.ts holdout). */
+export const HAND_SHAPE_VALIDATION_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape-validation.json");
+
+/** A held-out cell of the whole-hand shapes: the figures the table needs. */
+export interface HandShapeRow {
+  group: string;
+  view: string;
+  model: string;
+  samples: number;
+  rawMaeDeg: number;
+  correctedMaeDeg: number | null;
+}
 
 export interface ReportRow {
   group: string;
@@ -77,7 +89,8 @@ const round1 = (x: number) => Math.round(x * 10) / 10;
 
 /**
  * One cell per group, view and model. Test-motion rows (one joint moving, in the view the catalog recommends: what
- * the app measures) come first; random-pose rows fill the views and groups they lack. The correction is applied
+ * the app measures) come first; then the whole-hand shapes' held-out rows (finger flexion seen from the palm, back
+ * or obliquely, all four fingers bent together as the app asks); random-pose rows fill the views and groups they lack. The correction is applied
  * where its held-out MAE is clearly below the raw 3-D MAE (`correctionClearlyHelps`); the uncertainty is that of the
  * method the engine then uses.
  */
@@ -94,12 +107,21 @@ export function correctionClearlyHelps(rawMaeDeg: number, correctedMaeDeg: numbe
   return correctedMaeDeg <= rawMaeDeg - 2 * standardError;
 }
 
-export function deriveUncertaintyTable(report: ReturnType<typeof parseAccuracyReport>, correctionVersion: string = CORRECTION_VERSION): UncertaintyTable {
+export function deriveUncertaintyTable(
+  report: ReturnType<typeof parseAccuracyReport>,
+  handShapeRows: readonly HandShapeRow[] = [],
+  correctionVersion: string = CORRECTION_VERSION,
+): UncertaintyTable {
   const cells: ValidationCell[] = [];
   const taken = new Set<string>();
-  for (const source of ["test motions", "random poses"] as const) {
-    const corrected = new Map(report[source].corrected.map((r) => [`${r.group}|${r.view}|${r.model}`, r]));
-    for (const raw of report[source]["raw 3-D"]) {
+  const handShapes = {
+    "raw 3-D": handShapeRows.map((r) => ({ group: r.group, view: r.view, model: r.model, samples: r.samples, maeDeg: r.rawMaeDeg })),
+    corrected: handShapeRows.map((r) => ({ group: r.group, view: r.view, model: r.model, samples: r.samples, maeDeg: r.correctedMaeDeg })),
+  };
+  for (const source of ["test motions", "hand shapes", "random poses"] as const) {
+    const rows = source === "hand shapes" ? handShapes : report[source];
+    const corrected = new Map(rows.corrected.map((r) => [`${r.group}|${r.view}|${r.model}`, r]));
+    for (const raw of rows["raw 3-D"]) {
       const key = `${raw.group}|${raw.view}|${raw.model}`;
       if (taken.has(key) || raw.maeDeg === null) continue;
       if (!(VALIDATION_VIEWS as readonly string[]).includes(raw.view)) throw new Error(`report: view "${raw.view}": expected one of ${VALIDATION_VIEWS.join(", ")}`);
@@ -107,6 +129,7 @@ export function deriveUncertaintyTable(report: ReturnType<typeof parseAccuracyRe
       const correctedMae = corrected.get(key)?.maeDeg ?? null;
       const helps = correctedMae !== null && correctionClearlyHelps(raw.maeDeg, correctedMae, raw.samples);
       taken.add(key);
+      const anyPose = source === "hand shapes" ? report["random poses"]["raw 3-D"].find((r) => `${r.group}|${r.view}|${r.model}` === key)?.maeDeg : null;
       cells.push({
         group: raw.group,
         view: raw.view as ValidationView,
@@ -115,8 +138,9 @@ export function deriveUncertaintyTable(report: ReturnType<typeof parseAccuracyRe
         samples: raw.samples,
         rawMaeDeg: raw.maeDeg,
         correctedMaeDeg: correctedMae,
+        ...(anyPose !== null && anyPose !== undefined ? { rawAnyPoseMaeDeg: anyPose } : {}),
         correctionHelps: helps,
-        uncertaintyDeg: round1(uncertaintyFromMaeDeg(helps ? correctedMae! : raw.maeDeg)),
+        uncertaintyDeg: round1(uncertaintyFromMaeDeg(helps ? correctedMae! : Math.max(raw.maeDeg, anyPose ?? 0))),
       });
     }
   }
@@ -126,14 +150,24 @@ export function deriveUncertaintyTable(report: ReturnType<typeof parseAccuracyRe
     rule:
       "uncertaintyDeg = 1.645 * sqrt(pi/2) * MAE (90% interval half-width of a normal error with that mean absolute error) " +
       "of the method the engine uses in the cell: corrected where the correction's held-out MAE is below the raw 3-D MAE by more than two standard errors " +
+      "(for whole-hand-shape cells, raw frames take the worse of the hand-shape and random-pose raw MAE, rawAnyPoseMaeDeg) " +
       "(SE = 0.755 * raw MAE / sqrt(samples)), raw 3-D otherwise. " +
-      "Source: scripts/accuracy/report.md (held-out renders); test-motion rows first, random-pose rows for the rest.",
+      "Source: scripts/accuracy/report.md (held-out renders) and vision/correction-hand-shape-validation.json (held-out whole-hand shapes, " +
+      "seed 20261206); test-motion rows first, then whole-hand-shape rows, random-pose rows for the rest.",
     cells,
   };
 }
 
+/** The committed hand-shape held-out rows, or none when the file has not been written. */
+export function readHandShapeRows(file: string = HAND_SHAPE_VALIDATION_FILE): HandShapeRow[] {
+  if (!existsSync(file)) return [];
+  const parsed = JSON.parse(readFileSync(file, "utf8")) as { cells?: HandShapeRow[] };
+  if (!Array.isArray(parsed.cells)) throw new Error(`${file}: expected "cells", a list of held-out rows`);
+  return parsed.cells;
+}
+
 function main(): void {
-  const table = deriveUncertaintyTable(parseAccuracyReport(readFileSync(REPORT_FILE, "utf8")));
+  const table = deriveUncertaintyTable(parseAccuracyReport(readFileSync(REPORT_FILE, "utf8")), readHandShapeRows());
   writeFileSync(UNCERTAINTY_FILE, `${JSON.stringify(table, null, 2)}\n`);
   const applied = table.cells.filter((c) => c.correctionHelps).length;
   console.log(`${table.cells.length} cells, correction applied in ${applied}`);

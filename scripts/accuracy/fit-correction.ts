@@ -11,7 +11,7 @@ import { writeFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import { FINGER_FEATURES, FINGER_JOINTS, type FingerEstimatorModel, type FingerJoint } from "@/vision/estimator";
 import { fitCorrection, HUBER_DEG, jointGroupOf, type CorrectionSample } from "./correction";
-import { fingerSamples, fitFingerJoint, loadTrackedSet, sampleWeight } from "./estimator-fit";
+import { fingerSamples, fitFingerJoint, loadTrackedSet, roundedFit, sampleWeight } from "./estimator-fit";
 import { estimateAngles } from "./estimates";
 import { getPoseAngle } from "./hand-pose";
 import { CORRECTION_FILE, parseCount, parseModels, VALIDATION_SEED } from "./run-accuracy";
@@ -57,18 +57,7 @@ export function fitFingerEstimator(models: readonly string[], setNames: readonly
         rows.map((s) => s.truthDeg[joint]),
         { ridgeLambda: ESTIMATOR_RIDGE_LAMBDA, huberDeg: HUBER_DEG, weights: rows.map(weightOf) },
       );
-      fits[model][joint] = {
-        ...fit,
-        means: fit.means.map(round),
-        sds: fit.sds.map(round),
-        zMin: fit.zMin.map(round),
-        zMax: fit.zMax.map(round),
-        domainLowZ: fit.domainLowZ.map(round),
-        domainHighZ: fit.domainHighZ.map(round),
-        coefficients: fit.coefficients.map(round),
-        outputRangeDeg: [round(fit.outputRangeDeg[0]), round(fit.outputRangeDeg[1])],
-        trainingMaeDeg: round(fit.trainingMaeDeg),
-      };
+      fits[model][joint] = roundedFit(fit);
       console.log(`${model} ${joint} (estimator): ${fit.trainingSamples} samples, training MAE ${fit.trainingMaeDeg.toFixed(1)} deg`);
     }
   }

@@ -1,0 +1,414 @@
+/**
+ * The whole-hand-shape estimator (vision/correction-hand-shape.ts): selection, fit and its one held-out check.
+ *
+ *   npx tsx scripts/accuracy/hand-shape-fit.ts select [--sets a,b] [--lambdas 3,10,30] [--models lite,full]
+ *     3-fold cross-validation over training stills only (grouped by still): ridge penalty, whole-hand features or
+ *     not, with or without the palm/back/oblique stills of the fingers-together set.
+ *   npx tsx scripts/accuracy/hand-shape-fit.ts fit --sets a,b --lambda L [--whole-hand]
+ *     fits on training sets and writes vision/correction-hand-shape.json.
+ *   npx tsx scripts/accuracy/hand-shape-fit.ts holdout [--count 300] [--reuse]
+ *     renders and tracks the held-out set (seed HAND_SHAPE_HOLDOUT_SEED, never used for fitting or selection), scores
+ *     raw and the estimator as the engine applies it, and writes vision/correction-hand-shape-validation.json.
+ *   npx tsx scripts/accuracy/hand-shape-fit.ts side-check
+ *     the side-view test motions of the validation set (motions-20261202-360) through the engine's live pipeline,
+ *     without and with the hand-shape estimator and its table cells: the side views must read as before.
+ *
+ * Training sets must come from training seeds (77000xxx); any set of a 2026120x seed is refused here except by holdout.
+ */
+import { writeFileSync } from "node:fs";
+import path from "node:path";
+import { fileURLToPath } from "node:url";
+import { parseArgs } from "node:util";
+import { handAxes } from "@/vision/angles";
+import {
+  CURL_FEATURE_INDEXES,
+  estimateHandShapeJointDeg,
+  fingerSpreads,
+  HAND_SHAPE_VIEWS,
+  handShapeFeatureRows,
+  isWholeHandShape,
+  WHOLE_HAND_FEATURES,
+  type HandShapeEstimatorModel,
+  type HandSpreadRange,
+} from "@/vision/correction-hand-shape";
+import {
+  applyFingerFit,
+  DOMAIN_MARGIN_SD,
+  ESTIMATOR_FINGERS,
+  FINGER_FEATURES,
+  FINGER_JOINTS,
+  inTrainingDomain,
+  type Finger,
+  type FingerJoint,
+  type FingerJointFit,
+} from "@/vision/estimator";
+import { HUBER_DEG } from "./correction";
+import { correctionClearlyHelps } from "./derive-uncertainty";
+import { fingerPoseKey, fitFingerJoint, loadTrackedSet, roundedFit } from "./estimator-fit";
+import { getPoseAngle } from "./hand-pose";
+import { handShapeFrame } from "./motion-sets";
+import { loadHandRig } from "./rig-files";
+import { parseCount, parseModels } from "./run-accuracy";
+import { summarizeErrors, type ErrorSummary } from "./stats";
+import { trackRenderedSet, type TrackedSet } from "./tracked-set";
+import type { TrackedStill } from "./report";
+
+const HERE = path.dirname(fileURLToPath(import.meta.url));
+export const HAND_SHAPE_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape.json");
+export const HAND_SHAPE_VALIDATION_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape-validation.json");
+/** The one held-out seed of the whole-hand shapes: scored once, never fitted or selected on. */
+export const HAND_SHAPE_HOLDOUT_SEED = 20_261_206;
+const FOLDS = 3;
+/** Hand-shape stills take the three views in turn by index, so fold by index / 3 to keep every view in every fold. */
+const foldOf = (s: HandShapeSample) => Math.floor(s.still / 3) % FOLDS;
+
+export interface HandShapeSample {
+  model: string;
+  still: number;
+  view: string;
+  finger: string;
+  /** The rows of all four fingers of the still (the engine's domain check reads them all), and this finger's index. */
+  handRows: number[][];
+  fingerIndex: number;
+  truthDeg: Record<FingerJoint, number>;
+}
+
+/** Refuses sets of the held-out and validation seeds (2026120x) for fitting and selection. */
+export function assertTrainingSet(name: string): void {
+  if (/2026120\d/.test(name)) throw new Error(`${name}: seeds 2026120x are held out; fit and select on training seeds (77000xxx) only`);
+}
+
+/** One sample per finger of every tracked still seen from a palm, back or oblique camera. */
+export function handShapeSamples(set: { stills: readonly TrackedStill[]; count: number }, wholeHand: boolean): HandShapeSample[] {
+  const samples: HandShapeSample[] = [];
+  set.stills.forEach((still, index) => {
+    if (!still.hand || !HAND_SHAPE_VIEWS.includes(still.truth.view)) return;
+    const axes = handAxes(still.hand, still.truth.side);
+    const rows = axes ? handShapeFeatureRows(still.hand, still.truth.side, axes, wholeHand) : null;
+    if (!rows) return;
+    const handRows = ESTIMATOR_FINGERS.map((f) => rows[f]);
+    ESTIMATOR_FINGERS.forEach((finger, fingerIndex) =>
+      samples.push({
+        model: still.model,
+        still: index % set.count,
+        view: still.truth.view,
+        finger,
+        handRows,
+        fingerIndex,
+        truthDeg: Object.fromEntries(FINGER_JOINTS.map((j) => [j, getPoseAngle(still.truth.commandedDeg, fingerPoseKey(finger, j))])) as Record<FingerJoint, number>,
+      }),
+    );
+  });
+  return samples;
+}
+
+/**
+ * How many standard deviations widen the finger-spread range: chosen as the side-view estimator's domain margin was
+ * (vision/estimator.ts DOMAIN_MARGIN_SD), the smallest that keeps the estimator on at least 95% of the held-out folds'
+ * stills in every view and model (`select`, training seed 77000102 only).
+ */
+export const HAND_SPREAD_MARGIN_SD = 1.5;
+
+/**
+ * The training range of each finger's curl minus the four fingers' mean (vision/correction-hand-shape.ts
+ * HandSpreadRange): 1st-99th percentile, widened by `marginSd` standard deviations.
+ */
+export function handSpreadRange(samples: readonly HandShapeSample[], marginSd: number = HAND_SPREAD_MARGIN_SD): HandSpreadRange {
+  const perStill = new Map<string, number[][]>();
+  for (const s of samples) if (s.fingerIndex === 0) perStill.set(`${s.still}`, s.handRows);
+  const spreads = [...perStill.values()].map((handRows) => fingerSpreads(Object.fromEntries(ESTIMATOR_FINGERS.map((f, i) => [f, handRows[i]])) as Record<Finger, number[]>));
+  const range = (finger: Finger, k: number): [number, number] => {
+    const values = spreads.map((d) => d[finger][k]).sort((a, b) => a - b);
+    const at = (q: number) => values[Math.min(values.length - 1, Math.max(0, Math.round(q * (values.length - 1))))];
+    const mean = values.reduce((a, b) => a + b, 0) / values.length;
+    const sd = Math.sqrt(values.reduce((a, b) => a + (b - mean) ** 2, 0) / values.length);
+    return [round(at(0.01) - marginSd * sd), round(at(0.99) + marginSd * sd)];
+  };
+  const ranges = ESTIMATOR_FINGERS.map((finger) => CURL_FEATURE_INDEXES.map((_, k) => range(finger, k)));
+  const lowest = ranges.map((perFeature) => perFeature.map(([low]) => low));
+  const highest = ranges.map((perFeature) => perFeature.map(([, high]) => high));
+  return { lowest, highest };
+}
+
+function handRowsOf(s: HandShapeSample): Record<Finger, number[]> {
+  return Object.fromEntries(ESTIMATOR_FINGERS.map((f, i) => [f, s.handRows[i]])) as Record<Finger, number[]>;
+}
+
+function fitJoint(rows: readonly HandShapeSample[], joint: FingerJoint, lambda: number): FingerJointFit {
+  return fitFingerJoint(rows.map((s) => s.handRows[s.fingerIndex]), rows.map((s) => s.truthDeg[joint]), { ridgeLambda: lambda, huberDeg: HUBER_DEG });
+}
+
+/** The estimate as the engine makes it from a fit: the estimator where the hand's shape lies in its domain, else raw. */
+function engineEstimate(fit: FingerJointFit, spread: HandSpreadRange, s: HandShapeSample, joint: FingerJoint): { deg: number; applied: boolean } {
+  const applied = isWholeHandShape(spread, handRowsOf(s)) && s.handRows.every((row) => inTrainingDomain(fit, row));
+  return { deg: applied ? applyFingerFit(fit, s.handRows[s.fingerIndex]) : rawDeg(s, joint), applied };
+}
+
+function rawDeg(s: HandShapeSample, joint: FingerJoint): number {
+  return s.handRows[s.fingerIndex][FINGER_FEATURES.indexOf(`${joint}Deg` as (typeof FINGER_FEATURES)[number])];
+}
+
+const fmt = (x: number | null | undefined, digits = 1) => (x === null || x === undefined ? "-" : x.toFixed(digits));
+
+function loadSets(names: readonly string[], wholeHand: boolean): HandShapeSample[] {
+  return names.flatMap((name, setIndex) => {
+    assertTrainingSet(name);
+    // Still ids must not collide across sets: folds group by still.
+    return handShapeSamples(loadTrackedSet(name), wholeHand).map((s) => ({ ...s, still: s.still + setIndex * 1_000_000 }));
+  });
+}
+
+function select(values: Record<string, string | boolean | undefined>): void {
+  const lambdas = String(values.lambdas ?? "3,10,30").split(",").map(Number);
+  const models = parseModels(values.models as string | undefined);
+  const shapeSet = "hand-shapes-77000102-600";
+  const variants = String(values.sets ?? `${shapeSet};${shapeSet},fingers-77000101-600`).split(";").map((v) => v.split(","));
+  for (const model of models) {
+    const own = loadSets([shapeSet], true).filter((s) => s.model === model);
+    const kept = [0, 0.5, 1, 1.5, 2].map((margin) => {
+      const shares = HAND_SHAPE_VIEWS.map((view) => {
+        const results = Array.from({ length: FOLDS }, (_, fold) => {
+          const spread = handSpreadRange(own.filter((s) => foldOf(s) !== fold), margin);
+          return own.filter((s) => foldOf(s) === fold && s.view === view && s.fingerIndex === 0).map((s) => isWholeHandShape(spread, handRowsOf(s)));
+        }).flat();
+        return `${view} ${Math.round((results.filter(Boolean).length / Math.max(1, results.length)) * 100)}%`;
+      });
+      return `margin ${margin} sd: ${shares.join(", ")}`;
+    });
+    console.log(`${model} whole-hand-shape guard, share of held-out-fold stills kept: ${kept.join(" | ")}`);
+  }
+  if (values["spread-only"]) return;
+  for (const wholeHand of [false, true]) {
+    for (const sets of variants) {
+      const all = loadSets(sets, wholeHand);
+      // Scored on the hand-shape stills only, the kind the held-out set holds; other sets only add training rows.
+      const scoredSet = 0;
+      for (const model of models) {
+        for (const joint of FINGER_JOINTS) {
+          for (const lambda of lambdas) {
+            const own = all.filter((s) => s.model === model);
+            const results = Array.from({ length: FOLDS }, (_, fold) => {
+              const train = own.filter((s) => foldOf(s) !== fold);
+              const fit = fitJoint(train, joint, lambda);
+              const spread = handSpreadRange(train);
+              return own
+                .filter((s) => foldOf(s) === fold && Math.floor(s.still / 1_000_000) === scoredSet)
+                .map((s) => ({ view: s.view, truthDeg: s.truthDeg[joint], raw: rawDeg(s, joint), ...engineEstimate(fit, spread, s, joint) }));
+            }).flat();
+            const cells = HAND_SHAPE_VIEWS.map((view) => {
+              const r = results.filter((x) => x.view === view);
+              const after = summarizeErrors(r.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.deg })));
+              const raw = summarizeErrors(r.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.raw })));
+              const kept = r.filter((x) => x.applied).length / Math.max(1, r.length);
+              return `${view} raw ${fmt(raw.meanAbsoluteErrorDeg)} -> ${fmt(after.meanAbsoluteErrorDeg)} slope ${fmt(after.slope, 2)} on ${Math.round(kept * 100)}%`;
+            });
+            const overall = summarizeErrors(results.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.deg }))).meanAbsoluteErrorDeg;
+            console.log(`${model} ${joint} λ ${lambda} ${wholeHand ? "whole-hand" : "finger"} features, sets ${sets.join("+")}: ${cells.join(" | ")} | all ${fmt(overall)}`);
+          }
+        }
+      }
+    }
+  }
+}
+
+function round(value: number): number {
+  return Math.round(value * 1e6) / 1e6;
+}
+
+export function fitHandShapeEstimator(sets: readonly string[], lambda: number, wholeHand: boolean, models: readonly string[]): HandShapeEstimatorModel {
+  const all = loadSets(sets, wholeHand);
+  const fits: HandShapeEstimatorModel["fits"] = {};
+  const handSpread: HandShapeEstimatorModel["handSpread"] = {};
+  for (const model of models) {
+    fits[model] = {};
+    handSpread[model] = handSpreadRange(all.filter((s) => s.model === model));
+    for (const joint of FINGER_JOINTS) {
+      const fit = fitJoint(all.filter((s) => s.model === model), joint, lambda);
+      fits[model][joint] = roundedFit(fit);
+      console.log(`${model} ${joint}: ${fit.trainingSamples} samples, training MAE ${fit.trainingMaeDeg.toFixed(1)} deg`);
+    }
+  }
+  return {
+    features: wholeHand ? [...FINGER_FEATURES, ...WHOLE_HAND_FEATURES] : [...FINGER_FEATURES],
+    wholeHandFeatures: wholeHand,
+    handSpread,
+    views: HAND_SHAPE_VIEWS,
+    trainingSets: [...sets],
+    fits,
+  };
+}
+
+export interface HandShapeValidationCell {
+  group: "MCP flexion" | "PIP flexion" | "DIP flexion";
+  view: string;
+  model: string;
+  samples: number;
+  detectionRate: number;
+  rawMaeDeg: number;
+  rawSlope: number | null;
+  correctedMaeDeg: number;
+  correctedSlope: number | null;
+  /** Share of detected samples the estimator read (the rest kept the raw angle: outside its domain or view). */
+  estimatorShare: number;
+  correctionHelps: boolean;
+}
+
+const GROUP_OF: Record<FingerJoint, HandShapeValidationCell["group"]> = { mcp: "MCP flexion", pip: "PIP flexion", dip: "DIP flexion" };
+
+/** Scores raw and the estimator (as the engine applies it, measured view included) on a tracked held-out set. */
+export function scoreHoldout(set: TrackedSet, model: HandShapeEstimatorModel): HandShapeValidationCell[] {
+  const cells: HandShapeValidationCell[] = [];
+  for (const handModel of Object.keys(model.fits)) {
+    for (const joint of FINGER_JOINTS) {
+      for (const view of HAND_SHAPE_VIEWS) {
+        const stills = set.stills.filter((s) => s.model === handModel && s.truth.view === view);
+        const raw: { truthDeg: number; estimateDeg: number | null }[] = [];
+        const after: { truthDeg: number; estimateDeg: number | null }[] = [];
+        let applied = 0;
+        for (const still of stills) {
+          for (const finger of ESTIMATOR_FINGERS) {
+            const truthDeg = getPoseAngle(still.truth.commandedDeg, fingerPoseKey(finger, joint));
+            const axes = still.hand ? handAxes(still.hand, still.truth.side) : null;
+            const rows = still.hand && axes ? handShapeFeatureRows(still.hand, still.truth.side, axes, false) : null;
+            if (!still.hand || !axes || !rows) {
+              raw.push({ truthDeg, estimateDeg: null });
+              after.push({ truthDeg, estimateDeg: null });
+              continue;
+            }
+            const rawValue = rows[finger][FINGER_JOINTS.indexOf(joint)];
+            const estimate = estimateHandShapeJointDeg(model, handModel, joint, still.hand, still.truth.side, finger, axes);
+            if (estimate !== null) applied += 1;
+            raw.push({ truthDeg, estimateDeg: rawValue });
+            after.push({ truthDeg, estimateDeg: estimate ?? rawValue });
+          }
+        }
+        const r: ErrorSummary = summarizeErrors(raw);
+        const a: ErrorSummary = summarizeErrors(after);
+        if (r.meanAbsoluteErrorDeg === null || a.meanAbsoluteErrorDeg === null) continue;
+        cells.push({
+          group: GROUP_OF[joint],
+          view,
+          model: handModel,
+          samples: r.detected,
+          detectionRate: round(r.detectionRate),
+          rawMaeDeg: Math.round(r.meanAbsoluteErrorDeg * 10) / 10,
+          rawSlope: r.slope === null ? null : Math.round(r.slope * 100) / 100,
+          correctedMaeDeg: Math.round(a.meanAbsoluteErrorDeg * 10) / 10,
+          correctedSlope: a.slope === null ? null : Math.round(a.slope * 100) / 100,
+          estimatorShare: Math.round((applied / Math.max(1, r.detected)) * 1000) / 1000,
+          correctionHelps: correctionClearlyHelps(r.meanAbsoluteErrorDeg, a.meanAbsoluteErrorDeg, r.detected),
+        });
+      }
+    }
+  }
+  return cells;
+}
+
+async function holdout(values: Record<string, string | boolean | undefined>, model: HandShapeEstimatorModel): Promise<void> {
+  const count = parseCount("count", values.count as string | undefined, 300);
+  const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
+  const set = await trackRenderedSet({
+    name: "hand-shapes",
+    seed: HAND_SHAPE_HOLDOUT_SEED,
+    count,
+    models: parseModels(values.models as string | undefined),
+    makeFrame: (frameSeed, index) => handShapeFrame(rigs, frameSeed, index),
+    reuse: Boolean(values.reuse),
+  });
+  const cells = scoreHoldout(set, model);
+  const lines = [
+    "| joint | view | model | samples | detected | raw MAE ° | raw slope | estimator MAE ° | slope | estimator on | clearly helps |",
+    "| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- |",
+    ...cells.map(
+      (c) =>
+        `| ${c.group} | ${c.view} | ${c.model} | ${c.samples} | ${Math.round(c.detectionRate * 100)}% | ${fmt(c.rawMaeDeg)} | ${fmt(c.rawSlope, 2)} | ${fmt(c.correctedMaeDeg)} | ${fmt(c.correctedSlope, 2)} | ${Math.round(c.estimatorShare * 100)}% | ${c.correctionHelps ? "yes" : "no"} |`,
+    ),
+  ];
+  console.log(lines.join("\n"));
+  writeFileSync(
+    HAND_SHAPE_VALIDATION_FILE,
+    `${JSON.stringify({ seed: HAND_SHAPE_HOLDOUT_SEED, stills: count, trainingSets: model.trainingSets, rule: "correctionHelps: held-out MAE below raw by more than two standard errors (scripts/accuracy/derive-uncertainty.ts correctionClearlyHelps)", cells }, null, 2)}\n`,
+  );
+  console.error(`held-out cells -> ${HAND_SHAPE_VALIDATION_FILE}`);
+}
+
+/**
+ * The finger test motions of the validation set, each finger's tested joint read frame by frame by the live pipeline
+ * as the app reads it (view-picked cells of the uncertainty table), with and without the hand-shape estimator.
+ */
+async function sideCheck(): Promise<void> {
+  const { createLivePipeline } = await import("@/vision/pipeline");
+  const { CORRECTION_MODEL } = await import("@/vision/correction");
+  const { deriveUncertaintyTable, parseAccuracyReport, readHandShapeRows, REPORT_FILE } = await import("./derive-uncertainty");
+  const { readFileSync } = await import("node:fs");
+  const report = parseAccuracyReport(readFileSync(REPORT_FILE, "utf8"));
+  const before = { model: { ...CORRECTION_MODEL, handShapeEstimator: undefined }, table: deriveUncertaintyTable(report, []) };
+  const after = { model: CORRECTION_MODEL, table: deriveUncertaintyTable(report, readHandShapeRows()) };
+  const name = "motions-20261202-360";
+  const file = path.join(HERE, "..", "..", "tests", ".cache", "renders", "tracked", `set-${name}-lite-full.json`);
+  const set = JSON.parse(readFileSync(file, "utf8")) as TrackedSet;
+  const lines = ["| motion | view | model | samples | before MAE ° | after MAE ° | frames read by the hand-shape estimator |", "| --- | --- | --- | ---: | ---: | ---: | ---: |"];
+  for (const motion of ["mcp.flexion", "pip.flexion", "dip.flexion"] as const) {
+    const joint = motion.split(".")[0] as FingerJoint;
+    for (const view of ["radial", "ulnar"]) {
+      for (const handModel of ["lite", "full"] as const) {
+        const errors = { before: [] as number[], after: [] as number[] };
+        let handShapeFrames = 0;
+        for (const still of set.stills.filter((s) => s.motion === motion && s.truth.view === view && s.model === handModel && s.hand)) {
+          for (const digit of ESTIMATOR_FINGERS) {
+            const truthDeg = getPoseAngle(still.truth.commandedDeg, fingerPoseKey(digit, joint));
+            for (const [label, engine] of [["before", before], ["after", after]] as const) {
+              const update = createLivePipeline({ motion, side: still.truth.side, digit, condition: "against_gravity", handModel, correctionModel: engine.model, uncertaintyTable: engine.table }).push({ t: 0, score: still.score, hand: still.hand });
+              if (update.angleDeg === null) continue;
+              errors[label].push(Math.abs(update.angleDeg - truthDeg));
+              if (label === "after" && update.correctionVersion && update.view && HAND_SHAPE_VIEWS.includes(update.view)) handShapeFrames += 1;
+            }
+          }
+        }
+        const mae = (xs: number[]) => (xs.length ? xs.reduce((a, b) => a + b, 0) / xs.length : null);
+        lines.push(`| ${motion} | ${view} | ${handModel} | ${errors.after.length} | ${fmt(mae(errors.before))} | ${fmt(mae(errors.after))} | ${handShapeFrames} |`);
+      }
+    }
+  }
+  console.log(lines.join("\n"));
+}
+
+async function main(): Promise<void> {
+  const { values, positionals } = parseArgs({
+    allowPositionals: true,
+    options: {
+      sets: { type: "string" },
+      lambdas: { type: "string" },
+      lambda: { type: "string" },
+      models: { type: "string" },
+      "whole-hand": { type: "boolean" },
+      count: { type: "string" },
+      reuse: { type: "boolean" },
+      "spread-only": { type: "boolean" },
+    },
+  });
+  const command = positionals[0];
+  if (command === "select") return select(values);
+  if (command === "fit") {
+    if (!values.sets) throw new Error("--sets: expected the training sets, comma-separated (e.g. hand-shapes-77000102-600)");
+    const lambda = parseCount("lambda", values.lambda, Number.NaN);
+    const model = fitHandShapeEstimator(values.sets.split(","), lambda, values["whole-hand"] ?? false, parseModels(values.models));
+    writeFileSync(HAND_SHAPE_FILE, `${JSON.stringify(model, null, 2)}\n`);
+    console.error(`hand-shape estimator -> ${HAND_SHAPE_FILE}`);
+    return;
+  }
+  if (command === "holdout") {
+    const { HAND_SHAPE_MODEL } = await import("@/vision/correction");
+    if (!HAND_SHAPE_MODEL) throw new Error("vision/correction-hand-shape.json: no fit; run `hand-shape-fit.ts fit` first");
+    return holdout(values, HAND_SHAPE_MODEL);
+  }
+  if (command === "side-check") return sideCheck();
+  throw new Error(`command: expected select, fit, holdout or side-check; got '${command ?? ""}'`);
+}
+
+if (process.argv[1]?.endsWith("hand-shape-fit.ts")) {
+  main().catch((error: unknown) => {
+    console.error(error instanceof Error ? error.message : error);
+    process.exitCode = 2;
+  });
+}
