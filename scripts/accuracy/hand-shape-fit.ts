@@ -10,8 +10,9 @@
  *     renders and tracks the held-out set (seed HAND_SHAPE_HOLDOUT_SEED, never used for fitting or selection), scores
  *     raw and the estimator as the engine applies it, and writes vision/correction-hand-shape-validation.json.
  *   npx tsx scripts/accuracy/hand-shape-fit.ts side-check
- *     the side-view test motions of the validation set (motions-20261202-360) through the engine's live pipeline,
- *     without and with the hand-shape estimator and its table cells: the side views must read as before.
+ *     through the engine's live pipeline, without and with the hand-shape estimator and its table cells: the
+ *     side-view test motions of the validation set (motions-20261202-360; the side views must read as before) and
+ *     the held-out whole-hand shapes (as the app would read them, depth mirror and measured view included).
  *
  * Training sets must come from training seeds (77000xxx); any set of a 2026120x seed is refused here except by holdout.
  */
@@ -344,17 +345,22 @@ async function sideCheck(): Promise<void> {
   const report = parseAccuracyReport(readFileSync(REPORT_FILE, "utf8"));
   const before = { model: { ...CORRECTION_MODEL, handShapeEstimator: undefined }, table: deriveUncertaintyTable(report, []) };
   const after = { model: CORRECTION_MODEL, table: deriveUncertaintyTable(report, readHandShapeRows()) };
-  const name = "motions-20261202-360";
-  const file = path.join(HERE, "..", "..", "tests", ".cache", "renders", "tracked", `set-${name}-lite-full.json`);
-  const set = JSON.parse(readFileSync(file, "utf8")) as TrackedSet;
+  const load = (name: string) => JSON.parse(readFileSync(path.join(HERE, "..", "..", "tests", ".cache", "renders", "tracked", `set-${name}-lite-full.json`), "utf8")) as TrackedSet;
+  // The side-view test motions (each still read for its own motion) and the held-out whole-hand shapes (every still
+  // read for each finger motion): the engine's whole path, depth mirror and view-picked cells included.
+  const checks = [
+    { set: load("motions-20261202-360"), views: ["radial", "ulnar"], ownMotionOnly: true },
+    { set: load(`hand-shapes-${HAND_SHAPE_HOLDOUT_SEED}-300`), views: [...HAND_SHAPE_VIEWS], ownMotionOnly: false },
+  ];
   const lines = ["| motion | view | model | samples | before MAE ° | after MAE ° | frames read by the hand-shape estimator |", "| --- | --- | --- | ---: | ---: | ---: | ---: |"];
+  for (const { set, views, ownMotionOnly } of checks) {
   for (const motion of ["mcp.flexion", "pip.flexion", "dip.flexion"] as const) {
     const joint = motion.split(".")[0] as FingerJoint;
-    for (const view of ["radial", "ulnar"]) {
+    for (const view of views) {
       for (const handModel of ["lite", "full"] as const) {
         const errors = { before: [] as number[], after: [] as number[] };
         let handShapeFrames = 0;
-        for (const still of set.stills.filter((s) => s.motion === motion && s.truth.view === view && s.model === handModel && s.hand)) {
+        for (const still of set.stills.filter((s) => (!ownMotionOnly || s.motion === motion) && s.truth.view === view && s.model === handModel && s.hand)) {
           for (const digit of ESTIMATOR_FINGERS) {
             const truthDeg = getPoseAngle(still.truth.commandedDeg, fingerPoseKey(digit, joint));
             for (const [label, engine] of [["before", before], ["after", after]] as const) {
@@ -369,6 +375,7 @@ async function sideCheck(): Promise<void> {
         lines.push(`| ${motion} | ${view} | ${handModel} | ${errors.after.length} | ${fmt(mae(errors.before))} | ${fmt(mae(errors.after))} | ${handShapeFrames} |`);
       }
     }
+  }
   }
   console.log(lines.join("\n"));
 }
