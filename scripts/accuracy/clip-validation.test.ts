@@ -79,6 +79,14 @@ describe("reading a clip against its truth", () => {
     expect(summary.repsRight).toBe(1);
   });
 
+  it("a clip where the tracker never found the hand counts every frame as undetected, with no peak", () => {
+    const lost = frames.map((frame) => ({ ...frame, score: 0, handedness: null, hand: null, image: null }));
+    const reading = readClip(plan, "lite", "ring", lost, truth, "engine");
+    expect(reading.samples.every((s) => s.estimateDeg === null)).toBe(true);
+    expect(reading.samples).toHaveLength(frames.length);
+    expect([reading.peakDeg, reading.reps]).toEqual([null, 0]);
+  });
+
   it("refuses a clip whose tracked frames do not match its truth", () => {
     expect(() => readClip(plan, "lite", "ring", frames.slice(1), truth, "raw")).toThrow(new RegExp(`tracked ${frames.length - 1} frames, the clip has ${frames.length}`));
   });
@@ -96,8 +104,8 @@ describe("reading a clip against its truth", () => {
     expect(summary.repsRight).toBe(1);
     expect(summary.frames.meanAbsoluteErrorDeg).toBeCloseTo(4, 9);
     const row = { label: "PIP flexion", variant: "engine" as const, bar: "pip" as const, view: "ulnar" as const, model: "lite" as const, ...summary };
-    expect(clipReport([row], { seed: 1, clips: 1, glName: "test" })).toContain("- PIP flexion, ulnar, lite: meets (MAE 4.0 of at most 5, slope 1.00 in 0.9-1.1, detected 100% of at least 95%)");
+    expect(clipReport([{ seed: 1, clips: 1, rows: [row] }], { glName: "test" })).toContain("- PIP flexion, ulnar, lite: meets (MAE 4.00 of at most 5, slope 1.00 in 0.9-1.1, detected 100% of at least 95%)");
     const worse = { ...row, ...summarizeClipReadings([make(76, 2, 6)]) };
-    expect(clipReport([worse], { seed: 1, clips: 1, glName: "test" })).toContain("- PIP flexion, ulnar, lite: misses (MAE 6.0 of at most 5");
+    expect(clipReport([{ seed: 1, clips: 1, rows: [worse] }], { glName: "test" })).toContain("- PIP flexion, ulnar, lite: misses (MAE 6.00 of at most 5");
   });
 });
