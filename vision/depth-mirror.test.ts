@@ -84,7 +84,7 @@ describe("depth mirror of an edge-on hand", () => {
     for (const deg of [0, 20, 40, 60, 70]) pipeline.push({ t: (t += 33), score: 0.9, hand: mcpAt(deg) });
     expect(pipeline.push({ t: (t += 33), score: 0.9, hand: mirrorInDepth(mcpAt(80)) }).angleDeg).toBeCloseTo(80, 6);
     expect(pipeline.push({ t: (t += 33), score: 0.9, hand: mirrorInDepth(mcpAt(40)) }).angleDeg).toBeCloseTo(40, 6);
-    expect(pipeline.summary().warnings.join(" ")).toMatch(/2 of 7 usable frames read mirrored front to back/);
+    expect(pipeline.summary().warnings.join(" ")).toMatch(/in 2 of 7 usable frames the tracker saw the hand mirrored front to back; they were read the right way round/);
     // After a gap longer than the smoother's, the hand may really have turned: a non-decisive frame is read as seen.
     expect(pipeline.push({ t: t + 5000, score: 0.9, hand: mirrorInDepth(mcpAt(40)) }).angleDeg).toBeCloseTo(-40, 6);
     // Switched off, the frame is read as seen.

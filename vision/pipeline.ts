@@ -289,7 +289,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     if (usable > 0 && repetitions.length === 0) warnings.push("no repetition found: the joint did not move clearly away from its resting angle");
     if (repetitions.some((r) => !r.complete)) warnings.push("the capture ended before the last repetition returned to rest");
     if (palmContinuity.mirroredFrames > 0) {
-      warnings.push(`${palmContinuity.mirroredFrames} of ${usable} usable frames read mirrored front to back (the tracker turned the palm the other way for a moment; vision/depth-mirror.ts)`);
+      warnings.push(`in ${palmContinuity.mirroredFrames} of ${usable} usable frames the tracker saw the hand mirrored front to back; they were read the right way round`);
     }
     if (correctedFrames > 0 && correctedFrames < usable) {
       warnings.push(`angle correction applied on ${correctedFrames} of ${usable} usable frames (only in views where validation shows it helps)`);
