@@ -103,7 +103,7 @@ describe("reading a clip against its truth", () => {
     expect(summary.peakWorstDeg).toBeCloseTo(-12, 9);
     expect(summary.repsRight).toBe(1);
     expect(summary.frames.meanAbsoluteErrorDeg).toBeCloseTo(4, 9);
-    const row = { label: "PIP flexion", variant: "engine" as const, bar: "pip" as const, view: "ulnar" as const, model: "lite" as const, ...summary };
+    const row = { label: "PIP flexion", variant: "engine" as const, bar: "pip.flexion" as const, view: "ulnar" as const, model: "lite" as const, ...summary };
     expect(clipReport([{ seed: 1, clips: 1, rows: [row] }], { glName: "test" })).toContain("- PIP flexion, ulnar, lite: meets (MAE 4.00 of at most 5, slope 1.00 in 0.9-1.1, detected 100% of at least 95%)");
     const worse = { ...row, ...summarizeClipReadings([make(76, 2, 6)]) };
     expect(clipReport([{ seed: 1, clips: 1, rows: [worse] }], { glName: "test" })).toContain("- PIP flexion, ulnar, lite: misses (MAE 6.00 of at most 5");

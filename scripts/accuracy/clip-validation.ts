@@ -34,6 +34,7 @@ import type { HandSide } from "./rig";
 import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
 import { frameSeeds, makeRng, type CameraView, type FrameTruth } from "./scene";
 import { summarizeErrors, type ErrorSample, type ErrorSummary } from "./stats";
+import { ACCEPTANCE, meetsAcceptance, MIN_DETECTION, type AcceptanceKey } from "./acceptance";
 import { parseCount, parseModels } from "./run-accuracy";
 import type { HandModelVariant } from "./tracked-set";
 
@@ -51,19 +52,11 @@ const CYCLE_SECONDS = 2.5;
 const REPORT_FILE = path.join(__dirname, "clip-report.md");
 const HARNESS_PORT = Number(process.env.KINARC_ACCURACY_PORT ?? 4324);
 
-/** Issue 8's bars: recommended view, after correction. */
-const BARS: Record<string, { maeDeg: number; slope: [number, number] | null }> = {
-  mcp: { maeDeg: 5, slope: [0.9, 1.1] },
-  pip: { maeDeg: 5, slope: [0.9, 1.1] },
-  dip: { maeDeg: 8, slope: null },
-  wrist: { maeDeg: 5, slope: [0.9, 1.1] },
-};
-const MIN_DETECTION = 0.95;
-
 export interface ClipMotion {
   motion: MotionId;
   label: string;
-  bar: keyof typeof BARS;
+  /** Which of issue 8's bars (and which report row) the motion belongs to: wrist extension is read with wrist flexion. */
+  bar: AcceptanceKey;
   /** Joints moved together, all through the same angles. */
   joints: readonly PoseKey[];
   /** How the engine's positive angle relates to the commanded angle (extension is negative wrist flexion). */
@@ -78,11 +71,11 @@ const fingerKeys = (joint: "mcpFlexionDeg" | "pipFlexionDeg" | "dipFlexionDeg") 
 
 /** Ends of range within the rig's ranges and the motion catalog's normal values (lib/motions/catalog.ts). */
 export const CLIP_MOTIONS: readonly ClipMotion[] = [
-  { motion: "mcp.flexion", label: "MCP flexion", bar: "mcp", joints: fingerKeys("mcpFlexionDeg"), sign: 1, toDeg: [55, 90], digits: FINGERS, holdSeconds: 1 },
-  { motion: "pip.flexion", label: "PIP flexion", bar: "pip", joints: fingerKeys("pipFlexionDeg"), sign: 1, toDeg: [60, 100], digits: FINGERS, holdSeconds: 1 },
-  { motion: "dip.flexion", label: "DIP flexion", bar: "dip", joints: fingerKeys("dipFlexionDeg"), sign: 1, toDeg: [45, 80], digits: FINGERS, holdSeconds: 1 },
-  { motion: "wrist.flexion", label: "wrist flexion", bar: "wrist", joints: ["wrist.flexionDeg"], sign: 1, toDeg: [45, 80], digits: [null], holdSeconds: 3 },
-  { motion: "wrist.extension", label: "wrist extension", bar: "wrist", joints: ["wrist.flexionDeg"], sign: -1, toDeg: [-70, -40], digits: [null], holdSeconds: 3 },
+  { motion: "mcp.flexion", label: "MCP flexion", bar: "mcp.flexion", joints: fingerKeys("mcpFlexionDeg"), sign: 1, toDeg: [55, 90], digits: FINGERS, holdSeconds: 1 },
+  { motion: "pip.flexion", label: "PIP flexion", bar: "pip.flexion", joints: fingerKeys("pipFlexionDeg"), sign: 1, toDeg: [60, 100], digits: FINGERS, holdSeconds: 1 },
+  { motion: "dip.flexion", label: "DIP flexion", bar: "dip.flexion", joints: fingerKeys("dipFlexionDeg"), sign: 1, toDeg: [45, 80], digits: FINGERS, holdSeconds: 1 },
+  { motion: "wrist.flexion", label: "wrist flexion", bar: "wrist.flexion", joints: ["wrist.flexionDeg"], sign: 1, toDeg: [45, 80], digits: [null], holdSeconds: 3 },
+  { motion: "wrist.extension", label: "wrist extension", bar: "wrist.flexion", joints: ["wrist.flexionDeg"], sign: -1, toDeg: [-70, -40], digits: [null], holdSeconds: 3 },
 ];
 
 export interface ClipPlan {
@@ -230,7 +223,7 @@ export function readClip(
       truthPeakDeg: Math.max(...truthDeg),
       peakDeg: null,
       reps: 0,
-      neutralUsed: plan.motion.bar === "wrist" ? false : null,
+      neutralUsed: plan.motion.bar === "wrist.flexion" ? false : null,
       forearmSource: null,
       method: "none",
     };
@@ -251,7 +244,7 @@ export function readClip(
     truthPeakDeg: Math.max(...truthDeg),
     peakDeg: analysis.peakDeg,
     reps: analysis.reps,
-    neutralUsed: plan.motion.bar === "wrist" ? analysis.neutral !== null : null,
+    neutralUsed: plan.motion.bar === "wrist.flexion" ? analysis.neutral !== null : null,
     forearmSource: analysis.forearmSource,
     method: analysis.method,
   };
@@ -260,7 +253,7 @@ export function readClip(
 export interface ClipRow {
   label: string;
   variant: ClipVariant;
-  bar: keyof typeof BARS;
+  bar: AcceptanceKey;
   view: CameraView;
   model: HandModelVariant;
   readings: number;
@@ -288,13 +281,12 @@ const fmt = (value: number | null, digits = 1) => (value === null ? "-" : value.
 const pct = (value: number | null) => (value === null ? "-" : `${Math.round(value * 100)}%`);
 
 function verdict(row: Pick<ClipRow, "bar" | "frames">): string {
-  const bar = BARS[row.bar];
+  const target = ACCEPTANCE[row.bar];
   const { meanAbsoluteErrorDeg: mae, slope, detectionRate } = row.frames;
-  const meets = mae !== null && mae <= bar.maeDeg && (!bar.slope || (slope !== null && slope >= bar.slope[0] && slope <= bar.slope[1])) && detectionRate >= MIN_DETECTION;
-  const parts = [`MAE ${fmt(mae, 2)} of at most ${bar.maeDeg}`];
-  parts.push(bar.slope ? `slope ${fmt(slope, 2)} in ${bar.slope[0]}-${bar.slope[1]}` : `slope ${fmt(slope, 2)}`);
+  const parts = [`MAE ${fmt(mae, 2)} of at most ${target.maxMaeDeg}`];
+  parts.push(target.slope ? `slope ${fmt(slope, 2)} in ${target.slope[0]}-${target.slope[1]}` : `slope ${fmt(slope, 2)}`);
   parts.push(`detected ${pct(detectionRate)} of at least ${MIN_DETECTION * 100}%`);
-  return `${meets ? "meets" : "misses"} (${parts.join(", ")})`;
+  return `${meetsAcceptance(row.frames, target) ? "meets" : "misses"} (${parts.join(", ")})`;
 }
 
 export interface ClipSection {
@@ -358,9 +350,9 @@ async function main(): Promise<void> {
     const rows: ClipRow[] = [];
     for (const model of models) {
       const tracked = await trackClips(plans, folder, model, reuse);
-      for (const group of ["mcp", "pip", "dip", "wrist"] as const) {
+      for (const group of ["mcp.flexion", "pip.flexion", "dip.flexion", "wrist.flexion"] as const) {
         const groupPlans = plans.filter((plan) => plan.motion.bar === group);
-        const label = group === "wrist" ? "wrist flexion (+) / extension (-)" : groupPlans[0].motion.label;
+        const label = group === "wrist.flexion" ? "wrist flexion (+) / extension (-)" : groupPlans[0].motion.label;
         for (const variant of CLIP_VARIANTS) {
           const readings = groupPlans.flatMap((plan) => {
             const truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;

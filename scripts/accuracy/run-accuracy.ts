@@ -10,6 +10,7 @@ import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { parseArgs } from "node:util";
+import { ACCEPTANCE, meetsAcceptance, type AcceptanceKey } from "./acceptance";
 import type { CorrectionModel } from "./correction";
 import { MOTION_SETS } from "./motion-sets";
 import { accuracyMarkdown, accuracyRows, type AccuracyRow } from "./report";
@@ -47,26 +48,14 @@ export function parseCount(field: string, raw: string | undefined, fallback: num
   return count;
 }
 
-/** Issue 8's acceptance figures for a motion in its recommended view, after correction. */
-const ACCEPTANCE: Record<string, { maxMaeDeg: number; slope: [number, number] | null }> = {
-  "mcp.flexion": { maxMaeDeg: 5, slope: [0.9, 1.1] },
-  "pip.flexion": { maxMaeDeg: 5, slope: [0.9, 1.1] },
-  "wrist.flexion": { maxMaeDeg: 5, slope: [0.9, 1.1] },
-  "dip.flexion": { maxMaeDeg: 8, slope: null },
-};
-const MIN_DETECTION = 0.95;
-
 function acceptanceLines(rows: AccuracyRow[]): string[] {
   const lines: string[] = [];
   for (const set of MOTION_SETS) {
-    const target = ACCEPTANCE[set.id];
+    const target = ACCEPTANCE[set.id as AcceptanceKey];
     if (!target) continue;
     for (const row of rows.filter((r) => r.joint === set.label && r.method === "corrected")) {
       const s = row.summary;
-      const maeOk = s.meanAbsoluteErrorDeg !== null && s.meanAbsoluteErrorDeg <= target.maxMaeDeg;
-      const slopeOk = !target.slope || (s.slope !== null && s.slope >= target.slope[0] && s.slope <= target.slope[1]);
-      const detectionOk = s.detectionRate >= MIN_DETECTION;
-      const verdict = maeOk && slopeOk && detectionOk ? "meets" : "misses";
+      const verdict = meetsAcceptance(s, target) ? "meets" : "misses";
       lines.push(
         `- ${set.id}, ${row.view}, ${row.model}: ${verdict} (MAE ${s.meanAbsoluteErrorDeg?.toFixed(1) ?? "-"} of at most ${target.maxMaeDeg}, ` +
           `slope ${s.slope?.toFixed(2) ?? "-"}${target.slope ? ` in ${target.slope.join("-")}` : ""}, detected ${Math.round(s.detectionRate * 100)}% of at least 95%)`,

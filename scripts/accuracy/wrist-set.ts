@@ -22,6 +22,7 @@ import type { RenderFrameSpec } from "./render-spec";
 import type { TrackedStill } from "./report";
 import type { HandRig, HandSide } from "./rig";
 import { buildFrame, CAMERA_VIEWS, handCentre, makeRng, placeCamera, sampleCamera, sampleLook, type CameraView, type FrameTruth } from "./scene";
+import { ACCEPTANCE, meetsAcceptance } from "./acceptance";
 import { leastSquares, summarizeErrors, type ErrorSample, type ErrorSummary } from "./stats";
 import NEUTRAL_FIT from "./wrist-neutral-fit.json";
 
@@ -368,7 +369,7 @@ export function wristSectionMarkdown(options: {
       .filter((r) => r.landmarks === "tracked" && r.source === "neutral-reading" && r.method === "engine" && r.group === WRIST_GROUPS[0].label)
       .map((r) => {
         const s = r.summary;
-        const meets = s.meanAbsoluteErrorDeg !== null && s.meanAbsoluteErrorDeg <= 5 && s.slope !== null && s.slope >= 0.9 && s.slope <= 1.1 && s.detectionRate >= 0.95;
+        const meets = meetsAcceptance(s, ACCEPTANCE["wrist.flexion"]);
         return `- ${r.view}, ${r.model}: ${meets ? "meets" : "misses"} (MAE ${fixed(s.meanAbsoluteErrorDeg)} of at most 5, slope ${fixed(s.slope, 2)} in 0.9-1.1, detected ${percent(s.detectionRate)} of at least 95%)`;
       }),
     "",
