@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { handAxes } from "./angles";
+import { handAxes, readMotion } from "./angles";
 import { anatomicallyMirrored, mirrorInDepth, PalmContinuity } from "./depth-mirror";
 import { createLivePipeline } from "./pipeline";
 import { neutralPose, poseHand, withMotionAngle } from "./testing/synthetic-hand";
@@ -30,6 +30,17 @@ describe("depth mirror of an edge-on hand", () => {
     mirrored.forEach((p, i) => expect([p[0], p[1]]).toEqual([hand[i][0], hand[i][1]]));
     expect(dot(handAxes(mirrored, "right")!.palmarNormal, handAxes(hand, "right")!.palmarNormal)).toBeLessThan(-0.9);
     expect(mirrorInDepth(mirrored)).toEqual(hand.map((p) => [p[0], p[1], expect.closeTo(p[2], 12)]));
+    // Every finger angle of the mirror image is the seen one negated (the engine relies on it to skip the mirror).
+    const seenAxes = handAxes(hand, "right")!;
+    const mirroredAxes = handAxes(mirrored, "right")!;
+    const [x, y, z] = seenAxes.palmarNormal;
+    expect(mirroredAxes.palmarNormal).toEqual([expect.closeTo(-x, 12), expect.closeTo(-y, 12), expect.closeTo(z, 12)]);
+    const bent = handWith({ mcp: 40, pip: 70, dip: 30 });
+    const bentMirror = mirrorInDepth(bent);
+    for (const motion of ["mcp.flexion", "pip.flexion", "dip.flexion"] as const) {
+      const seen = readMotion(motion, "ring", bent, handAxes(bent, "right")!, null)!.deg;
+      expect(readMotion(motion, "ring", bentMirror, handAxes(bentMirror, "right")!, null)!.deg).toBeCloseTo(-seen, 9);
+    }
   });
 
   it("takes the mirror image where the landmarks show fingers bent backwards beyond any hand (AAOS MCP hyperextension 45)", () => {

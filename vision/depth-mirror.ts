@@ -62,11 +62,33 @@ function meanFlexionDeg(hand: HandLandmarks, axes: HandAxes, motion: "mcp.flexio
   return sum / FINGER_DIGITS.length;
 }
 
+/** Mean flexion of the four fingers at the MCP and PIP as the landmarks stand. */
+interface FingerBend {
+  mcpDeg: number | null;
+  pipDeg: number | null;
+}
+
+function fingerBend(hand: HandLandmarks, axes: HandAxes): FingerBend {
+  return { mcpDeg: meanFlexionDeg(hand, axes, "mcp.flexion"), pipDeg: meanFlexionDeg(hand, axes, "pip.flexion") };
+}
+
+function bentBackBeyondAnyHand({ mcpDeg, pipDeg }: FingerBend, sign: 1 | -1): boolean {
+  return (mcpDeg !== null && sign * mcpDeg < -DECISIVE_MCP_DEG) || (pipDeg !== null && sign * pipDeg < -DECISIVE_PIP_DEG);
+}
+
 /** Whether the landmarks, as they stand, show a hand bent backwards beyond what a hand does: the mirror is the hand. */
 export function anatomicallyMirrored(hand: HandLandmarks, axes: HandAxes): boolean {
-  const mcp = meanFlexionDeg(hand, axes, "mcp.flexion");
-  const pip = meanFlexionDeg(hand, axes, "pip.flexion");
-  return (mcp !== null && mcp < -DECISIVE_MCP_DEG) || (pip !== null && pip < -DECISIVE_PIP_DEG);
+  return bentBackBeyondAnyHand(fingerBend(hand, axes), 1);
+}
+
+/**
+ * The palm normal of the hand mirrored in depth. Reflecting the landmarks (z -> -z) reflects the radial and long axes,
+ * and their cross product comes out reflected and reversed: (x, y, z) -> (-x, -y, z). The same reversal turns every
+ * finger's flexion axis, so each finger angle of the mirrored hand is exactly the negative of the seen one; the
+ * mirrored hand is therefore built only for frames that are read mirrored.
+ */
+function mirroredPalmNormal([x, y, z]: Vec3): Vec3 {
+  return [-x, -y, z];
 }
 
 function pictureJump(before: HandLandmarks, after: HandLandmarks): number {
@@ -96,23 +118,23 @@ export class PalmContinuity {
   check(hand: HandLandmarks, axes: HandAxes): DepthMirrorCheck {
     if (this.previousSeen && pictureJump(this.previousSeen, hand) > MAX_PICTURE_JUMP) this.reference = null;
     this.previousSeen = hand;
-    const seen: DepthMirrorCheck = { hand, axes, mirrored: false };
+    const bend = fingerBend(hand, axes);
+    const mirroredNormal = mirroredPalmNormal(axes.palmarNormal);
+    let mirror = false;
+    if (bentBackBeyondAnyHand(bend, 1)) {
+      mirror = true;
+      this.follow(mirroredNormal);
+    } else if (bentBackBeyondAnyHand(bend, -1)) {
+      this.follow(axes.palmarNormal);
+    } else if (this.reference && dot(axes.palmarNormal, this.reference) < 0 && dot(mirroredNormal, this.reference) > 0) {
+      mirror = true;
+    }
+    if (!mirror) return { hand, axes, mirrored: false };
     const mirroredHand = mirrorInDepth(hand);
     const mirroredAxes = handAxes(mirroredHand, this.side);
-    if (!mirroredAxes) return seen;
-    const mirrored: DepthMirrorCheck = { hand: mirroredHand, axes: mirroredAxes, mirrored: true };
-
-    let chosen: DepthMirrorCheck = seen;
-    if (anatomicallyMirrored(hand, axes)) {
-      chosen = mirrored;
-      this.follow(mirroredAxes.palmarNormal);
-    } else if (anatomicallyMirrored(mirroredHand, mirroredAxes)) {
-      this.follow(axes.palmarNormal);
-    } else if (this.reference && dot(axes.palmarNormal, this.reference) < 0 && dot(mirroredAxes.palmarNormal, this.reference) > 0) {
-      chosen = mirrored;
-    }
-    if (chosen.mirrored) this.mirroredFrames += 1;
-    return chosen;
+    if (!mirroredAxes) return { hand, axes, mirrored: false };
+    this.mirroredFrames += 1;
+    return { hand: mirroredHand, axes: mirroredAxes, mirrored: true };
   }
 
   private follow(palmarNormal: Vec3): void {
