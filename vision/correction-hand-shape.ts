@@ -1,6 +1,6 @@
 import type { Side } from "@/lib/motions/catalog";
 import { handAxes, type HandAxes } from "./angles";
-import { viewFromHand, type ValidationView } from "./correction-views";
+import { viewOfAxes, type ValidationView } from "./correction-views";
 import { applyFingerFit, ESTIMATOR_FINGERS, fingerFeatures, inTrainingDomain, type Finger, type FingerJoint, type FingerJointFit } from "./estimator";
 import type { HandLandmarks } from "./landmarks";
 
@@ -92,7 +92,7 @@ export function estimateHandShapeJointDeg(
   if (!fit) return null;
   const handAxesNow = axes ?? handAxes(hand, side);
   if (!handAxesNow) return null;
-  const view = viewFromHand(-handAxesNow.palmarNormal[2], -handAxesNow.radialAxis[2], -handAxesNow.longAxis[2]);
+  const view = viewOfAxes(handAxesNow);
   if (!model.views.includes(view)) return null;
   const rows = handShapeFeatureRows(hand, side, handAxesNow, model.wholeHandFeatures);
   const spread = model.handSpread[handModel];

@@ -1,3 +1,5 @@
+import type { HandAxes } from "./angles";
+
 /** Camera views of the validation renders (scripts/accuracy/scene.ts CAMERA_VIEWS). */
 export const VALIDATION_VIEWS = ["palm", "back", "radial", "ulnar", "oblique", "down"] as const;
 export type ValidationView = (typeof VALIDATION_VIEWS)[number];
@@ -29,3 +31,8 @@ export function viewFromHand(palmTowardCamera: number, radialTowardCamera: numbe
   return best;
 }
 
+
+/** The view of a frame from its hand axes (camera z points away from the camera, so "toward the camera" is -z). */
+export function viewOfAxes(axes: HandAxes): ValidationView {
+  return viewFromHand(-axes.palmarNormal[2], -axes.radialAxis[2], -axes.longAxis[2]);
+}

@@ -4,7 +4,7 @@ import HAND_SHAPE_FIT from "./correction-hand-shape.json";
 import { estimateHandShapeJointDeg, type HandShapeEstimatorModel } from "./correction-hand-shape";
 import { estimateFingerJointDeg, fingerJointOfGroup, type Finger, type FingerEstimatorModel } from "./estimator";
 import { handAxes, type HandAxes } from "./angles";
-import { viewFromHand, type ValidationView } from "./correction-views";
+import { viewFromHand, viewOfAxes, type ValidationView } from "./correction-views";
 import type { HandLandmarks } from "./landmarks";
 
 /**
@@ -111,10 +111,10 @@ export function correctionFeatures(f: RawAngleFeatures): number[] {
 
 const FINGERS: readonly string[] = ["index", "middle", "ring", "little"];
 
-/** The frame's view as the engine classifies it (vision/view-policy.ts viewOfAxes), from the features' hand axes. */
+/** The frame's view as the engine classifies it (viewOfAxes), from the features' hand axes. */
 function viewOfFeatures(features: RawAngleFeatures): ValidationView {
   const axes = features.axes ?? (features.hand && features.side ? handAxes(features.hand, features.side) : null);
-  if (axes) return viewFromHand(-axes.palmarNormal[2], -axes.radialAxis[2], -axes.longAxis[2]);
+  if (axes) return viewOfAxes(axes);
   return viewFromHand(features.palmTowardCamera, features.radialTowardCamera, 0);
 }
 

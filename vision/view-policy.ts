@@ -1,8 +1,9 @@
 import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
 import { MOTIONS } from "@/lib/motions/catalog";
-import { handAxes, type HandAxes } from "./angles";
+import { handAxes } from "./angles";
 import type { HandLandmarks } from "./landmarks";
-import { viewFromHand, type ValidationView } from "./uncertainty";
+import { viewOfAxes } from "./correction-views";
+import type { ValidationView } from "./uncertainty";
 
 /**
  * Kinarc's view policy: for each motion and test position, which way the camera should see the hand so the motion's
@@ -11,11 +12,8 @@ import { viewFromHand, type ValidationView } from "./uncertainty";
  * thumb edge, `down` = a camera above the back of a hand lying on the table, tilted toward the fingertips.
  */
 
-/** The measured view from the hand's own axes: the engine's classifier (vision/uncertainty.ts viewFromHand). */
-export function viewOfAxes(axes: HandAxes): ValidationView {
-  // Camera axes: z points away from the camera, so "toward the camera" is -z.
-  return viewFromHand(-axes.palmarNormal[2], -axes.radialAxis[2], -axes.longAxis[2]);
-}
+/** The measured view from the hand's own axes: the engine's classifier (vision/correction-views.ts). */
+export { viewOfAxes };
 
 /** The view of one frame's world landmarks, or null when the hand's axes can't be built. */
 export function measureView(hand: HandLandmarks, side: Side): ValidationView | null {
