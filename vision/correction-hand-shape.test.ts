@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { handAxes, readMotion } from "./angles";
-import { CORRECTION_MODEL, correctGroupAngle, HAND_SHAPE_MODEL } from "./correction";
+import { CORRECTION_MODEL, correctGroupAngle, HAND_SHAPE_DOWN_MODEL, HAND_SHAPE_MODEL } from "./correction";
 import { estimateHandShapeJointDeg, HAND_SHAPE_VIEWS, handShapeFeatureRows, isWholeHandShape } from "./correction-hand-shape";
 import { viewFromHand } from "./correction-views";
 import { applyFingerFit, estimateFingerJointDeg, FINGER_FEATURES, type FingerJoint } from "./estimator";
@@ -13,6 +13,10 @@ import { neutralPose, poseHand, type Placement, type HandPose } from "./testing/
 const PALM_VIEW: Placement = { forearmDistal: [0, -1, 0.2], forearmRadial: [1, 0, 0.15], wrist: [0, 0, 0.5] };
 const BACK_VIEW: Placement = { forearmDistal: [0, -1, -0.2], forearmRadial: [-1, 0, 0.15], wrist: [0, 0, 0.5] };
 const RADIAL_VIEW: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, -1], wrist: [0, 0, 0.5] };
+// A right hand lying flat on a table, the camera above its back in front of the fingertips, tilted 55 degrees down
+// (scripts/accuracy/scene.ts `down`): the fingers point down the picture and partly toward the camera.
+const DOWN_TILT = (55 * Math.PI) / 180;
+const DOWN_VIEW: Placement = { forearmDistal: [0, Math.sin(DOWN_TILT), -Math.cos(DOWN_TILT)], forearmRadial: [1, 0, 0], wrist: [0, -0.05, 0.5] };
 const FINGERS = ["index", "middle", "ring", "little"] as const;
 
 /** All four fingers in one shape, as the app asks a client to bend them. */
@@ -112,5 +116,33 @@ describe("the whole-hand-shape estimator (vision/correction-hand-shape.json)", (
     const mean = FINGERS.reduce((sum, f) => sum + own[f][tipToWrist], 0) / 4;
     expect(whole.ring[FINGER_FEATURES.length + 2]).toBeCloseTo(mean, 12);
     expect(whole.ring.slice(0, FINGER_FEATURES.length)).toEqual(own.ring);
+  });
+});
+
+describe("the whole-hand-shape estimator's second fit, from above the back of a hand (vision/correction-hand-shape-down.json)", () => {
+  it("is fitted for both hand models and every finger joint, on training seeds only, for the down view alone", () => {
+    expect(Object.keys(HAND_SHAPE_DOWN_MODEL.fits).sort()).toEqual(["full", "lite"]);
+    for (const fits of Object.values(HAND_SHAPE_DOWN_MODEL.fits)) expect(Object.keys(fits).sort()).toEqual(["dip", "mcp", "pip"]);
+    expect([...HAND_SHAPE_DOWN_MODEL.views]).toEqual(["down"]);
+    for (const name of HAND_SHAPE_DOWN_MODEL.trainingSets) expect(name).toMatch(/-77000\d{3}-/);
+    // The two fits share no view, so which one reads a frame never depends on their order.
+    expect(HAND_SHAPE_DOWN_MODEL.views.some((v) => HAND_SHAPE_MODEL.views.includes(v))).toBe(false);
+  });
+
+  it("a hand seen from above its back reads through the second fit (or the raw angle's null), never the first or the side-view fit", () => {
+    expect(viewOf(poseHand(handShape(0, 0, 0), "right", DOWN_VIEW).landmarks)).toBe("down");
+    let read = 0;
+    for (const [mcp, pip, dip] of [[0, 0, 0], [20, 30, 20], [45, 60, 40], [80, 90, 60]]) {
+      const hand = poseHand(handShape(mcp, pip, dip), "right", DOWN_VIEW).landmarks;
+      expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", "pip", hand, "right", "middle")).toBeNull();
+      const own = estimateHandShapeJointDeg(HAND_SHAPE_DOWN_MODEL, "lite", "pip", hand, "right", "middle");
+      expect(correctGroupAngle(CORRECTION_MODEL, "lite", "PIP flexion", features(hand, "pip.flexion"), "middle")).toBe(own);
+      if (own !== null) {
+        read += 1;
+        const rows = handShapeFeatureRows(hand, "right", handAxes(hand, "right")!, HAND_SHAPE_DOWN_MODEL.wholeHandFeatures)!;
+        expect(own).toBeCloseTo(applyFingerFit(HAND_SHAPE_DOWN_MODEL.fits.lite!.pip!, rows.middle), 9);
+      }
+    }
+    expect(read).toBeGreaterThan(0);
   });
 });

@@ -1,6 +1,7 @@
 import type { Digit, MotionId, Side } from "@/lib/motions/catalog";
 import COEFFICIENTS from "./correction-coefficients.json";
 import HAND_SHAPE_FIT from "./correction-hand-shape.json";
+import HAND_SHAPE_DOWN_FIT from "./correction-hand-shape-down.json";
 import { estimateHandShapeJointDeg, type HandShapeEstimatorModel } from "./correction-hand-shape";
 import { estimateFingerJointDeg, fingerJointOfGroup, type Finger, type FingerEstimatorModel } from "./estimator";
 import { handAxes, type HandAxes } from "./angles";
@@ -8,9 +9,10 @@ import { viewFromHand, viewOfAxes, type ValidationView } from "./correction-view
 import type { HandLandmarks } from "./landmarks";
 
 /**
- * Kinarc's angle correction, version 3. Finger MCP, PIP and DIP flexion come from the finger estimator
+ * Kinarc's angle correction, version 4. Finger MCP, PIP and DIP flexion come from the finger estimator
  * (vision/estimator.ts), which reads the whole finger, fitted on side views; seen from the palm, the back or obliquely
- * they come from the whole-hand-shape estimator (vision/correction-hand-shape.ts) instead. The other joint groups
+ * they come from the whole-hand-shape estimator (vision/correction-hand-shape.ts) instead, and seen from above the back
+ * of a hand on a table from its second fit (version 4: vision/correction-hand-shape-down.json). The other joint groups
  * keep version 1's form: per joint group
  * and hand model, a linear map from what the raw landmarks give to the joint angle,
  *
@@ -36,7 +38,7 @@ export const CORRECTION_FEATURES = [
   "deg*palm",
 ] as const;
 
-export const CORRECTION_VERSION = "kinarc-correction-3";
+export const CORRECTION_VERSION = "kinarc-correction-4";
 
 /** Joint groups as the accuracy report names its rows: the four fingers share one fit per joint. */
 export const CORRECTION_GROUPS = [
@@ -91,17 +93,21 @@ export interface CorrectionModel {
   groups: Record<string, Record<string, CorrectionGroupFit>>;
   /** Finger MCP, PIP and DIP flexion; where it has a fit, it reads those groups instead of a linear map. */
   fingerEstimator?: FingerEstimatorModel & { trainingSets: string[] };
-  /** Finger MCP, PIP and DIP flexion in the palm, back and oblique views, where it has a fit (version 3). */
-  handShapeEstimator?: HandShapeEstimatorModel;
+  /**
+   * Finger MCP, PIP and DIP flexion of whole-hand shapes, each fit in its own views: palm, back and oblique (version 3),
+   * from above the back of a hand on a table (version 4). The first whose views hold the frame's view reads it.
+   */
+  handShapeEstimators?: readonly HandShapeEstimatorModel[];
 }
 
 /** The committed coefficients. */
 // The JSON module's inferred type is wider than the model's (tuples read as arrays); applyFingerFit and correctGroupAngle check sizes.
 export const HAND_SHAPE_MODEL: HandShapeEstimatorModel = HAND_SHAPE_FIT as unknown as HandShapeEstimatorModel;
+export const HAND_SHAPE_DOWN_MODEL: HandShapeEstimatorModel = HAND_SHAPE_DOWN_FIT as unknown as HandShapeEstimatorModel;
 export const CORRECTION_MODEL: CorrectionModel = {
   ...(COEFFICIENTS as unknown as CorrectionModel),
   version: CORRECTION_VERSION,
-  handShapeEstimator: HAND_SHAPE_MODEL,
+  handShapeEstimators: [HAND_SHAPE_MODEL, HAND_SHAPE_DOWN_MODEL],
 };
 
 export function correctionFeatures(f: RawAngleFeatures): number[] {
@@ -131,13 +137,13 @@ export function correctGroupAngle(
   digit: Digit | null = null,
 ): number | null {
   const joint = fingerJointOfGroup(group);
-  const handShape = joint ? model.handShapeEstimator : undefined;
-  if (joint && (model.fingerEstimator?.fits[handModel]?.[joint] || handShape?.fits[handModel]?.[joint])) {
+  const handShapes = joint ? (model.handShapeEstimators ?? []).filter((m) => m.fits[handModel]?.[joint]) : [];
+  if (joint && (model.fingerEstimator?.fits[handModel]?.[joint] || handShapes.length > 0)) {
     if (!features.hand || !features.side || !digit || !FINGERS.includes(digit)) return null;
-    // In its views the hand-shape estimator reads the frame or nobody does: the side-view fit was not chosen there.
-    if (handShape?.fits[handModel]?.[joint] && handShape.views.includes(viewOfFeatures(features))) {
-      return estimateHandShapeJointDeg(handShape, handModel, joint, features.hand, features.side, digit as Finger, features.axes);
-    }
+    // In its views a hand-shape estimator reads the frame or nobody does: the side-view fit was not chosen there.
+    const view = handShapes.length > 0 ? viewOfFeatures(features) : null;
+    const handShape = handShapes.find((m) => view !== null && m.views.includes(view));
+    if (handShape) return estimateHandShapeJointDeg(handShape, handModel, joint, features.hand, features.side, digit as Finger, features.axes);
     if (!model.fingerEstimator?.fits[handModel]?.[joint]) return null;
     return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes);
   }
@@ -155,7 +161,8 @@ export function correctGroupAngle(
 export function hasGroupFit(model: CorrectionModel, handModel: string, group: string): boolean {
   const joint = fingerJointOfGroup(group);
   return Boolean(
-    model.groups[handModel]?.[group] || (joint && (model.fingerEstimator?.fits[handModel]?.[joint] || model.handShapeEstimator?.fits[handModel]?.[joint])),
+    model.groups[handModel]?.[group] ||
+      (joint && (model.fingerEstimator?.fits[handModel]?.[joint] || model.handShapeEstimators?.some((m) => m.fits[handModel]?.[joint]))),
   );
 }
 

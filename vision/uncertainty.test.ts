@@ -54,9 +54,9 @@ describe("the committed table (vision/uncertainty-table.json) against its own fi
     }
   });
 
-  it("finger flexion seen from the palm, back or obliquely is judged on the held-out whole-hand shapes; raw frames there keep the any-pose error", () => {
+  it("finger flexion seen from the palm, back, obliquely or from above is judged on the held-out whole-hand shapes; raw frames there keep the any-pose error", () => {
     for (const group of ["MCP flexion", "PIP flexion", "DIP flexion"]) {
-      for (const view of ["palm", "back", "oblique"] as const) {
+      for (const view of ["palm", "back", "oblique", "down"] as const) {
         for (const model of ["lite", "full"] as const) {
           const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === group && c.view === view && c.model === model)!;
           expect(cell.source).toBe("hand shapes");

@@ -16,8 +16,10 @@ const HERE = path.dirname(fileURLToPath(import.meta.url));
 export const REPORT_FILE = path.join(HERE, "report.md");
 export const UNCERTAINTY_FILE = path.join(HERE, "..", "..", "vision", "uncertainty-table.json");
 export const UNCERTAINTY_VERSION = "kinarc-uncertainty-1";
-/** The whole-hand-shape estimator's held-out cells (scripts/accuracy/hand-shape-fit.ts holdout). */
+/** The whole-hand-shape estimator's held-out cells (scripts/accuracy/hand-shape-fit.ts holdout), front fit first. */
 export const HAND_SHAPE_VALIDATION_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape-validation.json");
+export const HAND_SHAPE_DOWN_VALIDATION_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape-down-validation.json");
+export const HAND_SHAPE_VALIDATION_FILES = [HAND_SHAPE_VALIDATION_FILE, HAND_SHAPE_DOWN_VALIDATION_FILE] as const;
 
 /** A held-out cell of the whole-hand shapes: the figures the table needs. */
 export interface HandShapeRow {
@@ -159,11 +161,13 @@ export function deriveUncertaintyTable(
 }
 
 /** The committed hand-shape held-out rows, or none when the file has not been written. */
-export function readHandShapeRows(file: string = HAND_SHAPE_VALIDATION_FILE): HandShapeRow[] {
-  if (!existsSync(file)) return [];
-  const parsed = JSON.parse(readFileSync(file, "utf8")) as { cells?: HandShapeRow[] };
-  if (!Array.isArray(parsed.cells)) throw new Error(`${file}: expected "cells", a list of held-out rows`);
-  return parsed.cells;
+export function readHandShapeRows(files: readonly string[] = HAND_SHAPE_VALIDATION_FILES): HandShapeRow[] {
+  return files.flatMap((file) => {
+    if (!existsSync(file)) return [];
+    const parsed = JSON.parse(readFileSync(file, "utf8")) as { cells?: HandShapeRow[] };
+    if (!Array.isArray(parsed.cells)) throw new Error(`${file}: expected "cells", a list of held-out rows`);
+    return parsed.cells;
+  });
 }
 
 function main(): void {

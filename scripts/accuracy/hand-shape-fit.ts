@@ -10,6 +10,11 @@
  *     renders and tracks the held-out set (seed HAND_SHAPE_HOLDOUT_SEED, never used for fitting or selection), scores
  *     raw and the estimator as the engine applies it, and writes vision/correction-hand-shape-validation.json.
  *   npx tsx scripts/accuracy/hand-shape-fit.ts side-check
+ *
+ * `--family down` (select, fit, holdout) works on the second fit instead: the same shapes seen from above the back of
+ * a hand lying on a table (view `down`), trained on hand-shapes-down-77000103-300, held out on seed 20261208, written to
+ * vision/correction-hand-shape-down.json and its -validation.json. The first fit (`front`: palm, back, oblique) is
+ * left as it was, so its held-out figures stand.
  *     through the engine's live pipeline, without and with the hand-shape estimator and its table cells: the
  *     side-view test motions of the validation set (motions-20261202-360; the side views must read as before) and
  *     the held-out whole-hand shapes (as the app would read them, depth mirror and measured view included).
@@ -21,6 +26,7 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { parseArgs } from "node:util";
 import { handAxes } from "@/vision/angles";
+import type { ValidationView } from "@/vision/correction-views";
 import {
   CURL_FEATURE_INDEXES,
   estimateHandShapeJointDeg,
@@ -34,7 +40,6 @@ import {
 } from "@/vision/correction-hand-shape";
 import {
   applyFingerFit,
-  DOMAIN_MARGIN_SD,
   ESTIMATOR_FINGERS,
   FINGER_FEATURES,
   FINGER_JOINTS,
@@ -44,10 +49,11 @@ import {
   type FingerJointFit,
 } from "@/vision/estimator";
 import { HUBER_DEG } from "./correction";
-import { correctionClearlyHelps } from "./derive-uncertainty";
+import { correctionClearlyHelps, HAND_SHAPE_DOWN_VALIDATION_FILE, HAND_SHAPE_VALIDATION_FILE } from "./derive-uncertainty";
 import { fingerPoseKey, fitFingerJoint, loadTrackedSet, roundedFit } from "./estimator-fit";
 import { getPoseAngle } from "./hand-pose";
-import { handShapeFrame } from "./motion-sets";
+import type { CameraView } from "./scene";
+import { HAND_SHAPE_DOWN_VIEWS, handShapeFrame, HAND_SHAPE_VIEWS as FRONT_FRAME_VIEWS } from "./motion-sets";
 import { loadHandRig } from "./rig-files";
 import { parseCount, parseModels } from "./run-accuracy";
 import { summarizeErrors, type ErrorSummary } from "./stats";
@@ -56,9 +62,51 @@ import type { TrackedStill } from "./report";
 
 const HERE = path.dirname(fileURLToPath(import.meta.url));
 export const HAND_SHAPE_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape.json");
-export const HAND_SHAPE_VALIDATION_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape-validation.json");
 /** The one held-out seed of the whole-hand shapes: scored once, never fitted or selected on. */
 export const HAND_SHAPE_HOLDOUT_SEED = 20_261_206;
+
+/**
+ * The two whole-hand-shape fits: `front` (palm, back, oblique; kinarc-correction-3) and `down` (from above the back of
+ * a hand on a table; kinarc-correction-4). Each has its own training set, held-out seed and files.
+ */
+export interface HandShapeFamily {
+  name: "front" | "down";
+  views: readonly ValidationView[];
+  trainingSet: string;
+  holdoutSeed: number;
+  holdoutCount: number;
+  frameViews: readonly CameraView[];
+  file: string;
+  validationFile: string;
+}
+export const HAND_SHAPE_FAMILIES: Record<HandShapeFamily["name"], HandShapeFamily> = {
+  front: {
+    name: "front",
+    views: HAND_SHAPE_VIEWS,
+    trainingSet: "hand-shapes-77000102-600",
+    holdoutSeed: HAND_SHAPE_HOLDOUT_SEED,
+    holdoutCount: 300,
+    frameViews: FRONT_FRAME_VIEWS,
+    file: HAND_SHAPE_FILE,
+    validationFile: HAND_SHAPE_VALIDATION_FILE,
+  },
+  down: {
+    name: "down",
+    views: ["down"],
+    trainingSet: "hand-shapes-down-77000103-300",
+    holdoutSeed: 20_261_208,
+    holdoutCount: 300,
+    frameViews: HAND_SHAPE_DOWN_VIEWS,
+    file: path.join(HERE, "..", "..", "vision", "correction-hand-shape-down.json"),
+    validationFile: HAND_SHAPE_DOWN_VALIDATION_FILE,
+  },
+};
+
+function familyOf(value: string | boolean | undefined): HandShapeFamily {
+  const name = String(value ?? "front");
+  if (name !== "front" && name !== "down") throw new Error(`--family: expected front or down; got '${name}'`);
+  return HAND_SHAPE_FAMILIES[name];
+}
 const FOLDS = 3;
 /** Hand-shape stills take the three views in turn by index, so fold by index / 3 to keep every view in every fold. */
 const foldOf = (s: HandShapeSample) => Math.floor(s.still / 3) % FOLDS;
@@ -79,11 +127,15 @@ export function assertTrainingSet(name: string): void {
   if (/2026120\d/.test(name)) throw new Error(`${name}: seeds 2026120x are held out; fit and select on training seeds (77000xxx) only`);
 }
 
-/** One sample per finger of every tracked still seen from a palm, back or oblique camera. */
-export function handShapeSamples(set: { stills: readonly TrackedStill[]; count: number }, wholeHand: boolean): HandShapeSample[] {
+/** One sample per finger of every tracked still seen from one of `views` (the front fit's palm, back and oblique). */
+export function handShapeSamples(
+  set: { stills: readonly TrackedStill[]; count: number },
+  wholeHand: boolean,
+  views: readonly string[] = HAND_SHAPE_VIEWS,
+): HandShapeSample[] {
   const samples: HandShapeSample[] = [];
   set.stills.forEach((still, index) => {
-    if (!still.hand || !HAND_SHAPE_VIEWS.includes(still.truth.view)) return;
+    if (!still.hand || !views.includes(still.truth.view)) return;
     const axes = handAxes(still.hand, still.truth.side);
     const rows = axes ? handShapeFeatureRows(still.hand, still.truth.side, axes, wholeHand) : null;
     if (!rows) return;
@@ -151,23 +203,25 @@ function rawDeg(s: HandShapeSample, joint: FingerJoint): number {
 
 const fmt = (x: number | null | undefined, digits = 1) => (x === null || x === undefined ? "-" : x.toFixed(digits));
 
-function loadSets(names: readonly string[], wholeHand: boolean): HandShapeSample[] {
+function loadSets(names: readonly string[], wholeHand: boolean, views: readonly string[]): HandShapeSample[] {
   return names.flatMap((name, setIndex) => {
     assertTrainingSet(name);
-    // Still ids must not collide across sets: folds group by still.
-    return handShapeSamples(loadTrackedSet(name), wholeHand).map((s) => ({ ...s, still: s.still + setIndex * 1_000_000 }));
+    // Still ids must not collide across sets: folds group by still. Other sets add their palm/back/oblique stills too.
+    const setViews = setIndex === 0 ? views : [...new Set([...views, ...HAND_SHAPE_VIEWS])];
+    return handShapeSamples(loadTrackedSet(name), wholeHand, setViews).map((s) => ({ ...s, still: s.still + setIndex * 1_000_000 }));
   });
 }
 
 function select(values: Record<string, string | boolean | undefined>): void {
   const lambdas = String(values.lambdas ?? "3,10,30").split(",").map(Number);
   const models = parseModels(values.models as string | undefined);
-  const shapeSet = "hand-shapes-77000102-600";
+  const family = familyOf(values.family);
+  const shapeSet = family.trainingSet;
   const variants = String(values.sets ?? `${shapeSet};${shapeSet},fingers-77000101-600`).split(";").map((v) => v.split(","));
   for (const model of models) {
-    const own = loadSets([shapeSet], true).filter((s) => s.model === model);
+    const own = loadSets([shapeSet], true, family.views).filter((s) => s.model === model);
     const kept = [0, 0.5, 1, 1.5, 2].map((margin) => {
-      const shares = HAND_SHAPE_VIEWS.map((view) => {
+      const shares = family.views.map((view) => {
         const results = Array.from({ length: FOLDS }, (_, fold) => {
           const spread = handSpreadRange(own.filter((s) => foldOf(s) !== fold), margin);
           return own.filter((s) => foldOf(s) === fold && s.view === view && s.fingerIndex === 0).map((s) => isWholeHandShape(spread, handRowsOf(s)));
@@ -181,7 +235,7 @@ function select(values: Record<string, string | boolean | undefined>): void {
   if (values["spread-only"]) return;
   for (const wholeHand of [false, true]) {
     for (const sets of variants) {
-      const all = loadSets(sets, wholeHand);
+      const all = loadSets(sets, wholeHand, family.views);
       // Scored on the hand-shape stills only, the kind the held-out set holds; other sets only add training rows.
       const scoredSet = 0;
       for (const model of models) {
@@ -196,7 +250,7 @@ function select(values: Record<string, string | boolean | undefined>): void {
                 .filter((s) => foldOf(s) === fold && Math.floor(s.still / 1_000_000) === scoredSet)
                 .map((s) => ({ view: s.view, truthDeg: s.truthDeg[joint], raw: rawDeg(s, joint), ...engineEstimate(fit, spread, s, joint) }));
             }).flat();
-            const cells = HAND_SHAPE_VIEWS.map((view) => {
+            const cells = family.views.map((view) => {
               const r = results.filter((x) => x.view === view);
               const after = summarizeErrors(r.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.deg })));
               const raw = summarizeErrors(r.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.raw })));
@@ -216,8 +270,14 @@ function round(value: number): number {
   return Math.round(value * 1e6) / 1e6;
 }
 
-export function fitHandShapeEstimator(sets: readonly string[], lambda: number, wholeHand: boolean, models: readonly string[]): HandShapeEstimatorModel {
-  const all = loadSets(sets, wholeHand);
+export function fitHandShapeEstimator(
+  sets: readonly string[],
+  lambda: number,
+  wholeHand: boolean,
+  models: readonly string[],
+  views: readonly ValidationView[] = HAND_SHAPE_VIEWS,
+): HandShapeEstimatorModel {
+  const all = loadSets(sets, wholeHand, views);
   const fits: HandShapeEstimatorModel["fits"] = {};
   const handSpread: HandShapeEstimatorModel["handSpread"] = {};
   for (const model of models) {
@@ -233,7 +293,7 @@ export function fitHandShapeEstimator(sets: readonly string[], lambda: number, w
     features: wholeHand ? [...FINGER_FEATURES, ...WHOLE_HAND_FEATURES] : [...FINGER_FEATURES],
     wholeHandFeatures: wholeHand,
     handSpread,
-    views: HAND_SHAPE_VIEWS,
+    views,
     trainingSets: [...sets],
     fits,
   };
@@ -261,7 +321,7 @@ export function scoreHoldout(set: TrackedSet, model: HandShapeEstimatorModel): H
   const cells: HandShapeValidationCell[] = [];
   for (const handModel of Object.keys(model.fits)) {
     for (const joint of FINGER_JOINTS) {
-      for (const view of HAND_SHAPE_VIEWS) {
+      for (const view of model.views) {
         const stills = set.stills.filter((s) => s.model === handModel && s.truth.view === view);
         const raw: { truthDeg: number; estimateDeg: number | null }[] = [];
         const after: { truthDeg: number; estimateDeg: number | null }[] = [];
@@ -305,15 +365,15 @@ export function scoreHoldout(set: TrackedSet, model: HandShapeEstimatorModel): H
   return cells;
 }
 
-async function holdout(values: Record<string, string | boolean | undefined>, model: HandShapeEstimatorModel): Promise<void> {
-  const count = parseCount("count", values.count as string | undefined, 300);
+async function holdout(values: Record<string, string | boolean | undefined>, model: HandShapeEstimatorModel, family: HandShapeFamily): Promise<void> {
+  const count = parseCount("count", values.count as string | undefined, family.holdoutCount);
   const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
   const set = await trackRenderedSet({
-    name: "hand-shapes",
-    seed: HAND_SHAPE_HOLDOUT_SEED,
+    name: family.name === "front" ? "hand-shapes" : "hand-shapes-down",
+    seed: family.holdoutSeed,
     count,
     models: parseModels(values.models as string | undefined),
-    makeFrame: (frameSeed, index) => handShapeFrame(rigs, frameSeed, index),
+    makeFrame: (frameSeed, index) => handShapeFrame(rigs, frameSeed, index, family.frameViews),
     reuse: Boolean(values.reuse),
   });
   const cells = scoreHoldout(set, model);
@@ -327,10 +387,10 @@ async function holdout(values: Record<string, string | boolean | undefined>, mod
   ];
   console.log(lines.join("\n"));
   writeFileSync(
-    HAND_SHAPE_VALIDATION_FILE,
-    `${JSON.stringify({ seed: HAND_SHAPE_HOLDOUT_SEED, stills: count, trainingSets: model.trainingSets, rule: "correctionHelps: held-out MAE below raw by more than two standard errors (scripts/accuracy/derive-uncertainty.ts correctionClearlyHelps)", cells }, null, 2)}\n`,
+    family.validationFile,
+    `${JSON.stringify({ seed: family.holdoutSeed, stills: count, trainingSets: model.trainingSets, rule: "correctionHelps: held-out MAE below raw by more than two standard errors (scripts/accuracy/derive-uncertainty.ts correctionClearlyHelps)", cells }, null, 2)}\n`,
   );
-  console.error(`held-out cells -> ${HAND_SHAPE_VALIDATION_FILE}`);
+  console.error(`held-out cells -> ${family.validationFile}`);
 }
 
 /**
@@ -343,7 +403,7 @@ async function sideCheck(): Promise<void> {
   const { deriveUncertaintyTable, parseAccuracyReport, readHandShapeRows, REPORT_FILE } = await import("./derive-uncertainty");
   const { readFileSync } = await import("node:fs");
   const report = parseAccuracyReport(readFileSync(REPORT_FILE, "utf8"));
-  const before = { model: { ...CORRECTION_MODEL, handShapeEstimator: undefined }, table: deriveUncertaintyTable(report, []) };
+  const before = { model: { ...CORRECTION_MODEL, handShapeEstimators: undefined }, table: deriveUncertaintyTable(report, []) };
   const after = { model: CORRECTION_MODEL, table: deriveUncertaintyTable(report, readHandShapeRows()) };
   const load = (name: string) => JSON.parse(readFileSync(path.join(HERE, "..", "..", "tests", ".cache", "renders", "tracked", `set-${name}-lite-full.json`), "utf8")) as TrackedSet;
   // The side-view test motions (each still read for its own motion) and the held-out whole-hand shapes (every still
@@ -392,6 +452,7 @@ async function main(): Promise<void> {
       count: { type: "string" },
       reuse: { type: "boolean" },
       "spread-only": { type: "boolean" },
+      family: { type: "string" },
     },
   });
   const command = positionals[0];
@@ -399,15 +460,17 @@ async function main(): Promise<void> {
   if (command === "fit") {
     if (!values.sets) throw new Error("--sets: expected the training sets, comma-separated (e.g. hand-shapes-77000102-600)");
     const lambda = parseCount("lambda", values.lambda, Number.NaN);
-    const model = fitHandShapeEstimator(values.sets.split(","), lambda, values["whole-hand"] ?? false, parseModels(values.models));
-    writeFileSync(HAND_SHAPE_FILE, `${JSON.stringify(model, null, 2)}\n`);
-    console.error(`hand-shape estimator -> ${HAND_SHAPE_FILE}`);
+    const family = familyOf(values.family);
+    const model = fitHandShapeEstimator(values.sets.split(","), lambda, values["whole-hand"] ?? false, parseModels(values.models), family.views);
+    writeFileSync(family.file, `${JSON.stringify(model, null, 2)}\n`);
+    console.error(`hand-shape estimator -> ${family.file}`);
     return;
   }
   if (command === "holdout") {
-    const { HAND_SHAPE_MODEL } = await import("@/vision/correction");
-    if (!HAND_SHAPE_MODEL) throw new Error("vision/correction-hand-shape.json: no fit; run `hand-shape-fit.ts fit` first");
-    return holdout(values, HAND_SHAPE_MODEL);
+    const family = familyOf(values.family);
+    const { existsSync, readFileSync } = await import("node:fs");
+    if (!existsSync(family.file)) throw new Error(`${family.file}: no fit; run \`hand-shape-fit.ts fit --family ${family.name}\` first`);
+    return holdout(values, JSON.parse(readFileSync(family.file, "utf8")) as HandShapeEstimatorModel, family);
   }
   if (command === "side-check") return sideCheck();
   throw new Error(`command: expected select, fit, holdout or side-check; got '${command ?? ""}'`);

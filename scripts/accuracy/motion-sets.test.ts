@@ -7,6 +7,7 @@ import {
   fingerFlexionFrame,
   HAND_SHAPE_NAMES,
   HAND_SHAPE_SET,
+  HAND_SHAPE_DOWN_VIEWS,
   HAND_SHAPE_VIEWS,
   handShapeFrame,
   MOTION_SETS,
@@ -76,6 +77,13 @@ describe("the whole-hand-shape stills (palm, back and oblique views)", () => {
   const frames = frameSeeds(13, 140).map((seed, i) => handShapeFrame(rigs, seed, i));
   const fingers = ["index", "middle", "ring", "little"] as const;
   const joint = (f: (typeof frames)[number], finger: string, dof: string) => getPoseAngle(f.truth.commandedDeg, `${finger}.${dof}` as (typeof POSE_KEYS)[number]);
+
+  it("takes the views it is given: the second fit's stills are all seen from above the back of the hand", () => {
+    const down = frameSeeds(13, 12).map((seed, i) => handShapeFrame(rigs, seed, i, HAND_SHAPE_DOWN_VIEWS));
+    for (const f of down) expect(f.truth.view).toBe("down");
+    // The same seed and index draw the same shape whatever the view list (only the camera differs).
+    expect(down.map((f) => f.shape)).toEqual(frames.slice(0, 12).map((f) => f.shape));
+  });
 
   it("takes the views in turn and bends all four fingers alike", () => {
     frames.forEach((f, i) => {

@@ -122,6 +122,12 @@ export function fingerFlexionFrame(rigs: Record<HandSide, HandRig>, seed: number
  */
 export const HAND_SHAPE_SET = "fingers.hand-shape";
 export const HAND_SHAPE_VIEWS: readonly CameraView[] = ["palm", "back", "oblique"];
+/**
+ * The same shapes seen from above the back of a hand lying on a table (`down`), for the second whole-hand-shape fit
+ * (training seed 77000103, held-out seed 20261208). A camera held over the back of the hand is often measured as this
+ * view, and the first fit did not cover it.
+ */
+export const HAND_SHAPE_DOWN_VIEWS: readonly CameraView[] = ["down"];
 /** Levels of each joint as a share of its range [low, high] per named shape. */
 const HAND_SHAPES: Record<string, Record<"mcp" | "pip" | "dip", readonly [number, number]>> = {
   open: { mcp: [0, 0.1], pip: [0, 0.1], dip: [0, 0.1] },
@@ -133,11 +139,11 @@ const HAND_SHAPES: Record<string, Record<"mcp" | "pip" | "dip", readonly [number
 export const HAND_SHAPE_NAMES = [...Object.keys(HAND_SHAPES), "curl", "apart"] as const;
 const HAND_SHAPE_RANGES_DEG = { mcp: [0, 90], pip: [0, 100], dip: [0, 80] } as const;
 
-export function handShapeFrame(rigs: Record<HandSide, HandRig>, seed: number, index: number) {
+export function handShapeFrame(rigs: Record<HandSide, HandRig>, seed: number, index: number, views: readonly CameraView[] = HAND_SHAPE_VIEWS) {
   const rng = makeRng(seed);
   const uniform = (low: number, high: number) => low + (high - low) * uniformFloat64(rng);
   const side: HandSide = uniformInt(rng, 0, 1) === 0 ? "left" : "right";
-  const view = HAND_SHAPE_VIEWS[index % HAND_SHAPE_VIEWS.length];
+  const view = views[index % views.length];
   const pose = restPose();
   for (const key of POSE_KEYS) {
     const [low, high] = POSE_RANGES_DEG[key];
