@@ -24,6 +24,19 @@ describe("held-out clip plans", () => {
     for (const plan of fewer) expect(plans).toContainEqual(plan);
   });
 
+  it("with gravity minimized: the same motions in the view the policy recommends for that condition, named apart", () => {
+    const minimized = planClips(20261205, 8, "gravity_minimized");
+    expect(minimized).toHaveLength(plans.length);
+    minimized.forEach((plan, i) => {
+      expect(plan.condition).toBe("gravity_minimized");
+      expect(plan.view).toBe(viewPolicy(plan.motion.motion, "gravity_minimized", plan.motion.digits[0]).recommended[0]);
+      // Cached renders are found by name: a clip of the other condition must never be taken for this one.
+      expect(plan.name).not.toBe(plans[i].name);
+      expect(plan.name).toContain("-gm-");
+    });
+    for (const plan of plans) expect(plan.condition).toBe("against_gravity");
+  });
+
   it("draw ends of range and distances across their whole span (neighbouring seeds once gave near-identical clips)", () => {
     for (const motion of CLIP_MOTIONS) {
       const ends = plans.filter((plan) => plan.motion === motion).map((plan) => plan.toDeg);

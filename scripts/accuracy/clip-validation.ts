@@ -15,12 +15,16 @@
  * The seeds are held out: nothing is fitted on them (SEED_NOTES says what else each was used for).
  *
  *   npx tsx scripts/accuracy/clip-validation.ts [--clips 10] [--seeds 20261207,20261205] [--models lite,full] [--reuse]
+ *     [--condition against_gravity|gravity_minimized]
+ *
+ * `--condition gravity_minimized` renders the same motions in the view the policy recommends with gravity minimized
+ * (the thumb side, from above a hand resting on its edge) and writes clip-report-gravity-minimized.md instead.
  */
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { parseArgs } from "node:util";
 import type { Browser } from "playwright-core";
-import type { Digit, MotionId } from "@/lib/motions/catalog";
+import type { Condition, Digit, MotionId } from "@/lib/motions/catalog";
 import { analyzeCapture } from "@/vision/analyze-capture";
 import { ClipCaptureError, clipCapture } from "@/vision/live/clip-capture";
 import type { TrackedFrame } from "@/vision/live/types";
@@ -49,7 +53,11 @@ export const SEED_NOTES: Record<number, string> = {
 const FPS = 30;
 const CYCLES = 2;
 const CYCLE_SECONDS = 2.5;
-const REPORT_FILE = path.join(__dirname, "clip-report.md");
+const REPORT_FILES: Record<Condition, string> = {
+  against_gravity: path.join(__dirname, "clip-report.md"),
+  gravity_minimized: path.join(__dirname, "clip-report-gravity-minimized.md"),
+};
+const CONDITION_WORDS: Record<Condition, string> = { against_gravity: "against gravity", gravity_minimized: "with gravity minimized" };
 const HARNESS_PORT = Number(process.env.KINARC_ACCURACY_PORT ?? 4324);
 
 export interface ClipMotion {
@@ -83,6 +91,7 @@ export interface ClipPlan {
   motion: ClipMotion;
   side: HandSide;
   view: CameraView;
+  condition: Condition;
   seed: number;
   toDeg: number;
   distanceM: number;
@@ -92,7 +101,7 @@ export interface ClipPlan {
 /** Clip seeds per motion drawn up front, so a plan with more clips keeps the clips of a smaller one. */
 const SEEDS_PER_MOTION = 100;
 
-export function planClips(seed: number, count: number): ClipPlan[] {
+export function planClips(seed: number, count: number, condition: Condition = "against_gravity"): ClipPlan[] {
   if (count > SEEDS_PER_MOTION) throw new Error(`--clips: expected at most ${SEEDS_PER_MOTION}; got ${count}`);
   // Render seeds from the set's own generator (as scene.ts frameSeeds): neighbouring seeds start xoroshiro128+ alike.
   const seeds = frameSeeds(seed, CLIP_MOTIONS.length * SEEDS_PER_MOTION);
@@ -104,9 +113,11 @@ export function planClips(seed: number, count: number): ClipPlan[] {
       uniformFloat64(draws);
       const toDeg = motion.toDeg[0] + (motion.toDeg[1] - motion.toDeg[0]) * uniformFloat64(draws);
       const distanceM = 0.3 + 0.4 * uniformFloat64(draws);
-      const view = viewPolicy(motion.motion, "against_gravity", motion.digits[0]).recommended[0] as CameraView;
+      const view = viewPolicy(motion.motion, condition, motion.digits[0]).recommended[0] as CameraView;
       const side: HandSide = i % 2 === 0 ? "right" : "left";
-      return { name: `${motion.motion}-${seed}-${i}-${clipSeed}`, motion, side, view, seed: clipSeed, toDeg, distanceM };
+      // Against gravity keeps its first names (and cached renders); the other condition's clips are named apart.
+      const name = condition === "against_gravity" ? `${motion.motion}-${seed}-${i}-${clipSeed}` : `${motion.motion}-gm-${seed}-${i}-${clipSeed}`;
+      return { name, motion, side, view, condition, seed: clipSeed, toDeg, distanceM };
     }),
   );
 }
@@ -205,7 +216,7 @@ export function readClip(
   variant: ClipVariant = "engine",
 ): ClipReading {
   if (frames.length !== truth.frameCount) throw new Error(`${plan.name} (${model}): tracked ${frames.length} frames, the clip has ${truth.frameCount}`);
-  const target = { motion: plan.motion.motion, side: plan.side, digit, condition: "against_gravity" as const };
+  const target = { motion: plan.motion.motion, side: plan.side, digit, condition: plan.condition };
   const key = digit ? (plan.motion.joints.find((joint) => joint.startsWith(`${digit}.`)) as PoseKey) : plan.motion.joints[0];
   const truthDeg = truth.frames.map((frame) => plan.motion.sign * getPoseAngle(frame.truth.commandedDeg, key));
   let built;
@@ -295,15 +306,18 @@ export interface ClipSection {
   rows: readonly ClipRow[];
 }
 
-export function clipReport(sections: readonly ClipSection[], meta: { glName: string }): string {
+export function clipReport(sections: readonly ClipSection[], meta: { glName: string; condition?: Condition }): string {
+  const condition = meta.condition ?? "against_gravity";
   const lines = [
-    "# Angle accuracy on held-out clips (continuous motion)",
+    condition === "against_gravity"
+      ? "# Angle accuracy on held-out clips (continuous motion)"
+      : `# Angle accuracy on held-out clips (continuous motion, ${CONDITION_WORDS[condition]})`,
     "",
     "Written by `npx tsx scripts/accuracy/clip-validation.ts` (see its header); do not edit by hand.",
     "",
     `- Held-out clips: per motion, half right hands and half left, each a still start ` +
       `(1 s; 3 s for the wrist, the straight-wrist reading), then ${CYCLES} cycles of ${CYCLE_SECONDS} s from rest to an end of range drawn from the seed and back, ${FPS} fps, ` +
-      "camera 0.3-0.7 m, skin, light and background drawn from the seed, in the view vision/view-policy.ts recommends against gravity. Finger motions move all four fingers together; each finger is a reading. Nothing is fitted on these seeds.",
+      `camera 0.3-0.7 m, skin, light and background drawn from the seed, in the view vision/view-policy.ts recommends ${CONDITION_WORDS[condition]}. Finger motions move all four fingers together; each finger is a reading. Nothing is fitted on these seeds.`,
     "- Path: the app's tracking code frame by frame (step mode, as analyze-clip and the upload review), the upload's capture builder, the engine's capture analysis as shipped (correction where it clearly helps, wrist read against the clip's straight-wrist reading, depth mirror on); `without depth mirror` and `raw` (no correction, no depth mirror) for comparison.",
     "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles.",
     `- Renderer: ${meta.glName}.`,
@@ -335,8 +349,10 @@ export function clipReport(sections: readonly ClipSection[], meta: { glName: str
 
 async function main(): Promise<void> {
   const { values } = parseArgs({
-    options: { clips: { type: "string" }, seeds: { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" } },
+    options: { clips: { type: "string" }, seeds: { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" }, condition: { type: "string" } },
   });
+  const condition = (values.condition ?? "against_gravity") as Condition;
+  if (!(condition in REPORT_FILES)) throw new Error(`--condition: expected against_gravity or gravity_minimized; got '${values.condition}'`);
   const clips = parseCount("clips", values.clips, 10);
   const seeds = values.seeds ? values.seeds.split(",").map((raw) => parseCount("seeds", raw, 0)) : [...CLIP_VALIDATION_SEEDS];
   const models = parseModels(values.models);
@@ -345,7 +361,7 @@ async function main(): Promise<void> {
   for (const seed of seeds) {
     const folder = path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
     mkdirSync(folder, { recursive: true });
-    const plans = planClips(seed, clips);
+    const plans = planClips(seed, clips, condition);
     await renderClips(plans, folder, reuse);
     const rows: ClipRow[] = [];
     for (const model of models) {
@@ -367,8 +383,8 @@ async function main(): Promise<void> {
   const renderer = await HandRenderer.start();
   const glName = await renderer.glRenderer();
   await renderer.close();
-  const text = clipReport(sections, { glName });
-  writeFileSync(REPORT_FILE, text);
+  const text = clipReport(sections, { glName, condition });
+  writeFileSync(REPORT_FILES[condition], text);
   process.stdout.write(text);
 }
 
