@@ -18,7 +18,7 @@ export interface ValidationCell {
   model: HandModel;
   /**
    * Which held-out set the figures come from: one motion in its view ("test motions"), all four fingers in one
-   * whole-hand shape seen from the palm, back or obliquely ("hand shapes"), or any pose ("random poses").
+   * whole-hand shape seen from the palm, back, obliquely or from above ("hand shapes"), or any pose ("random poses").
    */
   source: "test motions" | "hand shapes" | "random poses";
   samples: number;

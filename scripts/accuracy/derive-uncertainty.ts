@@ -91,8 +91,8 @@ const round1 = (x: number) => Math.round(x * 10) / 10;
 
 /**
  * One cell per group, view and model. Test-motion rows (one joint moving, in the view the catalog recommends: what
- * the app measures) come first; then the whole-hand shapes' held-out rows (finger flexion seen from the palm, back
- * or obliquely, all four fingers bent together as the app asks); random-pose rows fill the views and groups they lack. The correction is applied
+ * the app measures) come first; then the whole-hand shapes' held-out rows (finger flexion seen from the palm, back,
+ * obliquely or from above, all four fingers bent together as the app asks); random-pose rows fill the views and groups they lack. The correction is applied
  * where its held-out MAE is clearly below the raw 3-D MAE (`correctionClearlyHelps`); the uncertainty is that of the
  * method the engine then uses.
  */
@@ -154,8 +154,9 @@ export function deriveUncertaintyTable(
       "of the method the engine uses in the cell: corrected where the correction's held-out MAE is below the raw 3-D MAE by more than two standard errors " +
       "(for whole-hand-shape cells, raw frames take the worse of the hand-shape and random-pose raw MAE, rawAnyPoseMaeDeg) " +
       "(SE = 0.755 * raw MAE / sqrt(samples)), raw 3-D otherwise. " +
-      "Source: scripts/accuracy/report.md (held-out renders) and vision/correction-hand-shape-validation.json (held-out whole-hand shapes, " +
-      "seed 20261206); test-motion rows first, then whole-hand-shape rows, random-pose rows for the rest.",
+      "Source: scripts/accuracy/report.md (held-out renders) and vision/correction-hand-shape-validation.json and " +
+      "correction-hand-shape-down-validation.json (held-out whole-hand shapes, seeds 20261206 and 20261208); " +
+      "test-motion rows first, then whole-hand-shape rows, random-pose rows for the rest.",
     cells,
   };
 }
