@@ -137,12 +137,12 @@ export function correctGroupAngle(
   digit: Digit | null = null,
 ): number | null {
   const joint = fingerJointOfGroup(group);
-  const handShapes = joint ? (model.handShapeEstimators ?? []).filter((m) => m.fits[handModel]?.[joint]) : [];
-  if (joint && (model.fingerEstimator?.fits[handModel]?.[joint] || handShapes.length > 0)) {
+  const hasHandShape = Boolean(joint && model.handShapeEstimators?.some((m) => m.fits[handModel]?.[joint]));
+  if (joint && (model.fingerEstimator?.fits[handModel]?.[joint] || hasHandShape)) {
     if (!features.hand || !features.side || !digit || !FINGERS.includes(digit)) return null;
     // In its views a hand-shape estimator reads the frame or nobody does: the side-view fit was not chosen there.
-    const view = handShapes.length > 0 ? viewOfFeatures(features) : null;
-    const handShape = handShapes.find((m) => view !== null && m.views.includes(view));
+    const view = hasHandShape ? viewOfFeatures(features) : null;
+    const handShape = view === null ? undefined : model.handShapeEstimators!.find((m) => m.fits[handModel]?.[joint] && m.views.includes(view));
     if (handShape) return estimateHandShapeJointDeg(handShape, handModel, joint, features.hand, features.side, digit as Finger, features.axes);
     if (!model.fingerEstimator?.fits[handModel]?.[joint]) return null;
     return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes);

@@ -10,14 +10,14 @@
  *     renders and tracks the held-out set (seed HAND_SHAPE_HOLDOUT_SEED, never used for fitting or selection), scores
  *     raw and the estimator as the engine applies it, and writes vision/correction-hand-shape-validation.json.
  *   npx tsx scripts/accuracy/hand-shape-fit.ts side-check
+ *     through the engine's live pipeline, without and with the hand-shape estimator and its table cells: the
+ *     side-view test motions of the validation set (motions-20261202-360; the side views must read as before) and
+ *     the held-out whole-hand shapes (as the app would read them, depth mirror and measured view included).
  *
  * `--family down` (select, fit, holdout) works on the second fit instead: the same shapes seen from above the back of
  * a hand lying on a table (view `down`), trained on hand-shapes-down-77000103-300, held out on seed 20261208, written to
  * vision/correction-hand-shape-down.json and its -validation.json. The first fit (`front`: palm, back, oblique) is
  * left as it was, so its held-out figures stand.
- *     through the engine's live pipeline, without and with the hand-shape estimator and its table cells: the
- *     side-view test motions of the validation set (motions-20261202-360; the side views must read as before) and
- *     the held-out whole-hand shapes (as the app would read them, depth mirror and measured view included).
  *
  * Training sets must come from training seeds (77000xxx); any set of a 2026120x seed is refused here except by holdout.
  */
@@ -52,8 +52,7 @@ import { HUBER_DEG } from "./correction";
 import { correctionClearlyHelps, HAND_SHAPE_DOWN_VALIDATION_FILE, HAND_SHAPE_VALIDATION_FILE } from "./derive-uncertainty";
 import { fingerPoseKey, fitFingerJoint, loadTrackedSet, roundedFit } from "./estimator-fit";
 import { getPoseAngle } from "./hand-pose";
-import type { CameraView } from "./scene";
-import { HAND_SHAPE_DOWN_VIEWS, handShapeFrame, HAND_SHAPE_VIEWS as FRONT_FRAME_VIEWS } from "./motion-sets";
+import { HAND_SHAPE_DOWN_VIEWS, handShapeFrame } from "./motion-sets";
 import { loadHandRig } from "./rig-files";
 import { parseCount, parseModels } from "./run-accuracy";
 import { summarizeErrors, type ErrorSummary } from "./stats";
@@ -75,7 +74,6 @@ export interface HandShapeFamily {
   trainingSet: string;
   holdoutSeed: number;
   holdoutCount: number;
-  frameViews: readonly CameraView[];
   file: string;
   validationFile: string;
 }
@@ -86,17 +84,15 @@ export const HAND_SHAPE_FAMILIES: Record<HandShapeFamily["name"], HandShapeFamil
     trainingSet: "hand-shapes-77000102-600",
     holdoutSeed: HAND_SHAPE_HOLDOUT_SEED,
     holdoutCount: 300,
-    frameViews: FRONT_FRAME_VIEWS,
     file: HAND_SHAPE_FILE,
     validationFile: HAND_SHAPE_VALIDATION_FILE,
   },
   down: {
     name: "down",
-    views: ["down"],
+    views: HAND_SHAPE_DOWN_VIEWS,
     trainingSet: "hand-shapes-down-77000103-300",
     holdoutSeed: 20_261_208,
     holdoutCount: 300,
-    frameViews: HAND_SHAPE_DOWN_VIEWS,
     file: path.join(HERE, "..", "..", "vision", "correction-hand-shape-down.json"),
     validationFile: HAND_SHAPE_DOWN_VALIDATION_FILE,
   },
@@ -373,7 +369,7 @@ async function holdout(values: Record<string, string | boolean | undefined>, mod
     seed: family.holdoutSeed,
     count,
     models: parseModels(values.models as string | undefined),
-    makeFrame: (frameSeed, index) => handShapeFrame(rigs, frameSeed, index, family.frameViews),
+    makeFrame: (frameSeed, index) => handShapeFrame(rigs, frameSeed, index, family.views),
     reuse: Boolean(values.reuse),
   });
   const cells = scoreHoldout(set, model);
