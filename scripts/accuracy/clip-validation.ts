@@ -15,7 +15,7 @@
  * The seeds are held out: nothing is fitted on them (SEED_NOTES says what else each was used for).
  *
  *   npx tsx scripts/accuracy/clip-validation.ts [--clips 10] [--seeds 20261207,20261205] [--models lite,full] [--reuse]
- *     [--condition against_gravity|gravity_minimized]
+ *     [--condition against_gravity|gravity_minimized] [--motions wrist.flexion,wrist.extension] [--out FILE] [--per-clip]
  *
  * `--condition gravity_minimized` renders the same motions in the view the policy recommends with gravity minimized
  * (the thumb side, from above a hand resting on its edge) and writes clip-report-gravity-minimized.md instead.
@@ -101,8 +101,10 @@ export interface ClipPlan {
 /** Clip seeds per motion drawn up front, so a plan with more clips keeps the clips of a smaller one. */
 const SEEDS_PER_MOTION = 100;
 
-export function planClips(seed: number, count: number, condition: Condition = "against_gravity"): ClipPlan[] {
+export function planClips(seed: number, count: number, condition: Condition = "against_gravity", motions?: readonly MotionId[]): ClipPlan[] {
   if (count > SEEDS_PER_MOTION) throw new Error(`--clips: expected at most ${SEEDS_PER_MOTION}; got ${count}`);
+  const unknown = motions?.filter((motion) => !CLIP_MOTIONS.some((m) => m.motion === motion)) ?? [];
+  if (unknown.length) throw new Error(`--motions: expected some of ${CLIP_MOTIONS.map((m) => m.motion).join(", ")}; got ${unknown.join(", ")}`);
   // Render seeds from the set's own generator (as scene.ts frameSeeds): neighbouring seeds start xoroshiro128+ alike.
   const seeds = frameSeeds(seed, CLIP_MOTIONS.length * SEEDS_PER_MOTION);
   return CLIP_MOTIONS.flatMap((motion, m) =>
@@ -119,7 +121,7 @@ export function planClips(seed: number, count: number, condition: Condition = "a
       const name = condition === "against_gravity" ? `${motion.motion}-${seed}-${i}-${clipSeed}` : `${motion.motion}-gm-${seed}-${i}-${clipSeed}`;
       return { name, motion, side, view, condition, seed: clipSeed, toDeg, distanceM };
     }),
-  );
+  ).filter((plan) => !motions || motions.includes(plan.motion.motion));
 }
 
 interface ClipTruthFile {
@@ -261,6 +263,12 @@ export function readClip(
   };
 }
 
+/** One reading's line for `--per-clip`: where a group's error comes from. */
+function perClipLine(r: ClipReading): string {
+  const s = summarizeErrors(r.samples);
+  return `| ${r.plan.name} | ${r.model} | ${r.plan.side} | ${r.digit ?? "-"} | ${r.plan.toDeg.toFixed(0)} | ${r.truthPeakDeg.toFixed(1)} | ${fmt(r.peakDeg)} | ${fmt(s.meanAbsoluteErrorDeg)} | ${fmt(s.biasDeg)} | ${r.reps} | ${r.forearmSource ?? "-"} | ${r.method} |`;
+}
+
 export interface ClipRow {
   label: string;
   variant: ClipVariant;
@@ -349,8 +357,19 @@ export function clipReport(sections: readonly ClipSection[], meta: { glName: str
 
 async function main(): Promise<void> {
   const { values } = parseArgs({
-    options: { clips: { type: "string" }, seeds: { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" }, condition: { type: "string" } },
+    options: {
+      clips: { type: "string" },
+      seeds: { type: "string" },
+      models: { type: "string" },
+      reuse: { type: "boolean" },
+      condition: { type: "string" },
+      motions: { type: "string" },
+      out: { type: "string" },
+      "per-clip": { type: "boolean" },
+    },
   });
+  const motions = values.motions ? (values.motions.split(",") as MotionId[]) : undefined;
+  const perClip: string[] = [];
   const condition = (values.condition ?? "against_gravity") as Condition;
   if (!(condition in REPORT_FILES)) throw new Error(`--condition: expected against_gravity or gravity_minimized; got '${values.condition}'`);
   const clips = parseCount("clips", values.clips, 10);
@@ -361,19 +380,21 @@ async function main(): Promise<void> {
   for (const seed of seeds) {
     const folder = path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
     mkdirSync(folder, { recursive: true });
-    const plans = planClips(seed, clips, condition);
+    const plans = planClips(seed, clips, condition, motions);
     await renderClips(plans, folder, reuse);
     const rows: ClipRow[] = [];
     for (const model of models) {
       const tracked = await trackClips(plans, folder, model, reuse);
       for (const group of ["mcp.flexion", "pip.flexion", "dip.flexion", "wrist.flexion"] as const) {
         const groupPlans = plans.filter((plan) => plan.motion.bar === group);
+        if (!groupPlans.length) continue;
         const label = group === "wrist.flexion" ? "wrist flexion (+) / extension (-)" : groupPlans[0].motion.label;
         for (const variant of CLIP_VARIANTS) {
           const readings = groupPlans.flatMap((plan) => {
             const truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
             return plan.motion.digits.map((digit) => readClip(plan, model, digit, tracked.get(plan.name)!, truth, variant));
           });
+          if (values["per-clip"] && variant === "engine") perClip.push(...readings.map(perClipLine));
           rows.push({ label, variant, bar: group, view: groupPlans[0].view, model, ...summarizeClipReadings(readings) });
         }
       }
@@ -384,8 +405,9 @@ async function main(): Promise<void> {
   const glName = await renderer.glRenderer();
   await renderer.close();
   const text = clipReport(sections, { glName, condition });
-  writeFileSync(REPORT_FILES[condition], text);
+  writeFileSync(values.out ?? REPORT_FILES[condition], text);
   process.stdout.write(text);
+  if (perClip.length) process.stdout.write(["", "| clip | model | side | digit | to ° | truth peak ° | peak ° | frame MAE ° | bias ° | reps | forearm | method |", ...perClip, ""].join("\n"));
 }
 
 if (!process.env.VITEST) {
