@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { DIGIT_CHAIN, LANDMARK_COUNT } from "./landmarks";
-import { createLivePipeline } from "./pipeline";
+import { createLivePipeline, measurementMethodWords } from "./pipeline";
 import { UNCERTAINTY_TABLE } from "./uncertainty";
 import { neutralPose, poseHand, withMotionAngle } from "./testing/synthetic-hand";
 
@@ -85,5 +85,14 @@ describe("view quality of the frames and the capture", () => {
     const [ulnar, radial, palm] = (["ulnar", "radial", "palm"] as const).map((v) => captureIn(v).summary.uncertaintyDeg!);
     expect(ulnar).toBeLessThan(radial);
     expect(radial).toBeLessThan(palm);
+  });
+});
+
+describe("a stored attempt's method in words", () => {
+  it("says whether the angle came from 3-D landmarks, the correction (with its version) or the picture", () => {
+    expect(measurementMethodWords("image_plane")).toMatch(/in the picture.*side-on/);
+    expect(measurementMethodWords("world3d")).toMatch(/raw angles, no correction/);
+    expect(measurementMethodWords("world3d+kinarc-correction-4")).toBe("3-D hand landmarks, corrected (kinarc-correction-4)");
+    expect(measurementMethodWords(null)).toBe("—");
   });
 });

@@ -7,14 +7,22 @@ import { LANDMARK_COUNT } from "./landmarks";
 import { OneEuroFilter, type OneEuroParams } from "./one-euro";
 import { PlaneAccumulator, readPlane, unitGravity, type PlaneReading } from "./plane";
 import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
-import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
+import { add, isFiniteVec, normalize, scale, type Vec3 } from "./vec";
 import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, type CorrectionModel, type HandModel } from "./correction";
 import { angleUncertaintyDeg, correctionHelps, UNCERTAINTY_TABLE, type UncertaintyTable, type ValidationView } from "./uncertainty";
 import { viewName, viewOfAxes, viewPolicy, viewQuality, type ViewPolicy, type ViewQuality } from "./view-policy";
-import { forearmFromNeutral, neutralReadingUncertaintyDeg, WRIST_AXIS_VALIDATION, type ForearmSource, type NeutralReading, type WristAxisValidation } from "./wrist-axis";
+import { forearmFromNeutral, neutralReadingUncertaintyDeg, sideOnNeutral, sideOnWristFlexion, WRIST_AXIS_VALIDATION, type ForearmSource, type NeutralReading, type WristAxisValidation } from "./wrist-axis";
 
 /** How an angle was obtained: raw 3-D landmarks, or those corrected by a named correction ("world3d+kinarc-correction-2"). */
 export type MeasurementMethod = "world3d" | "image_plane" | `world3d+${string}`;
+
+/** A stored attempt's method in the therapist's words (the upload review shows it). */
+export function measurementMethodWords(method: string | null): string {
+  if (method === "image_plane") return "read in the picture, the hand seen side-on (no correction)";
+  if (method === "world3d") return "3-D hand landmarks (raw angles, no correction)";
+  if (method?.startsWith("world3d+")) return `3-D hand landmarks, corrected (${method.slice("world3d+".length)})`;
+  return method ?? "—";
+}
 
 export interface PipelineFrame {
   /** Milliseconds since the capture started. */
@@ -163,6 +171,11 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   const policy = viewPolicy(options.motion, options.condition, options.digit);
   const forearmCounts = new Map<ForearmSource, number>();
   const neutralForearm = options.neutral ? forearmFromNeutral(options.neutral) : null;
+  const readsInPicture = options.motion === "wrist.flexion" || options.motion === "wrist.extension";
+  let sideOn = readsInPicture ? (options.neutral?.sideOn ?? null) : null;
+  // Without a neutral reading the capture's first moments stand in for it, side-on figures included.
+  const startHands: HandLandmarks[] = [];
+  let pictureFrames = 0;
   const wristTable = options.wristAxisValidation ?? WRIST_AXIS_VALIDATION;
   let method: MeasurementMethod = "world3d";
   const palmContinuity = new PalmContinuity(options.side);
@@ -199,6 +212,10 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     if (frame.t - neutralStartMs <= neutralWindowMs) {
       neutralSum = add(neutralSum, longAxis);
       neutral = normalize(neutralSum);
+      if (readsInPicture && frame.hand) {
+        startHands.push(frame.hand);
+        sideOn = sideOnNeutral(startHands);
+      }
     }
     return { direction: neutral, source: "capture-start" };
   }
@@ -216,13 +233,20 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     if (!Number.isNaN(lastUsableMs) && frame.t - lastUsableMs > maxGapMs) palmContinuity.reset();
     const { hand, axes } = options.depthMirror === false ? { hand: frame.hand, axes: seenAxes } : palmContinuity.check(frame.hand, seenAxes);
     const forearm = isWrist ? forearmFor(frame, axes.longAxis) : null;
-    const reading = readMotion(options.motion, options.digit, hand, axes, forearm?.direction ?? null);
+    // Against a side-on neutral reading, wrist flexion and extension are read in the picture (vision/wrist-axis.ts).
+    const pictureFlexion = forearm && forearm.source !== "pose" && sideOn ? sideOnWristFlexion(hand, sideOn) : null;
+    const reading = pictureFlexion
+      ? options.motion === "wrist.extension"
+        ? { ...pictureFlexion, deg: -pictureFlexion.deg, imagePlaneDeg: -pictureFlexion.imagePlaneDeg, travel: scale(pictureFlexion.travel, -1) }
+        : pictureFlexion
+      : readMotion(options.motion, options.digit, hand, axes, forearm?.direction ?? null);
     if (!reading || !Number.isFinite(reading.deg)) return skipped(frame.t, score, "degenerate");
     if (forearm) forearmCounts.set(forearm.source, (forearmCounts.get(forearm.source) ?? 0) + 1);
 
     const view = viewOfAxes(axes);
     let angleDeg = reading.deg;
-    let frameMethod: MeasurementMethod = "world3d";
+    let frameMethod: MeasurementMethod = pictureFlexion ? "image_plane" : "world3d";
+    if (pictureFlexion) pictureFrames += 1;
     // The correction's wrist maps were fitted on angles read against the render's true forearm; against a neutral reading
     // it moves them away from the truth (scripts/accuracy/report.md, wrist section), so they stay raw.
     const againstNeutral = forearm?.source === "neutral-reading";
@@ -267,7 +291,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       method: frameMethod,
       // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
       uncertaintyDeg:
-        (againstNeutral ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable) : null) ??
+        (againstNeutral ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable, table) : null) ??
         angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
       view,
       viewQuality: viewQuality(policy, view),
@@ -311,7 +335,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       warnings.push(`forearm line: ${[...forearmCounts].map(([source, n]) => `${source} in ${n} frames`).join(", ")} (the pose landmarker saw the elbow only part of the time)`);
     }
     const meanUsableScore = usable ? usableScoreSum / usable : 0;
-    const summaryMethod: MeasurementMethod = correctedFrames > 0 ? correctedMethod : "world3d";
+    const summaryMethod: MeasurementMethod = correctedFrames > 0 ? correctedMethod : pictureFrames > 0 ? "image_plane" : "world3d";
     return {
       frames,
       usableFrames: usable,
@@ -320,7 +344,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       plane: repPlane.empty ? allFramesPlane.result() : repPlane.result(),
       method: summaryMethod,
       uncertaintyDeg: usable
-        ? ((forearmSource === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, meanUsableScore, wristTable) : null) ??
+        ? ((forearmSource === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, meanUsableScore, wristTable, table) : null) ??
           angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames === usable ? "engine" : "raw"))
         : null,
       view,

@@ -30,6 +30,13 @@ export interface ValidationCell {
    * uncertainty takes the worse of the two.
    */
   rawAnyPoseMaeDeg?: number;
+  /**
+   * Where held-out clips measured the cell (continuous motion, scripts/accuracy/clip-report*.md): the engine's frame
+   * MAE, the worst over the clip reports' seeds, and the same without correction. The interval takes the worse of the
+   * still renders' and the clips' figure: a continuous motion can read worse than the stills.
+   */
+  clipMaeDeg?: number;
+  clipRawMaeDeg?: number;
   /** The correction lowered the held-out mean absolute error here, so the engine applies it. */
   correctionHelps: boolean;
   /** Half-width of the 90% interval for the method the engine uses here (see UncertaintyTable.rule). */
@@ -77,7 +84,7 @@ export type UncertaintyMethod = "engine" | "raw";
 
 function cellUncertaintyDeg(cell: ValidationCell, method: UncertaintyMethod): number {
   if (method === "engine") return cell.uncertaintyDeg;
-  return Math.round(uncertaintyFromMaeDeg(Math.max(cell.rawMaeDeg, cell.rawAnyPoseMaeDeg ?? 0)) * 10) / 10;
+  return Math.round(uncertaintyFromMaeDeg(Math.max(cell.rawMaeDeg, cell.rawAnyPoseMaeDeg ?? 0, cell.clipRawMaeDeg ?? 0)) * 10) / 10;
 }
 
 /**

@@ -1,10 +1,11 @@
 import type { MotionId, Side } from "@/lib/motions/catalog";
 import { correctionGroupFor, type HandModel } from "./correction";
 import { handAxes } from "./angles";
-import { LANDMARK_COUNT, type HandLandmarks } from "./landmarks";
-import { add, angleBetweenDeg, cross, isFiniteVec, normalize, rejectFrom, scale, type Vec3 } from "./vec";
+import type { MotionReading } from "./angles";
+import { INDEX_MCP, LANDMARK_COUNT, LITTLE_MCP, MIDDLE_MCP, THUMB_IP, THUMB_MCP, THUMB_TIP, WRIST, type HandLandmarks } from "./landmarks";
+import { add, angleBetweenDeg, cross, isFiniteVec, normalize, RAD_TO_DEG, rejectFrom, scale, type Vec3 } from "./vec";
 import { viewOfAxes } from "./view-policy";
-import { trackingFactor, uncertaintyFromMaeDeg, type ValidationView } from "./uncertainty";
+import { trackingFactor, UNCERTAINTY_TABLE, uncertaintyFromMaeDeg, type UncertaintyTable, type ValidationView } from "./uncertainty";
 import VALIDATION from "./wrist-axis-validation.json";
 
 /**
@@ -53,6 +54,80 @@ export interface NeutralReading {
   spreadDeg: number;
   /** The camera view of the hand at neutral (the engine's classifier). */
   view: ValidationView;
+  /** Set when the hand was seen side-on: wrist flexion and extension are then read in the picture (`sideOnWristFlexion`). */
+  sideOn: SideOnNeutral | null;
+}
+
+/**
+ * A straight wrist seen side-on: the hand's width along the camera's line of sight, so wrist flexion and extension turn
+ * the hand in the picture. The landmark model places the hand's depth least surely, and the 3-D hand frame is built
+ * across the hand's width (index to little-finger knuckle), which side-on lies along the depth: a few millimetres of
+ * depth error turn the palm's direction by tens of degrees and the 3-D wrist angle with it (held-out thumb-side clips:
+ * MAE 14-25 degrees, slope 0.34 down to -0.27). In the picture the hand's long axis turns by the wrist angle itself.
+ */
+export interface SideOnNeutral {
+  /** Mean wrist-to-middle-knuckle direction in the picture plane (x right, y down), unit. */
+  longAxisXY: [number, number];
+  /** +1 when turning the long axis from x toward y (clockwise on screen) bends the wrist toward the palm, else -1. */
+  palmarTurn: 1 | -1;
+  /** Mean in-picture hand width (index to little-finger knuckle) over in-picture hand length (wrist to middle knuckle). */
+  widthRatio: number;
+  /** Mean offset of the thumb (MCP, IP, tip) from the long axis, toward the palm, metres. */
+  thumbOffsetM: number;
+}
+
+/**
+ * When a neutral reading counts as side-on. A hand seen from the palm or the back shows its width about 0.8 of its
+ * length (index to little-finger knuckle about 7-8 cm, wrist to middle knuckle about 9-10 cm [common anthropometry,
+ * from memory]); side-on the width nearly vanishes (training clips, seed 77000401: 0.01-0.34). The thumb rests in front
+ * of the palm, so its side of the long axis in the picture is the palm's side: at least 5 mm off the axis, or the
+ * reading is not side-on enough to tell (training clips: 12-49 mm, the right side every time). Kinarc's rule.
+ */
+export const SIDE_ON_LIMITS = { maxWidthRatio: 0.45, minThumbOffsetM: 0.005 } as const;
+
+function pictureAxis(hand: HandLandmarks): [number, number] | null {
+  const x = hand[MIDDLE_MCP][0] - hand[WRIST][0];
+  const y = hand[MIDDLE_MCP][1] - hand[WRIST][1];
+  const length = Math.hypot(x, y);
+  return length > 1e-9 ? [x / length, y / length] : null;
+}
+
+/** The side-on figures of a neutral reading's frames, or null when the hand was not seen side-on. */
+export function sideOnNeutral(hands: readonly HandLandmarks[]): SideOnNeutral | null {
+  let sx = 0;
+  let sy = 0;
+  let widthRatio = 0;
+  let thumb = 0;
+  let n = 0;
+  for (const hand of hands) {
+    const u = pictureAxis(hand);
+    if (!u) continue;
+    const length = Math.hypot(hand[MIDDLE_MCP][0] - hand[WRIST][0], hand[MIDDLE_MCP][1] - hand[WRIST][1]);
+    sx += u[0];
+    sy += u[1];
+    widthRatio += Math.hypot(hand[INDEX_MCP][0] - hand[LITTLE_MCP][0], hand[INDEX_MCP][1] - hand[LITTLE_MCP][1]) / length;
+    // Perpendicular (-u_y, u_x): the long axis turned a quarter clockwise on screen.
+    for (const k of [THUMB_MCP, THUMB_IP, THUMB_TIP]) thumb += (-u[1] * (hand[k][0] - hand[WRIST][0]) + u[0] * (hand[k][1] - hand[WRIST][1])) / 3;
+    n += 1;
+  }
+  const length = Math.hypot(sx, sy);
+  if (n === 0 || length < 1e-9) return null;
+  const out: SideOnNeutral = { longAxisXY: [sx / length, sy / length], palmarTurn: thumb >= 0 ? 1 : -1, widthRatio: widthRatio / n, thumbOffsetM: Math.abs(thumb / n) };
+  return out.widthRatio <= SIDE_ON_LIMITS.maxWidthRatio && out.thumbOffsetM >= SIDE_ON_LIMITS.minThumbOffsetM ? out : null;
+}
+
+/**
+ * Wrist flexion (+) / extension (-) of a hand against a side-on neutral reading, read in the picture: the turn of the
+ * wrist-to-middle-knuckle line from its neutral direction, toward the palm positive. The motion's axis is the line of
+ * sight (for the plane check), its travel the palm's side in the picture. Null when the hand has no length in the picture.
+ */
+export function sideOnWristFlexion(hand: HandLandmarks, neutral: SideOnNeutral): MotionReading | null {
+  const u = pictureAxis(hand);
+  if (!u) return null;
+  const [fx, fy] = neutral.longAxisXY;
+  const deg = neutral.palmarTurn * Math.atan2(fx * u[1] - fy * u[0], fx * u[0] + fy * u[1]) * RAD_TO_DEG;
+  const p = neutral.palmarTurn;
+  return { deg, imagePlaneDeg: deg, axis: [0, 0, p], travel: [-u[1] * p, u[0] * p, 0] };
 }
 
 export const NEUTRAL_LIMITS = {
@@ -87,8 +162,8 @@ export function neutralReading(frames: readonly NeutralFrame[], side: Side, limi
   const l = { ...NEUTRAL_LIMITS, ...limits };
   const axes = frames
     .filter((f) => Number.isFinite(f.score) && f.score >= l.minScore && usableHand(f.hand))
-    .map((f) => ({ t: f.t, axes: handAxes(f.hand!, side) }))
-    .filter((f): f is { t: number; axes: NonNullable<ReturnType<typeof handAxes>> } => f.axes !== null);
+    .map((f) => ({ t: f.t, hand: f.hand!, axes: handAxes(f.hand!, side) }))
+    .filter((f): f is { t: number; hand: HandLandmarks; axes: NonNullable<ReturnType<typeof handAxes>> } => f.axes !== null);
   if (axes.length < l.minFrames) {
     return { ok: false, problem: `the hand was tracked in ${axes.length} of ${frames.length} frames; at least ${l.minFrames} are needed. Keep the whole hand in the picture.` };
   }
@@ -119,9 +194,10 @@ export function neutralReading(frames: readonly NeutralFrame[], side: Side, limi
   const rc = cross(radialAxis, longAxis);
   const palmarNormal = side === "right" ? rc : scale(rc, -1);
   const view = viewOfAxes({ wrist: [0, 0, 0], longAxis, radialAxis, palmarNormal, flexionAxis: cross(longAxis, palmarNormal) });
+  const sideOn = sideOnNeutral(axes.map((a) => a.hand));
   return {
     ok: true,
-    reading: { side, longAxis, radialAxis, palmarNormal, usableFrames: axes.length, frames: frames.length, durationMs, spreadDeg, view },
+    reading: { side, longAxis, radialAxis, palmarNormal, usableFrames: axes.length, frames: frames.length, durationMs, spreadDeg, view, sideOn },
   };
 }
 
@@ -159,7 +235,9 @@ export const WRIST_AXIS_VALIDATION = VALIDATION as WristAxisValidation;
 /**
  * The 90% half-width for a wrist angle read against a neutral reading: the cell's MAE through the same rule as every
  * other angle (vision/uncertainty.ts uncertaintyFromMaeDeg, widened by trackingFactor). With no view, the worst cell
- * of the group and model. Null when the table has no cell for the motion's group (the caller falls back).
+ * of the group and model. Held-out clips read their wrist against the clip's own straight-wrist reading, so where the
+ * uncertainty table has a clip figure for the group, model and view (clipMaeDeg) the worse of the two is taken.
+ * Null when the table has no cell for the motion's group (the caller falls back).
  */
 export function neutralReadingUncertaintyDeg(
   motion: MotionId,
@@ -167,11 +245,14 @@ export function neutralReadingUncertaintyDeg(
   view: ValidationView | null,
   score: number,
   table: WristAxisValidation = WRIST_AXIS_VALIDATION,
+  uncertaintyTable: UncertaintyTable = UNCERTAINTY_TABLE,
 ): number | null {
   const group = correctionGroupFor(motion, null)?.group;
   if (!group) return null;
-  const cells = table.cells.filter((c) => c.group === group && c.model === model && (view === null || c.view === view));
+  const matches = (c: { group: string; model: HandModel; view: ValidationView }) => c.group === group && c.model === model && (view === null || c.view === view);
+  const cells = table.cells.filter(matches);
   if (cells.length === 0) return null;
-  const mae = Math.max(...cells.map((c) => c.maeDeg));
+  const clipMaes = uncertaintyTable.cells.filter(matches).map((c) => c.clipMaeDeg ?? 0);
+  const mae = Math.max(...cells.map((c) => c.maeDeg), ...clipMaes);
   return Math.round(uncertaintyFromMaeDeg(mae) * trackingFactor(score) * 10) / 10;
 }

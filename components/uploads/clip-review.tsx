@@ -13,6 +13,7 @@ import { frameIndexAt, type ClipReviewTrace } from "@/lib/uploads/clip-review";
 import { clipTarget, type ClipTarget } from "@/lib/uploads/clip-target";
 import { FOREARM_LINE_WORDS } from "@/components/visit-room/neutral-reading";
 import { FOREARM_SOURCES, type ForearmSource } from "@/vision/wrist-axis";
+import { measurementMethodWords } from "@/vision/pipeline";
 import { ClipAnalyzer, type ClipToAnalyze } from "./clip-analyzer";
 
 export interface ClipReviewProps {
@@ -150,8 +151,7 @@ export function ClipReview({ upload, attempt, trace, digits, positions }: ClipRe
             <div>
               <dt className="text-ink-soft">Method</dt>
               <dd>
-                {attempt.method ?? "—"}
-                {attempt.correctionVersion ? "" : " (raw angles, no correction)"}
+                {measurementMethodWords(attempt.method)}
               </dd>
             </div>
           </dl>

@@ -1,13 +1,46 @@
 import { readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { UNCERTAINTY_TABLE } from "@/vision/uncertainty";
-import { ABS_ERROR_SD_PER_MEAN, correctionClearlyHelps, deriveUncertaintyTable, parseAccuracyReport, readHandShapeRows, REPORT_FILE } from "./derive-uncertainty";
+import { CORRECTION_VERSION } from "@/vision/correction";
+import {
+  ABS_ERROR_SD_PER_MEAN,
+  CLIP_REPORT_FILES,
+  correctionClearlyHelps,
+  deriveUncertaintyTable,
+  parseAccuracyReport,
+  parseClipReports,
+  readClipRows,
+  readHandShapeRows,
+  REPORT_FILE,
+} from "./derive-uncertainty";
 
 describe("uncertainty table from the accuracy report", () => {
   const report = parseAccuracyReport(readFileSync(REPORT_FILE, "utf8"));
 
   it("the committed table is exactly what the committed report gives (re-run derive-uncertainty after the report)", () => {
-    expect(deriveUncertaintyTable(report, readHandShapeRows())).toEqual(UNCERTAINTY_TABLE);
+    expect(deriveUncertaintyTable(report, readHandShapeRows(), CORRECTION_VERSION, readClipRows())).toEqual(UNCERTAINTY_TABLE);
+  });
+
+  it("reads the clip reports' engine and raw rows, the worse over their seeds", () => {
+    const rows = readClipRows();
+    // scripts/accuracy/clip-report.md: PIP flexion, ulnar, lite, engine 6.52 (seed 20261207) and 6.34 (seed 20261205).
+    const pip = rows.find((r) => r.group === "PIP flexion" && r.view === "ulnar" && r.model === "lite")!;
+    const againstGravity = readFileSync(CLIP_REPORT_FILES[0], "utf8");
+    const engineMaes = [...againstGravity.matchAll(/^\| PIP flexion \| ulnar \| lite \| engine \|(?:[^|]*\|){4}\s*([\d.]+)\s*\|/gm)].map((m) => Number(m[1]));
+    expect(engineMaes.length).toBeGreaterThanOrEqual(2);
+    expect(pip.engineMaeDeg).toBe(Math.max(...engineMaes));
+    expect(pip.rawMaeDeg).toBeGreaterThan(pip.engineMaeDeg);
+    // The gravity-minimized report adds the thumb-side view.
+    expect(rows.some((r) => r.view === "radial" && r.group === "MCP flexion")).toBe(true);
+  });
+
+  it("names the clip row whose MAE is not a number", () => {
+    const table = [
+      "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope |",
+      "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: |",
+      "| PIP flexion | ulnar | lite | engine | 40 | 100 | 99% | 0.1 | x | 0.9 |",
+    ].join("\n");
+    expect(() => parseClipReports([table])).toThrow(/PIP flexion, ulnar, lite, engine.*expected a number of degrees for MAE, got "x"/);
   });
 
   it("reads the report's own rows: PIP flexion, ulnar view, lite model, 27.6 raw and 5.1 corrected", () => {

@@ -20,6 +20,56 @@ export const UNCERTAINTY_VERSION = "kinarc-uncertainty-1";
 export const HAND_SHAPE_VALIDATION_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape-validation.json");
 export const HAND_SHAPE_DOWN_VALIDATION_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape-down-validation.json");
 export const HAND_SHAPE_VALIDATION_FILES = [HAND_SHAPE_VALIDATION_FILE, HAND_SHAPE_DOWN_VALIDATION_FILE] as const;
+/** The held-out clip reports (scripts/accuracy/clip-validation.ts), one per condition. */
+export const CLIP_REPORT_FILES = [path.join(HERE, "clip-report.md"), path.join(HERE, "clip-report-gravity-minimized.md")] as const;
+
+/** A held-out clip figure: the worst frame MAE over the reports' seeds for one group, view and model. */
+export interface ClipRow {
+  group: string;
+  view: string;
+  model: string;
+  /** The engine as shipped (correction where it helps, depth mirror on). */
+  engineMaeDeg: number;
+  /** No correction, no depth mirror. */
+  rawMaeDeg: number;
+}
+
+/**
+ * The clip reports' frame MAE per group, view and model, the worst over their seeds (and reports), for the engine and
+ * raw readings. Throws naming the row when a figure is not a number.
+ */
+export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
+  const rows = new Map<string, ClipRow>();
+  for (const markdown of markdowns) {
+    let columns: string[] | null = null;
+    for (const line of markdown.split("\n")) {
+      const text = line.trim();
+      if (!text.startsWith("|")) continue;
+      const cells = text.split("|").slice(1, -1).map((c) => c.trim());
+      if (cells[0] === "motion") {
+        columns = cells;
+        continue;
+      }
+      if (!columns || cells[0].startsWith("---")) continue;
+      const at = (name: string) => cells[columns!.indexOf(name)];
+      const reading = at("reading");
+      if (reading !== "engine" && reading !== "raw") continue;
+      const mae = Number(at("MAE °"));
+      if (!Number.isFinite(mae)) throw new Error(`clip report: row "${cells.slice(0, 4).join(", ")}": expected a number of degrees for MAE, got "${at("MAE °")}"`);
+      const key = `${cells[0]}|${at("view")}|${at("model")}`;
+      const row = rows.get(key) ?? { group: cells[0], view: at("view"), model: at("model"), engineMaeDeg: 0, rawMaeDeg: 0 };
+      if (reading === "engine") row.engineMaeDeg = Math.max(row.engineMaeDeg, mae);
+      else row.rawMaeDeg = Math.max(row.rawMaeDeg, mae);
+      rows.set(key, row);
+    }
+  }
+  return [...rows.values()];
+}
+
+/** The committed clip reports' rows (none for a report not yet written). */
+export function readClipRows(files: readonly string[] = CLIP_REPORT_FILES): ClipRow[] {
+  return parseClipReports(files.filter((file) => existsSync(file)).map((file) => readFileSync(file, "utf8")));
+}
 
 /** A held-out cell of the whole-hand shapes: the figures the table needs. */
 export interface HandShapeRow {
@@ -113,7 +163,9 @@ export function deriveUncertaintyTable(
   report: ReturnType<typeof parseAccuracyReport>,
   handShapeRows: readonly HandShapeRow[] = [],
   correctionVersion: string = CORRECTION_VERSION,
+  clipRows: readonly ClipRow[] = [],
 ): UncertaintyTable {
+  const clips = new Map(clipRows.map((r) => [`${r.group}|${r.view}|${r.model}`, r]));
   const cells: ValidationCell[] = [];
   const taken = new Set<string>();
   const handShapes = {
@@ -132,6 +184,8 @@ export function deriveUncertaintyTable(
       const helps = correctedMae !== null && correctionClearlyHelps(raw.maeDeg, correctedMae, raw.samples);
       taken.add(key);
       const anyPose = source === "hand shapes" ? report["random poses"]["raw 3-D"].find((r) => `${r.group}|${r.view}|${r.model}` === key)?.maeDeg : null;
+      const clip = clips.get(key);
+      const stillMae = helps ? correctedMae! : Math.max(raw.maeDeg, anyPose ?? 0);
       cells.push({
         group: raw.group,
         view: raw.view as ValidationView,
@@ -141,8 +195,9 @@ export function deriveUncertaintyTable(
         rawMaeDeg: raw.maeDeg,
         correctedMaeDeg: correctedMae,
         ...(anyPose !== null && anyPose !== undefined ? { rawAnyPoseMaeDeg: anyPose } : {}),
+        ...(clip ? { clipMaeDeg: clip.engineMaeDeg, clipRawMaeDeg: clip.rawMaeDeg } : {}),
         correctionHelps: helps,
-        uncertaintyDeg: round1(uncertaintyFromMaeDeg(helps ? correctedMae! : Math.max(raw.maeDeg, anyPose ?? 0))),
+        uncertaintyDeg: round1(uncertaintyFromMaeDeg(Math.max(stillMae, clip?.engineMaeDeg ?? 0))),
       });
     }
   }
@@ -153,10 +208,12 @@ export function deriveUncertaintyTable(
       "uncertaintyDeg = 1.645 * sqrt(pi/2) * MAE (90% interval half-width of a normal error with that mean absolute error) " +
       "of the method the engine uses in the cell: corrected where the correction's held-out MAE is below the raw 3-D MAE by more than two standard errors " +
       "(for whole-hand-shape cells, raw frames take the worse of the hand-shape and random-pose raw MAE, rawAnyPoseMaeDeg) " +
-      "(SE = 0.755 * raw MAE / sqrt(samples)), raw 3-D otherwise. " +
+      "(SE = 0.755 * raw MAE / sqrt(samples)), raw 3-D otherwise; where held-out clips measured the cell (clipMaeDeg, the engine's worst frame MAE over " +
+      "the clip reports' seeds; clipRawMaeDeg without correction), the worse of the still and clip figures. " +
       "Source: scripts/accuracy/report.md (held-out renders) and vision/correction-hand-shape-validation.json and " +
       "correction-hand-shape-down-validation.json (held-out whole-hand shapes, seeds 20261206 and 20261208); " +
-      "test-motion rows first, then whole-hand-shape rows, random-pose rows for the rest.",
+      "test-motion rows first, then whole-hand-shape rows, random-pose rows for the rest; scripts/accuracy/clip-report.md and " +
+      "clip-report-gravity-minimized.md (held-out clips, continuous motion, each motion in its recommended view).",
     cells,
   };
 }
@@ -172,7 +229,7 @@ export function readHandShapeRows(files: readonly string[] = HAND_SHAPE_VALIDATI
 }
 
 function main(): void {
-  const table = deriveUncertaintyTable(parseAccuracyReport(readFileSync(REPORT_FILE, "utf8")), readHandShapeRows());
+  const table = deriveUncertaintyTable(parseAccuracyReport(readFileSync(REPORT_FILE, "utf8")), readHandShapeRows(), CORRECTION_VERSION, readClipRows());
   writeFileSync(UNCERTAINTY_FILE, `${JSON.stringify(table, null, 2)}\n`);
   const applied = table.cells.filter((c) => c.correctionHelps).length;
   console.log(`${table.cells.length} cells, correction applied in ${applied}`);

@@ -259,6 +259,9 @@ export function wristRows(stills: readonly TrackedStill[]): WristRow[] {
         for (const method of ["raw", "engine", "corrected", "fitted"] as const) {
           for (const source of ["true forearm (pose stand-in)", "neutral-reading"] as const) {
             if (method === "fitted" && source !== "neutral-reading") continue;
+            // The fitted lines map the 3-D reading; flexion/extension against a side-on neutral reading is read in the
+            // picture now, so its lines no longer apply (they were evidence only, never used by the engine).
+            if (method === "fitted" && group.motion === "wrist.flexion") continue;
             const neutral = source === "neutral-reading" ? (landmarks === "tracked" ? trackedNeutral : exactNeutral) : null;
             const forearm = source === "true forearm (pose stand-in)" ? still.truth.forearmCameraDir : null;
             const c = cell([group.label, view, model, source, method, landmarks].join("|"));
@@ -354,8 +357,9 @@ export function wristSectionMarkdown(options: {
       "seen from above; deviation: looking down, or facing the back of the hand).",
     "- Tracking: the app's own code (vision/live through tests/harness/tracking), one frame per still as in the main report. Angles: the engine's " +
       "pipeline (vision/pipeline) frame by frame; `raw` = correction off, `engine` = as shipped (the correction where the validation table says it " +
-      "helps, never on angles read against a neutral reading), `fitted` = a line per group, measured view and model from the raw reading to the " +
-      "truth, fitted on training seed 77000301 by scripts/accuracy/wrist-fit.ts (scripts/accuracy/wrist-neutral-fit.json; not used by the " +
+      "helps, never on angles read against a neutral reading; flexion/extension against a side-on neutral reading is read in the picture, " +
+      "vision/wrist-axis.ts sideOnWristFlexion, and `raw` does the same), `fitted` = a line per group, measured view and model from the raw 3-D reading to the " +
+      "truth (deviation only: flexion/extension is read in the picture since), fitted on training seed 77000301 by scripts/accuracy/wrist-fit.ts (scripts/accuracy/wrist-neutral-fit.json; not used by the " +
       "engine: it did not carry over to these held-out trials), " +
       `\`corrected\` = the correction (${CORRECTION_MODEL.version}) applied to every reading, the evidence for never applying it against a neutral reading.`,
     "- Forearm sources: `true forearm (pose stand-in)` gives the engine the render's forearm line, as a pose landmarker that saw the elbow perfectly " +

@@ -3,6 +3,7 @@ import { describe, expect, it } from "vitest";
 import { parseCapture } from "@/lib/capture/parse";
 import type { MotionId, Side } from "@/lib/motions/catalog";
 import { analyzeCapture } from "@/vision/analyze-capture";
+import { MIDDLE_MCP, WRIST } from "@/vision/landmarks";
 import { neutralPose, poseHand, SeededRandom, withMotionAngle, type Placement } from "@/vision/testing/synthetic-hand";
 import type { Vec3 } from "@/vision/vec";
 import { CLIP_NEUTRAL, clipCapture, clipStartNeutral } from "./clip-capture";
@@ -92,8 +93,19 @@ describe("clip capture with the reading", () => {
     expect(analysis.forearmSource).toBe("neutral-reading");
     expect(analysis.neutral?.usableFrames).toBe(91);
     expect(analysis.reps).toBe(1);
-    // Exact synthetic geometry with 1 mm jitter: the peak is the commanded 60 degrees within 3.
-    expect(Math.abs(analysis.peakDeg! - 60)).toBeLessThan(3);
+    // The hand is seen nearly side-on (its width about 25 degrees off the line of sight), so the engine reads the wrist in
+    // the picture (vision/wrist-axis.ts sideOnWristFlexion): what a protractor held to the screen shows. That is the
+    // turn of the wrist-to-middle-knuckle line between the noise-free straight and 60-degree hands, projected; the tilt
+    // stretches 60 degrees by a few. With 1 mm jitter the peak is that angle within 2.
+    expect(analysis.method).toBe("image_plane");
+    const line = (deg: number) => {
+      const hand = poseHand(withMotionAngle(neutralPose(), "wrist.flexion", null, deg), "right", placement("right")).landmarks;
+      return Math.atan2(hand[MIDDLE_MCP][1] - hand[WRIST][1], hand[MIDDLE_MCP][0] - hand[WRIST][0]);
+    };
+    const pictureDeg = Math.abs(((line(60) - line(0)) * 180) / Math.PI);
+    expect(pictureDeg).toBeGreaterThan(60);
+    expect(pictureDeg).toBeLessThan(66);
+    expect(Math.abs(analysis.peakDeg! - pictureDeg)).toBeLessThan(2);
   });
 
   it("falls back to the capture's start when the clip starts moving, and leaves finger clips alone", () => {
