@@ -15,6 +15,8 @@ export interface CaptureInput {
   condition: Condition;
   gravity?: Vec3 | null;
   frames: readonly PipelineFrame[];
+  /** The picture's width over its height, when the frames carry picture points (`image`). */
+  imageAspect?: number;
   /** Frames of a neutral reading taken before the attempt (wrist straight, forearm resting still), when one was. */
   neutral?: { frames: readonly NeutralFrame[] } | null;
 }
@@ -83,6 +85,7 @@ export function analyzeCapture(capture: CaptureInput, { onUpdate, ...options }: 
     digit: capture.digit,
     condition: capture.condition,
     gravity: capture.gravity ?? null,
+    imageAspect: capture.imageAspect ?? null,
   });
   capture.frames.forEach((frame, index) => {
     const update = pipeline.push(frame);

@@ -5,6 +5,7 @@ import { PalmContinuity } from "./depth-mirror";
 import type { HandLandmarks } from "./landmarks";
 import { LANDMARK_COUNT } from "./landmarks";
 import { OneEuroFilter, type OneEuroParams } from "./one-euro";
+import { pictureMcpFlexion, readsInPicture } from "./picture-angles";
 import { PlaneAccumulator, readPlane, unitGravity, type PlaneReading } from "./plane";
 import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
 import { add, isFiniteVec, normalize, scale, type Vec3 } from "./vec";
@@ -32,6 +33,10 @@ export interface PipelineFrame {
   hand: HandLandmarks | null;
   /** Unit vector from elbow to wrist, camera axes, when the elbow is in view. */
   forearm?: Vec3 | null;
+  /** The 21 landmarks in the picture, [x, y] as fractions of its width and height (with `imageAspect`). */
+  image?: readonly (readonly number[])[] | null;
+  /** The picture's width over its height for this frame (a live camera's); else the options' `imageAspect`. */
+  imageAspect?: number;
 }
 
 export interface LivePipelineOptions {
@@ -39,6 +44,8 @@ export interface LivePipelineOptions {
   side: Side;
   digit: Digit | null;
   condition: Condition;
+  /** The picture's width over its height: with it, frames' `image` points can be read as angles (vision/picture-angles.ts). */
+  imageAspect?: number | null;
   /** Gravity in camera axes; straight down the image when not given. */
   gravity?: Vec3 | null;
   /** Frames scoring below this are skipped, never read as a zero angle. */
@@ -171,11 +178,12 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   const policy = viewPolicy(options.motion, options.condition, options.digit);
   const forearmCounts = new Map<ForearmSource, number>();
   const neutralForearm = options.neutral ? forearmFromNeutral(options.neutral) : null;
-  const readsInPicture = options.motion === "wrist.flexion" || options.motion === "wrist.extension";
-  let sideOn = readsInPicture ? (options.neutral?.sideOn ?? null) : null;
+  const wristInPicture = options.motion === "wrist.flexion" || options.motion === "wrist.extension";
+  let sideOn = wristInPicture ? (options.neutral?.sideOn ?? null) : null;
   // Without a neutral reading the capture's first moments stand in for it, side-on figures included.
   const startHands: HandLandmarks[] = [];
   let pictureFrames = 0;
+  const pictureMcp = readsInPicture(options.motion, options.condition);
   const wristTable = options.wristAxisValidation ?? WRIST_AXIS_VALIDATION;
   let method: MeasurementMethod = "world3d";
   const palmContinuity = new PalmContinuity(options.side);
@@ -212,7 +220,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     if (frame.t - neutralStartMs <= neutralWindowMs) {
       neutralSum = add(neutralSum, longAxis);
       neutral = normalize(neutralSum);
-      if (readsInPicture && frame.hand) {
+      if (wristInPicture && frame.hand) {
         startHands.push(frame.hand);
         sideOn = sideOnNeutral(startHands);
       }
@@ -234,23 +242,30 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     const { hand, axes } = options.depthMirror === false ? { hand: frame.hand, axes: seenAxes } : palmContinuity.check(frame.hand, seenAxes);
     const forearm = isWrist ? forearmFor(frame, axes.longAxis) : null;
     // Against a side-on neutral reading, wrist flexion and extension are read in the picture (vision/wrist-axis.ts).
-    const pictureFlexion = forearm && forearm.source !== "pose" && sideOn ? sideOnWristFlexion(hand, sideOn) : null;
-    const reading = pictureFlexion
+    const pictureWrist = forearm && forearm.source !== "pose" && sideOn ? sideOnWristFlexion(hand, sideOn) : null;
+    const pictureFlexion = pictureWrist
       ? options.motion === "wrist.extension"
-        ? { ...pictureFlexion, deg: -pictureFlexion.deg, imagePlaneDeg: -pictureFlexion.imagePlaneDeg, travel: scale(pictureFlexion.travel, -1) }
-        : pictureFlexion
-      : readMotion(options.motion, options.digit, hand, axes, forearm?.direction ?? null);
+        ? { ...pictureWrist, deg: -pictureWrist.deg, imagePlaneDeg: -pictureWrist.imagePlaneDeg, travel: scale(pictureWrist.travel, -1) }
+        : pictureWrist
+      : null;
+    // With gravity minimized, MCP flexion of a hand seen side-on is read in the picture (vision/picture-angles.ts).
+    const pictureFinger =
+      !pictureFlexion && pictureMcp && frame.image && options.digit && (frame.imageAspect ?? options.imageAspect)
+        ? pictureMcpFlexion(hand, frame.image, (frame.imageAspect ?? options.imageAspect)!, options.digit)
+        : null;
+    const reading = pictureFlexion ?? pictureFinger ?? readMotion(options.motion, options.digit, hand, axes, forearm?.direction ?? null);
     if (!reading || !Number.isFinite(reading.deg)) return skipped(frame.t, score, "degenerate");
     if (forearm) forearmCounts.set(forearm.source, (forearmCounts.get(forearm.source) ?? 0) + 1);
 
     const view = viewOfAxes(axes);
     let angleDeg = reading.deg;
-    let frameMethod: MeasurementMethod = pictureFlexion ? "image_plane" : "world3d";
-    if (pictureFlexion) pictureFrames += 1;
+    const inPicture = pictureFlexion !== null || pictureFinger !== null;
+    let frameMethod: MeasurementMethod = inPicture ? "image_plane" : "world3d";
+    if (inPicture) pictureFrames += 1;
     // The correction's wrist maps were fitted on angles read against the render's true forearm; against a neutral reading
     // it moves them away from the truth (scripts/accuracy/report.md, wrist section), so they stay raw.
     const againstNeutral = forearm?.source === "neutral-reading";
-    if (correctionTarget && !againstNeutral && Number.isFinite(reading.imagePlaneDeg) && correctionHelps(table, correctionTarget.group, handModel, view)) {
+    if (correctionTarget && !againstNeutral && !inPicture && Number.isFinite(reading.imagePlaneDeg) && correctionHelps(table, correctionTarget.group, handModel, view)) {
       const corrected = correctMotionAngle(correctionModel, handModel, options.motion, options.digit, {
         deg: reading.deg,
         imagePlaneDeg: reading.imagePlaneDeg,
@@ -292,7 +307,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
       uncertaintyDeg:
         (againstNeutral ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable, table) : null) ??
-        angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
+        angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod || pictureFinger ? "engine" : "raw"),
       view,
       viewQuality: viewQuality(policy, view),
       forearmSource: forearm?.source ?? null,

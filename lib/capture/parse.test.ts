@@ -72,6 +72,12 @@ describe("capture file v1", () => {
     expect(errorOf(JSON.stringify({ ...fixture(), gravity: [0, 0, 0] })).field).toBe("gravity");
   });
 
+  it("names a picture aspect that is not a width/height ratio", () => {
+    expect(errorOf(JSON.stringify({ ...fixture(), imageAspect: 0 })).message).toMatch(/imageAspect: expected a width\/height ratio above 0\.1/);
+    expect(errorOf(JSON.stringify({ ...fixture(), imageAspect: "4:3" })).message).toMatch(/imageAspect: expected the picture's width over its height/);
+    expect(parseCaptureText(JSON.stringify({ ...fixture(), imageAspect: 16 / 9 }), "ok").imageAspect).toBeCloseTo(16 / 9, 12);
+  });
+
   it("formats paths the way the error lines show them", () => {
     expect(formatPath(["frames", 3, "hand", 7, 2])).toBe("frames[3].hand[7][2]");
   });

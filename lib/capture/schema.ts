@@ -22,7 +22,8 @@ export const captureFrameSchema = z.object({
   forearm: point.refine(nonZero, { error: "expected a non-zero elbow-to-wrist direction" }).optional(),
   /**
    * Optional: the same 21 landmarks in the picture, [x, y] as 0-1 of its width and height (unmirrored), for drawing
-   * the hand over a stored clip when it is reviewed. The engine never reads them; angles come from `hand` only.
+   * the hand over a stored clip when it is reviewed, and (with the file's `imageAspect`) for the angles the engine
+   * reads in the picture (vision/picture-angles.ts).
    */
   image: z
     .array(z.tuple([coordinate, coordinate], { error: "expected [x, y]" }), { error: "expected 21 image points [x, y] or null" })
@@ -45,6 +46,8 @@ export const captureSchema = z
       .gt(0, { error: "expected degrees above 0" })
       .max(180, { error: "expected degrees up to 180" })
       .optional(),
+    /** Optional: the picture's width over its height, which the frames' `image` points are fractions of. */
+    imageAspect: z.number({ error: "expected the picture's width over its height" }).gt(0.1, { error: "expected a width/height ratio above 0.1" }).lt(10, { error: "expected a width/height ratio below 10" }).optional(),
     frames: z.array(captureFrameSchema, { error: "expected an array of frames" }).min(1, { error: "expected at least one frame" }),
     /**
      * Optional (older files have none): frames of a neutral reading taken just before the attempt, wrist straight and

@@ -5,6 +5,7 @@
 import { CAPTURE_FORMAT, CAPTURE_VERSION, type CaptureFile, type CaptureFrame } from "@/lib/capture/schema";
 import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
 import type { TrackedFrame } from "@/vision/live/types";
+import { readsInPicture } from "@/vision/picture-angles";
 import type { Vec3 } from "@/vision/vec";
 
 export interface CaptureTarget {
@@ -21,16 +22,26 @@ function finitePoint(p: readonly number[]): boolean {
 export class CaptureRecorder {
   private readonly frames: CaptureFrame[] = [];
   private startMs: number | null = null;
+  private imageAspect: number | null = null;
+  private readonly keepsImage: boolean;
 
   constructor(
     readonly target: CaptureTarget,
     /** Gravity in camera axes at the start, from the motion sensor; omitted when there is none. */
     private readonly gravity: Vec3 | null = null,
-    /** Keep the picture landmarks too (a stored clip is reviewed with the hand drawn over it); off for live attempts. */
-    private readonly keepImage = false,
-  ) {}
+    /**
+     * Keep the picture landmarks too (a stored clip is reviewed with the hand drawn over it); off for live attempts,
+     * except where the engine reads the angle in the picture (vision/picture-angles.ts), so the server can too.
+     */
+    keepImage = false,
+  ) {
+    this.keepsImage = keepImage || readsInPicture(target.motion, target.condition);
+  }
 
-  push(frame: Pick<TrackedFrame, "t" | "score" | "hand" | "forearm"> & Partial<Pick<TrackedFrame, "image">>): void {
+  push(frame: Pick<TrackedFrame, "t" | "score" | "hand" | "forearm"> & Partial<Pick<TrackedFrame, "image" | "imageAspect">>): void {
+    if (this.imageAspect === null && frame.imageAspect !== undefined && Number.isFinite(frame.imageAspect) && frame.imageAspect > 0.1 && frame.imageAspect < 10) {
+      this.imageAspect = frame.imageAspect;
+    }
     this.startMs ??= frame.t;
     const last = this.frames[this.frames.length - 1];
     // Times must not run backwards in the file; a camera clock that stutters is held at the last time.
@@ -40,7 +51,7 @@ export class CaptureRecorder {
     const score = Number.isFinite(frame.score) ? Math.min(1, Math.max(0, frame.score)) : 0;
     const out: CaptureFrame = { t, score, hand };
     if (frame.forearm && finitePoint(frame.forearm) && Math.hypot(...frame.forearm) > 1e-9) out.forearm = [frame.forearm[0], frame.forearm[1], frame.forearm[2]];
-    if (this.keepImage) {
+    if (this.keepsImage) {
       // 1e-5 of the picture is well under a pixel; fewer digits keep a minute of frames small.
       const image = hand && frame.image && frame.image.length === 21 && frame.image.every(finitePoint) ? frame.image : null;
       out.image = image ? image.map((p) => [Math.round(p[0] * 1e5) / 1e5, Math.round(p[1] * 1e5) / 1e5] as [number, number]) : null;
@@ -61,6 +72,7 @@ export class CaptureRecorder {
     if (this.frames.length === 0) return null;
     const capture: CaptureFile = { format: CAPTURE_FORMAT, version: CAPTURE_VERSION, ...this.target, frames: [...this.frames] };
     if (this.gravity && this.gravity.every(Number.isFinite) && Math.hypot(...this.gravity) > 1e-9) capture.gravity = [this.gravity[0], this.gravity[1], this.gravity[2]];
+    if (this.keepsImage && this.imageAspect !== null) capture.imageAspect = this.imageAspect;
     return capture;
   }
 }

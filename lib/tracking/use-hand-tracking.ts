@@ -168,7 +168,7 @@ export function useHandTracking(options: HandTrackingOptions) {
       recent.push(frame);
       while (recent.length && frame.t - recent[0].t > CHECK_WINDOW_MS) recent.shift();
 
-      const update = pipelineRef.current?.push({ t: frame.t, score: frame.score, hand: frame.hand, forearm: frame.forearm ?? null }) ?? null;
+      const update = pipelineRef.current?.push({ t: frame.t, score: frame.score, hand: frame.hand, forearm: frame.forearm ?? null, image: frame.image, imageAspect: frame.imageAspect }) ?? null;
       recorderRef.current?.push(frame);
       const neutral = holdNeutral(frame);
       const gravity = freshGravity();

@@ -4,7 +4,7 @@
  */
 import type { CaptureFile } from "@/lib/capture/schema";
 import { analyzeCapture, type AnalyzeOptions } from "@/vision/analyze-capture";
-import { createLivePipeline, type FrameQuality } from "@/vision/pipeline";
+import type { FrameQuality } from "@/vision/pipeline";
 
 export interface TracePoint {
   /** Milliseconds from the clip's first frame; the clip's own media time (frame i at i/fps). */
@@ -27,12 +27,15 @@ export interface ClipReviewTrace {
 const tenth = (v: number | null) => (v === null ? null : Math.round(v * 10) / 10);
 
 export function clipReviewTrace(capture: CaptureFile, options: Pick<AnalyzeOptions, "correction"> = {}): ClipReviewTrace {
-  const pipeline = createLivePipeline({ ...options, motion: capture.motion, side: capture.side, digit: capture.digit, condition: capture.condition, gravity: capture.gravity ?? null });
-  const points = capture.frames.map((frame): TracePoint => {
-    const update = pipeline.push(frame);
-    return { t: frame.t, angleDeg: tenth(update.angleDeg), smoothedDeg: tenth(update.smoothedDeg), quality: update.quality };
+  // One pass through the analysis itself, so the trace is read exactly as the stored figures were (straight-wrist
+  // reading, picture points and all).
+  const points: TracePoint[] = [];
+  const analysis = analyzeCapture(capture, {
+    ...options,
+    onUpdate: (update, index) => {
+      points.push({ t: capture.frames[index].t, angleDeg: tenth(update.angleDeg), smoothedDeg: tenth(update.smoothedDeg), quality: update.quality });
+    },
   });
-  const analysis = analyzeCapture(capture, options);
   return {
     points,
     images: capture.frames.map((f) => (f.hand && f.image ? f.image.map((p) => [p[0], p[1]] as [number, number]) : null)),

@@ -36,7 +36,7 @@ import { HandRenderer, RENDER_OUTPUT_ROOT } from "./renderer";
 import { loadHandRig } from "./rig-files";
 import type { HandSide } from "./rig";
 import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
-import { frameSeeds, makeRng, type CameraView, type FrameTruth } from "./scene";
+import { frameSeeds, IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, makeRng, type CameraView, type FrameTruth } from "./scene";
 import { summarizeErrors, type ErrorSample, type ErrorSummary } from "./stats";
 import { ACCEPTANCE, meetsAcceptance, MIN_DETECTION, type AcceptanceKey } from "./acceptance";
 import { parseCount, parseModels } from "./run-accuracy";
@@ -221,9 +221,11 @@ export function readClip(
   const target = { motion: plan.motion.motion, side: plan.side, digit, condition: plan.condition };
   const key = digit ? (plan.motion.joints.find((joint) => joint.startsWith(`${digit}.`)) as PoseKey) : plan.motion.joints[0];
   const truthDeg = truth.frames.map((frame) => plan.motion.sign * getPoseAngle(frame.truth.commandedDeg, key));
+  // Tracking saved before frames carried the picture's aspect: the renders' own size.
+  const withAspect = frames.map((frame) => (frame.imageAspect ? frame : { ...frame, imageAspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX }));
   let built;
   try {
-    built = clipCapture(target, frames, plan.name);
+    built = clipCapture(target, withAspect, plan.name);
   } catch (error) {
     // The tracker never found the hand: every frame of the reading counts as undetected.
     if (!(error instanceof ClipCaptureError)) throw error;

@@ -16,7 +16,7 @@ import { DEMO_PASSWORD } from "@/db/seed/demo";
 import { parseCaptureText } from "@/lib/capture/parse";
 import { analyzeCapture } from "@/vision/analyze-capture";
 import { CLIP_NEUTRAL } from "@/vision/live/clip-capture";
-import { makeHandClip } from "../../scripts/fixtures/hand-photos";
+import { CANVAS_HEIGHT, CANVAS_WIDTH, makeHandClip } from "../../scripts/fixtures/hand-photos";
 import { buildModels } from "../../scripts/models/build";
 import { signInWithPassword, startTestApp, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
@@ -73,6 +73,8 @@ describe("an uploaded wrist clip with a still start", () => {
       expect(attempt).toMatchObject({ source: "upload", motion: "wrist.extension", side: "right", forearmSource: "neutral-reading" });
       const [stored] = await db.select().from(attemptCaptures).where(eq(attemptCaptures.attemptId, attempt.id));
       const capture = parseCaptureText(gunzipSync(stored.gzip).toString("utf8"), "stored");
+      // The clip's picture points travel with the picture's aspect (the tracker reads it from the video's size).
+      expect(capture.imageAspect).toBeCloseTo(CANVAS_WIDTH / CANVAS_HEIGHT, 6);
       const neutral = capture.neutral?.frames ?? [];
       // The first 3 s of a 30 fps clip, both ends included: frames 0-90 when every frame is tracked, and at least the
       // 1.5 s a reading needs.

@@ -88,7 +88,8 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
   // instead of waiting up to a whole frame period for the next one.
   let missedWhileBusy = false;
 
-  const emit = (step: DetectionStep, t: number, grabbedAt: number) => {
+  const emit = (step: DetectionStep, t: number, grabbedAt: number, video: HTMLVideoElement) => {
+    if (video.videoWidth > 0 && video.videoHeight > 0) step.frame.imageAspect = video.videoWidth / video.videoHeight;
     const timing: FrameTiming = { t, landmarksMs: step.landmarksMs, poseMs: step.poseMs, roundTripMs: performance.now() - grabbedAt };
     // One failing consumer (a pipeline, the overlay) must neither stop the loop nor keep the others from the frame.
     const deliver = <T,>(listeners: Set<(value: T) => void>, value: T) => {
@@ -131,7 +132,7 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
           framesWithHand++;
           if (firstHandAfterMs === null) firstHandAfterMs = performance.now() - run.startedAt;
         }
-        emit(step, t, grabbedAt);
+        emit(step, t, grabbedAt, video);
       })
       .catch((error: unknown) => {
         governor.abandon();
@@ -181,7 +182,7 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
       if (!step) return null;
       governor.end(performance.now() - grabbedAt);
       if (step.frame.hand) framesWithHand++;
-      emit(step, t, grabbedAt);
+      emit(step, t, grabbedAt, video);
       return step.frame;
     },
     start(video) {

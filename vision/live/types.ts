@@ -18,6 +18,8 @@ export interface TrackedFrame {
   image: LandmarkXYZ[] | null;
   /** Unit vector from elbow to wrist in the pose model's world axes, when the elbow was seen recently. */
   forearm?: LandmarkXYZ;
+  /** The picture's width over its height (what `image` x and y are fractions of), when the video reported its size. */
+  imageAspect?: number;
 }
 
 /** Per-frame cost, kept apart from the frame stream so benchmarks and the UI can read it without touching results. */
