@@ -8,6 +8,7 @@ import { pictureMcpFlexion, readsInPicture } from "./picture-angles";
 import { neutralPose, poseHand, SeededRandom, withMotionAngle, type Placement } from "./testing/synthetic-hand";
 import type { Vec3 } from "./vec";
 import { WRIST } from "./landmarks";
+import { baseUncertaintyDeg, trackingFactor, UNCERTAINTY_TABLE } from "./uncertainty";
 
 // Exact synthetic hands (vision/testing): these check the picture geometry and the engine's choice, not the tracker.
 // Hand on its little-finger edge, camera above looking down at the thumb side (camera axes: x right, y down, z away).
@@ -78,6 +79,13 @@ describe("MCP flexion read in the picture", () => {
     expect(capture.frames.every((f) => f.hand === null || f.image?.length === 21)).toBe(true);
     const analysis = analyzeCapture(capture);
     expect(analysis.method).toBe("image_plane");
+    // Every usable frame was read in the picture: the interval is the cell's engine figure (the clips' error measured
+    // that way, vision/uncertainty-table.json), not the raw 3-D one.
+    const engine = baseUncertaintyDeg(UNCERTAINTY_TABLE, "MCP flexion", "lite", analysis.view, "engine")!;
+    const raw = baseUncertaintyDeg(UNCERTAINTY_TABLE, "MCP flexion", "lite", analysis.view, "raw")!;
+    expect(trackingFactor(0.95)).toBe(1);
+    expect(analysis.uncertaintyDeg).toBe(engine);
+    expect(engine).toBeLessThan(raw);
     expect(Math.abs(analysis.peakDeg! - 70)).toBeLessThan(2);
     // Against gravity the same file is read in 3-D as before.
     const upright = analyzeCapture({ ...capture, condition: "against_gravity" });

@@ -183,6 +183,8 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   // Without a neutral reading the capture's first moments stand in for it, side-on figures included.
   const startHands: HandLandmarks[] = [];
   let pictureFrames = 0;
+  // Finger frames read in the picture carry the cell's engine figure (its clip error is measured that way).
+  let pictureFingerFrames = 0;
   const pictureMcp = readsInPicture(options.motion, options.condition);
   const wristTable = options.wristAxisValidation ?? WRIST_AXIS_VALIDATION;
   let method: MeasurementMethod = "world3d";
@@ -262,6 +264,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     const inPicture = pictureFlexion !== null || pictureFinger !== null;
     let frameMethod: MeasurementMethod = inPicture ? "image_plane" : "world3d";
     if (inPicture) pictureFrames += 1;
+    if (pictureFinger) pictureFingerFrames += 1;
     // The correction's wrist maps were fitted on angles read against the render's true forearm; against a neutral reading
     // it moves them away from the truth (scripts/accuracy/report.md, wrist section), so they stay raw.
     const againstNeutral = forearm?.source === "neutral-reading";
@@ -360,7 +363,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       method: summaryMethod,
       uncertaintyDeg: usable
         ? ((forearmSource === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, meanUsableScore, wristTable, table) : null) ??
-          angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames === usable ? "engine" : "raw"))
+          angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames + pictureFingerFrames === usable ? "engine" : "raw"))
         : null,
       view,
       viewQuality: quality,
