@@ -152,7 +152,8 @@ export function wristAngles(axes: HandAxes, forearm: Vec3): { flexion: MotionRea
   };
 }
 
-function negate(reading: MotionReading): MotionReading {
+/** The same reading counted the other way (extension as negative flexion). */
+export function negate(reading: MotionReading): MotionReading {
   return { deg: -reading.deg, imagePlaneDeg: -reading.imagePlaneDeg, axis: reading.axis, travel: scale(reading.travel, -1) };
 }
 

@@ -1,8 +1,7 @@
 import type { Condition, Digit, MotionId } from "@/lib/motions/catalog";
 import type { MotionReading } from "./angles";
-import { DIGIT_CHAIN, WRIST, type HandLandmarks } from "./landmarks";
-import { RAD_TO_DEG } from "./vec";
-import { sideOnNeutral } from "./wrist-axis";
+import { DIGIT_CHAIN, LANDMARK_COUNT, WRIST, type HandLandmarks } from "./landmarks";
+import { pictureTurnDeg, sideOnNeutral } from "./wrist-axis";
 
 /**
  * Angles read in the picture, where the landmark model's 3-D hand is least sure of itself.
@@ -29,7 +28,7 @@ export function readsInPicture(motion: MotionId, condition: Condition): boolean 
  * Null when the hand is not side-on in this frame, the digit is the thumb, or a point is missing.
  */
 export function pictureMcpFlexion(hand: HandLandmarks, image: readonly (readonly number[])[], imageAspect: number, digit: Digit): MotionReading | null {
-  if (digit === "thumb" || image.length !== 21 || !(imageAspect > 0)) return null;
+  if (digit === "thumb" || image.length !== LANDMARK_COUNT || !(imageAspect > 0)) return null;
   const sideOn = sideOnNeutral([hand]);
   if (!sideOn) return null;
   const [mcp, pip] = DIGIT_CHAIN[digit];
@@ -40,6 +39,6 @@ export function pictureMcpFlexion(hand: HandLandmarks, image: readonly (readonly
   const lengthB = Math.hypot(b[0], b[1]);
   if (!(Math.hypot(a[0], a[1]) > 1e-9 && lengthB > 1e-9) || ![...a, ...b].every(Number.isFinite)) return null;
   const turn = sideOn.palmarTurn;
-  const deg = turn * Math.atan2(a[0] * b[1] - a[1] * b[0], a[0] * b[0] + a[1] * b[1]) * RAD_TO_DEG;
+  const deg = turn * pictureTurnDeg(a, b);
   return { deg, imagePlaneDeg: deg, axis: [0, 0, turn], travel: [(-b[1] / lengthB) * turn, (b[0] / lengthB) * turn, 0] };
 }

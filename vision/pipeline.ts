@@ -1,6 +1,6 @@
 import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
 import { MOTIONS } from "@/lib/motions/catalog";
-import { handAxes, readMotion } from "./angles";
+import { handAxes, negate, readMotion } from "./angles";
 import { PalmContinuity } from "./depth-mirror";
 import type { HandLandmarks } from "./landmarks";
 import { LANDMARK_COUNT } from "./landmarks";
@@ -8,7 +8,7 @@ import { OneEuroFilter, type OneEuroParams } from "./one-euro";
 import { pictureMcpFlexion, readsInPicture } from "./picture-angles";
 import { PlaneAccumulator, readPlane, unitGravity, type PlaneReading } from "./plane";
 import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
-import { add, isFiniteVec, normalize, scale, type Vec3 } from "./vec";
+import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
 import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, type CorrectionModel, type HandModel } from "./correction";
 import { angleUncertaintyDeg, correctionHelps, UNCERTAINTY_TABLE, type UncertaintyTable, type ValidationView } from "./uncertainty";
 import { viewName, viewOfAxes, viewPolicy, viewQuality, type ViewPolicy, type ViewQuality } from "./view-policy";
@@ -245,11 +245,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     const forearm = isWrist ? forearmFor(frame, axes.longAxis) : null;
     // Against a side-on neutral reading, wrist flexion and extension are read in the picture (vision/wrist-axis.ts).
     const pictureWrist = forearm && forearm.source !== "pose" && sideOn ? sideOnWristFlexion(hand, sideOn) : null;
-    const pictureFlexion = pictureWrist
-      ? options.motion === "wrist.extension"
-        ? { ...pictureWrist, deg: -pictureWrist.deg, imagePlaneDeg: -pictureWrist.imagePlaneDeg, travel: scale(pictureWrist.travel, -1) }
-        : pictureWrist
-      : null;
+    const pictureFlexion = pictureWrist && options.motion === "wrist.extension" ? negate(pictureWrist) : pictureWrist;
     // With gravity minimized, MCP flexion of a hand seen side-on is read in the picture (vision/picture-angles.ts).
     const pictureFinger =
       !pictureFlexion && pictureMcp && frame.image && options.digit && (frame.imageAspect ?? options.imageAspect)

@@ -85,11 +85,17 @@ export interface SideOnNeutral {
  */
 export const SIDE_ON_LIMITS = { maxWidthRatio: 0.45, minThumbOffsetM: 0.005 } as const;
 
-function pictureAxis(hand: HandLandmarks): [number, number] | null {
+/** The signed turn from one picture direction to another, degrees, positive from x toward y (clockwise on screen). */
+export function pictureTurnDeg(from: readonly number[], to: readonly number[]): number {
+  return Math.atan2(from[0] * to[1] - from[1] * to[0], from[0] * to[0] + from[1] * to[1]) * RAD_TO_DEG;
+}
+
+/** The wrist-to-middle-knuckle direction in the picture plane (unit) and its length, or null when it has none. */
+function pictureAxis(hand: HandLandmarks): { u: [number, number]; length: number } | null {
   const x = hand[MIDDLE_MCP][0] - hand[WRIST][0];
   const y = hand[MIDDLE_MCP][1] - hand[WRIST][1];
   const length = Math.hypot(x, y);
-  return length > 1e-9 ? [x / length, y / length] : null;
+  return length > 1e-9 ? { u: [x / length, y / length], length } : null;
 }
 
 /** The side-on figures of a neutral reading's frames, or null when the hand was not seen side-on. */
@@ -100,9 +106,9 @@ export function sideOnNeutral(hands: readonly HandLandmarks[]): SideOnNeutral | 
   let thumb = 0;
   let n = 0;
   for (const hand of hands) {
-    const u = pictureAxis(hand);
-    if (!u) continue;
-    const length = Math.hypot(hand[MIDDLE_MCP][0] - hand[WRIST][0], hand[MIDDLE_MCP][1] - hand[WRIST][1]);
+    const axis = pictureAxis(hand);
+    if (!axis) continue;
+    const { u, length } = axis;
     sx += u[0];
     sy += u[1];
     widthRatio += Math.hypot(hand[INDEX_MCP][0] - hand[LITTLE_MCP][0], hand[INDEX_MCP][1] - hand[LITTLE_MCP][1]) / length;
@@ -110,9 +116,9 @@ export function sideOnNeutral(hands: readonly HandLandmarks[]): SideOnNeutral | 
     for (const k of [THUMB_MCP, THUMB_IP, THUMB_TIP]) thumb += (-u[1] * (hand[k][0] - hand[WRIST][0]) + u[0] * (hand[k][1] - hand[WRIST][1])) / 3;
     n += 1;
   }
-  const length = Math.hypot(sx, sy);
-  if (n === 0 || length < 1e-9) return null;
-  const out: SideOnNeutral = { longAxisXY: [sx / length, sy / length], palmarTurn: thumb >= 0 ? 1 : -1, widthRatio: widthRatio / n, thumbOffsetM: Math.abs(thumb / n) };
+  const sum = Math.hypot(sx, sy);
+  if (n === 0 || sum < 1e-9) return null;
+  const out: SideOnNeutral = { longAxisXY: [sx / sum, sy / sum], palmarTurn: thumb >= 0 ? 1 : -1, widthRatio: widthRatio / n, thumbOffsetM: Math.abs(thumb / n) };
   return out.widthRatio <= SIDE_ON_LIMITS.maxWidthRatio && out.thumbOffsetM >= SIDE_ON_LIMITS.minThumbOffsetM ? out : null;
 }
 
@@ -122,11 +128,10 @@ export function sideOnNeutral(hands: readonly HandLandmarks[]): SideOnNeutral | 
  * sight (for the plane check), its travel the palm's side in the picture. Null when the hand has no length in the picture.
  */
 export function sideOnWristFlexion(hand: HandLandmarks, neutral: SideOnNeutral): MotionReading | null {
-  const u = pictureAxis(hand);
+  const u = pictureAxis(hand)?.u;
   if (!u) return null;
-  const [fx, fy] = neutral.longAxisXY;
-  const deg = neutral.palmarTurn * Math.atan2(fx * u[1] - fy * u[0], fx * u[0] + fy * u[1]) * RAD_TO_DEG;
   const p = neutral.palmarTurn;
+  const deg = p * pictureTurnDeg(neutral.longAxisXY, u);
   return { deg, imagePlaneDeg: deg, axis: [0, 0, p], travel: [-u[1] * p, u[0] * p, 0] };
 }
 

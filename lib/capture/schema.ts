@@ -32,6 +32,9 @@ export const captureFrameSchema = z.object({
     .optional(),
 });
 
+/** The picture width/height ratios a capture may state (exclusive): wider or taller than any camera or clip. */
+export const IMAGE_ASPECT_RANGE = [0.1, 10] as const;
+
 export const captureSchema = z
   .object({
     format: z.literal(CAPTURE_FORMAT, { error: `expected "${CAPTURE_FORMAT}"` }),
@@ -47,7 +50,7 @@ export const captureSchema = z
       .max(180, { error: "expected degrees up to 180" })
       .optional(),
     /** Optional: the picture's width over its height, which the frames' `image` points are fractions of. */
-    imageAspect: z.number({ error: "expected the picture's width over its height" }).gt(0.1, { error: "expected a width/height ratio above 0.1" }).lt(10, { error: "expected a width/height ratio below 10" }).optional(),
+    imageAspect: z.number({ error: "expected the picture's width over its height" }).gt(IMAGE_ASPECT_RANGE[0], { error: `expected a width/height ratio above ${IMAGE_ASPECT_RANGE[0]}` }).lt(IMAGE_ASPECT_RANGE[1], { error: `expected a width/height ratio below ${IMAGE_ASPECT_RANGE[1]}` }).optional(),
     frames: z.array(captureFrameSchema, { error: "expected an array of frames" }).min(1, { error: "expected at least one frame" }),
     /**
      * Optional (older files have none): frames of a neutral reading taken just before the attempt, wrist straight and

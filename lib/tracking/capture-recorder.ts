@@ -2,7 +2,7 @@
  * Collects tracked frames between start and stop into a capture file (format v1, lib/capture/schema.ts). Pure.
  * Frame times restart at 0; the tracker's landmarks are already in the unmirrored camera axes the format asks for.
  */
-import { CAPTURE_FORMAT, CAPTURE_VERSION, type CaptureFile, type CaptureFrame } from "@/lib/capture/schema";
+import { CAPTURE_FORMAT, CAPTURE_VERSION, IMAGE_ASPECT_RANGE, type CaptureFile, type CaptureFrame } from "@/lib/capture/schema";
 import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
 import type { TrackedFrame } from "@/vision/live/types";
 import { readsInPicture } from "@/vision/picture-angles";
@@ -39,8 +39,9 @@ export class CaptureRecorder {
   }
 
   push(frame: Pick<TrackedFrame, "t" | "score" | "hand" | "forearm"> & Partial<Pick<TrackedFrame, "image" | "imageAspect">>): void {
-    if (this.imageAspect === null && frame.imageAspect !== undefined && Number.isFinite(frame.imageAspect) && frame.imageAspect > 0.1 && frame.imageAspect < 10) {
-      this.imageAspect = frame.imageAspect;
+    const aspect = frame.imageAspect;
+    if (this.imageAspect === null && aspect !== undefined && aspect > IMAGE_ASPECT_RANGE[0] && aspect < IMAGE_ASPECT_RANGE[1]) {
+      this.imageAspect = aspect;
     }
     this.startMs ??= frame.t;
     const last = this.frames[this.frames.length - 1];

@@ -164,7 +164,9 @@ async function renderClips(plans: readonly ClipPlan[], folder: string, reuse: bo
 async function trackClips(plans: readonly ClipPlan[], folder: string, model: HandModelVariant, reuse: boolean): Promise<Map<string, TrackedFrame[]>> {
   const tracked = new Map<string, TrackedFrame[]>();
   const savedOf = (plan: ClipPlan) => path.join(folder, `${plan.name}-${model}.tracked.json`);
-  for (const plan of plans) if (reuse && existsSync(savedOf(plan))) tracked.set(plan.name, JSON.parse(readFileSync(savedOf(plan), "utf8")) as TrackedFrame[]);
+  // Tracking saved before frames carried the picture's aspect gets the renders' own size.
+  const withAspect = (frames: TrackedFrame[]) => frames.map((frame) => (frame.imageAspect ? frame : { ...frame, imageAspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX }));
+  for (const plan of plans) if (reuse && existsSync(savedOf(plan))) tracked.set(plan.name, withAspect(JSON.parse(readFileSync(savedOf(plan), "utf8")) as TrackedFrame[]));
   const todo = plans.filter((plan) => !tracked.has(plan.name));
   if (!todo.length) return tracked;
   let server: HarnessServer | null = null;
@@ -221,11 +223,9 @@ export function readClip(
   const target = { motion: plan.motion.motion, side: plan.side, digit, condition: plan.condition };
   const key = digit ? (plan.motion.joints.find((joint) => joint.startsWith(`${digit}.`)) as PoseKey) : plan.motion.joints[0];
   const truthDeg = truth.frames.map((frame) => plan.motion.sign * getPoseAngle(frame.truth.commandedDeg, key));
-  // Tracking saved before frames carried the picture's aspect: the renders' own size.
-  const withAspect = frames.map((frame) => (frame.imageAspect ? frame : { ...frame, imageAspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX }));
   let built;
   try {
-    built = clipCapture(target, withAspect, plan.name);
+    built = clipCapture(target, frames, plan.name);
   } catch (error) {
     // The tracker never found the hand: every frame of the reading counts as undetected.
     if (!(error instanceof ClipCaptureError)) throw error;
