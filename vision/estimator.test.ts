@@ -5,6 +5,7 @@ import {
   designRow,
   estimateFingerJointDeg,
   FINGER_FEATURES,
+  fingerFitFor,
   FINGER_JOINTS,
   fingerFeatures,
   inTrainingDomain,
@@ -16,6 +17,8 @@ import { BONES_MM, neutralPose, poseHand, type Placement } from "./testing/synth
 
 // A right hand held up, little-finger side toward the camera (ulnar view); z points away from the camera.
 const ULNAR_VIEW: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, 1], wrist: [0, 0, 0.5] };
+// The same hand seen from the thumb side.
+const RADIAL_VIEW: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, -1], wrist: [0, 0, 0.5] };
 // The same hand seen from the palm: the palm normal points at the camera (-z) for a right hand.
 const PALM_VIEW: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [1, 0, 0], wrist: [0, 0, 0.5] };
 
@@ -84,6 +87,20 @@ describe("the polynomial basis and a fit's arithmetic", () => {
     trainingMaeDeg: 1,
   };
 
+  it("takes a view fit for the views it holds and the general fit elsewhere, or where the view fit lacks the joint", () => {
+    const ulnarFit = { ...fit, coefficients: [70, 10, 0, 1, 2, 0] };
+    const model = {
+      features: ["a", "b"],
+      fits: { lite: { pip: fit, mcp: fit } },
+      viewFits: [{ views: ["ulnar" as const], fits: { lite: { pip: ulnarFit } }, trainingSets: ["clips"] }],
+    };
+    expect(fingerFitFor(model, "lite", "pip", "ulnar")).toBe(ulnarFit);
+    expect(fingerFitFor(model, "lite", "pip", "radial")).toBe(fit);
+    expect(fingerFitFor(model, "lite", "pip", null)).toBe(fit);
+    expect(fingerFitFor(model, "lite", "mcp", "ulnar")).toBe(fit);
+    expect(fingerFitFor(model, "full", "pip", "ulnar")).toBeUndefined();
+  });
+
   it("standardises, holds each feature to the training range and evaluates the polynomial", () => {
     expect(standardize(fit, [15, 3])).toEqual([1, 1]);
     expect(applyFingerFit(fit, [15, 3])).toBeCloseTo(40 + 10 + 1 + 2, 12);
@@ -118,6 +135,20 @@ describe("the committed estimator (vision/correction-coefficients.json)", () => 
       }
     }
     for (const set of estimator.trainingSets) expect(set).not.toContain("20261202");
+  });
+
+  it("reads frames seen from the little-finger side with its clip-trained fit and other side views with the fit on stills", () => {
+    const viewFits = estimator.viewFits ?? [];
+    expect(viewFits.map((v) => v.views)).toEqual([["ulnar"]]);
+    for (const model of ["lite", "full"]) for (const joint of FINGER_JOINTS) expect(viewFits[0].fits[model]?.[joint]).toBeDefined();
+    // Training seeds only: the clip seeds start at 77 000 000, the held-out ones are 2026120x.
+    expect(viewFits[0].trainingSets.some((set) => /^finger-clips-77\d{6}-/.test(set))).toBe(true);
+    for (const set of viewFits[0].trainingSets) expect(set).not.toMatch(/2026120\d/);
+    const pipOf = (placement: Placement) => handWith(60, 30, placement);
+    const read = (placement: Placement) => estimateFingerJointDeg(estimator, "lite", "pip", pipOf(placement), "right", "middle");
+    const features = (placement: Placement) => fingerFeatures(pipOf(placement), "right", "middle")!;
+    expect(read(ULNAR_VIEW)).toBeCloseTo(applyFingerFit(viewFits[0].fits.lite!.pip!, features(ULNAR_VIEW)), 9);
+    expect(read(RADIAL_VIEW)).toBeCloseTo(applyFingerFit(estimator.fits.lite!.pip!, features(RADIAL_VIEW)), 9);
   });
 
   it("reads an MCP test position (fingers straight) but declines a curled finger, which its test motion never shows", () => {

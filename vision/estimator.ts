@@ -1,5 +1,6 @@
 import type { Side } from "@/lib/motions/catalog";
 import { handAxes, readMotion, type HandAxes } from "./angles";
+import { viewOfAxes, type ValidationView } from "./correction-views";
 import { DIGIT_CHAIN, MIDDLE_MCP, WRIST, type HandLandmarks } from "./landmarks";
 import { length, sub, type Vec3 } from "./vec";
 
@@ -66,10 +67,29 @@ export interface FingerJointFit {
   trainingMaeDeg: number;
 }
 
-export interface FingerEstimatorModel {
-  features: readonly string[];
+/** Fits that read a frame seen from one of `views` (the engine's view classification, vision/correction-views.ts). */
+export interface FingerViewFits {
+  views: readonly ValidationView[];
   /** By hand model, then joint. */
   fits: Record<string, Partial<Record<FingerJoint, FingerJointFit>>>;
+  trainingSets: string[];
+}
+
+export interface FingerEstimatorModel {
+  features: readonly string[];
+  /** By hand model, then joint: the fit for every side view without a view fit of its own. */
+  fits: Record<string, Partial<Record<FingerJoint, FingerJointFit>>>;
+  /**
+   * Since kinarc-correction-5: fits for particular views, taken before `fits` when they hold the frame's view and
+   * have the joint and hand model (the little-finger side, fitted on tracked clips as well as stills).
+   */
+  viewFits?: readonly FingerViewFits[];
+}
+
+/** The fit that reads a joint in a frame seen from `view`: a view fit that holds the view, else the general one. */
+export function fingerFitFor(model: FingerEstimatorModel, handModel: string, joint: FingerJoint, view: ValidationView | null): FingerJointFit | undefined {
+  const viewFit = view ? model.viewFits?.find((v) => v.views.includes(view) && v.fits[handModel]?.[joint]) : undefined;
+  return viewFit?.fits[handModel]?.[joint] ?? model.fits[handModel]?.[joint];
 }
 
 const GROUP_JOINT: Record<string, FingerJoint> = { "MCP flexion": "mcp", "PIP flexion": "pip", "DIP flexion": "dip" };
@@ -178,7 +198,8 @@ export function applyFingerFit(fit: FingerJointFit, base: readonly number[]): nu
 
 /**
  * The estimated flexion of one finger joint (degrees, flexion positive), or null when the model has no fit for the
- * joint and hand model, the finger's features cannot be read, or they lie outside the fit's training domain.
+ * joint and hand model, the finger's features cannot be read, or they lie outside the fit's training domain. The fit
+ * is chosen by the frame's view (from the hand's axes) where the model has view fits.
  */
 export function estimateFingerJointDeg(
   model: FingerEstimatorModel,
@@ -189,8 +210,10 @@ export function estimateFingerJointDeg(
   finger: Finger,
   axes?: HandAxes,
 ): number | null {
-  const fit = model.fits[handModel]?.[joint];
+  if (!model.fits[handModel]?.[joint] && !model.viewFits?.some((v) => v.fits[handModel]?.[joint])) return null;
+  const frameAxes = axes ?? handAxes(hand, side);
+  const fit = fingerFitFor(model, handModel, joint, model.viewFits?.length && frameAxes ? viewOfAxes(frameAxes) : null);
   if (!fit) return null;
-  const base = fingerFeatures(hand, side, finger, axes ?? handAxes(hand, side));
+  const base = fingerFeatures(hand, side, finger, frameAxes);
   return base && inTrainingDomain(fit, base) ? applyFingerFit(fit, base) : null;
 }

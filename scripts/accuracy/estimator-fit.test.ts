@@ -1,6 +1,6 @@
 import { Matrix, pseudoInverse } from "ml-matrix";
 import { describe, expect, it } from "vitest";
-import { applyFingerFit } from "@/vision/estimator";
+import { applyFingerFit, inTrainingDomain } from "@/vision/estimator";
 import { ridgeFit } from "./correction";
 import { fitFingerJoint, huberRidge, weightedRidge } from "./estimator-fit";
 import { makeRng } from "./scene";
@@ -64,3 +64,21 @@ describe("fitting one finger joint", () => {
     expect(() => fitFingerJoint([[1], [2]], [1, 2], { ridgeLambda: 1, huberDeg: 10 })).toThrow(/at least 10 rows/);
   });
 });
+
+describe("the estimator's training domain with two sources of rows", () => {
+  it("is the union of each source's 1st-99th percentile range, so many rows of one source do not push the other into the tails", () => {
+    // 990 clip-like rows in [-1, 1] and 8 still-like rows at 10-10.7: pooled, the stills sit above the 99th percentile.
+    const rows = [...Array.from({ length: 990 }, (_, i) => [((i % 30) - 15) / 15]), ...Array.from({ length: 8 }, (_, i) => [10 + i / 10])];
+    const targets = rows.map((r) => 3 * r[0] + 1);
+    const pooled = fitFingerJoint(rows, targets, { ridgeLambda: 0, huberDeg: 10 });
+    const sources = rows.map((_, i) => (i < 990 ? "clips" : "stills"));
+    const bySource = fitFingerJoint(rows, targets, { ridgeLambda: 0, huberDeg: 10, sources });
+    const still = [10.5];
+    expect(inTrainingDomain(pooled, still, 0)).toBe(false);
+    expect(inTrainingDomain(bySource, still, 0)).toBe(true);
+    // Far outside both sources' ranges is still refused.
+    expect(inTrainingDomain(bySource, [40], 0)).toBe(false);
+    expect(() => fitFingerJoint(rows, targets, { ridgeLambda: 0, huberDeg: 10, sources: sources.slice(1) })).toThrow(/one source per row/);
+  });
+});
+

@@ -105,6 +105,12 @@ export interface FingerFitOptions {
   outputMarginDeg?: number;
   /** One weight per row (default 1): how much a kind of training still counts. */
   weights?: readonly number[];
+  /**
+   * One source label per row (e.g. stills and clips): the training domain is the union of each source's 1st-99th
+   * percentile range, so a source with many rows (every clip frame) does not push a smaller one (side views only
+   * stills show) into the tails, where the estimator would decline it.
+   */
+  sources?: readonly string[];
 }
 
 function meanOf(values: readonly number[]): number {
@@ -180,12 +186,16 @@ export function fitFingerJoint(baseRows: readonly number[][], targets: readonly 
   const zRows = baseRows.map((r) => r.map((x, i) => (x - means[i]) / sds[i]));
   const zMin = Array.from({ length: width }, (_, i) => Math.min(...zRows.map((r) => r[i])));
   const zMax = Array.from({ length: width }, (_, i) => Math.max(...zRows.map((r) => r[i])));
-  const percentile = (i: number, q: number) => {
-    const sorted = zRows.map((r) => r[i]).sort((a, b) => a - b);
+  if (options.sources && options.sources.length !== baseRows.length) throw new Error(`fitFingerJoint: expected one source per row, got ${options.sources.length}`);
+  const sourceRows = options.sources
+    ? [...new Set(options.sources)].map((source) => zRows.filter((_, r) => options.sources![r] === source))
+    : [zRows];
+  const percentile = (rows: readonly number[][], i: number, q: number) => {
+    const sorted = rows.map((r) => r[i]).sort((a, b) => a - b);
     return sorted[Math.min(sorted.length - 1, Math.max(0, Math.round(q * (sorted.length - 1))))];
   };
-  const domainLowZ = Array.from({ length: width }, (_, i) => percentile(i, 0.01));
-  const domainHighZ = Array.from({ length: width }, (_, i) => percentile(i, 0.99));
+  const domainLowZ = Array.from({ length: width }, (_, i) => Math.min(...sourceRows.map((rows) => percentile(rows, i, 0.01))));
+  const domainHighZ = Array.from({ length: width }, (_, i) => Math.max(...sourceRows.map((rows) => percentile(rows, i, 0.99))));
   const terms = quadraticTerms(width);
   const design = zRows.map((z) => designRow(terms, z));
   const coefficients = huberRidge(design, targets, options.ridgeLambda, options.huberDeg, 12, options.weights);

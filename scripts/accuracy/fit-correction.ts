@@ -9,9 +9,11 @@
  */
 import { writeFileSync } from "node:fs";
 import { parseArgs } from "node:util";
-import { FINGER_FEATURES, FINGER_JOINTS, type FingerEstimatorModel, type FingerJoint } from "@/vision/estimator";
+import type { ValidationView } from "@/vision/correction-views";
+import { FINGER_FEATURES, FINGER_JOINTS, type FingerEstimatorModel, type FingerJoint, type FingerViewFits } from "@/vision/estimator";
+import { clipFingerSamples } from "./clip-training";
 import { fitCorrection, HUBER_DEG, jointGroupOf, type CorrectionSample } from "./correction";
-import { fingerSamples, fitFingerJoint, loadTrackedSet, roundedFit, sampleWeight } from "./estimator-fit";
+import { fingerSamples, fitFingerJoint, type FingerSample, loadTrackedSet, roundedFit, sampleWeight } from "./estimator-fit";
 import { estimateAngles } from "./estimates";
 import { getPoseAngle } from "./hand-pose";
 import { CORRECTION_FILE, parseCount, parseModels, VALIDATION_SEED } from "./run-accuracy";
@@ -38,30 +40,68 @@ export const ESTIMATOR_RIDGE_LAMBDA = 10;
  */
 export const ESTIMATOR_TOGETHER_WEIGHT: Record<FingerJoint, number> = { mcp: 0, pip: 0, dip: 0 };
 
+/**
+ * Training clips of the finger estimator's little-finger-side fit (kinarc-correction-5; scripts/accuracy/clip-training.ts):
+ * the MCP, PIP and DIP test motions against gravity, rendered as continuous clips on these training seeds and
+ * tracked as the app tracks a client, every third frame, each frame counting `ESTIMATOR_CLIP_WEIGHT` of a still.
+ * That fit reads frames the engine sees from the little-finger side (`ESTIMATOR_CLIP_VIEWS`); other side views keep
+ * the fit on stills alone, which the clips made worse from the thumb side (a single fit on both read gravity-minimized
+ * training clips worse). Chosen by select-estimator.ts on training seeds only (README, "Estimator selection").
+ */
+export const ESTIMATOR_CLIP_SEEDS: readonly number[] = [77_000_401, 77_000_402, 77_000_403];
+export const ESTIMATOR_CLIP_WEIGHT = 1;
+export const ESTIMATOR_CLIP_EVERY = 3;
+export const ESTIMATOR_CLIP_VIEWS: readonly ValidationView[] = ["ulnar"];
+
 const FINGER_GROUPS = new Set(["MCP flexion", "PIP flexion", "DIP flexion"]);
 
 function round(value: number): number {
   return Math.round(value * 1e6) / 1e6;
 }
 
-export function fitFingerEstimator(models: readonly string[], setNames: readonly string[] = ESTIMATOR_TRAINING_SETS): FingerEstimatorModel & { trainingSets: string[] } {
-  const samples = setNames.flatMap((name) => fingerSamples(loadTrackedSet(name), name));
+const isClip = (sample: FingerSample) => sample.stillId.startsWith("clip:");
+
+/** One fit per hand model and joint on `samples` (the stills of each joint's test motion, plus any clip frames). */
+function fitJoints(models: readonly string[], samples: readonly FingerSample[], label: string): FingerEstimatorModel["fits"] {
   const fits: FingerEstimatorModel["fits"] = {};
   for (const model of models) {
     fits[model] = {};
     for (const joint of FINGER_JOINTS) {
-      const weightOf = (s: (typeof samples)[number]) => sampleWeight(s, joint, ESTIMATOR_TOGETHER_WEIGHT[joint], ESTIMATOR_RESTING_WEIGHT);
+      const weightOf = (s: FingerSample) =>
+        sampleWeight(s, joint, ESTIMATOR_TOGETHER_WEIGHT[joint], ESTIMATOR_RESTING_WEIGHT) * (isClip(s) ? ESTIMATOR_CLIP_WEIGHT : 1);
       const rows = samples.filter((s) => s.model === model && weightOf(s) > 0);
       const fit = fitFingerJoint(
         rows.map((s) => s.base),
         rows.map((s) => s.truthDeg[joint]),
-        { ridgeLambda: ESTIMATOR_RIDGE_LAMBDA, huberDeg: HUBER_DEG, weights: rows.map(weightOf) },
+        {
+          ridgeLambda: ESTIMATOR_RIDGE_LAMBDA,
+          huberDeg: HUBER_DEG,
+          weights: rows.map(weightOf),
+          sources: rows.map((s) => (isClip(s) ? "clips" : "stills")),
+        },
       );
       fits[model][joint] = roundedFit(fit);
-      console.log(`${model} ${joint} (estimator): ${fit.trainingSamples} samples, training MAE ${fit.trainingMaeDeg.toFixed(1)} deg`);
+      console.log(`${model} ${joint} (estimator, ${label}): ${fit.trainingSamples} samples, training MAE ${fit.trainingMaeDeg.toFixed(1)} deg`);
     }
   }
-  return { features: FINGER_FEATURES, trainingSets: [...setNames], fits };
+  return fits;
+}
+
+export function fitFingerEstimator(
+  models: readonly string[],
+  setNames: readonly string[] = ESTIMATOR_TRAINING_SETS,
+  clipSeeds: readonly number[] = ESTIMATOR_CLIP_SEEDS,
+): FingerEstimatorModel & { trainingSets: string[] } {
+  const stills = setNames.flatMap((name) => fingerSamples(loadTrackedSet(name), name));
+  const fits = fitJoints(models, stills, "side views");
+  if (!clipSeeds.length) return { features: FINGER_FEATURES, trainingSets: [...setNames], fits };
+  const clips = models.flatMap((model) => clipFingerSamples(clipSeeds, model, ESTIMATOR_CLIP_EVERY, ["against_gravity"]));
+  const viewFits: FingerViewFits = {
+    views: ESTIMATOR_CLIP_VIEWS,
+    fits: fitJoints(models, [...stills, ...clips], ESTIMATOR_CLIP_VIEWS.join(", ")),
+    trainingSets: [...setNames, ...clipSeeds.map((seed) => `finger-clips-${seed}-every-${ESTIMATOR_CLIP_EVERY}`)],
+  };
+  return { features: FINGER_FEATURES, trainingSets: [...viewFits.trainingSets], fits, viewFits: [viewFits] };
 }
 
 async function main(): Promise<void> {

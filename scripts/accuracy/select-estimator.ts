@@ -3,11 +3,17 @@
  * how much the fingers-flexed-together stills count, judged the way issue 8 judges the result (the tested joint of
  * the MCP, PIP and DIP test motions, in their recommended views: MAE and slope). With --holdout it fits on --sets and
  * scores on the held-out training set; without, 3-fold cross-validation over the test-motion stills, grouped by still.
+ * `--clip-seeds` adds the tracked finger clips of those training seeds (scripts/accuracy/clip-training.ts) to the fit,
+ * each frame weighted by each of `--clip-weights`; `--clip-holdout` scores on the clips of other training seeds too
+ * (rows `clip ulnar`), every frame of the tested joint.
  *
  *   npx tsx scripts/accuracy/select-estimator.ts [--sets a,b] [--holdout finger-motions-77000002-900] [--models lite]
+ *     [--clip-seeds 77000401] [--clip-weights 0,0.3,1] [--clip-holdout 77000402] [--clip-every 3]
+ *     [--clip-conditions against_gravity,gravity_minimized] [--clip-holdout-conditions against_gravity]
  */
 import { parseArgs } from "node:util";
 import { applyFingerFit, DOMAIN_MARGIN_SD, FINGER_JOINTS, inTrainingDomain, type FingerJoint } from "@/vision/estimator";
+import { CLIP_CONDITIONS, clipFingerSamples, type ClipCondition } from "./clip-training";
 import { HUBER_DEG } from "./correction";
 import { fingerSamples, fitFingerJoint, loadTrackedSet, sampleWeight, type FingerSample } from "./estimator-fit";
 import { FINGER_FLEXION_SET } from "./motion-sets";
@@ -20,8 +26,13 @@ function foldOf(sample: FingerSample): number {
   return Math.floor(Number(sample.stillId.split("#")[1]) / 6) % FOLDS;
 }
 
+function isClip(sample: FingerSample): boolean {
+  return sample.stillId.startsWith("clip:");
+}
+
+/** A test-motion still: what cross-validation scores (clip frames, when added, only ever train). */
 function isTestMotion(sample: FingerSample): boolean {
-  return sample.motion !== null && sample.motion !== FINGER_FLEXION_SET;
+  return !isClip(sample) && sample.motion !== null && sample.motion !== FINGER_FLEXION_SET;
 }
 
 function scoreJoint(
@@ -32,13 +43,15 @@ function scoreJoint(
   togetherWeight: number,
   marginSd: number,
   restingWeight: number,
+  clipWeight = 1,
 ) {
-  const weightOf = (s: FingerSample) => sampleWeight(s, joint, togetherWeight, restingWeight);
+  const weightOf = (s: FingerSample) => sampleWeight(s, joint, togetherWeight, restingWeight) * (isClip(s) ? clipWeight : 1);
   const rows = train.filter((s) => weightOf(s) > 0);
   const fit = fitFingerJoint(rows.map((s) => s.base), rows.map((s) => s.truthDeg[joint]), {
     ridgeLambda: lambda,
     huberDeg: HUBER_DEG,
     weights: rows.map(weightOf),
+    sources: rows.map((s) => (isClip(s) ? "clips" : "stills")),
   });
   // Outside the training domain the engine keeps the raw angle; scored the same way, with the share kept.
   return test
@@ -47,7 +60,7 @@ function scoreJoint(
     .map((s) => {
       const inDomain = inTrainingDomain(fit, s.base, marginSd);
       return {
-        view: `${s.stillId.startsWith("single") ? "single " : ""}${s.view}`,
+        view: `${s.stillId.startsWith("single") ? "single " : isClip(s) ? "clip " : ""}${s.view}`,
         truthDeg: s.truthDeg[joint],
         estimateDeg: inDomain ? applyFingerFit(fit, s.base) : s.base[FINGER_JOINTS.indexOf(joint)],
         inDomain,
@@ -65,22 +78,41 @@ async function main(): Promise<void> {
       weights: { type: "string" },
       margins: { type: "string" },
       resting: { type: "string" },
+      "clip-seeds": { type: "string" },
+      "clip-weights": { type: "string" },
+      "clip-holdout": { type: "string" },
+      "clip-every": { type: "string" },
+      "clip-conditions": { type: "string" },
+      "clip-holdout-conditions": { type: "string" },
     },
   });
   const setNames = (values.sets ?? "motions-77000001-600,fingers-77000101-600").split(",");
   const all = setNames.flatMap((name) => fingerSamples(loadTrackedSet(name), name));
-  const holdout = values.holdout ? fingerSamples(loadTrackedSet(values.holdout), values.holdout) : null;
+  const seedList = (text: string | undefined) => (text ? text.split(",").map(Number) : []);
+  const clipEvery = Number(values["clip-every"] ?? 3);
+  const clipSeeds = seedList(values["clip-seeds"]);
+  const clipHoldoutSeeds = seedList(values["clip-holdout"]);
+  const clipWeights = (values["clip-weights"] ?? "1").split(",").map(Number);
+  const stillHoldout = values.holdout ? fingerSamples(loadTrackedSet(values.holdout), values.holdout) : [];
+  const models = (values.models ?? "lite,full").split(",");
+  const conditionList = (text: string | undefined) => (text ? (text.split(",") as ClipCondition[]) : CLIP_CONDITIONS);
+  const clipTrain = models.flatMap((model) => (clipSeeds.length ? clipFingerSamples(clipSeeds, model, clipEvery, conditionList(values["clip-conditions"])) : []));
+  const clipHoldout = models.flatMap((model) =>
+    clipHoldoutSeeds.length ? clipFingerSamples(clipHoldoutSeeds, model, 1, conditionList(values["clip-holdout-conditions"])) : [],
+  );
+  all.push(...clipTrain);
+  const holdout = values.holdout || clipHoldout.length ? [...stillHoldout, ...clipHoldout] : null;
   const lambdas = (values.lambdas ?? "3,10,30").split(",").map(Number);
   const weights = (values.weights ?? "0,0.1,0.3").split(",").map(Number);
   const margins = (values.margins ?? String(DOMAIN_MARGIN_SD)).split(",").map(Number);
   const restingWeights = (values.resting ?? "1").split(",").map(Number);
-  for (const model of (values.models ?? "lite,full").split(",")) {
+  for (const model of models) {
     for (const joint of FINGER_JOINTS) {
       for (const lambda of lambdas) {
-        for (const weight of weights) for (const marginSd of margins) for (const resting of restingWeights) {
+        for (const weight of weights) for (const marginSd of margins) for (const resting of restingWeights) for (const clipWeight of clipWeights) {
           const own = all.filter((s) => s.model === model);
           const results = holdout
-            ? scoreJoint(own, holdout.filter((s) => s.model === model), joint, lambda, weight, marginSd, resting)
+            ? scoreJoint(own, holdout.filter((s) => s.model === model), joint, lambda, weight, marginSd, resting, clipWeight)
             : Array.from({ length: FOLDS }, (_, fold) =>
                 scoreJoint(
                   own.filter((s) => !isTestMotion(s) || foldOf(s) !== fold),
@@ -90,14 +122,15 @@ async function main(): Promise<void> {
                   weight,
                   marginSd,
                   resting,
+                  clipWeight,
                 ),
               ).flat();
-          const cells = ["radial", "ulnar", "single radial", "single ulnar"].filter((view) => results.some((r) => r.view === view)).map((view) => {
+          const cells = ["radial", "ulnar", "single radial", "single ulnar", "clip ulnar", "clip radial"].filter((view) => results.some((r) => r.view === view)).map((view) => {
             const s = summarizeErrors(results.filter((r) => r.view === view));
             const kept = results.filter((r) => r.view === view && r.inDomain).length / Math.max(1, results.filter((r) => r.view === view).length);
             return `${view} MAE ${s.meanAbsoluteErrorDeg?.toFixed(1)} slope ${s.slope?.toFixed(2)} estimator ${Math.round(kept * 100)}%`;
           });
-          console.log(`${model} ${joint} lambda ${lambda} together-weight ${weight} margin ${marginSd} sd resting ${resting}: ${cells.join(" | ")}`);
+          console.log(`${model} ${joint} lambda ${lambda} together-weight ${weight} margin ${marginSd} sd resting ${resting}${clipSeeds.length ? ` clip-weight ${clipWeight}` : ""}: ${cells.join(" | ")}`);
         }
       }
     }

@@ -1,0 +1,55 @@
+import { describe, expect, it } from "vitest";
+import { neutralPose, poseHand, type Placement } from "@/vision/testing/synthetic-hand";
+import type { TrackedFrame } from "@/vision/live/types";
+import { clipFingerSamples, clipFrameSamples } from "./clip-training";
+import { restPose, setPoseAngle } from "./hand-pose";
+import type { FrameTruth } from "./scene";
+
+/** Seen from the little-finger side (camera looking along the radial axis), as the clips are rendered. */
+const ULNAR_VIEW: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, 1], wrist: [0, 0, 0.5] };
+const FINGERS = ["index", "middle", "ring", "little"] as const;
+
+/** A clip of synthetic frames: the four PIPs at `pipDeg[i]` in frame i, with the render's truth beside it. */
+function clip(pipDeg: readonly number[]) {
+  const frames: TrackedFrame[] = pipDeg.map((deg, i) => {
+    const pose = neutralPose();
+    for (const finger of FINGERS) pose.fingers[finger].pipFlexionDeg = deg;
+    return { t: (i * 1000) / 30, score: 0.95, handedness: "right", hand: poseHand(pose, "right", ULNAR_VIEW).landmarks.map(([x, y, z]) => [x, y, z]), image: null };
+  });
+  const truth = {
+    frameCount: pipDeg.length,
+    frames: pipDeg.map((deg, index) => {
+      const commandedDeg = restPose();
+      for (const finger of FINGERS) setPoseAngle(commandedDeg, `${finger}.pipFlexionDeg`, deg);
+      return { index, truth: { side: "right", view: "ulnar", commandedDeg } as unknown as FrameTruth };
+    }),
+  };
+  return { frames, truth };
+}
+
+describe("finger estimator training samples from tracked clips", () => {
+  it("gives one sample per finger per kept frame, its truth the frame's commanded angles and its features the frame's own", () => {
+    const { frames, truth } = clip([0, 20, 40, 60, 80, 60, 40]);
+    const samples = clipFrameSamples("pip.flexion-77000401-0-123", "lite", frames, truth, 3);
+    // Frames 0, 3 and 6 kept, four fingers each.
+    expect(samples.map((s) => s.stillId)).toEqual(
+      ["0", "3", "6"].flatMap((i) => FINGERS.map(() => `clip:pip.flexion-77000401-0-123#${i}`)),
+    );
+    expect(samples.every((s) => s.motion === "pip.flexion" && s.view === "ulnar" && s.model === "lite")).toBe(true);
+    expect(samples.filter((s) => s.finger === "middle").map((s) => s.truthDeg.pip)).toEqual([0, 60, 40]);
+    // The synthetic hand's landmarks are exact, so the features' 3-D PIP reading (FINGER_FEATURES[1]) is the truth.
+    for (const s of samples) expect(s.base[1]).toBeCloseTo(s.truthDeg.pip, 6);
+  });
+
+  it("skips frames without a hand and refuses a clip whose tracking does not match its frames", () => {
+    const { frames, truth } = clip([10, 20, 30]);
+    const gappy = frames.map((frame, i) => (i === 0 ? { ...frame, hand: null } : frame));
+    expect(clipFrameSamples("pip.flexion-77000401-0-1", "lite", gappy, truth, 1).map((s) => s.stillId)).not.toContain("clip:pip.flexion-77000401-0-1#0");
+    expect(() => clipFrameSamples("pip.flexion-77000401-0-1", "lite", frames.slice(1), truth, 1)).toThrow(/tracked 2 frames, the clip has 3/);
+    expect(() => clipFrameSamples("wrist.flexion-77000401-0-1", "lite", frames, truth, 1)).toThrow(/expected a finger clip/);
+  });
+
+  it("never reads a held-out seed", () => {
+    expect(() => clipFingerSamples([20_261_207], "lite")).toThrow(/expected a training seed/);
+  });
+});

@@ -1,0 +1,111 @@
+/**
+ * Training samples for the finger estimator from rendered clips: continuous motions tracked the way the app tracks a
+ * client (the tracker follows the hand from frame to frame), where the still sets make it find the hand afresh in
+ * every picture. Clips of training seeds only (77 000 000 and up), rendered and tracked by clip-validation.ts
+ * (`--seeds 77000401 --motions mcp.flexion,pip.flexion,dip.flexion`), read from its cache folder.
+ *
+ * Each tracked frame is read through the engine's depth mirror (vision/depth-mirror.ts), as the pipeline reads it, and
+ * gives one sample per finger, its truth the commanded angles of that frame. Every `everyNth` frame is kept: neighbouring
+ * frames of a clip are nearly the same picture.
+ */
+import { existsSync, readdirSync, readFileSync } from "node:fs";
+import path from "node:path";
+import type { Side } from "@/lib/motions/catalog";
+import { handAxes } from "@/vision/angles";
+import { PalmContinuity } from "@/vision/depth-mirror";
+import { ESTIMATOR_FINGERS, FINGER_JOINTS, fingerFeatures, type FingerJoint } from "@/vision/estimator";
+import type { TrackedFrame } from "@/vision/live/types";
+import { fingerPoseKey, type FingerSample } from "./estimator-fit";
+import { getPoseAngle } from "./hand-pose";
+import { RENDER_OUTPUT_ROOT } from "./renderer";
+import type { FrameTruth } from "./scene";
+
+/** Seeds below this are held out (the validation seeds are 2026120x); clip training seeds start here. */
+export const FIRST_TRAINING_SEED = 77_000_000;
+
+/**
+ * Finger test motions: clip-validation names them `<motion>-<seed>-<i>-<clipSeed>` against gravity (seen from the
+ * little-finger side) and `<motion>-gm-<seed>-...` with gravity minimized (the thumb side, from above).
+ */
+const CLIP_NAME = /^(mcp|pip|dip)\.flexion-(gm-)?(\d+)-\d+-\d+$/;
+
+export const CLIP_CONDITIONS = ["against_gravity", "gravity_minimized"] as const;
+export type ClipCondition = (typeof CLIP_CONDITIONS)[number];
+
+interface ClipTruth {
+  frameCount: number;
+  frames: { index: number; truth: FrameTruth }[];
+}
+
+export function clipFolder(seed: number): string {
+  return path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
+}
+
+/** The names of a seed's tracked finger clips for one hand model, of one condition or both. */
+export function fingerClipNames(seed: number, model: string, conditions: readonly ClipCondition[] = CLIP_CONDITIONS): string[] {
+  const folder = clipFolder(seed);
+  if (!existsSync(folder)) return [];
+  return readdirSync(folder)
+    .filter((file) => file.endsWith(".json") && !file.endsWith(".tracked.json"))
+    .map((file) => file.slice(0, -".json".length))
+    .filter((name) => {
+      const match = CLIP_NAME.exec(name);
+      return match && conditions.includes(match[2] ? "gravity_minimized" : "against_gravity") && existsSync(path.join(folder, `${name}-${model}.tracked.json`));
+    })
+    .sort();
+}
+
+/**
+ * Samples of one clip: one per finger per kept frame with a readable hand. `stillId` is `clip:<name>#<frame>`, so a
+ * cross-validation can keep a clip's frames together.
+ */
+export function clipFrameSamples(name: string, model: string, frames: readonly TrackedFrame[], truth: ClipTruth, everyNth: number): FingerSample[] {
+  if (frames.length !== truth.frameCount) throw new Error(`${name} (${model}): tracked ${frames.length} frames, the clip has ${truth.frameCount}`);
+  const motion = CLIP_NAME.exec(name)?.[1];
+  if (!motion) throw new Error(`${name}: expected a finger clip named <mcp|pip|dip>.flexion-[gm-]<seed>-<i>-<clipSeed>`);
+  const side = truth.frames[0].truth.side as Side;
+  const continuity = new PalmContinuity(side);
+  const samples: FingerSample[] = [];
+  frames.forEach((frame, index) => {
+    if (!frame.hand) {
+      continuity.reset();
+      return;
+    }
+    const seenAxes = handAxes(frame.hand, side);
+    if (!seenAxes) return;
+    // Every frame goes through the mirror check (its reference follows the clip); only every n-th is kept.
+    const { hand, axes } = continuity.check(frame.hand, seenAxes);
+    if (index % everyNth !== 0) return;
+    const commanded = truth.frames[index].truth.commandedDeg;
+    for (const finger of ESTIMATOR_FINGERS) {
+      const base = fingerFeatures(hand, side, finger, axes);
+      if (!base) continue;
+      samples.push({
+        model,
+        stillId: `clip:${name}#${index}`,
+        motion: `${motion}.flexion`,
+        view: truth.frames[index].truth.view,
+        finger,
+        moving: null,
+        base,
+        truthDeg: Object.fromEntries(FINGER_JOINTS.map((joint) => [joint, getPoseAngle(commanded, fingerPoseKey(finger, joint))])) as Record<FingerJoint, number>,
+      });
+    }
+  });
+  return samples;
+}
+
+/** Samples from every tracked finger clip of the training seeds (of the conditions asked), for one hand model. */
+export function clipFingerSamples(seeds: readonly number[], model: string, everyNth = 3, conditions: readonly ClipCondition[] = CLIP_CONDITIONS): FingerSample[] {
+  return seeds.flatMap((seed) => {
+    if (!Number.isInteger(seed) || seed < FIRST_TRAINING_SEED) throw new Error(`clip training seed ${seed}: expected a training seed (${FIRST_TRAINING_SEED} or above); held-out seeds are never fitted on`);
+    const names = fingerClipNames(seed, model, conditions);
+    if (!names.length) throw new Error(`${clipFolder(seed)}: no tracked finger clips for ${model}; render them with clip-validation.ts --seeds ${seed}`);
+    return names.flatMap((name) => {
+      const folder = clipFolder(seed);
+      const frames = JSON.parse(readFileSync(path.join(folder, `${name}-${model}.tracked.json`), "utf8")) as TrackedFrame[];
+      const truth = JSON.parse(readFileSync(path.join(folder, `${name}.json`), "utf8")) as ClipTruth;
+      return clipFrameSamples(name, model, frames, truth, everyNth);
+    });
+  });
+}
