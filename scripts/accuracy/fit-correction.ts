@@ -11,7 +11,7 @@ import { writeFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import type { ValidationView } from "@/vision/correction-views";
 import { FINGER_FEATURES, FINGER_JOINTS, type FingerEstimatorModel, type FingerJoint, type FingerViewFits } from "@/vision/estimator";
-import { clipFingerSamples } from "./clip-training";
+import { clipFingerSamples, type ClipCondition } from "./clip-training";
 import { fitCorrection, HUBER_DEG, jointGroupOf, type CorrectionSample } from "./correction";
 import { fingerSamples, fitFingerJoint, type FingerSample, loadTrackedSet, roundedFit, sampleWeight } from "./estimator-fit";
 import { estimateAngles } from "./estimates";
@@ -41,17 +41,17 @@ export const ESTIMATOR_RIDGE_LAMBDA = 10;
 export const ESTIMATOR_TOGETHER_WEIGHT: Record<FingerJoint, number> = { mcp: 0, pip: 0, dip: 0 };
 
 /**
- * Training clips of the finger estimator's little-finger-side fit (kinarc-correction-5; scripts/accuracy/clip-training.ts):
- * the MCP, PIP and DIP test motions against gravity, rendered as continuous clips on these training seeds and
- * tracked as the app tracks a client, every third frame, each frame counting `ESTIMATOR_CLIP_WEIGHT` of a still.
- * That fit reads frames the engine sees from the little-finger side (`ESTIMATOR_CLIP_VIEWS`); other side views keep
- * the fit on stills alone, which the clips made worse from the thumb side (a single fit on both read gravity-minimized
- * training clips worse). Chosen by select-estimator.ts on training seeds only (README, "Estimator selection").
+ * The finger estimator's view fits (kinarc-correction-5; scripts/accuracy/clip-training.ts): for frames the engine sees
+ * from `views`, a fit on the stills plus the test motions' training clips of `condition` (rendered in that condition's
+ * recommended view and tracked as the app tracks a client), every `ESTIMATOR_CLIP_EVERY`-th frame, each frame
+ * counting `weight` of a still. Other side views keep the fit on stills alone: a single fit on both conditions'
+ * clips read gravity-minimized training clips worse. Chosen by select-estimator.ts on training seeds only (README,
+ * "Estimator selection").
  */
-export const ESTIMATOR_CLIP_SEEDS: readonly number[] = [77_000_401, 77_000_402, 77_000_403];
-export const ESTIMATOR_CLIP_WEIGHT = 1;
+export const ESTIMATOR_VIEW_FITS: readonly { views: readonly ValidationView[]; condition: ClipCondition; seeds: readonly number[]; weight: number }[] = [
+  { views: ["ulnar"], condition: "against_gravity", seeds: [77_000_401, 77_000_402, 77_000_403], weight: 1 },
+];
 export const ESTIMATOR_CLIP_EVERY = 3;
-export const ESTIMATOR_CLIP_VIEWS: readonly ValidationView[] = ["ulnar"];
 
 const FINGER_GROUPS = new Set(["MCP flexion", "PIP flexion", "DIP flexion"]);
 
@@ -62,13 +62,13 @@ function round(value: number): number {
 const isClip = (sample: FingerSample) => sample.stillId.startsWith("clip:");
 
 /** One fit per hand model and joint on `samples` (the stills of each joint's test motion, plus any clip frames). */
-function fitJoints(models: readonly string[], samples: readonly FingerSample[], label: string): FingerEstimatorModel["fits"] {
+function fitJoints(models: readonly string[], samples: readonly FingerSample[], label: string, clipWeight: number): FingerEstimatorModel["fits"] {
   const fits: FingerEstimatorModel["fits"] = {};
   for (const model of models) {
     fits[model] = {};
     for (const joint of FINGER_JOINTS) {
       const weightOf = (s: FingerSample) =>
-        sampleWeight(s, joint, ESTIMATOR_TOGETHER_WEIGHT[joint], ESTIMATOR_RESTING_WEIGHT) * (isClip(s) ? ESTIMATOR_CLIP_WEIGHT : 1);
+        sampleWeight(s, joint, ESTIMATOR_TOGETHER_WEIGHT[joint], ESTIMATOR_RESTING_WEIGHT) * (isClip(s) ? clipWeight : 1);
       const rows = samples.filter((s) => s.model === model && weightOf(s) > 0);
       const fit = fitFingerJoint(
         rows.map((s) => s.base),
@@ -90,18 +90,20 @@ function fitJoints(models: readonly string[], samples: readonly FingerSample[], 
 export function fitFingerEstimator(
   models: readonly string[],
   setNames: readonly string[] = ESTIMATOR_TRAINING_SETS,
-  clipSeeds: readonly number[] = ESTIMATOR_CLIP_SEEDS,
+  viewFitPlans: typeof ESTIMATOR_VIEW_FITS = ESTIMATOR_VIEW_FITS,
 ): FingerEstimatorModel & { trainingSets: string[] } {
   const stills = setNames.flatMap((name) => fingerSamples(loadTrackedSet(name), name));
-  const fits = fitJoints(models, stills, "side views");
-  if (!clipSeeds.length) return { features: FINGER_FEATURES, trainingSets: [...setNames], fits };
-  const clips = models.flatMap((model) => clipFingerSamples(clipSeeds, model, ESTIMATOR_CLIP_EVERY, ["against_gravity"]));
-  const viewFits: FingerViewFits = {
-    views: ESTIMATOR_CLIP_VIEWS,
-    fits: fitJoints(models, [...stills, ...clips], ESTIMATOR_CLIP_VIEWS.join(", ")),
-    trainingSets: [...setNames, ...clipSeeds.map((seed) => `finger-clips-${seed}-every-${ESTIMATOR_CLIP_EVERY}`)],
-  };
-  return { features: FINGER_FEATURES, trainingSets: [...viewFits.trainingSets], fits, viewFits: [viewFits] };
+  const fits = fitJoints(models, stills, "side views", 1);
+  const viewFits: FingerViewFits[] = viewFitPlans.map((plan) => {
+    const clips = models.flatMap((model) => clipFingerSamples(plan.seeds, model, ESTIMATOR_CLIP_EVERY, [plan.condition]));
+    return {
+      views: plan.views,
+      fits: fitJoints(models, [...stills, ...clips], plan.views.join(", "), plan.weight),
+      trainingSets: [...setNames, ...plan.seeds.map((seed) => `finger-clips-${plan.condition === "gravity_minimized" ? "gm-" : ""}${seed}-every-${ESTIMATOR_CLIP_EVERY}`)],
+    };
+  });
+  const trainingSets = [...new Set([...setNames, ...viewFits.flatMap((v) => v.trainingSets)])];
+  return { features: FINGER_FEATURES, trainingSets, fits, ...(viewFits.length ? { viewFits } : {}) };
 }
 
 async function main(): Promise<void> {
