@@ -9,7 +9,7 @@ import { createLivePipeline } from "./pipeline";
 import { buildSyntheticCapture, neutralPose, poseHand, randomPlacement, SeededRandom, withMotionAngle, type Placement } from "./testing/synthetic-hand";
 import type { Vec3 } from "./vec";
 import { UNCERTAINTY_TABLE, type UncertaintyTable } from "./uncertainty";
-import { forearmFromNeutral, NEUTRAL_LIMITS, neutralReading, neutralReadingUncertaintyDeg, SIDE_ON_LIMITS, WRIST_AXIS_VALIDATION, type NeutralFrame } from "./wrist-axis";
+import { forearmFromNeutral, NEUTRAL_LIMITS, neutralReading, neutralReadingUncertaintyDeg, SIDE_ON_LIMITS, sideOnNeutral, WRIST_AXIS_VALIDATION, type NeutralFrame } from "./wrist-axis";
 
 // Exact synthetic hands read with the correction off: these check the forearm-line geometry, not the tracker.
 const RAW = { correction: "off" } as const;
@@ -246,6 +246,30 @@ describe("side-on neutral reading: wrist flexion and extension read in the pictu
     const flat = neutralReading(flatThumb, side);
     if (!flat.ok) throw new Error(flat.problem);
     expect(flat.reading.sideOn).toBeNull();
+  });
+});
+
+describe("side-on limits: how far the thumb must sit off the hand's line", () => {
+  it("tells the palm's side from 10 mm and declines below (a left hand at 5.9 mm was once read on the wrong side)", () => {
+    const side: Side = "left";
+    const hand = poseHand(neutralPose(), side, sideOnView(side, "ulnar")).landmarks;
+    const x = hand[MIDDLE_MCP][0] - hand[WRIST][0];
+    const y = hand[MIDDLE_MCP][1] - hand[WRIST][1];
+    const perp: [number, number] = [-y / Math.hypot(x, y), x / Math.hypot(x, y)];
+    const offsetOf = (h: readonly Vec3[]) =>
+      [THUMB_MCP, THUMB_IP, THUMB_TIP].reduce((sum, k) => sum + perp[0] * (h[k][0] - h[WRIST][0]) + perp[1] * (h[k][1] - h[WRIST][1]), 0) / 3;
+    const seen = offsetOf(hand);
+    // The thumb slid across the picture (perpendicular to the line) until its mean offset is `m` metres, same side.
+    const withThumbAt = (m: number): Vec3[] =>
+      hand.map((p, k): Vec3 => ([THUMB_MCP, THUMB_IP, THUMB_TIP].includes(k) ? [p[0] + perp[0] * (Math.sign(seen) * m - seen), p[1] + perp[1] * (Math.sign(seen) * m - seen), p[2]] : [...p]));
+    expect(SIDE_ON_LIMITS.minThumbOffsetM).toBe(0.01);
+    const at = (m: number) => sideOnNeutral([withThumbAt(m)]);
+    expect(at(0.0059)).toBeNull();
+    expect(at(0.009)).toBeNull();
+    const clear = at(0.012)!;
+    expect(clear).not.toBeNull();
+    expect(clear.thumbOffsetM).toBeCloseTo(0.012, 6);
+    expect(clear.palmarTurn).toBe(Math.sign(seen));
   });
 });
 
