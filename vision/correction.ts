@@ -10,8 +10,8 @@ import type { HandLandmarks } from "./landmarks";
 
 /**
  * Kinarc's angle correction, version 5. Finger MCP, PIP and DIP flexion come from the finger estimator
- * (vision/estimator.ts), which reads the whole finger, fitted on side views (version 5: on tracked clips of the test
- * motions as well as stills, scripts/accuracy/clip-training.ts); seen from the palm, the back or obliquely
+ * (vision/estimator.ts), which reads the whole finger, fitted on side views (version 5: one fit per side, on tracked
+ * clips of the test motions as well as stills, scripts/accuracy/clip-training.ts); seen from the palm, the back or obliquely
  * they come from the whole-hand-shape estimator (vision/correction-hand-shape.ts) instead, and seen from above the back
  * of a hand on a table from its second fit (version 4: vision/correction-hand-shape-down.json). The other joint groups
  * keep version 1's form: per joint group

@@ -44,12 +44,14 @@ export const ESTIMATOR_TOGETHER_WEIGHT: Record<FingerJoint, number> = { mcp: 0, 
  * The finger estimator's view fits (kinarc-correction-5; scripts/accuracy/clip-training.ts): for frames the engine sees
  * from `views`, a fit on the stills plus the test motions' training clips of `condition` (rendered in that condition's
  * recommended view and tracked as the app tracks a client), every `ESTIMATOR_CLIP_EVERY`-th frame, each frame
- * counting `weight` of a still. Other side views keep the fit on stills alone: a single fit on both conditions'
- * clips read gravity-minimized training clips worse. Chosen by select-estimator.ts on training seeds only (README,
+ * counting `weight` of a still: the little-finger side from clips against gravity, the thumb side from clips with
+ * gravity minimized (a hand resting on its edge, seen from above). A single fit on both conditions' clips read
+ * gravity-minimized training clips worse than a fit per view. Chosen by select-estimator.ts on training seeds only (README,
  * "Estimator selection").
  */
 export const ESTIMATOR_VIEW_FITS: readonly { views: readonly ValidationView[]; condition: ClipCondition; seeds: readonly number[]; weight: number }[] = [
   { views: ["ulnar"], condition: "against_gravity", seeds: [77_000_401, 77_000_402, 77_000_403], weight: 1 },
+  { views: ["radial"], condition: "gravity_minimized", seeds: [77_000_401, 77_000_402, 77_000_403], weight: 1 },
 ];
 export const ESTIMATOR_CLIP_EVERY = 3;
 
