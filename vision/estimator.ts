@@ -210,7 +210,6 @@ export function estimateFingerJointDeg(
   finger: Finger,
   axes?: HandAxes,
 ): number | null {
-  if (!model.fits[handModel]?.[joint] && !model.viewFits?.some((v) => v.fits[handModel]?.[joint])) return null;
   const frameAxes = axes ?? handAxes(hand, side);
   const fit = fingerFitFor(model, handModel, joint, model.viewFits?.length && frameAxes ? viewOfAxes(frameAxes) : null);
   if (!fit) return null;

@@ -37,6 +37,19 @@ interface ClipTruth {
   frames: { index: number; truth: FrameTruth }[];
 }
 
+/** Where a sample's `stillId` says it came from a clip frame (`clip:<name>#<frame>`), not a still. */
+const CLIP_SAMPLE_PREFIX = "clip:";
+
+/** Whether a finger sample is a clip frame: it weighs by the clip weight and forms its own training-domain source. */
+export function isClipSample(sample: Pick<FingerSample, "stillId">): boolean {
+  return sample.stillId.startsWith(CLIP_SAMPLE_PREFIX);
+}
+
+/** The training-domain source of a sample (estimator-fit.ts FingerFitOptions.sources). */
+export function sampleSource(sample: Pick<FingerSample, "stillId">): "clips" | "stills" {
+  return isClipSample(sample) ? "clips" : "stills";
+}
+
 export function clipFolder(seed: number): string {
   return path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
 }
@@ -82,7 +95,7 @@ export function clipFrameSamples(name: string, model: string, frames: readonly T
       if (!base) continue;
       samples.push({
         model,
-        stillId: `clip:${name}#${index}`,
+        stillId: `${CLIP_SAMPLE_PREFIX}${name}#${index}`,
         motion: `${motion}.flexion`,
         view: truth.frames[index].truth.view,
         finger,
@@ -99,10 +112,10 @@ export function clipFrameSamples(name: string, model: string, frames: readonly T
 export function clipFingerSamples(seeds: readonly number[], model: string, everyNth = 3, conditions: readonly ClipCondition[] = CLIP_CONDITIONS): FingerSample[] {
   return seeds.flatMap((seed) => {
     if (!Number.isInteger(seed) || seed < FIRST_TRAINING_SEED) throw new Error(`clip training seed ${seed}: expected a training seed (${FIRST_TRAINING_SEED} or above); held-out seeds are never fitted on`);
+    const folder = clipFolder(seed);
     const names = fingerClipNames(seed, model, conditions);
-    if (!names.length) throw new Error(`${clipFolder(seed)}: no tracked finger clips for ${model}; render them with clip-validation.ts --seeds ${seed}`);
+    if (!names.length) throw new Error(`${folder}: no tracked finger clips for ${model}; render them with clip-validation.ts --seeds ${seed}`);
     return names.flatMap((name) => {
-      const folder = clipFolder(seed);
       const frames = JSON.parse(readFileSync(path.join(folder, `${name}-${model}.tracked.json`), "utf8")) as TrackedFrame[];
       const truth = JSON.parse(readFileSync(path.join(folder, `${name}.json`), "utf8")) as ClipTruth;
       return clipFrameSamples(name, model, frames, truth, everyNth);

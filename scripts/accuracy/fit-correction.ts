@@ -11,7 +11,7 @@ import { writeFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import type { ValidationView } from "@/vision/correction-views";
 import { FINGER_FEATURES, FINGER_JOINTS, type FingerEstimatorModel, type FingerJoint, type FingerViewFits } from "@/vision/estimator";
-import { clipFingerSamples, type ClipCondition } from "./clip-training";
+import { clipFingerSamples, isClipSample, sampleSource, type ClipCondition } from "./clip-training";
 import { fitCorrection, HUBER_DEG, jointGroupOf, type CorrectionSample } from "./correction";
 import { fingerSamples, fitFingerJoint, type FingerSample, loadTrackedSet, roundedFit, sampleWeight } from "./estimator-fit";
 import { estimateAngles } from "./estimates";
@@ -61,8 +61,6 @@ function round(value: number): number {
   return Math.round(value * 1e6) / 1e6;
 }
 
-const isClip = (sample: FingerSample) => sample.stillId.startsWith("clip:");
-
 /** One fit per hand model and joint on `samples` (the stills of each joint's test motion, plus any clip frames). */
 function fitJoints(models: readonly string[], samples: readonly FingerSample[], label: string, clipWeight: number): FingerEstimatorModel["fits"] {
   const fits: FingerEstimatorModel["fits"] = {};
@@ -70,7 +68,7 @@ function fitJoints(models: readonly string[], samples: readonly FingerSample[], 
     fits[model] = {};
     for (const joint of FINGER_JOINTS) {
       const weightOf = (s: FingerSample) =>
-        sampleWeight(s, joint, ESTIMATOR_TOGETHER_WEIGHT[joint], ESTIMATOR_RESTING_WEIGHT) * (isClip(s) ? clipWeight : 1);
+        sampleWeight(s, joint, ESTIMATOR_TOGETHER_WEIGHT[joint], ESTIMATOR_RESTING_WEIGHT) * (isClipSample(s) ? clipWeight : 1);
       const rows = samples.filter((s) => s.model === model && weightOf(s) > 0);
       const fit = fitFingerJoint(
         rows.map((s) => s.base),
@@ -79,7 +77,7 @@ function fitJoints(models: readonly string[], samples: readonly FingerSample[], 
           ridgeLambda: ESTIMATOR_RIDGE_LAMBDA,
           huberDeg: HUBER_DEG,
           weights: rows.map(weightOf),
-          sources: rows.map((s) => (isClip(s) ? "clips" : "stills")),
+          sources: rows.map(sampleSource),
         },
       );
       fits[model][joint] = roundedFit(fit);

@@ -13,7 +13,7 @@
  */
 import { parseArgs } from "node:util";
 import { applyFingerFit, DOMAIN_MARGIN_SD, FINGER_JOINTS, inTrainingDomain, type FingerJoint } from "@/vision/estimator";
-import { CLIP_CONDITIONS, clipFingerSamples, type ClipCondition } from "./clip-training";
+import { CLIP_CONDITIONS, clipFingerSamples, isClipSample, sampleSource, type ClipCondition } from "./clip-training";
 import { HUBER_DEG } from "./correction";
 import { fingerSamples, fitFingerJoint, loadTrackedSet, sampleWeight, type FingerSample } from "./estimator-fit";
 import { FINGER_FLEXION_SET } from "./motion-sets";
@@ -26,13 +26,9 @@ function foldOf(sample: FingerSample): number {
   return Math.floor(Number(sample.stillId.split("#")[1]) / 6) % FOLDS;
 }
 
-function isClip(sample: FingerSample): boolean {
-  return sample.stillId.startsWith("clip:");
-}
-
 /** A test-motion still: what cross-validation scores (clip frames, when added, only ever train). */
 function isTestMotion(sample: FingerSample): boolean {
-  return !isClip(sample) && sample.motion !== null && sample.motion !== FINGER_FLEXION_SET;
+  return !isClipSample(sample) && sample.motion !== null && sample.motion !== FINGER_FLEXION_SET;
 }
 
 function scoreJoint(
@@ -45,13 +41,13 @@ function scoreJoint(
   restingWeight: number,
   clipWeight = 1,
 ) {
-  const weightOf = (s: FingerSample) => sampleWeight(s, joint, togetherWeight, restingWeight) * (isClip(s) ? clipWeight : 1);
+  const weightOf = (s: FingerSample) => sampleWeight(s, joint, togetherWeight, restingWeight) * (isClipSample(s) ? clipWeight : 1);
   const rows = train.filter((s) => weightOf(s) > 0);
   const fit = fitFingerJoint(rows.map((s) => s.base), rows.map((s) => s.truthDeg[joint]), {
     ridgeLambda: lambda,
     huberDeg: HUBER_DEG,
     weights: rows.map(weightOf),
-    sources: rows.map((s) => (isClip(s) ? "clips" : "stills")),
+    sources: rows.map(sampleSource),
   });
   // Outside the training domain the engine keeps the raw angle; scored the same way, with the share kept.
   return test
@@ -60,7 +56,7 @@ function scoreJoint(
     .map((s) => {
       const inDomain = inTrainingDomain(fit, s.base, marginSd);
       return {
-        view: `${s.stillId.startsWith("single") ? "single " : isClip(s) ? "clip " : ""}${s.view}`,
+        view: `${s.stillId.startsWith("single") ? "single " : isClipSample(s) ? "clip " : ""}${s.view}`,
         truthDeg: s.truthDeg[joint],
         estimateDeg: inDomain ? applyFingerFit(fit, s.base) : s.base[FINGER_JOINTS.indexOf(joint)],
         inDomain,
