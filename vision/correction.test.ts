@@ -5,7 +5,7 @@ import COEFFICIENTS from "./correction-coefficients.json";
 import { CORRECTION_FEATURES, CORRECTION_MODEL, CORRECTION_VERSION, correctGroupAngle, correctionGroupFor, correctMotionAngle, type RawAngleFeatures } from "./correction";
 import { estimateFingerJointDeg } from "./estimator";
 import { createLivePipeline } from "./pipeline";
-import { neutralPose, poseHand, withMotionAngle, type Placement } from "./testing/synthetic-hand";
+import { neutralPose, PINHOLE_ASPECT, pinholePicture, poseHand, withMotionAngle, type Placement } from "./testing/synthetic-hand";
 import { UNCERTAINTY_TABLE, type UncertaintyTable } from "./uncertainty";
 
 /** A feature named in the file ("deg*facing") evaluated from its parts: an independent reading of the file's form. */
@@ -20,9 +20,9 @@ function featureValue(name: string, f: RawAngleFeatures): number {
 const SAMPLE: RawAngleFeatures = { deg: 41, imagePlaneDeg: 38, planeFacing: 0.8, radialTowardCamera: 0.9, palmTowardCamera: -0.2 };
 
 describe("the committed correction (vision/correction-coefficients.json)", () => {
-  it("is version kinarc-correction-5 with the engine's feature list, ten coefficients per linear fit and the finger estimator", () => {
+  it("is version kinarc-correction-6 with the engine's feature list, ten coefficients per linear fit and the finger estimator", () => {
     expect(COEFFICIENTS.version).toBe(CORRECTION_VERSION);
-    expect(CORRECTION_VERSION).toBe("kinarc-correction-5");
+    expect(CORRECTION_VERSION).toBe("kinarc-correction-6");
     expect(COEFFICIENTS.features).toEqual([...CORRECTION_FEATURES]);
     for (const groups of Object.values(CORRECTION_MODEL.groups)) for (const fit of Object.values(groups)) expect(fit.coefficients).toHaveLength(10);
     // Finger flexion is the estimator's alone: a linear fit beside it would never be read.
@@ -55,17 +55,18 @@ describe("the committed correction (vision/correction-coefficients.json)", () =>
       expect(correctMotionAngle(CORRECTION_MODEL, "lite", reverse, digit, SAMPLE)).toBeCloseTo(-forwardValue, 9);
     }
     // The finger estimator reads flexion from the hand itself; MCP extension is its negative on the same hand.
-    const withHand = { ...SAMPLE, hand: frameAt(40, RADIAL_VIEW), side: "right" as const };
+    const withHand = withFrame(frameAt(40, RADIAL_VIEW));
     const flexion = correctMotionAngle(CORRECTION_MODEL, "lite", "mcp.flexion", "index", withHand)!;
     expect(flexion).not.toBeNull();
     expect(correctMotionAngle(CORRECTION_MODEL, "lite", "mcp.extension", "index", withHand)).toBeCloseTo(-flexion, 9);
   });
 
-  it("reads finger flexion only with the hand's landmarks: without them the raw angle stands, never another model", () => {
+  it("reads finger flexion only with the hand's landmarks and picture: without them the raw angle stands, never another model", () => {
     expect(correctMotionAngle(CORRECTION_MODEL, "lite", "pip.flexion", "index", SAMPLE)).toBeNull();
-    const withHand = { ...SAMPLE, hand: frameAt(40, RADIAL_VIEW), side: "right" as const };
+    const withHand = withFrame(frameAt(40, RADIAL_VIEW));
+    expect(correctMotionAngle(CORRECTION_MODEL, "lite", "pip.flexion", "index", { ...withHand, picture: null })).toBeNull();
     expect(correctMotionAngle(CORRECTION_MODEL, "lite", "pip.flexion", "index", withHand)).toBeCloseTo(
-      estimateFingerJointDeg(CORRECTION_MODEL.fingerEstimator!, "lite", "pip", withHand.hand, "right", "index")!,
+      estimateFingerJointDeg(CORRECTION_MODEL.fingerEstimator!, "lite", "pip", withHand.hand, "right", "index", undefined, withHand.picture)!,
       12,
     );
   });
@@ -89,6 +90,11 @@ function frameAt(deg: number, placement: Placement) {
   return poseHand(withMotionAngle(neutralPose(), "pip.flexion", "index", deg), "right", placement).landmarks;
 }
 
+/** SAMPLE with a right hand's landmarks and their picture points (an exact pinhole), as the finger estimator reads. */
+function withFrame(hand: ReturnType<typeof frameAt>) {
+  return { ...SAMPLE, hand, side: "right" as const, picture: { image: pinholePicture(hand), aspect: PINHOLE_ASPECT } };
+}
+
 describe("the live pipeline with the correction", () => {
   it("reports the estimator's angle, the method and the version where validation shows the correction helps", () => {
     // The cell's policy comes from the report; here it is set to "helps" so the check is of the engine's path.
@@ -101,16 +107,18 @@ describe("the live pipeline with the correction", () => {
       t: 0,
       score: 0.95,
       hand,
+      image: pinholePicture(hand),
+      imageAspect: PINHOLE_ASPECT,
     });
     expect(update.view).toBe("radial");
     // Independently: the estimator on the same landmarks, through the group API.
     const axes = handAxes(hand, "right")!;
     const raw = readMotion("pip.flexion", "index", hand, axes, null)!;
-    const expected = correctGroupAngle(CORRECTION_MODEL, "lite", "PIP flexion", { deg: raw.deg, imagePlaneDeg: raw.imagePlaneDeg, planeFacing: 1, radialTowardCamera: 1, palmTowardCamera: 0, hand, side: "right" }, "index")!;
+    const expected = correctGroupAngle(CORRECTION_MODEL, "lite", "PIP flexion", { ...withFrame(hand), deg: raw.deg, imagePlaneDeg: raw.imagePlaneDeg, planeFacing: 1, radialTowardCamera: 1, palmTowardCamera: 0 }, "index")!;
     expect(update.angleDeg).toBeCloseTo(expected, 9);
     expect(Math.abs(update.angleDeg! - raw.deg)).toBeGreaterThan(0.1);
-    expect(update.method).toBe("world3d+kinarc-correction-5");
-    expect(update.correctionVersion).toBe("kinarc-correction-5");
+    expect(update.method).toBe("world3d+kinarc-correction-6");
+    expect(update.correctionVersion).toBe("kinarc-correction-6");
     const cell = table.cells.find((c) => c.group === "PIP flexion" && c.model === "lite" && c.view === "radial")!;
     expect(update.uncertaintyDeg).toBeCloseTo(cell.uncertaintyDeg, 6);
   });

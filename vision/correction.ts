@@ -3,7 +3,7 @@ import COEFFICIENTS from "./correction-coefficients.json";
 import HAND_SHAPE_FIT from "./correction-hand-shape.json";
 import HAND_SHAPE_DOWN_FIT from "./correction-hand-shape-down.json";
 import { estimateHandShapeJointDeg, type HandShapeEstimatorModel } from "./correction-hand-shape";
-import { estimateFingerJointDeg, fingerJointOfGroup, type Finger, type FingerEstimatorModel } from "./estimator";
+import { estimateFingerJointDeg, fingerJointOfGroup, usesPicture, type Finger, type FingerEstimatorModel, type FingerPicture } from "./estimator";
 import { handAxes, type HandAxes } from "./angles";
 import { viewFromHand, viewOfAxes, type ValidationView } from "./correction-views";
 import type { HandLandmarks } from "./landmarks";
@@ -39,7 +39,7 @@ export const CORRECTION_FEATURES = [
   "deg*palm",
 ] as const;
 
-export const CORRECTION_VERSION = "kinarc-correction-5";
+export const CORRECTION_VERSION = "kinarc-correction-6";
 
 /** Joint groups as the accuracy report names its rows: the four fingers share one fit per joint. */
 export const CORRECTION_GROUPS = [
@@ -75,6 +75,8 @@ export interface RawAngleFeatures {
   side?: Side;
   /** The hand's axes when the caller already has them for this frame (saves computing them again per frame). */
   axes?: HandAxes;
+  /** The frame's picture points: the finger estimator reads them too since kinarc-correction-6. */
+  picture?: FingerPicture | null;
 }
 
 export interface CorrectionGroupFit {
@@ -146,7 +148,7 @@ export function correctGroupAngle(
     const handShape = view === null ? undefined : model.handShapeEstimators!.find((m) => m.fits[handModel]?.[joint] && m.views.includes(view));
     if (handShape) return estimateHandShapeJointDeg(handShape, handModel, joint, features.hand, features.side, digit as Finger, features.axes);
     if (!model.fingerEstimator?.fits[handModel]?.[joint]) return null;
-    return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes);
+    return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture);
   }
   const fit = model.groups[handModel]?.[group];
   if (!fit) return null;
@@ -200,6 +202,16 @@ export function correctionGroupFor(motion: MotionId, digit: Digit | null): { gro
       if (!digit || thumb || digit === "middle") return null;
       return { group: "finger abduction", sign: motion === "finger.abduction" ? 1 : -1 };
   }
+}
+
+/**
+ * Whether the engine's correction reads a motion's picture points as well as its 3-D ones (the finger estimator since
+ * kinarc-correction-6): a capture of it keeps them, so the server reads what the browser read.
+ */
+export function readsPicturePoints(model: CorrectionModel, motion: MotionId, digit: Digit | null): boolean {
+  const group = correctionGroupFor(motion, digit)?.group;
+  const joint = group ? fingerJointOfGroup(group) : null;
+  return Boolean(joint && model.fingerEstimator && usesPicture(model.fingerEstimator));
 }
 
 /** The corrected reading for a motion's reported angle (same sign convention), or null when there is no fit. */

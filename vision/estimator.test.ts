@@ -3,17 +3,19 @@ import { CORRECTION_MODEL } from "./correction";
 import {
   applyFingerFit,
   designRow,
+  ESTIMATOR_FEATURES,
   estimateFingerJointDeg,
   FINGER_FEATURES,
   fingerFitFor,
   FINGER_JOINTS,
   fingerFeatures,
   inTrainingDomain,
+  modelFingerFeatures,
   quadraticTerms,
   standardize,
   type FingerJointFit,
 } from "./estimator";
-import { BONES_MM, neutralPose, poseHand, type Placement } from "./testing/synthetic-hand";
+import { BONES_MM, neutralPose, PINHOLE_ASPECT, pinholePicture, poseHand, type Placement } from "./testing/synthetic-hand";
 
 // A right hand held up, little-finger side toward the camera (ulnar view); z points away from the camera.
 const ULNAR_VIEW: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, 1], wrist: [0, 0, 0.5] };
@@ -28,6 +30,9 @@ function handWith(pip: number, dip: number, placement: Placement, mcp = 0) {
   pose.fingers.middle = { mcpFlexionDeg: mcp, radialAbductionDeg: 0, pipFlexionDeg: pip, dipFlexionDeg: dip };
   return poseHand(pose, "right", placement).landmarks;
 }
+
+/** The frame as the tracker gives it: landmarks plus their picture points (an exact pinhole). */
+const pictureOf = (hand: ReturnType<typeof handWith>) => ({ image: pinholePicture(hand), aspect: PINHOLE_ASPECT });
 
 const feature = (values: number[], name: (typeof FINGER_FEATURES)[number]) => values[FINGER_FEATURES.indexOf(name)];
 
@@ -126,12 +131,14 @@ describe("the committed estimator (vision/correction-coefficients.json)", () => 
   const estimator = CORRECTION_MODEL.fingerEstimator!;
 
   it("has a fit for MCP, PIP and DIP of both hand models, sized to its feature list, trained off the validation seed", () => {
-    expect(estimator.features).toEqual([...FINGER_FEATURES]);
-    for (const model of ["lite", "full"]) {
-      for (const joint of FINGER_JOINTS) {
-        const fit = estimator.fits[model]![joint]!;
-        expect(fit.means).toHaveLength(FINGER_FEATURES.length);
-        expect(fit.coefficients).toHaveLength(quadraticTerms(FINGER_FEATURES.length).length + 1);
+    expect(estimator.features).toEqual([...ESTIMATOR_FEATURES]);
+    for (const fits of [estimator.fits, ...(estimator.viewFits ?? []).map((v) => v.fits)]) {
+      for (const model of ["lite", "full"]) {
+        for (const joint of FINGER_JOINTS) {
+          const fit = fits[model]![joint]!;
+          expect(fit.means).toHaveLength(ESTIMATOR_FEATURES.length);
+          expect(fit.coefficients).toHaveLength(quadraticTerms(ESTIMATOR_FEATURES.length).length + 1);
+        }
       }
     }
     for (const set of estimator.trainingSets) expect(set).not.toContain("20261202");
@@ -148,22 +155,26 @@ describe("the committed estimator (vision/correction-coefficients.json)", () => 
       for (const set of viewFit.trainingSets) expect(set).not.toMatch(/2026120\d/);
     }
     const pipOf = (placement: Placement) => handWith(60, 30, placement);
-    const read = (placement: Placement) => estimateFingerJointDeg(estimator, "lite", "pip", pipOf(placement), "right", "middle");
-    const features = (placement: Placement) => fingerFeatures(pipOf(placement), "right", "middle")!;
+    const read = (placement: Placement) => estimateFingerJointDeg(estimator, "lite", "pip", pipOf(placement), "right", "middle", undefined, pictureOf(pipOf(placement)));
+    const features = (placement: Placement) => modelFingerFeatures(estimator, pipOf(placement), "right", "middle", null, pictureOf(pipOf(placement)))!;
     expect(read(ULNAR_VIEW)).toBeCloseTo(applyFingerFit(viewFits[0].fits.lite!.pip!, features(ULNAR_VIEW)), 9);
     expect(read(RADIAL_VIEW)).toBeCloseTo(applyFingerFit(viewFits[1].fits.lite!.pip!, features(RADIAL_VIEW)), 9);
     expect(read(RADIAL_VIEW)).not.toBeCloseTo(applyFingerFit(estimator.fits.lite!.pip!, features(RADIAL_VIEW)), 3);
   });
 
   it("reads an MCP test position (fingers straight) but declines a curled finger, which its test motion never shows", () => {
-    const mcpOnly = estimateFingerJointDeg(estimator, "lite", "mcp", handWith(0, 0, ULNAR_VIEW, 60), "right", "middle");
+    const read = (hand: ReturnType<typeof handWith>) => estimateFingerJointDeg(estimator, "lite", "mcp", hand, "right", "middle", undefined, pictureOf(hand));
+    const mcpOnly = read(handWith(0, 0, ULNAR_VIEW, 60));
     expect(mcpOnly).not.toBeNull();
-    const fist = estimateFingerJointDeg(estimator, "lite", "mcp", handWith(100, 80, ULNAR_VIEW, 85), "right", "middle");
+    const fist = read(handWith(100, 80, ULNAR_VIEW, 85));
     expect(fist).toBeNull();
   });
 
   it("is deterministic and reads more PIP flexion for a more bent PIP in a side view", () => {
-    const at = (pip: number) => estimateFingerJointDeg(estimator, "lite", "pip", handWith(pip, pip * 0.5, ULNAR_VIEW), "right", "middle")!;
+    const at = (pip: number) => {
+      const hand = handWith(pip, pip * 0.5, ULNAR_VIEW);
+      return estimateFingerJointDeg(estimator, "lite", "pip", hand, "right", "middle", undefined, pictureOf(hand))!;
+    };
     expect(at(40)).toBe(at(40));
     expect(at(70)).toBeGreaterThan(at(10));
   });

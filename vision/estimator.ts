@@ -1,8 +1,8 @@
 import type { Side } from "@/lib/motions/catalog";
 import { handAxes, readMotion, type HandAxes } from "./angles";
 import { viewOfAxes, type ValidationView } from "./correction-views";
-import { DIGIT_CHAIN, MIDDLE_MCP, WRIST, type HandLandmarks } from "./landmarks";
-import { length, sub, type Vec3 } from "./vec";
+import { DIGIT_CHAIN, LANDMARK_COUNT, MIDDLE_MCP, WRIST, type HandLandmarks } from "./landmarks";
+import { length, RAD_TO_DEG, sub, type Vec3 } from "./vec";
 
 /**
  * Kinarc's finger-joint estimator (part of kinarc-correction-2 and -3; side views). The landmark model does not put a finger's flexion
@@ -41,6 +41,35 @@ export const FINGER_FEATURES = [
 ] as const;
 export type FingerFeatureName = (typeof FINGER_FEATURES)[number];
 
+/**
+ * Since kinarc-correction-6: the same finger read in the picture. The tracker's picture points are its primary
+ * output; its 3-D (world) points come from a second head that bends the fingers its own way (with gravity minimized an
+ * MCP angle measured in the picture read training clips about twice as truly as the corrected 3-D one;
+ * scripts/accuracy/README.md). With the hand seen side-on the finger's bending plane lies in the picture, so the turns
+ * between its segments there carry what the world points lose past about 60 degrees. Chosen on training seeds only
+ * (README, "Picture features"): on the clips of training seed 77000403, little-finger side, lite, MCP 3.9 -> 3.1,
+ * PIP 5.8 -> 4.2, DIP 9.7 -> 7.1 degrees; thumb side (gravity minimized) MCP 8.1 -> 4.9, DIP 12.1 -> 8.8.
+ */
+export const PICTURE_FEATURES = [
+  // Unsigned turns between the finger's segments in the picture (wrist-MCP to MCP-PIP, and so on), degrees.
+  "mcpPictureDeg",
+  "pipPictureDeg",
+  "dipPictureDeg",
+  // Tip-to-MCP distance in the picture over the finger's picture length.
+  "tipToMcpPicture",
+  // The distal phalanx's picture length over the middle one's (foreshortening of a curling tip).
+  "distalOverMiddlePicture",
+] as const;
+
+/** The features the committed estimator reads (kinarc-correction-6): the world features, then the picture features. */
+export const ESTIMATOR_FEATURES: readonly string[] = [...FINGER_FEATURES, ...PICTURE_FEATURES];
+
+/** The frame's 21 picture points ([x, y] as fractions of width and height) and the picture's width over its height. */
+export interface FingerPicture {
+  image: readonly (readonly number[])[];
+  aspect: number;
+}
+
 export const FINGER_JOINTS = ["mcp", "pip", "dip"] as const;
 export type FingerJoint = (typeof FINGER_JOINTS)[number];
 export type Finger = "index" | "middle" | "ring" | "little";
@@ -76,6 +105,7 @@ export interface FingerViewFits {
 }
 
 export interface FingerEstimatorModel {
+  /** FINGER_FEATURES, followed since kinarc-correction-6 by PICTURE_FEATURES (then every frame read needs its picture). */
   features: readonly string[];
   /** By hand model, then joint: the fit for every side view without a view fit of its own. */
   fits: Record<string, Partial<Record<FingerJoint, FingerJointFit>>>;
@@ -144,6 +174,59 @@ export function fingerFeatures(hand: HandLandmarks, side: Side, finger: Finger, 
   return values.every(Number.isFinite) ? values : null;
 }
 
+function unsignedTurnDeg(a: readonly number[], b: readonly number[]): number {
+  return Math.abs(Math.atan2(a[0] * b[1] - a[1] * b[0], a[0] * b[0] + a[1] * b[1])) * RAD_TO_DEG;
+}
+
+/**
+ * The picture features of one finger, in PICTURE_FEATURES order, or null when a point is missing or a segment has no
+ * length in the picture. x is scaled by the aspect so that turns are true angles in the picture.
+ */
+export function fingerPictureFeatures(picture: FingerPicture, finger: Finger): number[] | null {
+  const { image, aspect } = picture;
+  if (image.length !== LANDMARK_COUNT || !(aspect > 0)) return null;
+  const [mcp, pip, dip, tip] = DIGIT_CHAIN[finger];
+  const at = (i: number): [number, number] => [image[i][0] * aspect, image[i][1]];
+  const [w, m, p, d, t] = [at(WRIST), at(mcp), at(pip), at(dip), at(tip)];
+  const from = (a: [number, number], b: [number, number]) => [b[0] - a[0], b[1] - a[1]];
+  const segments = [from(w, m), from(m, p), from(p, d), from(d, t)];
+  const lengths = segments.map((v) => Math.hypot(v[0], v[1]));
+  if (!lengths.every((l) => l > 1e-9) || !segments.flat().every(Number.isFinite)) return null;
+  const fingerLength = lengths[1] + lengths[2] + lengths[3];
+  const tipFromMcp = from(m, t);
+  return [
+    unsignedTurnDeg(segments[0], segments[1]),
+    unsignedTurnDeg(segments[1], segments[2]),
+    unsignedTurnDeg(segments[2], segments[3]),
+    Math.hypot(tipFromMcp[0], tipFromMcp[1]) / fingerLength,
+    lengths[3] / lengths[2],
+  ];
+}
+
+/** Whether a model's fits read the picture features too (and so need each frame's picture). */
+export function usesPicture(model: Pick<FingerEstimatorModel, "features">): boolean {
+  return model.features.length > FINGER_FEATURES.length;
+}
+
+/**
+ * The features a model reads for one finger: the world features, then the picture features when the model uses them.
+ * Null when any is unreadable, or the model needs a picture and the frame has none.
+ */
+export function modelFingerFeatures(
+  model: Pick<FingerEstimatorModel, "features">,
+  hand: HandLandmarks,
+  side: Side,
+  finger: Finger,
+  axes: HandAxes | null | undefined,
+  picture: FingerPicture | null | undefined,
+): number[] | null {
+  // No axes given: computed from the hand, as fingerFeatures does.
+  const world = fingerFeatures(hand, side, finger, axes ?? undefined);
+  if (!world || !usesPicture(model)) return world;
+  const inPicture = picture ? fingerPictureFeatures(picture, finger) : null;
+  return inPicture ? [...world, ...inPicture] : null;
+}
+
 /** All base features and their pairwise products (squares included): the small polynomial basis of the fit. */
 export function quadraticTerms(featureCount: number): number[][] {
   const terms: number[][] = [];
@@ -198,8 +281,9 @@ export function applyFingerFit(fit: FingerJointFit, base: readonly number[]): nu
 
 /**
  * The estimated flexion of one finger joint (degrees, flexion positive), or null when the model has no fit for the
- * joint and hand model, the finger's features cannot be read, or they lie outside the fit's training domain. The fit
- * is chosen by the frame's view (from the hand's axes) where the model has view fits.
+ * joint and hand model, the finger's features cannot be read (a model that uses picture features needs `picture`),
+ * or they lie outside the fit's training domain. The fit is chosen by the frame's view (from the hand's axes) where
+ * the model has view fits.
  */
 export function estimateFingerJointDeg(
   model: FingerEstimatorModel,
@@ -209,10 +293,11 @@ export function estimateFingerJointDeg(
   side: Side,
   finger: Finger,
   axes?: HandAxes,
+  picture?: FingerPicture | null,
 ): number | null {
   const frameAxes = axes ?? handAxes(hand, side);
   const fit = fingerFitFor(model, handModel, joint, model.viewFits?.length && frameAxes ? viewOfAxes(frameAxes) : null);
   if (!fit) return null;
-  const base = fingerFeatures(hand, side, finger, frameAxes);
+  const base = modelFingerFeatures(model, hand, side, finger, frameAxes ?? null, picture);
   return base && inTrainingDomain(fit, base) ? applyFingerFit(fit, base) : null;
 }

@@ -5,7 +5,6 @@ import { PalmContinuity } from "./depth-mirror";
 import type { HandLandmarks } from "./landmarks";
 import { LANDMARK_COUNT } from "./landmarks";
 import { OneEuroFilter, type OneEuroParams } from "./one-euro";
-import { pictureMcpFlexion, readsInPicture } from "./picture-angles";
 import { PlaneAccumulator, readPlane, unitGravity, type PlaneReading } from "./plane";
 import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
 import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
@@ -21,7 +20,7 @@ export type MeasurementMethod = "world3d" | "image_plane" | `world3d+${string}`;
 export function measurementMethodWords(method: string | null): string {
   if (method === "image_plane") return "read in the picture, the hand seen side-on (no correction)";
   if (method === "world3d") return "3-D hand landmarks (raw angles, no correction)";
-  if (method?.startsWith("world3d+")) return `3-D hand landmarks, corrected (${method.slice("world3d+".length)})`;
+  if (method?.startsWith("world3d+")) return `hand landmarks, corrected (${method.slice("world3d+".length)})`;
   return method ?? "—";
 }
 
@@ -44,7 +43,7 @@ export interface LivePipelineOptions {
   side: Side;
   digit: Digit | null;
   condition: Condition;
-  /** The picture's width over its height: with it, frames' `image` points can be read as angles (vision/picture-angles.ts). */
+  /** The picture's width over its height: with it, frames' `image` points can be read as angles (the finger estimator's picture features). */
   imageAspect?: number | null;
   /** Gravity in camera axes; straight down the image when not given. */
   gravity?: Vec3 | null;
@@ -183,9 +182,6 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   // Without a neutral reading the capture's first moments stand in for it, side-on figures included.
   const startHands: HandLandmarks[] = [];
   let pictureFrames = 0;
-  // Finger frames read in the picture carry the cell's engine figure (its clip error is measured that way).
-  let pictureFingerFrames = 0;
-  const pictureMcp = readsInPicture(options.motion, options.condition);
   const wristTable = options.wristAxisValidation ?? WRIST_AXIS_VALIDATION;
   let method: MeasurementMethod = "world3d";
   const palmContinuity = new PalmContinuity(options.side);
@@ -246,21 +242,19 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     // Against a side-on neutral reading, wrist flexion and extension are read in the picture (vision/wrist-axis.ts).
     const pictureWrist = forearm && forearm.source !== "pose" && sideOn ? sideOnWristFlexion(hand, sideOn) : null;
     const pictureFlexion = pictureWrist && options.motion === "wrist.extension" ? negate(pictureWrist) : pictureWrist;
-    // With gravity minimized, MCP flexion of a hand seen side-on is read in the picture (vision/picture-angles.ts).
-    const pictureFinger =
-      !pictureFlexion && pictureMcp && frame.image && options.digit && (frame.imageAspect ?? options.imageAspect)
-        ? pictureMcpFlexion(hand, frame.image, (frame.imageAspect ?? options.imageAspect)!, options.digit)
-        : null;
-    const reading = pictureFlexion ?? pictureFinger ?? readMotion(options.motion, options.digit, hand, axes, forearm?.direction ?? null);
+    const reading = pictureFlexion ?? readMotion(options.motion, options.digit, hand, axes, forearm?.direction ?? null);
     if (!reading || !Number.isFinite(reading.deg)) return skipped(frame.t, score, "degenerate");
     if (forearm) forearmCounts.set(forearm.source, (forearmCounts.get(forearm.source) ?? 0) + 1);
 
     const view = viewOfAxes(axes);
     let angleDeg = reading.deg;
-    const inPicture = pictureFlexion !== null || pictureFinger !== null;
+    const inPicture = pictureFlexion !== null;
     let frameMethod: MeasurementMethod = inPicture ? "image_plane" : "world3d";
     if (inPicture) pictureFrames += 1;
-    if (pictureFinger) pictureFingerFrames += 1;
+    // The finger estimator reads the picture points too (vision/estimator.ts PICTURE_FEATURES); the depth mirror
+    // turns the world hand front to back and leaves the picture as it was.
+    const aspect = frame.imageAspect ?? options.imageAspect;
+    const picture = frame.image && aspect ? { image: frame.image, aspect } : null;
     // The correction's wrist maps were fitted on angles read against the render's true forearm; against a neutral reading
     // it moves them away from the truth (scripts/accuracy/report.md, wrist section), so they stay raw.
     const againstNeutral = forearm?.source === "neutral-reading";
@@ -274,6 +268,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
         hand,
         side: options.side,
         axes,
+        picture,
       });
       if (corrected !== null && Number.isFinite(corrected)) {
         angleDeg = corrected;
@@ -306,7 +301,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
       uncertaintyDeg:
         (againstNeutral ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable, table) : null) ??
-        angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod || pictureFinger ? "engine" : "raw"),
+        angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
       view,
       viewQuality: viewQuality(policy, view),
       forearmSource: forearm?.source ?? null,
@@ -359,7 +354,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       method: summaryMethod,
       uncertaintyDeg: usable
         ? ((forearmSource === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, meanUsableScore, wristTable, table) : null) ??
-          angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames + pictureFingerFrames === usable ? "engine" : "raw"))
+          angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames === usable ? "engine" : "raw"))
         : null,
       view,
       viewQuality: quality,

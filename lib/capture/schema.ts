@@ -22,8 +22,8 @@ export const captureFrameSchema = z.object({
   forearm: point.refine(nonZero, { error: "expected a non-zero elbow-to-wrist direction" }).optional(),
   /**
    * Optional: the same 21 landmarks in the picture, [x, y] as 0-1 of its width and height (unmirrored), for drawing
-   * the hand over a stored clip when it is reviewed, and (with the file's `imageAspect`) for the angles the engine
-   * reads in the picture (vision/picture-angles.ts).
+   * the hand over a stored clip when it is reviewed, and (with the file's `imageAspect`) for the finger estimator's
+   * picture features (vision/estimator.ts PICTURE_FEATURES).
    */
   image: z
     .array(z.tuple([coordinate, coordinate], { error: "expected [x, y]" }), { error: "expected 21 image points [x, y] or null" })

@@ -5,7 +5,7 @@
 import { CAPTURE_FORMAT, CAPTURE_VERSION, IMAGE_ASPECT_RANGE, type CaptureFile, type CaptureFrame } from "@/lib/capture/schema";
 import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
 import type { TrackedFrame } from "@/vision/live/types";
-import { readsInPicture } from "@/vision/picture-angles";
+import { CORRECTION_MODEL, readsPicturePoints } from "@/vision/correction";
 import type { Vec3 } from "@/vision/vec";
 
 export interface CaptureTarget {
@@ -31,11 +31,12 @@ export class CaptureRecorder {
     private readonly gravity: Vec3 | null = null,
     /**
      * Keep the picture landmarks too (a stored clip is reviewed with the hand drawn over it); off for live attempts,
-     * except where the engine reads the angle in the picture (vision/picture-angles.ts), so the server can too.
+     * except where the engine reads them (the finger estimator, vision/correction.ts readsPicturePoints), so the
+     * server can too.
      */
     keepImage = false,
   ) {
-    this.keepsImage = keepImage || readsInPicture(target.motion, target.condition);
+    this.keepsImage = keepImage || readsPicturePoints(CORRECTION_MODEL, target.motion, target.digit);
   }
 
   push(frame: Pick<TrackedFrame, "t" | "score" | "hand" | "forearm"> & Partial<Pick<TrackedFrame, "image" | "imageAspect">>): void {

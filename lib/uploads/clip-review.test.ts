@@ -52,8 +52,11 @@ describe("the trace a therapist reviews", () => {
     });
   });
 
-  it("keeps no hand drawing when the capture holds no picture landmarks", () => {
-    expect(trace.images.every((i) => i === null)).toBe(true);
+  it("keeps no hand drawing when the capture holds no picture landmarks, and draws them where it does", () => {
+    const without = clipReviewTrace(captureSchema.parse(buildSyntheticCapture({ ...SPEC, picture: false })), RAW);
+    expect(without.images.every((i) => i === null)).toBe(true);
+    // A finger flexion capture keeps them (the correction reads them): one drawing per frame with a hand.
+    capture.frames.forEach((f, i) => expect(trace.images[i] === null).toBe(f.hand === null));
   });
 });
 

@@ -1,5 +1,6 @@
 import { describe, expect, it } from "vitest";
-import { neutralPose, poseHand, type Placement } from "@/vision/testing/synthetic-hand";
+import { FINGER_FEATURES, PICTURE_FEATURES } from "@/vision/estimator";
+import { neutralPose, PINHOLE_ASPECT, pinholePicture, poseHand, type Placement } from "@/vision/testing/synthetic-hand";
 import type { TrackedFrame } from "@/vision/live/types";
 import { clipFingerSamples, clipFrameSamples } from "./clip-training";
 import { restPose, setPoseAngle } from "./hand-pose";
@@ -14,7 +15,8 @@ function clip(pipDeg: readonly number[]) {
   const frames: TrackedFrame[] = pipDeg.map((deg, i) => {
     const pose = neutralPose();
     for (const finger of FINGERS) pose.fingers[finger].pipFlexionDeg = deg;
-    return { t: (i * 1000) / 30, score: 0.95, handedness: "right", hand: poseHand(pose, "right", ULNAR_VIEW).landmarks.map(([x, y, z]) => [x, y, z]), image: null };
+    const hand = poseHand(pose, "right", ULNAR_VIEW).landmarks;
+    return { t: (i * 1000) / 30, score: 0.95, handedness: "right", hand: hand.map(([x, y, z]) => [x, y, z]), image: pinholePicture(hand), imageAspect: PINHOLE_ASPECT };
   });
   const truth = {
     frameCount: pipDeg.length,
@@ -37,8 +39,18 @@ describe("finger estimator training samples from tracked clips", () => {
     );
     expect(samples.every((s) => s.motion === "pip.flexion" && s.view === "ulnar" && s.model === "lite")).toBe(true);
     expect(samples.filter((s) => s.finger === "middle").map((s) => s.truthDeg.pip)).toEqual([0, 60, 40]);
-    // The synthetic hand's landmarks are exact, so the features' 3-D PIP reading (FINGER_FEATURES[1]) is the truth.
-    for (const s of samples) expect(s.base[1]).toBeCloseTo(s.truthDeg.pip, 6);
+    // The synthetic hand's landmarks are exact, so the features' 3-D PIP reading is the truth; the middle finger bends
+    // square to the camera, so its picture reading (a similarity of its plane under the pinhole) is the truth too.
+    for (const s of samples) {
+      expect(s.base).toHaveLength(FINGER_FEATURES.length + PICTURE_FEATURES.length);
+      expect(s.base[FINGER_FEATURES.indexOf("pipDeg")]).toBeCloseTo(s.truthDeg.pip, 6);
+      if (s.finger === "middle") expect(s.base[FINGER_FEATURES.length + PICTURE_FEATURES.indexOf("pipPictureDeg")]).toBeCloseTo(s.truthDeg.pip, 6);
+    }
+  });
+
+  it("gives no samples for frames without their picture points (the estimator reads them)", () => {
+    const { frames, truth } = clip([10, 20, 30]);
+    expect(clipFrameSamples("pip.flexion-77000401-0-1", "lite", frames.map((f) => ({ ...f, image: null })), truth, 1)).toEqual([]);
   });
 
   it("skips frames without a hand and refuses a clip whose tracking does not match its frames", () => {

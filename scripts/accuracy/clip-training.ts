@@ -13,12 +13,12 @@ import path from "node:path";
 import type { Side } from "@/lib/motions/catalog";
 import { handAxes } from "@/vision/angles";
 import { PalmContinuity } from "@/vision/depth-mirror";
-import { ESTIMATOR_FINGERS, FINGER_JOINTS, fingerFeatures, type FingerJoint } from "@/vision/estimator";
+import { ESTIMATOR_FINGERS, FINGER_JOINTS, modelFingerFeatures, type FingerJoint } from "@/vision/estimator";
 import type { TrackedFrame } from "@/vision/live/types";
-import { fingerPoseKey, type FingerSample } from "./estimator-fit";
+import { ESTIMATOR_MODEL_FEATURES, fingerPoseKey, type FingerSample } from "./estimator-fit";
 import { getPoseAngle } from "./hand-pose";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
-import type { FrameTruth } from "./scene";
+import { IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, type FrameTruth } from "./scene";
 
 /** Seeds below this are held out (the validation seeds are 2026120x); clip training seeds start here. */
 export const FIRST_TRAINING_SEED = 77_000_000;
@@ -91,7 +91,8 @@ export function clipFrameSamples(name: string, model: string, frames: readonly T
     if (index % everyNth !== 0) return;
     const commanded = truth.frames[index].truth.commandedDeg;
     for (const finger of ESTIMATOR_FINGERS) {
-      const base = fingerFeatures(hand, side, finger, axes);
+      const picture = frame.image ? { image: frame.image, aspect: frame.imageAspect ?? IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX } : null;
+      const base = modelFingerFeatures(ESTIMATOR_MODEL_FEATURES, hand, side, finger, axes, picture);
       if (!base) continue;
       samples.push({
         model,

@@ -1,5 +1,6 @@
 import type { Digit, MotionId, Side } from "@/lib/motions/catalog";
 import { handAxes, readMotion } from "@/vision/angles";
+import type { FingerPicture } from "@/vision/estimator";
 import type { Vec3 } from "@/vision/vec";
 import type { PoseKey } from "./hand-pose";
 
@@ -42,6 +43,8 @@ export interface AngleEstimate {
   /** The landmarks and side the reading came from: the finger estimator reads the whole finger. */
   hand?: readonly Vec3[];
   side?: Side;
+  /** The picture points of the same frame: the finger estimator reads them too (kinarc-correction-6). */
+  picture?: FingerPicture | null;
 }
 
 /**
@@ -52,6 +55,7 @@ export function estimateAngles(
   hand: readonly Vec3[],
   side: Side,
   forearm: Vec3 | null,
+  picture: FingerPicture | null = null,
 ): Partial<Record<PoseKey, AngleEstimate | null>> {
   const axes = handAxes(hand, side);
   const result: Partial<Record<PoseKey, AngleEstimate | null>> = {};
@@ -69,6 +73,7 @@ export function estimateAngles(
             palmTowardCamera: -axes.palmarNormal[2],
             hand,
             side,
+            picture,
           }
         : null;
   }

@@ -2,11 +2,13 @@
  * Fitting of the finger-joint estimator (vision/estimator.ts) on tracked training stills. The estimator's form and
  * how it is applied live in the engine; fitting stays here with the renders.
  */
+import { handAxes } from "@/vision/angles";
 import {
   designRow,
+  ESTIMATOR_FEATURES,
   ESTIMATOR_FINGERS,
   FINGER_JOINTS,
-  fingerFeatures,
+  modelFingerFeatures,
   quadraticTerms,
   type FingerJoint,
   type FingerJointFit,
@@ -18,7 +20,7 @@ import { HUBER_DEG } from "./correction";
 import { FINGER_FLEXION_SET } from "./motion-sets";
 import { getPoseAngle, type PoseKey } from "./hand-pose";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
-import type { TrackedStill } from "./report";
+import { stillPicture, type TrackedStill } from "./report";
 import { VALIDATION_SEED, withMovingKeys } from "./run-accuracy";
 import { singleFingerMotionSetFrame, type TrackedSet } from "./tracked-set";
 
@@ -30,6 +32,9 @@ export function loadTrackedSet(name: string): TrackedSet {
   const set = JSON.parse(readFileSync(file, "utf8")) as TrackedSet;
   return name.startsWith("single-finger-motions") ? withMovingKeys(set, singleFingerMotionSetFrame()) : set;
 }
+
+/** The feature list samples are built for: the committed estimator's (world, then picture features). */
+export const ESTIMATOR_MODEL_FEATURES = { features: ESTIMATOR_FEATURES };
 
 export interface FingerSample {
   model: string;
@@ -63,7 +68,7 @@ export function fingerSamples(set: { stills: readonly TrackedStill[]; count: num
   set.stills.forEach((still, index) => {
     if (!still.hand) return;
     for (const finger of ESTIMATOR_FINGERS) {
-      const base = fingerFeatures(still.hand, still.truth.side, finger);
+      const base = modelFingerFeatures(ESTIMATOR_MODEL_FEATURES, still.hand, still.truth.side, finger, handAxes(still.hand, still.truth.side), stillPicture(still));
       if (!base) continue;
       samples.push({
         model: still.model,

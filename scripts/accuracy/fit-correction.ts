@@ -10,7 +10,7 @@
 import { writeFileSync } from "node:fs";
 import { parseArgs } from "node:util";
 import type { ValidationView } from "@/vision/correction-views";
-import { FINGER_FEATURES, FINGER_JOINTS, type FingerEstimatorModel, type FingerJoint, type FingerViewFits } from "@/vision/estimator";
+import { ESTIMATOR_FEATURES, FINGER_JOINTS, type FingerEstimatorModel, type FingerJoint, type FingerViewFits } from "@/vision/estimator";
 import { clipFingerSamples, isClipSample, sampleSource, type ClipCondition } from "./clip-training";
 import { fitCorrection, HUBER_DEG, jointGroupOf, type CorrectionSample } from "./correction";
 import { fingerSamples, fitFingerJoint, type FingerSample, loadTrackedSet, roundedFit, sampleWeight } from "./estimator-fit";
@@ -40,8 +40,11 @@ export const ESTIMATOR_RIDGE_LAMBDA = 10;
  */
 export const ESTIMATOR_TOGETHER_WEIGHT: Record<FingerJoint, number> = { mcp: 0, pip: 0, dip: 0 };
 
+/** Every training clip seed rendered (README, "Picture features": a fourth seed still helped a little). */
+export const ESTIMATOR_CLIP_SEEDS: readonly number[] = [77_000_401, 77_000_402, 77_000_403, 77_000_404, 77_000_405];
+
 /**
- * The finger estimator's view fits (kinarc-correction-5; scripts/accuracy/clip-training.ts): for frames the engine sees
+ * The finger estimator's view fits (since kinarc-correction-5; scripts/accuracy/clip-training.ts): for frames the engine sees
  * from `views`, a fit on the stills plus the test motions' training clips of `condition` (rendered in that condition's
  * recommended view and tracked as the app tracks a client), every `ESTIMATOR_CLIP_EVERY`-th frame, each frame
  * counting `weight` of a still: the little-finger side from clips against gravity, the thumb side from clips with
@@ -50,8 +53,8 @@ export const ESTIMATOR_TOGETHER_WEIGHT: Record<FingerJoint, number> = { mcp: 0, 
  * "Estimator selection").
  */
 export const ESTIMATOR_VIEW_FITS: readonly { views: readonly ValidationView[]; condition: ClipCondition; seeds: readonly number[]; weight: number }[] = [
-  { views: ["ulnar"], condition: "against_gravity", seeds: [77_000_401, 77_000_402, 77_000_403], weight: 1 },
-  { views: ["radial"], condition: "gravity_minimized", seeds: [77_000_401, 77_000_402, 77_000_403], weight: 1 },
+  { views: ["ulnar"], condition: "against_gravity", seeds: ESTIMATOR_CLIP_SEEDS, weight: 1 },
+  { views: ["radial"], condition: "gravity_minimized", seeds: ESTIMATOR_CLIP_SEEDS, weight: 1 },
 ];
 export const ESTIMATOR_CLIP_EVERY = 3;
 
@@ -103,7 +106,7 @@ export function fitFingerEstimator(
     };
   });
   const trainingSets = [...new Set([...setNames, ...viewFits.flatMap((v) => v.trainingSets)])];
-  return { features: FINGER_FEATURES, trainingSets, fits, ...(viewFits.length ? { viewFits } : {}) };
+  return { features: ESTIMATOR_FEATURES, trainingSets, fits, ...(viewFits.length ? { viewFits } : {}) };
 }
 
 async function main(): Promise<void> {

@@ -53,6 +53,7 @@ import { correctionClearlyHelps, HAND_SHAPE_DOWN_VALIDATION_FILE, HAND_SHAPE_VAL
 import { fingerPoseKey, fitFingerJoint, loadTrackedSet, roundedFit } from "./estimator-fit";
 import { getPoseAngle } from "./hand-pose";
 import { HAND_SHAPE_DOWN_VIEWS, handShapeFrame } from "./motion-sets";
+import { IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX } from "./scene";
 import { loadHandRig } from "./rig-files";
 import { parseCount, parseModels } from "./run-accuracy";
 import { summarizeErrors, type ErrorSummary } from "./stats";
@@ -420,7 +421,7 @@ async function sideCheck(): Promise<void> {
           for (const digit of ESTIMATOR_FINGERS) {
             const truthDeg = getPoseAngle(still.truth.commandedDeg, fingerPoseKey(digit, joint));
             for (const [label, engine] of [["before", before], ["after", after]] as const) {
-              const update = createLivePipeline({ motion, side: still.truth.side, digit, condition: "against_gravity", handModel, correctionModel: engine.model, uncertaintyTable: engine.table }).push({ t: 0, score: still.score, hand: still.hand });
+              const update = createLivePipeline({ motion, side: still.truth.side, digit, condition: "against_gravity", handModel, correctionModel: engine.model, uncertaintyTable: engine.table }).push({ t: 0, score: still.score, hand: still.hand, image: still.image, imageAspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX });
               if (update.angleDeg === null) continue;
               errors[label].push(Math.abs(update.angleDeg - truthDeg));
               if (label === "after" && update.correctionVersion && update.view && HAND_SHAPE_VIEWS.includes(update.view)) handShapeFrames += 1;

@@ -13,7 +13,7 @@ import { parseArgs } from "node:util";
 import { FINGERS, type MotionId } from "@/lib/motions/catalog";
 import { createLivePipeline } from "@/vision/pipeline";
 import type { TrackedFrame } from "@/vision/live";
-import { STANDARD_CLIPS, makeHandClip, type PhotoId } from "../fixtures/hand-photos";
+import { CANVAS_HEIGHT, CANVAS_WIDTH, STANDARD_CLIPS, makeHandClip, type PhotoId } from "../fixtures/hand-photos";
 import { launchChromium, openHarnessPage, startHarnessServer } from "../../tests/harness/tracking-harness";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
 import { parseModels } from "./run-accuracy";
@@ -82,7 +82,8 @@ export function readPhoto(frames: readonly TrackedFrame[], photo: PhotoId, model
     const perFinger = FINGERS.map((digit) => {
       const pipeline = createLivePipeline({ motion, side, digit, condition: "gravity_minimized", handModel: model, correction });
       return frames.map((f) => {
-        const update = pipeline.push({ t: f.t, score: f.score ?? 0, hand: f.hand ?? null });
+        // Frames tracked before frames carried the picture's aspect get the clip's own (CANVAS_WIDTH x CANVAS_HEIGHT).
+        const update = pipeline.push({ t: f.t, score: f.score ?? 0, hand: f.hand ?? null, image: f.image, imageAspect: f.imageAspect ?? CANVAS_WIDTH / CANVAS_HEIGHT });
         if (update.angleDeg !== null) {
           total += 1;
           if (update.correctionVersion) corrected += 1;

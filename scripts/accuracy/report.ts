@@ -1,10 +1,11 @@
 import type { Vec3 } from "@/vision/vec";
 import { hasGroupFit } from "@/vision/correction";
+import type { FingerPicture } from "@/vision/estimator";
 import { applyCorrection, type CorrectionModel } from "./correction";
 import { estimateAngles, type AngleEstimate } from "./estimates";
 import { getPoseAngle, type PoseKey } from "./hand-pose";
 import { JOINT_GROUPS, type JointGroup } from "./joint-groups";
-import { CAMERA_VIEWS, type CameraView, type FrameTruth } from "./scene";
+import { CAMERA_VIEWS, IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, type CameraView, type FrameTruth } from "./scene";
 import { summarizeErrors, type ErrorSummary } from "./stats";
 
 export type AngleMethod = "3-D" | "image plane" | "corrected";
@@ -53,6 +54,16 @@ function pick(
  * Rows per joint group, view, model and method ("corrected" too when a correction is given). The forearm line given
  * to the engine for wrist angles is the render's true one, so wrist rows measure the hand's landmarks only.
  */
+/** A rendered still's tracked picture points (the renders are IMAGE_WIDTH_PX x IMAGE_HEIGHT_PX), or null when not kept. */
+export function stillPicture(still: Pick<TrackedStill, "image">): FingerPicture | null {
+  return still.image ? { image: still.image, aspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX } : null;
+}
+
+/** The render's exact picture points as the tracker reports them: fractions of the picture's width and height. */
+function truthPicture(truth: FrameTruth): FingerPicture {
+  return { image: truth.landmarksImagePx.map(([x, y]) => [x / IMAGE_WIDTH_PX, y / IMAGE_HEIGHT_PX]), aspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX };
+}
+
 export function accuracyRows(
   stills: readonly TrackedStill[],
   correction: CorrectionModel | null = null,
@@ -61,8 +72,8 @@ export function accuracyRows(
   const models = [...new Set(stills.map((s) => s.model))];
   const estimated = stills.map((still) => ({
     still,
-    tracked: still.hand ? estimateAngles(still.hand, still.truth.side, still.truth.forearmCameraDir) : null,
-    perfect: estimateAngles(still.truth.landmarksCameraM, still.truth.side, still.truth.forearmCameraDir),
+    tracked: still.hand ? estimateAngles(still.hand, still.truth.side, still.truth.forearmCameraDir, stillPicture(still)) : null,
+    perfect: estimateAngles(still.truth.landmarksCameraM, still.truth.side, still.truth.forearmCameraDir, truthPicture(still.truth)),
   }));
   const rows: AccuracyRow[] = [];
   const methods: AngleMethod[] = correction ? ["3-D", "image plane", "corrected"] : ["3-D", "image plane"];

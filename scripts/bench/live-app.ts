@@ -68,14 +68,14 @@ async function main() {
           stages[name].push((performance.now() - t0) / BATCH);
         }
       };
-      timeBatches("pipeline", (i) => { updates[i] = pipeline.push({ t: source[i].t, score: source[i].score, hand: source[i].hand, forearm: null }); });
+      timeBatches("pipeline", (i) => { updates[i] = pipeline.push({ t: source[i].t, score: source[i].score, hand: source[i].hand, forearm: null, image: source[i].image, imageAspect: 640 / 480 }); });
       timeBatches("checks", (i) => check(i));
       timeBatches("recorder", (i) => recorder.push(source[i]));
       timeBatches("draw", (i) => draw(source[i], updates[i].smoothedDeg));
       const second = createLivePipeline(target);
       const secondRecorder = new CaptureRecorder(target);
       timeBatches("together", (i) => {
-        const update = second.push({ t: source[i].t, score: source[i].score, hand: source[i].hand, forearm: null });
+        const update = second.push({ t: source[i].t, score: source[i].score, hand: source[i].hand, forearm: null, image: source[i].image, imageAspect: 640 / 480 });
         check(i);
         secondRecorder.push(source[i]);
         draw(source[i], update.smoothedDeg);

@@ -4,6 +4,7 @@
 import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
 import { xoroshiro128plus } from "pure-rand/generator/xoroshiro128plus";
 import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
+import { CORRECTION_MODEL, readsPicturePoints } from "../correction";
 import { DIGIT_CHAIN, LANDMARK_COUNT, WRIST } from "../landmarks";
 import { add, cross, normalize, rejectFrom, scale, type Vec3 } from "../vec";
 
@@ -76,6 +77,17 @@ function forearmFrame(placement: Placement, side: Side): Frame {
 
 function inFrame(f: Frame, along: number, radial: number, palmar: number): Vec3 {
   return add(add(scale(f.u, along), scale(f.r, radial)), scale(f.n, palmar));
+}
+
+/** Width over height of the picture `pinholePicture` projects into. */
+export const PINHOLE_ASPECT = 640 / 480;
+
+/**
+ * The picture points of a camera-axes hand under a 600-pixel pinhole centred in a 640 x 480 picture, as fractions of
+ * its width and height (how the tracker reports them), z 0.
+ */
+export function pinholePicture(hand: readonly Vec3[]): [number, number, number][] {
+  return hand.map((p) => [(320 + (600 * p[0]) / p[2]) / 640, (240 + (600 * p[1]) / p[2]) / 480, 0]);
 }
 
 export interface PosedHand {
@@ -276,6 +288,11 @@ export interface SyntheticCaptureSpec {
   gravity?: Vec3;
   base?: HandPose;
   seed?: number;
+  /**
+   * Keep each frame's picture points (`pinholePicture` of the frame's landmarks) and the picture's aspect. Default: as
+   * a live recording does, for the motions whose correction reads them (vision/correction.ts readsPicturePoints).
+   */
+  picture?: boolean;
 }
 
 export interface SyntheticFrame {
@@ -283,6 +300,7 @@ export interface SyntheticFrame {
   score: number;
   hand: Vec3[] | null;
   forearm?: Vec3;
+  image?: [number, number][] | null;
 }
 
 export interface SyntheticCapture {
@@ -293,6 +311,7 @@ export interface SyntheticCapture {
   digit: Digit | null;
   condition: Condition;
   gravity?: Vec3;
+  imageAspect?: number;
   frames: SyntheticFrame[];
 }
 
@@ -336,11 +355,12 @@ export function buildSyntheticCapture(spec: SyntheticCaptureSpec): SyntheticCapt
   const noiseM = (spec.noiseMm ?? 0) / 1000;
   const frames: SyntheticFrame[] = [];
   const duration = profileDurationMs(spec);
+  const keepPicture = spec.picture ?? readsPicturePoints(CORRECTION_MODEL, spec.motion, spec.digit);
   for (let i = 0; i * (1000 / fps) <= duration; i++) {
     const t = Math.round(i * (1000 / fps) * 1000) / 1000;
     if (random.uniform() < (spec.dropRate ?? 0)) continue;
     if (random.uniform() < (spec.noHandRate ?? 0)) {
-      frames.push({ t, score: random.uniform(0, 0.2), hand: null });
+      frames.push(keepPicture ? { t, score: random.uniform(0, 0.2), hand: null, image: null } : { t, score: random.uniform(0, 0.2), hand: null });
       continue;
     }
     const pose = withMotionAngle(base, spec.motion, spec.digit, profileAngle(spec, t));
@@ -353,6 +373,7 @@ export function buildSyntheticCapture(spec: SyntheticCaptureSpec): SyntheticCapt
     );
     const frame: SyntheticFrame = { t, score: lowScore ? random.uniform(0.05, 0.4) : random.uniform(0.85, 0.99), hand };
     if (spec.includeForearm ?? true) frame.forearm = posed.forearm;
+    if (keepPicture) frame.image = pinholePicture(hand).map(([x, y]): [number, number] => [x, y]);
     frames.push(frame);
   }
   const capture: SyntheticCapture = {
@@ -365,6 +386,7 @@ export function buildSyntheticCapture(spec: SyntheticCaptureSpec): SyntheticCapt
     frames,
   };
   if (spec.gravity) capture.gravity = spec.gravity;
+  if (keepPicture) capture.imageAspect = PINHOLE_ASPECT;
   return capture;
 }
 
