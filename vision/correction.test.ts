@@ -5,7 +5,7 @@ import COEFFICIENTS from "./correction-coefficients.json";
 import { CORRECTION_FEATURES, CORRECTION_MODEL, CORRECTION_VERSION, correctGroupAngle, correctionGroupFor, correctMotionAngle, type RawAngleFeatures } from "./correction";
 import { estimateFingerJointDeg } from "./estimator";
 import { createLivePipeline } from "./pipeline";
-import { neutralPose, PINHOLE_ASPECT, pinholePicture, poseHand, withMotionAngle, type Placement } from "./testing/synthetic-hand";
+import { neutralPose, PINHOLE_ASPECT, pinholeFingerPicture, pinholePicture, poseHand, withMotionAngle, type Placement } from "./testing/synthetic-hand";
 import { UNCERTAINTY_TABLE, type UncertaintyTable } from "./uncertainty";
 
 /** A feature named in the file ("deg*facing") evaluated from its parts: an independent reading of the file's form. */
@@ -92,7 +92,7 @@ function frameAt(deg: number, placement: Placement) {
 
 /** SAMPLE with a right hand's landmarks and their picture points (an exact pinhole), as the finger estimator reads. */
 function withFrame(hand: ReturnType<typeof frameAt>) {
-  return { ...SAMPLE, hand, side: "right" as const, picture: { image: pinholePicture(hand), aspect: PINHOLE_ASPECT } };
+  return { ...SAMPLE, hand, side: "right" as const, picture: pinholeFingerPicture(hand) };
 }
 
 describe("the live pipeline with the correction", () => {

@@ -12,7 +12,7 @@ import {
   PICTURE_FEATURES,
   usesPicture,
 } from "./estimator";
-import { BONES_MM, neutralPose, PINHOLE_ASPECT, pinholePicture, poseHand, type Placement } from "./testing/synthetic-hand";
+import { BONES_MM, neutralPose, PINHOLE_ASPECT, pinholeFingerPicture, pinholePicture, poseHand, type Placement } from "./testing/synthetic-hand";
 import { UNCERTAINTY_TABLE, type UncertaintyTable } from "./uncertainty";
 
 // Exact synthetic hands (vision/testing) under a pinhole: these check the picture geometry and the engine's plumbing,
@@ -27,7 +27,7 @@ function middleFinger(mcp: number, pip: number, dip: number, placement: Placemen
   return poseHand(pose, "right", placement).landmarks;
 }
 
-const pictureOf = (hand: ReturnType<typeof middleFinger>) => ({ image: pinholePicture(hand), aspect: PINHOLE_ASPECT });
+const pictureOf = pinholeFingerPicture;
 const named = (values: number[], name: (typeof PICTURE_FEATURES)[number]) => values[PICTURE_FEATURES.indexOf(name)];
 
 describe("finger features read in the picture", () => {

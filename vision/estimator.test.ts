@@ -15,7 +15,7 @@ import {
   standardize,
   type FingerJointFit,
 } from "./estimator";
-import { BONES_MM, neutralPose, PINHOLE_ASPECT, pinholePicture, poseHand, type Placement } from "./testing/synthetic-hand";
+import { BONES_MM, neutralPose, pinholeFingerPicture, poseHand, type Placement } from "./testing/synthetic-hand";
 
 // A right hand held up, little-finger side toward the camera (ulnar view); z points away from the camera.
 const ULNAR_VIEW: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, 1], wrist: [0, 0, 0.5] };
@@ -32,7 +32,7 @@ function handWith(pip: number, dip: number, placement: Placement, mcp = 0) {
 }
 
 /** The frame as the tracker gives it: landmarks plus their picture points (an exact pinhole). */
-const pictureOf = (hand: ReturnType<typeof handWith>) => ({ image: pinholePicture(hand), aspect: PINHOLE_ASPECT });
+const pictureOf = pinholeFingerPicture;
 
 const feature = (values: number[], name: (typeof FINGER_FEATURES)[number]) => values[FINGER_FEATURES.indexOf(name)];
 

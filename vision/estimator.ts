@@ -2,7 +2,7 @@ import type { Side } from "@/lib/motions/catalog";
 import { handAxes, readMotion, type HandAxes } from "./angles";
 import { viewOfAxes, type ValidationView } from "./correction-views";
 import { DIGIT_CHAIN, LANDMARK_COUNT, MIDDLE_MCP, WRIST, type HandLandmarks } from "./landmarks";
-import { length, RAD_TO_DEG, sub, type Vec3 } from "./vec";
+import { length, pictureTurnDeg, sub, type Vec3 } from "./vec";
 
 /**
  * Kinarc's finger-joint estimator (part of kinarc-correction-2 and -3; side views). The landmark model does not put a finger's flexion
@@ -174,10 +174,6 @@ export function fingerFeatures(hand: HandLandmarks, side: Side, finger: Finger, 
   return values.every(Number.isFinite) ? values : null;
 }
 
-function unsignedTurnDeg(a: readonly number[], b: readonly number[]): number {
-  return Math.abs(Math.atan2(a[0] * b[1] - a[1] * b[0], a[0] * b[0] + a[1] * b[1])) * RAD_TO_DEG;
-}
-
 /**
  * The picture features of one finger, in PICTURE_FEATURES order, or null when a point is missing or a segment has no
  * length in the picture. x is scaled by the aspect so that turns are true angles in the picture.
@@ -195,9 +191,9 @@ export function fingerPictureFeatures(picture: FingerPicture, finger: Finger): n
   const fingerLength = lengths[1] + lengths[2] + lengths[3];
   const tipFromMcp = from(m, t);
   return [
-    unsignedTurnDeg(segments[0], segments[1]),
-    unsignedTurnDeg(segments[1], segments[2]),
-    unsignedTurnDeg(segments[2], segments[3]),
+    Math.abs(pictureTurnDeg(segments[0], segments[1])),
+    Math.abs(pictureTurnDeg(segments[1], segments[2])),
+    Math.abs(pictureTurnDeg(segments[2], segments[3])),
     Math.hypot(tipFromMcp[0], tipFromMcp[1]) / fingerLength,
     lengths[3] / lengths[2],
   ];

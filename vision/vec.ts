@@ -77,3 +77,8 @@ export function rotateAbout(v: Vec3, axis: Vec3, angleRad: number): Vec3 {
 export function isFiniteVec(a: readonly number[]): boolean {
   return a.length === 3 && Number.isFinite(a[0]) && Number.isFinite(a[1]) && Number.isFinite(a[2]);
 }
+
+/** The signed turn from one picture direction to another, degrees, positive from x toward y (clockwise on screen). */
+export function pictureTurnDeg(from: readonly number[], to: readonly number[]): number {
+  return Math.atan2(from[0] * to[1] - from[1] * to[0], from[0] * to[0] + from[1] * to[1]) * RAD_TO_DEG;
+}

@@ -3,7 +3,7 @@ import { correctionGroupFor, type HandModel } from "./correction";
 import { handAxes } from "./angles";
 import type { MotionReading } from "./angles";
 import { INDEX_MCP, LANDMARK_COUNT, LITTLE_MCP, MIDDLE_MCP, THUMB_IP, THUMB_MCP, THUMB_TIP, WRIST, type HandLandmarks } from "./landmarks";
-import { add, angleBetweenDeg, cross, isFiniteVec, normalize, RAD_TO_DEG, rejectFrom, scale, type Vec3 } from "./vec";
+import { add, angleBetweenDeg, cross, isFiniteVec, normalize, pictureTurnDeg, rejectFrom, scale, type Vec3 } from "./vec";
 import { viewOfAxes } from "./view-policy";
 import { trackingFactor, UNCERTAINTY_TABLE, uncertaintyFromMaeDeg, type UncertaintyTable, type ValidationView } from "./uncertainty";
 import VALIDATION from "./wrist-axis-validation.json";
@@ -87,11 +87,6 @@ export interface SideOnNeutral {
  * Kinarc's rule.
  */
 export const SIDE_ON_LIMITS = { maxWidthRatio: 0.45, minThumbOffsetM: 0.01 } as const;
-
-/** The signed turn from one picture direction to another, degrees, positive from x toward y (clockwise on screen). */
-export function pictureTurnDeg(from: readonly number[], to: readonly number[]): number {
-  return Math.atan2(from[0] * to[1] - from[1] * to[0], from[0] * to[0] + from[1] * to[1]) * RAD_TO_DEG;
-}
 
 /** The wrist-to-middle-knuckle direction in the picture plane (unit) and its length, or null when it has none. */
 function pictureAxis(hand: HandLandmarks): { u: [number, number]; length: number } | null {

@@ -90,6 +90,11 @@ export function pinholePicture(hand: readonly Vec3[]): [number, number, number][
   return hand.map((p) => [(320 + (600 * p[0]) / p[2]) / 640, (240 + (600 * p[1]) / p[2]) / 480, 0]);
 }
 
+/** The picture a finger estimator reads for a camera-axes hand: its `pinholePicture` points and that picture's aspect. */
+export function pinholeFingerPicture(hand: readonly Vec3[]): { image: [number, number, number][]; aspect: number } {
+  return { image: pinholePicture(hand), aspect: PINHOLE_ASPECT };
+}
+
 export interface PosedHand {
   landmarks: Vec3[];
   /** Unit vector elbow to wrist. */
