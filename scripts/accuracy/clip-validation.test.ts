@@ -37,6 +37,15 @@ describe("held-out clip plans", () => {
     for (const plan of plans) expect(plan.condition).toBe("against_gravity");
   });
 
+  it("with a view asked for: the same clips in that view, named apart (training clips of the whole-hand-shape fits)", () => {
+    const palm = planClips(20261205, 8, "against_gravity", ["mcp.flexion"], "palm");
+    const recommended = plans.filter((plan) => plan.motion.motion === "mcp.flexion");
+    expect(palm.map((plan) => plan.view)).toEqual(recommended.map(() => "palm"));
+    // Same draws (end of range, distance, hand), so a view is the only difference; the name says which view.
+    expect(palm.map((plan) => [plan.toDeg, plan.distanceM, plan.side])).toEqual(recommended.map((plan) => [plan.toDeg, plan.distanceM, plan.side]));
+    palm.forEach((plan, i) => expect(plan.name).toBe(recommended[i].name.replace("mcp.flexion-", "mcp.flexion-palm-")));
+  });
+
   it("draw ends of range and distances across their whole span (neighbouring seeds once gave near-identical clips)", () => {
     for (const motion of CLIP_MOTIONS) {
       const ends = plans.filter((plan) => plan.motion === motion).map((plan) => plan.toDeg);

@@ -17,6 +17,9 @@
  *   npx tsx scripts/accuracy/clip-validation.ts [--clips 10] [--seeds 20261209,20261207,20261205] [--models lite,full] [--reuse]
  *     [--condition against_gravity|gravity_minimized] [--motions wrist.flexion,wrist.extension] [--out FILE] [--per-clip]
  *
+ * `--view palm,back,down` renders the same clips in those views instead (named `<motion>-<view>-...`): the training
+ * clips of the whole-hand-shape estimators (hand-shape-fit.ts) and their held-out check; write those with `--out`.
+ *
  * `--condition gravity_minimized` renders the same motions in the view the policy recommends with gravity minimized
  * (the thumb side, from above a hand resting on its edge) and writes clip-report-gravity-minimized.md instead.
  */
@@ -36,7 +39,7 @@ import { HandRenderer, RENDER_OUTPUT_ROOT } from "./renderer";
 import { loadHandRig } from "./rig-files";
 import type { HandSide } from "./rig";
 import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
-import { frameSeeds, IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, makeRng, type CameraView, type FrameTruth } from "./scene";
+import { CAMERA_VIEWS, frameSeeds, IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, makeRng, type CameraView, type FrameTruth } from "./scene";
 import { summarizeErrors, type ErrorSample, type ErrorSummary } from "./stats";
 import { ACCEPTANCE, meetsAcceptance, MIN_DETECTION, type AcceptanceKey } from "./acceptance";
 import { parseCount, parseModels } from "./run-accuracy";
@@ -105,7 +108,17 @@ export interface ClipPlan {
 /** Clip seeds per motion drawn up front, so a plan with more clips keeps the clips of a smaller one. */
 const SEEDS_PER_MOTION = 100;
 
-export function planClips(seed: number, count: number, condition: Condition = "against_gravity", motions?: readonly MotionId[]): ClipPlan[] {
+/**
+ * `view` replaces the recommended view (e.g. the palm or the back toward the camera, for the whole-hand-shape
+ * estimators); such clips are named `<motion>-<view>-<seed>-<i>-<clipSeed>`, apart from the recommended-view ones.
+ */
+export function planClips(
+  seed: number,
+  count: number,
+  condition: Condition = "against_gravity",
+  motions?: readonly MotionId[],
+  viewOverride?: CameraView,
+): ClipPlan[] {
   if (count > SEEDS_PER_MOTION) throw new Error(`--clips: expected at most ${SEEDS_PER_MOTION}; got ${count}`);
   const unknown = motions?.filter((motion) => !CLIP_MOTIONS.some((m) => m.motion === motion)) ?? [];
   if (unknown.length) throw new Error(`--motions: expected some of ${CLIP_MOTIONS.map((m) => m.motion).join(", ")}; got ${unknown.join(", ")}`);
@@ -119,10 +132,11 @@ export function planClips(seed: number, count: number, condition: Condition = "a
       uniformFloat64(draws);
       const toDeg = motion.toDeg[0] + (motion.toDeg[1] - motion.toDeg[0]) * uniformFloat64(draws);
       const distanceM = 0.3 + 0.4 * uniformFloat64(draws);
-      const view = viewPolicy(motion.motion, condition, motion.digits[0]).recommended[0] as CameraView;
+      const view = viewOverride ?? (viewPolicy(motion.motion, condition, motion.digits[0]).recommended[0] as CameraView);
       const side: HandSide = i % 2 === 0 ? "right" : "left";
       // Against gravity keeps its first names (and cached renders); the other condition's clips are named apart.
-      const name = condition === "against_gravity" ? `${motion.motion}-${seed}-${i}-${clipSeed}` : `${motion.motion}-gm-${seed}-${i}-${clipSeed}`;
+      const prefix = viewOverride ? `${motion.motion}-${viewOverride}` : condition === "against_gravity" ? motion.motion : `${motion.motion}-gm`;
+      const name = `${prefix}-${seed}-${i}-${clipSeed}`;
       return { name, motion, side, view, condition, seed: clipSeed, toDeg, distanceM };
     }),
   ).filter((plan) => !motions || motions.includes(plan.motion.motion));
@@ -320,18 +334,23 @@ export interface ClipSection {
   rows: readonly ClipRow[];
 }
 
-export function clipReport(sections: readonly ClipSection[], meta: { glName: string; condition?: Condition }): string {
+export function clipReport(sections: readonly ClipSection[], meta: { glName: string; condition?: Condition; views?: readonly CameraView[] }): string {
   const condition = meta.condition ?? "against_gravity";
+  const where = meta.views
+    ? `seen from ${meta.views.join(", ")} (views other than the recommended one, read by the whole-hand-shape estimators where they apply; issue 8's bars are set for the recommended view and are shown for reference)`
+    : `in the view vision/view-policy.ts recommends ${CONDITION_WORDS[condition]}`;
   const lines = [
-    condition === "against_gravity"
-      ? "# Angle accuracy on held-out clips (continuous motion)"
-      : `# Angle accuracy on held-out clips (continuous motion, ${CONDITION_WORDS[condition]})`,
+    meta.views
+      ? `# Angle accuracy on held-out clips (continuous motion, seen from ${meta.views.join(", ")})`
+      : condition === "against_gravity"
+        ? "# Angle accuracy on held-out clips (continuous motion)"
+        : `# Angle accuracy on held-out clips (continuous motion, ${CONDITION_WORDS[condition]})`,
     "",
     "Written by `npx tsx scripts/accuracy/clip-validation.ts` (see its header); do not edit by hand.",
     "",
     `- Held-out clips: per motion, half right hands and half left, each a still start ` +
       `(1 s; 3 s for the wrist, the straight-wrist reading), then ${CYCLES} cycles of ${CYCLE_SECONDS} s from rest to an end of range drawn from the seed and back, ${FPS} fps, ` +
-      `camera 0.3-0.7 m, skin, light and background drawn from the seed, in the view vision/view-policy.ts recommends ${CONDITION_WORDS[condition]}. Finger motions move all four fingers together; each finger is a reading. Nothing is fitted on these seeds.`,
+      `camera 0.3-0.7 m, skin, light and background drawn from the seed, ${where}. Finger motions move all four fingers together; each finger is a reading. Nothing is fitted on these seeds.`,
     "- Path: the app's tracking code frame by frame (step mode, as analyze-clip and the upload review), the upload's capture builder, the engine's capture analysis as shipped (correction where it clearly helps, wrist read against the clip's straight-wrist reading, depth mirror on); `without depth mirror` and `raw` (no correction, no depth mirror) for comparison. Side-on wrist flexion/extension is read in the picture (vision/wrist-axis.ts) in every reading, raw included; the finger estimator reads each finger's picture points as well as its 3-D ones (vision/estimator.ts PICTURE_FEATURES).",
     "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles.",
     `- Renderer: ${meta.glName}.`,
@@ -344,7 +363,7 @@ export function clipReport(sections: readonly ClipSection[], meta: { glName: str
       "",
       SEED_NOTES[section.seed] ?? "Held out from every fit.",
       "",
-      "### Acceptance (issue 8: recommended view, after correction, every frame)",
+      meta.views ? "### Against issue 8's bars (for reference: not the recommended view)" : "### Acceptance (issue 8: recommended view, after correction, every frame)",
       "",
       ...rows.filter((row) => row.variant === "engine").map((row) => `- ${row.label}, ${row.view}, ${row.model}: ${verdict(row)}`),
       "",
@@ -372,8 +391,13 @@ async function main(): Promise<void> {
       motions: { type: "string" },
       out: { type: "string" },
       "per-clip": { type: "boolean" },
+      view: { type: "string" },
     },
   });
+  // --view palm,back,down: the clips in those views instead of the recommended one (the whole-hand-shape views).
+  const views = values.view ? (values.view.split(",") as CameraView[]) : undefined;
+  const badView = views?.find((view) => !CAMERA_VIEWS.includes(view));
+  if (badView !== undefined) throw new Error(`--view: expected some of ${CAMERA_VIEWS.join(", ")}; got '${badView}'`);
   const motions = values.motions ? (values.motions.split(",") as MotionId[]) : undefined;
   const perClip: string[] = [];
   const condition = (values.condition ?? "against_gravity") as Condition;
@@ -386,22 +410,24 @@ async function main(): Promise<void> {
   for (const seed of seeds) {
     const folder = path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
     mkdirSync(folder, { recursive: true });
-    const plans = planClips(seed, clips, condition, motions);
+    const plans = views ? views.flatMap((view) => planClips(seed, clips, condition, motions, view)) : planClips(seed, clips, condition, motions);
     await renderClips(plans, folder, reuse);
     const rows: ClipRow[] = [];
     for (const model of models) {
       const tracked = await trackClips(plans, folder, model, reuse);
       for (const group of ["mcp.flexion", "pip.flexion", "dip.flexion", "wrist.flexion"] as const) {
-        const groupPlans = plans.filter((plan) => plan.motion.bar === group);
-        if (!groupPlans.length) continue;
-        const label = group === "wrist.flexion" ? "wrist flexion (+) / extension (-)" : groupPlans[0].motion.label;
-        for (const variant of CLIP_VARIANTS) {
-          const readings = groupPlans.flatMap((plan) => {
-            const truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
-            return plan.motion.digits.map((digit) => readClip(plan, model, digit, tracked.get(plan.name)!, truth, variant));
-          });
-          if (values["per-clip"] && variant === "engine") perClip.push(...readings.map(perClipLine));
-          rows.push({ label, variant, bar: group, view: groupPlans[0].view, model, ...summarizeClipReadings(readings) });
+        for (const view of [...new Set(plans.map((plan) => plan.view))]) {
+          const groupPlans = plans.filter((plan) => plan.motion.bar === group && plan.view === view);
+          if (!groupPlans.length) continue;
+          const label = group === "wrist.flexion" ? "wrist flexion (+) / extension (-)" : groupPlans[0].motion.label;
+          for (const variant of CLIP_VARIANTS) {
+            const readings = groupPlans.flatMap((plan) => {
+              const truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
+              return plan.motion.digits.map((digit) => readClip(plan, model, digit, tracked.get(plan.name)!, truth, variant));
+            });
+            if (values["per-clip"] && variant === "engine") perClip.push(...readings.map(perClipLine));
+            rows.push({ label, variant, bar: group, view, model, ...summarizeClipReadings(readings) });
+          }
         }
       }
     }
@@ -410,7 +436,7 @@ async function main(): Promise<void> {
   const renderer = await HandRenderer.start();
   const glName = await renderer.glRenderer();
   await renderer.close();
-  const text = clipReport(sections, { glName, condition });
+  const text = clipReport(sections, { glName, condition, views });
   writeFileSync(values.out ?? REPORT_FILES[condition], text);
   process.stdout.write(text);
   if (perClip.length) process.stdout.write(["", "| clip | model | side | digit | to ° | truth peak ° | peak ° | frame MAE ° | bias ° | reps | forearm | method |", ...perClip, ""].join("\n"));

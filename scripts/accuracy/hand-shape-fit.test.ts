@@ -3,7 +3,12 @@ import { handAxes, readMotion } from "@/vision/angles";
 import { HAND_SHAPE_MODEL } from "@/vision/correction";
 import { correctionClearlyHelps } from "./derive-uncertainty";
 import { getPoseAngle } from "./hand-pose";
-import { assertTrainingSet, scoreHoldout } from "./hand-shape-fit";
+import { FINGER_FEATURES } from "@/vision/estimator";
+import type { TrackedFrame } from "@/vision/live/types";
+import { neutralPose, pinholePicture, PINHOLE_ASPECT, poseHand } from "@/vision/testing/synthetic-hand";
+import { WHOLE_HAND_FEATURES } from "@/vision/correction-hand-shape";
+import { assertTrainingSet, handShapeClipFrameSamples, handShapeClipNames, scoreHoldout, type ShapeClipTruth } from "./hand-shape-fit";
+import { restPose, setPoseAngle } from "./hand-pose";
 import { handShapeFrame } from "./motion-sets";
 import { loadHandRig } from "./rig-files";
 import { frameSeeds } from "./scene";
@@ -49,5 +54,56 @@ describe("the whole-hand-shape fit's guards and held-out scoring", () => {
       expect(c.estimatorShare).toBeGreaterThanOrEqual(0);
       expect(c.estimatorShare).toBeLessThanOrEqual(1);
     }
+  });
+});
+
+describe("whole-hand-shape training samples from tracked clips", () => {
+  const FINGERS = ["index", "middle", "ring", "little"] as const;
+  /** A right hand seen from the palm (camera looking at the palm), its four MCPs at `mcpDeg[i]` in frame i. */
+  function clip(mcpDeg: readonly number[]) {
+    const frames: TrackedFrame[] = mcpDeg.map((deg, i) => {
+      const pose = neutralPose();
+      for (const finger of FINGERS) pose.fingers[finger].mcpFlexionDeg = deg;
+      const hand = poseHand(pose, "right", { forearmDistal: [0, -1, 0], forearmRadial: [1, 0, 0], wrist: [0, 0, 0.5] }).landmarks;
+      return { t: (i * 1000) / 30, score: 0.95, handedness: "right", hand: hand.map(([x, y, z]) => [x, y, z]), image: pinholePicture(hand), imageAspect: PINHOLE_ASPECT };
+    });
+    const truth: ShapeClipTruth = {
+      frameCount: mcpDeg.length,
+      frames: mcpDeg.map((deg) => {
+        const commandedDeg = restPose();
+        for (const finger of FINGERS) setPoseAngle(commandedDeg, `${finger}.mcpFlexionDeg`, deg);
+        return { truth: { side: "right", view: "palm", commandedDeg } };
+      }),
+    };
+    return { frames, truth };
+  }
+
+  it("gives one sample per finger per kept frame with the frame's truth, its raw reading and the hand's mean curl", () => {
+    const { frames, truth } = clip([0, 15, 30, 45, 60, 75, 60]);
+    const samples = handShapeClipFrameSamples("mcp.flexion-palm-77000501-0-1", "lite", frames, truth, { everyNth: 3, stillBase: 5000, wholeHand: true });
+    expect(samples.map((s) => s.still)).toEqual([5000, 5003, 5006].flatMap((id) => FINGERS.map(() => id)));
+    expect(samples.every((s) => s.source === "clips" && s.view === "palm" && s.model === "lite")).toBe(true);
+    expect(samples.filter((s) => s.finger === "ring").map((s) => s.truthDeg.mcp)).toEqual([0, 45, 60]);
+    for (const s of samples) {
+      const row = s.handRows[s.fingerIndex];
+      expect(row).toHaveLength(FINGER_FEATURES.length + WHOLE_HAND_FEATURES.length);
+      // Exact synthetic landmarks: the 3-D MCP reading is the commanded angle (law of cosines in the finger's plane).
+      expect(row[FINGER_FEATURES.indexOf("mcpDeg")]).toBeCloseTo(s.truthDeg.mcp, 6);
+      // The whole-hand features are the four fingers' mean of tip-to-MCP (3-D), the same in every finger's row.
+      const mean = s.handRows.reduce((sum, r) => sum + r[FINGER_FEATURES.indexOf("tipToMcp")], 0) / 4;
+      expect(row[FINGER_FEATURES.length + WHOLE_HAND_FEATURES.indexOf("handTipToMcp")]).toBeCloseTo(mean, 9);
+    }
+  });
+
+  it("skips frames without a hand and refuses a clip whose tracking does not match its frames", () => {
+    const { frames, truth } = clip([10, 20, 30]);
+    const gappy = frames.map((frame, i) => (i === 1 ? { ...frame, hand: null } : frame));
+    const samples = handShapeClipFrameSamples("x", "full", gappy, truth, { everyNth: 1, stillBase: 0, wholeHand: false });
+    expect([...new Set(samples.map((s) => s.still))]).toEqual([0, 2]);
+    expect(() => handShapeClipFrameSamples("x", "full", frames.slice(1), truth, { everyNth: 1, stillBase: 0, wholeHand: false })).toThrow(/tracked 2 frames, the clip has 3/);
+  });
+
+  it("never reads clips of held-out seeds", () => {
+    expect(() => handShapeClipNames(20261211, "lite", ["palm"])).toThrow(/held-out seeds are never fitted on/);
   });
 });

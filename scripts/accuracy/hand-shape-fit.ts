@@ -4,8 +4,12 @@
  *   npx tsx scripts/accuracy/hand-shape-fit.ts select [--sets a,b] [--lambdas 3,10,30] [--models lite,full]
  *     3-fold cross-validation over training stills only (grouped by still): ridge penalty, whole-hand features or
  *     not, with or without the palm/back/oblique stills of the fingers-together set.
- *   npx tsx scripts/accuracy/hand-shape-fit.ts fit --sets a,b --lambda L [--whole-hand]
- *     fits on training sets and writes vision/correction-hand-shape.json.
+ *   npx tsx scripts/accuracy/hand-shape-fit.ts select-clips --clip-seeds S1[,S2] --clip-holdout S3 [--clip-views palm,back]
+ *       [--clip-weights 1] [--lambda 10]
+ *     stills alone against stills plus the whole-hand-shape clips of training seeds (clip-validation.ts --view V),
+ *     scored as the engine applies them on every third frame of another training seed's clips.
+ *   npx tsx scripts/accuracy/hand-shape-fit.ts fit --sets a,b --lambda L [--whole-hand] [--clip-seeds S1,S2 --clip-views V]
+ *     fits on training sets (and training clips) and writes vision/correction-hand-shape.json.
  *   npx tsx scripts/accuracy/hand-shape-fit.ts holdout [--count 300] [--reuse]
  *     renders and tracks the held-out set (seed HAND_SHAPE_HOLDOUT_SEED, never used for fitting or selection), scores
  *     raw and the estimator as the engine applies it, and writes vision/correction-hand-shape-validation.json.
@@ -21,11 +25,14 @@
  *
  * Training sets must come from training seeds (77000xxx); any set of a 2026120x seed is refused here except by holdout.
  */
-import { writeFileSync } from "node:fs";
+import { existsSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { parseArgs } from "node:util";
+import type { Side } from "@/lib/motions/catalog";
 import { handAxes } from "@/vision/angles";
+import { PalmContinuity } from "@/vision/depth-mirror";
+import type { TrackedFrame } from "@/vision/live/types";
 import type { ValidationView } from "@/vision/correction-views";
 import {
   CURL_FEATURE_INDEXES,
@@ -53,7 +60,8 @@ import { correctionClearlyHelps, HAND_SHAPE_DOWN_VALIDATION_FILE, HAND_SHAPE_VAL
 import { fingerPoseKey, fitFingerJoint, loadTrackedSet, roundedFit } from "./estimator-fit";
 import { getPoseAngle } from "./hand-pose";
 import { HAND_SHAPE_DOWN_VIEWS, handShapeFrame } from "./motion-sets";
-import { IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX } from "./scene";
+import { clipFolder, FIRST_TRAINING_SEED } from "./clip-training";
+import { IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, type FrameTruth } from "./scene";
 import { loadHandRig } from "./rig-files";
 import { parseCount, parseModels } from "./run-accuracy";
 import { summarizeErrors, type ErrorSummary } from "./stats";
@@ -117,6 +125,8 @@ export interface HandShapeSample {
   handRows: number[][];
   fingerIndex: number;
   truthDeg: Record<FingerJoint, number>;
+  /** Where the row came from: a still of a training set, or a frame of a tracked training clip. */
+  source?: "stills" | "clips";
 }
 
 /** Refuses sets of the held-out and validation seeds (2026120x) for fitting and selection. */
@@ -184,9 +194,110 @@ function handRowsOf(s: HandShapeSample): Record<Finger, number[]> {
   return Object.fromEntries(ESTIMATOR_FINGERS.map((f, i) => [f, s.handRows[i]])) as Record<Finger, number[]>;
 }
 
-function fitJoint(rows: readonly HandShapeSample[], joint: FingerJoint, lambda: number): FingerJointFit {
-  return fitFingerJoint(rows.map((s) => s.handRows[s.fingerIndex]), rows.map((s) => s.truthDeg[joint]), { ridgeLambda: lambda, huberDeg: HUBER_DEG });
+function fitJoint(rows: readonly HandShapeSample[], joint: FingerJoint, lambda: number, clipWeight = 1): FingerJointFit {
+  const weights = clipWeight === 1 ? undefined : rows.map((s) => (s.source === "clips" ? clipWeight : 1));
+  // Clip frames and stills form separate training-domain sources (as the side-view estimator's): the many clip frames
+  // must not push the stills' shapes into the tails, where the estimator would decline them.
+  const sources = rows.some((s) => s.source === "clips") ? rows.map((s) => s.source ?? "stills") : undefined;
+  return fitFingerJoint(rows.map((s) => s.handRows[s.fingerIndex]), rows.map((s) => s.truthDeg[joint]), { ridgeLambda: lambda, huberDeg: HUBER_DEG, sources, weights });
 }
+
+/**
+ * Finger test motions rendered as clips from a whole-hand-shape view: `clip-validation.ts --view palm|back|down|oblique`
+ * names them `<mcp|pip|dip>.flexion-<view>-<seed>-<i>-<clipSeed>`. All four fingers move together, so every frame
+ * is a whole-hand shape (open hand at the start of each repetition, the tested joint bent at its end).
+ */
+const SHAPE_CLIP_NAME = /^(mcp|pip|dip)\.flexion-(palm|back|down|oblique)-(\d+)-\d+-\d+$/;
+
+/** The names of a training seed's tracked whole-hand-shape clips from `views`, for one hand model. */
+export function handShapeClipNames(seed: number, model: string, views: readonly string[]): string[] {
+  if (!Number.isInteger(seed) || seed < FIRST_TRAINING_SEED) throw new Error(`clip training seed ${seed}: expected a training seed (${FIRST_TRAINING_SEED} or above); held-out seeds are never fitted on`);
+  const folder = clipFolder(seed);
+  if (!existsSync(folder)) return [];
+  return readdirSync(folder)
+    .filter((file) => file.endsWith(".json") && !file.endsWith(".tracked.json"))
+    .map((file) => file.slice(0, -".json".length))
+    .filter((name) => {
+      const match = SHAPE_CLIP_NAME.exec(name);
+      return match && views.includes(match[2]) && existsSync(path.join(folder, `${name}-${model}.tracked.json`));
+    })
+    .sort();
+}
+
+/** A clip's commanded angles per frame, as clip-validation.ts writes them beside the video. */
+export interface ShapeClipTruth {
+  frameCount: number;
+  frames: { truth: Pick<FrameTruth, "side" | "view" | "commandedDeg"> }[];
+}
+
+/**
+ * One sample per finger of every `everyNth` frame of one tracked clip, read as the engine reads a clip: each tracked
+ * frame through the depth mirror (vision/depth-mirror.ts), then the four fingers' rows. Every sample of a frame gets
+ * the still id `stillBase + frame index`.
+ */
+export function handShapeClipFrameSamples(
+  name: string,
+  model: string,
+  frames: readonly TrackedFrame[],
+  truth: ShapeClipTruth,
+  options: { everyNth: number; stillBase: number; wholeHand: boolean },
+): HandShapeSample[] {
+  if (frames.length !== truth.frameCount) throw new Error(`${name} (${model}): tracked ${frames.length} frames, the clip has ${truth.frameCount}`);
+  const side = truth.frames[0].truth.side as Side;
+  const continuity = new PalmContinuity(side);
+  const samples: HandShapeSample[] = [];
+  frames.forEach((frame, index) => {
+    if (!frame.hand) {
+      continuity.reset();
+      return;
+    }
+    const seenAxes = handAxes(frame.hand, side);
+    if (!seenAxes) return;
+    // Every frame goes through the mirror check (its reference follows the clip); only every n-th is kept.
+    const { hand, axes } = continuity.check(frame.hand, seenAxes);
+    if (index % options.everyNth !== 0) return;
+    const rows = handShapeFeatureRows(hand, side, axes, options.wholeHand);
+    if (!rows) return;
+    const handRows = ESTIMATOR_FINGERS.map((f) => rows[f]);
+    const commanded = truth.frames[index].truth.commandedDeg;
+    ESTIMATOR_FINGERS.forEach((finger, fingerIndex) =>
+      samples.push({
+        model,
+        still: options.stillBase + index,
+        view: truth.frames[index].truth.view,
+        finger,
+        handRows,
+        fingerIndex,
+        truthDeg: Object.fromEntries(FINGER_JOINTS.map((j) => [j, getPoseAngle(commanded, fingerPoseKey(finger, j))])) as Record<FingerJoint, number>,
+        source: "clips",
+      }),
+    );
+  });
+  return samples;
+}
+
+/**
+ * Samples from every tracked whole-hand-shape clip of the training seeds from `views` (every `everyNth` frame). Still
+ * ids are unique per clip frame and group by clip, so folds never split a clip.
+ */
+export function handShapeClipSamples(seeds: readonly number[], models: readonly string[], views: readonly string[], wholeHand: boolean, everyNth = 3): HandShapeSample[] {
+  return seeds.flatMap((seed, seedIndex) =>
+    models.flatMap((model) => {
+      const folder = clipFolder(seed);
+      const names = handShapeClipNames(seed, model, views);
+      if (!names.length) throw new Error(`${folder}: no tracked whole-hand-shape clips (${views.join(", ")}) for ${model}; render them with clip-validation.ts --seeds ${seed} --view V`);
+      return names.flatMap((name, clipIndex) => {
+        const frames = JSON.parse(readFileSync(path.join(folder, `${name}-${model}.tracked.json`), "utf8")) as TrackedFrame[];
+        const truth = JSON.parse(readFileSync(path.join(folder, `${name}.json`), "utf8")) as ShapeClipTruth;
+        return handShapeClipFrameSamples(name, model, frames, truth, { everyNth, wholeHand, stillBase: CLIP_STILL_BASE + (seedIndex * 1000 + clipIndex) * CLIP_FRAME_SPAN });
+      });
+    }),
+  );
+}
+/** Clip-frame still ids start here (set stills sit below 1 000 000 per set) and leave room for a clip's frames. */
+const CLIP_STILL_BASE = 1_000_000_000;
+const CLIP_FRAME_SPAN = 10_000;
+
 
 /** The estimate as the engine makes it from a fit: the estimator where the hand's shape lies in its domain, else raw. */
 function engineEstimate(fit: FingerJointFit, spread: HandSpreadRange, s: HandShapeSample, joint: FingerJoint): { deg: number; applied: boolean } {
@@ -263,6 +374,45 @@ function select(values: Record<string, string | boolean | undefined>): void {
   }
 }
 
+/**
+ * Selection with training clips (training seeds only): fitted on the family's training stills alone and on the stills
+ * plus the whole-hand-shape clips of `--clip-seeds`, each scored as the engine applies it on every third frame of the
+ * clips of `--clip-holdout` (another training seed), per view.
+ */
+function selectClips(values: Record<string, string | boolean | undefined>): void {
+  const family = familyOf(values.family);
+  const models = parseModels(values.models as string | undefined);
+  const lambda = parseCount("lambda", (values.lambda as string | undefined) ?? "10", Number.NaN);
+  const views = String(values["clip-views"] ?? (family.name === "down" ? "down" : "palm,back")).split(",");
+  const trainSeeds = String(values["clip-seeds"] ?? "").split(",").filter(Boolean).map((raw) => parseCount("clip-seeds", raw, 0));
+  const holdoutSeed = parseCount("clip-holdout", values["clip-holdout"] as string | undefined, Number.NaN);
+  const weights = String(values["clip-weights"] ?? "1").split(",").map(Number);
+  const stills = loadSets([family.trainingSet], true, family.views);
+  const clips = handShapeClipSamples(trainSeeds, models, views, true);
+  const scored = handShapeClipSamples([holdoutSeed], models, views, true);
+  console.log(`stills ${family.trainingSet}; training clips ${trainSeeds.join(",")} (${views.join(", ")}); scored on clips ${holdoutSeed}; λ ${lambda}`);
+  for (const model of models) {
+    for (const joint of FINGER_JOINTS) {
+      const variants: { label: string; rows: HandShapeSample[]; weight: number }[] = [
+        { label: "stills only", rows: stills.filter((s) => s.model === model), weight: 1 },
+        ...weights.map((weight) => ({ label: `+ clips (weight ${weight})`, rows: [...stills, ...clips].filter((s) => s.model === model), weight })),
+      ];
+      for (const { label, rows, weight } of variants) {
+        const fit = fitJoint(rows, joint, lambda, weight);
+        const spread = handSpreadRange(rows);
+        const cells = views.map((view) => {
+          const r = scored.filter((s) => s.model === model && s.view === view).map((s) => ({ truthDeg: s.truthDeg[joint], raw: rawDeg(s, joint), ...engineEstimate(fit, spread, s, joint) }));
+          const after = summarizeErrors(r.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.deg })));
+          const raw = summarizeErrors(r.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.raw })));
+          const kept = r.filter((x) => x.applied).length / Math.max(1, r.length);
+          return `${view} raw ${fmt(raw.meanAbsoluteErrorDeg)} -> ${fmt(after.meanAbsoluteErrorDeg)} slope ${fmt(after.slope, 2)} on ${Math.round(kept * 100)}%`;
+        });
+        console.log(`${model} ${joint} ${label}: ${cells.join(" | ")}`);
+      }
+    }
+  }
+}
+
 function round(value: number): number {
   return Math.round(value * 1e6) / 1e6;
 }
@@ -273,8 +423,9 @@ export function fitHandShapeEstimator(
   wholeHand: boolean,
   models: readonly string[],
   views: readonly ValidationView[] = HAND_SHAPE_VIEWS,
+  clips?: { seeds: readonly number[]; views: readonly string[] },
 ): HandShapeEstimatorModel {
-  const all = loadSets(sets, wholeHand, views);
+  const all = [...loadSets(sets, wholeHand, views), ...(clips?.seeds.length ? handShapeClipSamples(clips.seeds, models, clips.views, wholeHand) : [])];
   const fits: HandShapeEstimatorModel["fits"] = {};
   const handSpread: HandShapeEstimatorModel["handSpread"] = {};
   for (const model of models) {
@@ -291,7 +442,7 @@ export function fitHandShapeEstimator(
     wholeHandFeatures: wholeHand,
     handSpread,
     views,
-    trainingSets: [...sets],
+    trainingSets: [...sets, ...(clips?.seeds.length ? clips.seeds.map((seed) => `clips-${seed}-${clips.views.join("+")}`) : [])],
     fits,
   };
 }
@@ -398,7 +549,6 @@ async function sideCheck(): Promise<void> {
   const { createLivePipeline } = await import("@/vision/pipeline");
   const { CORRECTION_MODEL } = await import("@/vision/correction");
   const { deriveUncertaintyTable, parseAccuracyReport, readHandShapeRows, REPORT_FILE } = await import("./derive-uncertainty");
-  const { readFileSync } = await import("node:fs");
   const report = parseAccuracyReport(readFileSync(REPORT_FILE, "utf8"));
   const before = { model: { ...CORRECTION_MODEL, handShapeEstimators: undefined }, table: deriveUncertaintyTable(report, []) };
   const after = { model: CORRECTION_MODEL, table: deriveUncertaintyTable(report, readHandShapeRows()) };
@@ -450,22 +600,28 @@ async function main(): Promise<void> {
       reuse: { type: "boolean" },
       "spread-only": { type: "boolean" },
       family: { type: "string" },
+      "clip-seeds": { type: "string" },
+      "clip-holdout": { type: "string" },
+      "clip-views": { type: "string" },
+      "clip-weights": { type: "string" },
     },
   });
   const command = positionals[0];
   if (command === "select") return select(values);
+  if (command === "select-clips") return selectClips(values);
   if (command === "fit") {
     if (!values.sets) throw new Error("--sets: expected the training sets, comma-separated (e.g. hand-shapes-77000102-600)");
     const lambda = parseCount("lambda", values.lambda, Number.NaN);
     const family = familyOf(values.family);
-    const model = fitHandShapeEstimator(values.sets.split(","), lambda, values["whole-hand"] ?? false, parseModels(values.models), family.views);
+    const clipSeeds = String(values["clip-seeds"] ?? "").split(",").filter(Boolean).map((raw) => parseCount("clip-seeds", raw, 0));
+    const clipViews = String(values["clip-views"] ?? (family.name === "down" ? "down" : "palm,back")).split(",");
+    const model = fitHandShapeEstimator(values.sets.split(","), lambda, values["whole-hand"] ?? false, parseModels(values.models), family.views, { seeds: clipSeeds, views: clipViews });
     writeFileSync(family.file, `${JSON.stringify(model, null, 2)}\n`);
     console.error(`hand-shape estimator -> ${family.file}`);
     return;
   }
   if (command === "holdout") {
     const family = familyOf(values.family);
-    const { existsSync, readFileSync } = await import("node:fs");
     if (!existsSync(family.file)) throw new Error(`${family.file}: no fit; run \`hand-shape-fit.ts fit --family ${family.name}\` first`);
     return holdout(values, JSON.parse(readFileSync(family.file, "utf8")) as HandShapeEstimatorModel, family);
   }
