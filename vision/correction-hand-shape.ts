@@ -1,7 +1,18 @@
 import type { Side } from "@/lib/motions/catalog";
 import { handAxes, type HandAxes } from "./angles";
 import { viewOfAxes, type ValidationView } from "./correction-views";
-import { applyFingerFit, ESTIMATOR_FINGERS, fingerFeatures, inTrainingDomain, type Finger, type FingerJoint, type FingerJointFit } from "./estimator";
+import {
+  applyFingerFit,
+  ESTIMATOR_FINGERS,
+  fingerFeatures,
+  fingerPictureFeatures,
+  inTrainingDomain,
+  PICTURE_FEATURES,
+  type Finger,
+  type FingerJoint,
+  type FingerJointFit,
+  type FingerPicture,
+} from "./estimator";
 import type { HandLandmarks } from "./landmarks";
 
 /**
@@ -60,8 +71,34 @@ export interface HandShapeEstimatorModel {
   fits: Record<string, Partial<Record<FingerJoint, FingerJointFit>>>;
 }
 
-/** The features of all four fingers (each the estimator's row), or null when any finger cannot be read. */
-export function handShapeFeatureRows(hand: HandLandmarks, side: Side, axes: HandAxes, wholeHandFeatures: boolean): Record<Finger, number[]> | null {
+/** Whether a hand-shape model reads the picture features too (its feature list holds them). */
+export function handShapeUsesPicture(model: Pick<HandShapeEstimatorModel, "features">): boolean {
+  return PICTURE_FEATURES.every((name) => model.features.includes(name));
+}
+
+/**
+ * The features of all four fingers (each the estimator's row), or null when any finger cannot be read. With `picture`
+ * (a model whose features include the picture ones), each row ends with that finger's picture features
+ * (./estimator.ts PICTURE_FEATURES); null when the picture cannot be read.
+ */
+export function handShapeFeatureRows(
+  hand: HandLandmarks,
+  side: Side,
+  axes: HandAxes,
+  wholeHandFeatures: boolean,
+  picture?: FingerPicture | null,
+): Record<Finger, number[]> | null {
+  if (picture !== undefined) {
+    const rows = handShapeFeatureRows(hand, side, axes, wholeHandFeatures);
+    if (!rows || !picture) return null;
+    const out: Partial<Record<Finger, number[]>> = {};
+    for (const finger of ESTIMATOR_FINGERS) {
+      const inPicture = fingerPictureFeatures(picture, finger);
+      if (!inPicture) return null;
+      out[finger] = [...rows[finger], ...inPicture];
+    }
+    return out as Record<Finger, number[]>;
+  }
   const rows: Partial<Record<Finger, number[]>> = {};
   for (const finger of ESTIMATOR_FINGERS) {
     const base = fingerFeatures(hand, side, finger, axes);
@@ -77,7 +114,8 @@ export function handShapeFeatureRows(hand: HandLandmarks, side: Side, axes: Hand
 /**
  * The estimated flexion of one finger joint (degrees), or null when the model has no fit for the joint and hand
  * model, the view is not one it was fitted for, a finger cannot be read, one finger's curl is apart from the others'
- * (not a whole-hand shape), or any of the four fingers lies outside the fit's training domain: then the raw angle stands.
+ * (not a whole-hand shape), any of the four fingers lies outside the fit's training domain, or the model reads the
+ * picture features and the frame has no picture: then the raw angle stands.
  */
 export function estimateHandShapeJointDeg(
   model: HandShapeEstimatorModel,
@@ -87,6 +125,7 @@ export function estimateHandShapeJointDeg(
   side: Side,
   finger: Finger,
   axes?: HandAxes,
+  picture?: FingerPicture | null,
 ): number | null {
   const fit = model.fits[handModel]?.[joint];
   if (!fit) return null;
@@ -94,7 +133,8 @@ export function estimateHandShapeJointDeg(
   if (!handAxesNow) return null;
   const view = viewOfAxes(handAxesNow);
   if (!model.views.includes(view)) return null;
-  const rows = handShapeFeatureRows(hand, side, handAxesNow, model.wholeHandFeatures);
+  // A model fitted with the picture features reads a frame only with its picture (else the raw angle stands).
+  const rows = handShapeFeatureRows(hand, side, handAxesNow, model.wholeHandFeatures, handShapeUsesPicture(model) ? (picture ?? null) : undefined);
   const spread = model.handSpread[handModel];
   if (!rows || !spread || !isWholeHandShape(spread, rows) || !ESTIMATOR_FINGERS.every((f) => inTrainingDomain(fit, rows[f]))) return null;
   return applyFingerFit(fit, rows[finger]);

@@ -2,7 +2,7 @@ import type { Digit, MotionId, Side } from "@/lib/motions/catalog";
 import COEFFICIENTS from "./correction-coefficients.json";
 import HAND_SHAPE_FIT from "./correction-hand-shape.json";
 import HAND_SHAPE_DOWN_FIT from "./correction-hand-shape-down.json";
-import { estimateHandShapeJointDeg, type HandShapeEstimatorModel } from "./correction-hand-shape";
+import { estimateHandShapeJointDeg, handShapeUsesPicture, type HandShapeEstimatorModel } from "./correction-hand-shape";
 import { estimateFingerJointDeg, fingerJointOfGroup, usesPicture, type Finger, type FingerEstimatorModel, type FingerPicture } from "./estimator";
 import { handAxes, type HandAxes } from "./angles";
 import { viewFromHand, viewOfAxes, type ValidationView } from "./correction-views";
@@ -146,7 +146,7 @@ export function correctGroupAngle(
     // In its views a hand-shape estimator reads the frame or nobody does: the side-view fit was not chosen there.
     const view = hasHandShape ? viewOfFeatures(features) : null;
     const handShape = view === null ? undefined : model.handShapeEstimators!.find((m) => m.fits[handModel]?.[joint] && m.views.includes(view));
-    if (handShape) return estimateHandShapeJointDeg(handShape, handModel, joint, features.hand, features.side, digit as Finger, features.axes);
+    if (handShape) return estimateHandShapeJointDeg(handShape, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture);
     if (!model.fingerEstimator?.fits[handModel]?.[joint]) return null;
     return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture);
   }
@@ -211,7 +211,7 @@ export function correctionGroupFor(motion: MotionId, digit: Digit | null): { gro
 export function readsPicturePoints(model: CorrectionModel, motion: MotionId, digit: Digit | null): boolean {
   const group = correctionGroupFor(motion, digit)?.group;
   const joint = group ? fingerJointOfGroup(group) : null;
-  return Boolean(joint && model.fingerEstimator && usesPicture(model.fingerEstimator));
+  return Boolean(joint && ((model.fingerEstimator && usesPicture(model.fingerEstimator)) || model.handShapeEstimators?.some(handShapeUsesPicture)));
 }
 
 /** The corrected reading for a motion's reported angle (same sign convention), or null when there is no fit. */

@@ -51,6 +51,7 @@ import {
   FINGER_FEATURES,
   FINGER_JOINTS,
   inTrainingDomain,
+  PICTURE_FEATURES,
   type Finger,
   type FingerJoint,
   type FingerJointFit,
@@ -139,12 +140,14 @@ export function handShapeSamples(
   set: { stills: readonly TrackedStill[]; count: number },
   wholeHand: boolean,
   views: readonly string[] = HAND_SHAPE_VIEWS,
+  picture = false,
 ): HandShapeSample[] {
   const samples: HandShapeSample[] = [];
   set.stills.forEach((still, index) => {
     if (!still.hand || !views.includes(still.truth.view)) return;
     const axes = handAxes(still.hand, still.truth.side);
-    const rows = axes ? handShapeFeatureRows(still.hand, still.truth.side, axes, wholeHand) : null;
+    const inPicture = picture ? (still.image ? { image: still.image, aspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX } : null) : undefined;
+    const rows = axes ? handShapeFeatureRows(still.hand, still.truth.side, axes, wholeHand, inPicture) : null;
     if (!rows) return;
     const handRows = ESTIMATOR_FINGERS.map((f) => rows[f]);
     ESTIMATOR_FINGERS.forEach((finger, fingerIndex) =>
@@ -240,7 +243,7 @@ export function handShapeClipFrameSamples(
   model: string,
   frames: readonly TrackedFrame[],
   truth: ShapeClipTruth,
-  options: { everyNth: number; stillBase: number; wholeHand: boolean },
+  options: { everyNth: number; stillBase: number; wholeHand: boolean; picture?: boolean },
 ): HandShapeSample[] {
   if (frames.length !== truth.frameCount) throw new Error(`${name} (${model}): tracked ${frames.length} frames, the clip has ${truth.frameCount}`);
   const side = truth.frames[0].truth.side as Side;
@@ -256,7 +259,8 @@ export function handShapeClipFrameSamples(
     // Every frame goes through the mirror check (its reference follows the clip); only every n-th is kept.
     const { hand, axes } = continuity.check(frame.hand, seenAxes);
     if (index % options.everyNth !== 0) return;
-    const rows = handShapeFeatureRows(hand, side, axes, options.wholeHand);
+    const picture = options.picture ? (frame.image ? { image: frame.image, aspect: frame.imageAspect ?? IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX } : null) : undefined;
+    const rows = handShapeFeatureRows(hand, side, axes, options.wholeHand, picture);
     if (!rows) return;
     const handRows = ESTIMATOR_FINGERS.map((f) => rows[f]);
     const commanded = truth.frames[index].truth.commandedDeg;
@@ -280,7 +284,14 @@ export function handShapeClipFrameSamples(
  * Samples from every tracked whole-hand-shape clip of the training seeds from `views` (every `everyNth` frame). Still
  * ids are unique per clip frame and group by clip, so folds never split a clip.
  */
-export function handShapeClipSamples(seeds: readonly number[], models: readonly string[], views: readonly string[], wholeHand: boolean, everyNth = 3): HandShapeSample[] {
+export function handShapeClipSamples(
+  seeds: readonly number[],
+  models: readonly string[],
+  views: readonly string[],
+  wholeHand: boolean,
+  everyNth = 3,
+  picture = false,
+): HandShapeSample[] {
   return seeds.flatMap((seed, seedIndex) =>
     models.flatMap((model) => {
       const folder = clipFolder(seed);
@@ -289,7 +300,7 @@ export function handShapeClipSamples(seeds: readonly number[], models: readonly 
       return names.flatMap((name, clipIndex) => {
         const frames = JSON.parse(readFileSync(path.join(folder, `${name}-${model}.tracked.json`), "utf8")) as TrackedFrame[];
         const truth = JSON.parse(readFileSync(path.join(folder, `${name}.json`), "utf8")) as ShapeClipTruth;
-        return handShapeClipFrameSamples(name, model, frames, truth, { everyNth, wholeHand, stillBase: CLIP_STILL_BASE + (seedIndex * 1000 + clipIndex) * CLIP_FRAME_SPAN });
+        return handShapeClipFrameSamples(name, model, frames, truth, { everyNth, wholeHand, picture, stillBase: CLIP_STILL_BASE + (seedIndex * 1000 + clipIndex) * CLIP_FRAME_SPAN });
       });
     }),
   );
@@ -311,12 +322,12 @@ function rawDeg(s: HandShapeSample, joint: FingerJoint): number {
 
 const fmt = (x: number | null | undefined, digits = 1) => (x === null || x === undefined ? "-" : x.toFixed(digits));
 
-function loadSets(names: readonly string[], wholeHand: boolean, views: readonly string[]): HandShapeSample[] {
+function loadSets(names: readonly string[], wholeHand: boolean, views: readonly string[], picture = false): HandShapeSample[] {
   return names.flatMap((name, setIndex) => {
     assertTrainingSet(name);
     // Still ids must not collide across sets: folds group by still. Other sets add their palm/back/oblique stills too.
     const setViews = setIndex === 0 ? views : [...new Set([...views, ...HAND_SHAPE_VIEWS])];
-    return handShapeSamples(loadTrackedSet(name), wholeHand, setViews).map((s) => ({ ...s, still: s.still + setIndex * 1_000_000 }));
+    return handShapeSamples(loadTrackedSet(name), wholeHand, setViews, picture).map((s) => ({ ...s, still: s.still + setIndex * 1_000_000 }));
   });
 }
 
@@ -387,10 +398,11 @@ function selectClips(values: Record<string, string | boolean | undefined>): void
   const trainSeeds = String(values["clip-seeds"] ?? "").split(",").filter(Boolean).map((raw) => parseCount("clip-seeds", raw, 0));
   const holdoutSeed = parseCount("clip-holdout", values["clip-holdout"] as string | undefined, Number.NaN);
   const weights = String(values["clip-weights"] ?? "1").split(",").map(Number);
-  const stills = loadSets([family.trainingSet], true, family.views);
-  const clips = handShapeClipSamples(trainSeeds, models, views, true);
-  const scored = handShapeClipSamples([holdoutSeed], models, views, true);
-  console.log(`stills ${family.trainingSet}; training clips ${trainSeeds.join(",")} (${views.join(", ")}); scored on clips ${holdoutSeed}; λ ${lambda}`);
+  const picture = Boolean(values.picture);
+  const stills = loadSets([family.trainingSet], true, family.views, picture);
+  const clips = handShapeClipSamples(trainSeeds, models, views, true, 3, picture);
+  const scored = handShapeClipSamples([holdoutSeed], models, views, true, 3, picture);
+  console.log(`${picture ? "with picture features; " : ""}stills ${family.trainingSet}; training clips ${trainSeeds.join(",")} (${views.join(", ")}); scored on clips ${holdoutSeed}; λ ${lambda}`);
   for (const model of models) {
     for (const joint of FINGER_JOINTS) {
       const variants: { label: string; rows: HandShapeSample[]; weight: number }[] = [
@@ -424,8 +436,9 @@ export function fitHandShapeEstimator(
   models: readonly string[],
   views: readonly ValidationView[] = HAND_SHAPE_VIEWS,
   clips?: { seeds: readonly number[]; views: readonly string[] },
+  picture = false,
 ): HandShapeEstimatorModel {
-  const all = [...loadSets(sets, wholeHand, views), ...(clips?.seeds.length ? handShapeClipSamples(clips.seeds, models, clips.views, wholeHand) : [])];
+  const all = [...loadSets(sets, wholeHand, views, picture), ...(clips?.seeds.length ? handShapeClipSamples(clips.seeds, models, clips.views, wholeHand, 3, picture) : [])];
   const fits: HandShapeEstimatorModel["fits"] = {};
   const handSpread: HandShapeEstimatorModel["handSpread"] = {};
   for (const model of models) {
@@ -438,7 +451,7 @@ export function fitHandShapeEstimator(
     }
   }
   return {
-    features: wholeHand ? [...FINGER_FEATURES, ...WHOLE_HAND_FEATURES] : [...FINGER_FEATURES],
+    features: [...FINGER_FEATURES, ...(wholeHand ? WHOLE_HAND_FEATURES : []), ...(picture ? PICTURE_FEATURES : [])],
     wholeHandFeatures: wholeHand,
     handSpread,
     views,
@@ -485,7 +498,8 @@ export function scoreHoldout(set: TrackedSet, model: HandShapeEstimatorModel): H
               continue;
             }
             const rawValue = rows[finger][FINGER_JOINTS.indexOf(joint)];
-            const estimate = estimateHandShapeJointDeg(model, handModel, joint, still.hand, still.truth.side, finger, axes);
+            const picture = still.image ? { image: still.image, aspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX } : null;
+            const estimate = estimateHandShapeJointDeg(model, handModel, joint, still.hand, still.truth.side, finger, axes, picture);
             if (estimate !== null) applied += 1;
             raw.push({ truthDeg, estimateDeg: rawValue });
             after.push({ truthDeg, estimateDeg: estimate ?? rawValue });
@@ -604,6 +618,7 @@ async function main(): Promise<void> {
       "clip-holdout": { type: "string" },
       "clip-views": { type: "string" },
       "clip-weights": { type: "string" },
+      picture: { type: "boolean" },
     },
   });
   const command = positionals[0];
@@ -615,7 +630,7 @@ async function main(): Promise<void> {
     const family = familyOf(values.family);
     const clipSeeds = String(values["clip-seeds"] ?? "").split(",").filter(Boolean).map((raw) => parseCount("clip-seeds", raw, 0));
     const clipViews = String(values["clip-views"] ?? (family.name === "down" ? "down" : "palm,back")).split(",");
-    const model = fitHandShapeEstimator(values.sets.split(","), lambda, values["whole-hand"] ?? false, parseModels(values.models), family.views, { seeds: clipSeeds, views: clipViews });
+    const model = fitHandShapeEstimator(values.sets.split(","), lambda, values["whole-hand"] ?? false, parseModels(values.models), family.views, { seeds: clipSeeds, views: clipViews }, Boolean(values.picture));
     writeFileSync(family.file, `${JSON.stringify(model, null, 2)}\n`);
     console.error(`hand-shape estimator -> ${family.file}`);
     return;
