@@ -11,9 +11,10 @@
 import { existsSync, readdirSync, readFileSync } from "node:fs";
 import path from "node:path";
 import type { Side } from "@/lib/motions/catalog";
-import { handAxes } from "@/vision/angles";
+import { handAxes, type HandAxes } from "@/vision/angles";
 import { PalmContinuity } from "@/vision/depth-mirror";
-import { ESTIMATOR_FINGERS, FINGER_JOINTS, modelFingerFeatures, type FingerJoint } from "@/vision/estimator";
+import { ESTIMATOR_FINGERS, FINGER_JOINTS, modelFingerFeatures, type FingerJoint, type FingerPicture } from "@/vision/estimator";
+import type { HandLandmarks } from "@/vision/landmarks";
 import type { TrackedFrame } from "@/vision/live/types";
 import { ESTIMATOR_MODEL_FEATURES, fingerPoseKey, type FingerSample } from "./estimator-fit";
 import { getPoseAngle } from "./hand-pose";
@@ -54,18 +55,54 @@ export function clipFolder(seed: number): string {
   return path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
 }
 
-/** The names of a seed's tracked finger clips for one hand model, of one condition or both. */
-export function fingerClipNames(seed: number, model: string, conditions: readonly ClipCondition[] = CLIP_CONDITIONS): string[] {
+/** The names of a seed's clips (truth file and tracking for `model` both saved) that `keep` accepts, sorted. */
+export function trackedClipNames(seed: number, model: string, keep: (name: string) => boolean): string[] {
   const folder = clipFolder(seed);
   if (!existsSync(folder)) return [];
   return readdirSync(folder)
     .filter((file) => file.endsWith(".json") && !file.endsWith(".tracked.json"))
     .map((file) => file.slice(0, -".json".length))
-    .filter((name) => {
-      const match = CLIP_NAME.exec(name);
-      return match && conditions.includes(match[2] ? "gravity_minimized" : "against_gravity") && existsSync(path.join(folder, `${name}-${model}.tracked.json`));
-    })
+    .filter((name) => keep(name) && existsSync(path.join(folder, `${name}-${model}.tracked.json`)))
     .sort();
+}
+
+/** The names of a seed's tracked finger clips for one hand model, of one condition or both. */
+export function fingerClipNames(seed: number, model: string, conditions: readonly ClipCondition[] = CLIP_CONDITIONS): string[] {
+  return trackedClipNames(seed, model, (name) => {
+    const match = CLIP_NAME.exec(name);
+    return Boolean(match && conditions.includes(match[2] ? "gravity_minimized" : "against_gravity"));
+  });
+}
+
+/** A kept clip frame as the pipeline reads it: the hand and axes after the depth mirror, and the frame's picture. */
+export interface MirroredClipFrame {
+  index: number;
+  hand: HandLandmarks;
+  axes: HandAxes;
+  picture: FingerPicture | null;
+}
+
+/**
+ * Every `everyNth` frame of a tracked clip with a readable hand, read through the engine's depth mirror
+ * (vision/depth-mirror.ts) as the pipeline reads it: every frame goes through the mirror check (its reference follows
+ * the clip; a frame without a hand resets it), only every n-th is kept.
+ */
+export function mirroredClipFrames(frames: readonly TrackedFrame[], side: Side, everyNth: number): MirroredClipFrame[] {
+  const continuity = new PalmContinuity(side);
+  const kept: MirroredClipFrame[] = [];
+  frames.forEach((frame, index) => {
+    if (!frame.hand) {
+      continuity.reset();
+      return;
+    }
+    const seenAxes = handAxes(frame.hand, side);
+    if (!seenAxes) return;
+    const { hand, axes } = continuity.check(frame.hand, seenAxes);
+    if (index % everyNth !== 0) return;
+    const picture = frame.image ? { image: frame.image, aspect: frame.imageAspect ?? IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX } : null;
+    kept.push({ index, hand, axes, picture });
+  });
+  return kept;
 }
 
 /**
@@ -77,21 +114,10 @@ export function clipFrameSamples(name: string, model: string, frames: readonly T
   const motion = CLIP_NAME.exec(name)?.[1];
   if (!motion) throw new Error(`${name}: expected a finger clip named <mcp|pip|dip>.flexion-[gm-]<seed>-<i>-<clipSeed>`);
   const side = truth.frames[0].truth.side as Side;
-  const continuity = new PalmContinuity(side);
   const samples: FingerSample[] = [];
-  frames.forEach((frame, index) => {
-    if (!frame.hand) {
-      continuity.reset();
-      return;
-    }
-    const seenAxes = handAxes(frame.hand, side);
-    if (!seenAxes) return;
-    // Every frame goes through the mirror check (its reference follows the clip); only every n-th is kept.
-    const { hand, axes } = continuity.check(frame.hand, seenAxes);
-    if (index % everyNth !== 0) return;
+  for (const { index, hand, axes, picture } of mirroredClipFrames(frames, side, everyNth)) {
     const commanded = truth.frames[index].truth.commandedDeg;
     for (const finger of ESTIMATOR_FINGERS) {
-      const picture = frame.image ? { image: frame.image, aspect: frame.imageAspect ?? IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX } : null;
       const base = modelFingerFeatures(ESTIMATOR_MODEL_FEATURES, hand, side, finger, axes, picture);
       if (!base) continue;
       samples.push({
@@ -105,7 +131,7 @@ export function clipFrameSamples(name: string, model: string, frames: readonly T
         truthDeg: Object.fromEntries(FINGER_JOINTS.map((joint) => [joint, getPoseAngle(commanded, fingerPoseKey(finger, joint))])) as Record<FingerJoint, number>,
       });
     }
-  });
+  }
   return samples;
 }
 

@@ -25,13 +25,12 @@
  *
  * Training sets must come from training seeds (77000xxx); any set of a 2026120x seed is refused here except by holdout.
  */
-import { existsSync, readdirSync, readFileSync, writeFileSync } from "node:fs";
+import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { parseArgs } from "node:util";
 import type { Side } from "@/lib/motions/catalog";
 import { handAxes } from "@/vision/angles";
-import { PalmContinuity } from "@/vision/depth-mirror";
 import type { TrackedFrame } from "@/vision/live/types";
 import type { ValidationView } from "@/vision/correction-views";
 import {
@@ -61,7 +60,7 @@ import { correctionClearlyHelps, HAND_SHAPE_DOWN_VALIDATION_FILE, HAND_SHAPE_VAL
 import { fingerPoseKey, fitFingerJoint, loadTrackedSet, roundedFit } from "./estimator-fit";
 import { getPoseAngle } from "./hand-pose";
 import { HAND_SHAPE_DOWN_VIEWS, handShapeFrame } from "./motion-sets";
-import { clipFolder, FIRST_TRAINING_SEED } from "./clip-training";
+import { clipFolder, FIRST_TRAINING_SEED, mirroredClipFrames, trackedClipNames } from "./clip-training";
 import { IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, type FrameTruth } from "./scene";
 import { loadHandRig } from "./rig-files";
 import { parseCount, parseModels } from "./run-accuracy";
@@ -215,16 +214,7 @@ const SHAPE_CLIP_NAME = /^(mcp|pip|dip)\.flexion-(palm|back|down|oblique)-(\d+)-
 /** The names of a training seed's tracked whole-hand-shape clips from `views`, for one hand model. */
 export function handShapeClipNames(seed: number, model: string, views: readonly string[]): string[] {
   if (!Number.isInteger(seed) || seed < FIRST_TRAINING_SEED) throw new Error(`clip training seed ${seed}: expected a training seed (${FIRST_TRAINING_SEED} or above); held-out seeds are never fitted on`);
-  const folder = clipFolder(seed);
-  if (!existsSync(folder)) return [];
-  return readdirSync(folder)
-    .filter((file) => file.endsWith(".json") && !file.endsWith(".tracked.json"))
-    .map((file) => file.slice(0, -".json".length))
-    .filter((name) => {
-      const match = SHAPE_CLIP_NAME.exec(name);
-      return match && views.includes(match[2]) && existsSync(path.join(folder, `${name}-${model}.tracked.json`));
-    })
-    .sort();
+  return trackedClipNames(seed, model, (name) => views.includes(SHAPE_CLIP_NAME.exec(name)?.[2] ?? ""));
 }
 
 /** A clip's commanded angles per frame, as clip-validation.ts writes them beside the video. */
@@ -247,21 +237,11 @@ export function handShapeClipFrameSamples(
 ): HandShapeSample[] {
   if (frames.length !== truth.frameCount) throw new Error(`${name} (${model}): tracked ${frames.length} frames, the clip has ${truth.frameCount}`);
   const side = truth.frames[0].truth.side as Side;
-  const continuity = new PalmContinuity(side);
   const samples: HandShapeSample[] = [];
-  frames.forEach((frame, index) => {
-    if (!frame.hand) {
-      continuity.reset();
-      return;
-    }
-    const seenAxes = handAxes(frame.hand, side);
-    if (!seenAxes) return;
-    // Every frame goes through the mirror check (its reference follows the clip); only every n-th is kept.
-    const { hand, axes } = continuity.check(frame.hand, seenAxes);
-    if (index % options.everyNth !== 0) return;
-    const picture = options.picture ? (frame.image ? { image: frame.image, aspect: frame.imageAspect ?? IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX } : null) : undefined;
-    const rows = handShapeFeatureRows(hand, side, axes, options.wholeHand, picture);
-    if (!rows) return;
+  for (const frame of mirroredClipFrames(frames, side, options.everyNth)) {
+    const { index, hand, axes } = frame;
+    const rows = handShapeFeatureRows(hand, side, axes, options.wholeHand, options.picture ? frame.picture : undefined);
+    if (!rows) continue;
     const handRows = ESTIMATOR_FINGERS.map((f) => rows[f]);
     const commanded = truth.frames[index].truth.commandedDeg;
     ESTIMATOR_FINGERS.forEach((finger, fingerIndex) =>
@@ -276,7 +256,7 @@ export function handShapeClipFrameSamples(
         source: "clips",
       }),
     );
-  });
+  }
   return samples;
 }
 
