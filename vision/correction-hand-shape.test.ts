@@ -1,11 +1,11 @@
 import { describe, expect, it } from "vitest";
 import { handAxes, readMotion } from "./angles";
 import { CORRECTION_MODEL, correctGroupAngle, HAND_SHAPE_DOWN_MODEL, HAND_SHAPE_MODEL } from "./correction";
-import { estimateHandShapeJointDeg, HAND_SHAPE_VIEWS, handShapeFeatureRows, isWholeHandShape } from "./correction-hand-shape";
+import { estimateHandShapeJointDeg, HAND_SHAPE_VIEWS, handShapeFeatureRows, handShapeUsesPicture, isWholeHandShape } from "./correction-hand-shape";
 import { viewFromHand } from "./correction-views";
-import { applyFingerFit, estimateFingerJointDeg, FINGER_FEATURES, type FingerJoint } from "./estimator";
+import { applyFingerFit, estimateFingerJointDeg, FINGER_FEATURES, type FingerJoint, PICTURE_FEATURES } from "./estimator";
 import type { HandLandmarks } from "./landmarks";
-import { neutralPose, poseHand, type Placement, type HandPose } from "./testing/synthetic-hand";
+import { neutralPose, pinholeFingerPicture, poseHand, type Placement, type HandPose } from "./testing/synthetic-hand";
 
 // A right hand held up, fingers toward the top of the picture (z points away from the camera): palm toward the camera,
 // back toward it, or thumb side toward it. Palm and back are tilted a little, as a held hand is: seen exactly square,
@@ -34,7 +34,7 @@ function viewOf(hand: HandLandmarks) {
 const features = (hand: HandLandmarks, motion: "mcp.flexion" | "pip.flexion") => {
   const axes = handAxes(hand, "right")!;
   const raw = readMotion(motion, "middle", hand, axes, null)!;
-  return { deg: raw.deg, imagePlaneDeg: raw.imagePlaneDeg, planeFacing: 1, radialTowardCamera: -axes.radialAxis[2], palmTowardCamera: -axes.palmarNormal[2], hand, side: "right" as const, axes };
+  return { deg: raw.deg, imagePlaneDeg: raw.imagePlaneDeg, planeFacing: 1, radialTowardCamera: -axes.radialAxis[2], palmTowardCamera: -axes.palmarNormal[2], hand, side: "right" as const, axes, picture: pinholeFingerPicture(hand) };
 };
 
 describe("the whole-hand-shape estimator (vision/correction-hand-shape.json)", () => {
@@ -54,12 +54,24 @@ describe("the whole-hand-shape estimator (vision/correction-hand-shape.json)", (
     expect(viewOf(poseHand(handShape(0, 0, 0), "right", RADIAL_VIEW).landmarks)).toBe("radial");
   });
 
+  it("both committed fits read the picture features too (since kinarc-correction-7): without a frame's picture the raw angle stands", () => {
+    for (const model of [HAND_SHAPE_MODEL, HAND_SHAPE_DOWN_MODEL]) {
+      expect(handShapeUsesPicture(model)).toBe(true);
+      expect(model.features.slice(FINGER_FEATURES.length + 4)).toEqual([...PICTURE_FEATURES]);
+    }
+    const hand = poseHand(handShape(20, 30, 20), "right", PALM_VIEW).landmarks;
+    const withPicture = estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", "pip", hand, "right", "middle", undefined, pinholeFingerPicture(hand));
+    expect(withPicture).not.toBeNull();
+    expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", "pip", hand, "right", "middle")).toBeNull();
+    expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", "pip", hand, "right", "middle", undefined, null)).toBeNull();
+  });
+
   it("reads only in its own views: from the thumb side the side-view estimator answers, unchanged", () => {
     const hand = poseHand(handShape(10, 60, 30), "right", RADIAL_VIEW).landmarks;
     for (const joint of ["mcp", "pip", "dip"] as FingerJoint[]) {
-      expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", joint, hand, "right", "middle")).toBeNull();
+      expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", joint, hand, "right", "middle", undefined, pinholeFingerPicture(hand))).toBeNull();
     }
-    const sideView = estimateFingerJointDeg(CORRECTION_MODEL.fingerEstimator!, "lite", "pip", hand, "right", "middle");
+    const sideView = estimateFingerJointDeg(CORRECTION_MODEL.fingerEstimator!, "lite", "pip", hand, "right", "middle", undefined, pinholeFingerPicture(hand));
     expect(correctGroupAngle(CORRECTION_MODEL, "lite", "PIP flexion", features(hand, "pip.flexion"), "middle")).toBe(sideView);
   });
 
@@ -68,12 +80,12 @@ describe("the whole-hand-shape estimator (vision/correction-hand-shape.json)", (
     for (const placement of [PALM_VIEW, BACK_VIEW]) {
       for (const [mcp, pip, dip] of [[0, 0, 0], [20, 30, 20], [45, 60, 40]]) {
         const hand = poseHand(handShape(mcp, pip, dip), "right", placement).landmarks;
-        const own = estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", "pip", hand, "right", "middle");
+        const own = estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", "pip", hand, "right", "middle", undefined, pinholeFingerPicture(hand));
         expect(correctGroupAngle(CORRECTION_MODEL, "lite", "PIP flexion", features(hand, "pip.flexion"), "middle")).toBe(own);
         if (own !== null) {
           read += 1;
           // Independently: the fit applied by hand to this finger's feature row.
-          const rows = handShapeFeatureRows(hand, "right", handAxes(hand, "right")!, HAND_SHAPE_MODEL.wholeHandFeatures)!;
+          const rows = handShapeFeatureRows(hand, "right", handAxes(hand, "right")!, HAND_SHAPE_MODEL.wholeHandFeatures, pinholeFingerPicture(hand))!;
           expect(own).toBeCloseTo(applyFingerFit(HAND_SHAPE_MODEL.fits.lite!.pip!, rows.middle), 9);
         }
       }
@@ -86,7 +98,7 @@ describe("the whole-hand-shape estimator (vision/correction-hand-shape.json)", (
     const hand = poseHand(handShape(0, 0, 0), "right", PALM_VIEW).landmarks.map((p) => [...p] as [number, number, number]);
     // The index fingertip thrown 20 cm off, a gross misreading no training still holds.
     hand[8] = [hand[8][0] + 0.2, hand[8][1] - 0.2, hand[8][2] - 0.1];
-    for (const finger of FINGERS) expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", "mcp", hand, "right", finger)).toBeNull();
+    for (const finger of FINGERS) expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", "mcp", hand, "right", finger, undefined, pinholeFingerPicture(hand))).toBeNull();
   });
 
   it("reads four fingers curled together but declines one finger curled beside straight ones (not a whole-hand shape)", () => {
@@ -96,13 +108,13 @@ describe("the whole-hand-shape estimator (vision/correction-hand-shape.json)", (
       alone.fingers.ring = { ...alone.fingers.ring, mcpFlexionDeg: mcp, pipFlexionDeg: pip, dipFlexionDeg: dip };
       const oneFinger = poseHand(alone, "right", PALM_VIEW).landmarks;
       for (const handModel of ["lite", "full"]) {
-        const rows = (hand: HandLandmarks) => handShapeFeatureRows(hand, "right", handAxes(hand, "right")!, HAND_SHAPE_MODEL.wholeHandFeatures)!;
+        const rows = (hand: HandLandmarks) => handShapeFeatureRows(hand, "right", handAxes(hand, "right")!, HAND_SHAPE_MODEL.wholeHandFeatures, pinholeFingerPicture(hand))!;
         expect(isWholeHandShape(HAND_SHAPE_MODEL.handSpread[handModel], rows(together))).toBe(true);
         expect(isWholeHandShape(HAND_SHAPE_MODEL.handSpread[handModel], rows(oneFinger))).toBe(false);
-        expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, handModel, "pip", oneFinger, "right", "ring")).toBeNull();
+        expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, handModel, "pip", oneFinger, "right", "ring", undefined, pinholeFingerPicture(oneFinger))).toBeNull();
       }
       // A curled hand reads as curled: PIP well past the halfway mark of its 0-100 degree range [common practice: PIP AROM 0-100].
-      expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", "pip", together, "right", "middle")!).toBeGreaterThan(50);
+      expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", "pip", together, "right", "middle", undefined, pinholeFingerPicture(together))!).toBeGreaterThan(50);
     }
   });
 
@@ -134,12 +146,12 @@ describe("the whole-hand-shape estimator's second fit, from above the back of a 
     let read = 0;
     for (const [mcp, pip, dip] of [[0, 0, 0], [20, 30, 20], [45, 60, 40], [80, 90, 60]]) {
       const hand = poseHand(handShape(mcp, pip, dip), "right", DOWN_VIEW).landmarks;
-      expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", "pip", hand, "right", "middle")).toBeNull();
-      const own = estimateHandShapeJointDeg(HAND_SHAPE_DOWN_MODEL, "lite", "pip", hand, "right", "middle");
+      expect(estimateHandShapeJointDeg(HAND_SHAPE_MODEL, "lite", "pip", hand, "right", "middle", undefined, pinholeFingerPicture(hand))).toBeNull();
+      const own = estimateHandShapeJointDeg(HAND_SHAPE_DOWN_MODEL, "lite", "pip", hand, "right", "middle", undefined, pinholeFingerPicture(hand));
       expect(correctGroupAngle(CORRECTION_MODEL, "lite", "PIP flexion", features(hand, "pip.flexion"), "middle")).toBe(own);
       if (own !== null) {
         read += 1;
-        const rows = handShapeFeatureRows(hand, "right", handAxes(hand, "right")!, HAND_SHAPE_DOWN_MODEL.wholeHandFeatures)!;
+        const rows = handShapeFeatureRows(hand, "right", handAxes(hand, "right")!, HAND_SHAPE_DOWN_MODEL.wholeHandFeatures, pinholeFingerPicture(hand))!;
         expect(own).toBeCloseTo(applyFingerFit(HAND_SHAPE_DOWN_MODEL.fits.lite!.pip!, rows.middle), 9);
       }
     }

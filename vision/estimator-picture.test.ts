@@ -73,12 +73,12 @@ describe("finger features read in the picture", () => {
   });
 });
 
-describe("the committed estimator reads the picture (kinarc-correction-6)", () => {
+describe("the committed estimator reads the picture (since kinarc-correction-6)", () => {
   const estimator = CORRECTION_MODEL.fingerEstimator!;
   const hand = middleFinger(0, 50, 25, ULNAR_VIEW);
 
   it("lists the world features then the picture features, and needs a frame's picture to read it", () => {
-    expect(CORRECTION_VERSION).toBe("kinarc-correction-6");
+    expect(CORRECTION_VERSION).toBe("kinarc-correction-7");
     expect(estimator.features).toEqual([...ESTIMATOR_FEATURES]);
     expect(ESTIMATOR_FEATURES).toEqual([...FINGER_FEATURES, ...PICTURE_FEATURES]);
     expect(usesPicture(estimator)).toBe(true);

@@ -92,7 +92,7 @@ describe("a stored attempt's method in words", () => {
   it("says whether the angle came from 3-D landmarks, the correction (with its version) or the picture", () => {
     expect(measurementMethodWords("image_plane")).toMatch(/in the picture.*side-on/);
     expect(measurementMethodWords("world3d")).toMatch(/raw angles, no correction/);
-    expect(measurementMethodWords("world3d+kinarc-correction-6")).toBe("hand landmarks, corrected (kinarc-correction-6)");
+    expect(measurementMethodWords("world3d+kinarc-correction-7")).toBe("hand landmarks, corrected (kinarc-correction-7)");
     expect(measurementMethodWords(null)).toBe("—");
   });
 });
