@@ -6,8 +6,8 @@ import { getPoseAngle } from "./hand-pose";
 import { FINGER_FEATURES } from "@/vision/estimator";
 import type { TrackedFrame } from "@/vision/live/types";
 import { neutralPose, pinholePicture, PINHOLE_ASPECT, poseHand } from "@/vision/testing/synthetic-hand";
-import { WHOLE_HAND_FEATURES } from "@/vision/correction-hand-shape";
-import { assertTrainingSet, handShapeClipFrameSamples, handShapeClipNames, scoreHoldout, type ShapeClipTruth } from "./hand-shape-fit";
+import { fingerSpreads, isWholeHandShape, WHOLE_HAND_FEATURES } from "@/vision/correction-hand-shape";
+import { assertTrainingSet, handShapeClipFrameSamples, handShapeClipNames, handSpreadRange, type HandShapeSample, scoreHoldout, type ShapeClipTruth } from "./hand-shape-fit";
 import { restPose, setPoseAngle } from "./hand-pose";
 import { handShapeFrame } from "./motion-sets";
 import { loadHandRig } from "./rig-files";
@@ -105,5 +105,30 @@ describe("whole-hand-shape training samples from tracked clips", () => {
 
   it("never reads clips of held-out seeds", () => {
     expect(() => handShapeClipNames(20261211, "lite", ["palm"])).toThrow(/held-out seeds are never fitted on/);
+  });
+});
+
+describe("the whole-hand-shape guard's training range", () => {
+  const FINGERS = ["index", "middle", "ring", "little"] as const;
+  /** One sample per still: four finger rows whose curl features (indexes 6-9) are `offsets[i]` from a common curl. */
+  function still(id: number, offsets: readonly number[], source?: "clips"): HandShapeSample {
+    const handRows = offsets.map((d) => Array.from({ length: 10 }, (_, k) => (k >= 6 ? 0.1 + d : 0)));
+    const truthDeg = { mcp: 0, pip: 0, dip: 0 };
+    return { model: "lite", still: id, view: "palm", finger: "index", handRows, fingerIndex: 0, truthDeg, ...(source ? { source } : {}) };
+  }
+  // Stills: fingers apart by up to +-0.02; clip frames (many): fingers exactly together.
+  const stills = Array.from({ length: 100 }, (_, i) => still(i, [0.02 * Math.sin(i), -0.02 * Math.sin(i), 0.02 * Math.cos(i), -0.02 * Math.cos(i)]));
+  const clips = Array.from({ length: 2000 }, (_, i) => still(10_000 + i, [0, 0, 0, 0], "clips"));
+  const rows = (s: HandShapeSample) => Object.fromEntries(FINGERS.map((f, i) => [f, s.handRows[i]])) as Parameters<typeof fingerSpreads>[0];
+
+  it("is the union of the stills' and the clips' ranges, so many tight clip frames never narrow it", () => {
+    const alone = handSpreadRange(stills);
+    const both = handSpreadRange([...stills, ...clips]);
+    expect(both).toEqual(alone);
+    // Every training still stays a whole-hand shape under the joint range, as under the stills' own.
+    expect(stills.filter((s) => isWholeHandShape(both, rows(s))).length).toBe(stills.filter((s) => isWholeHandShape(alone, rows(s))).length);
+    // Pooled as one source (no source labels) the clip frames would have narrowed it: the motivating failure.
+    const pooled = handSpreadRange([...stills, ...clips.map((s) => ({ ...s, source: undefined }))]);
+    expect(pooled.highest[0][0]).toBeLessThan(alone.highest[0][0]);
   });
 });

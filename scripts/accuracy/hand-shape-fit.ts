@@ -5,10 +5,12 @@
  *     3-fold cross-validation over training stills only (grouped by still): ridge penalty, whole-hand features or
  *     not, with or without the palm/back/oblique stills of the fingers-together set.
  *   npx tsx scripts/accuracy/hand-shape-fit.ts select-clips --clip-seeds S1[,S2] --clip-holdout S3 [--clip-views palm,back]
- *       [--clip-weights 1] [--lambda 10]
+ *       [--clip-weights 1] [--lambda 10] [--picture] [--still-folds]
  *     stills alone against stills plus the whole-hand-shape clips of training seeds (clip-validation.ts --view V),
- *     scored as the engine applies them on every third frame of another training seed's clips.
- *   npx tsx scripts/accuracy/hand-shape-fit.ts fit --sets a,b --lambda L [--whole-hand] [--clip-seeds S1,S2 --clip-views V]
+ *     scored as the engine applies them on every third frame of another training seed's clips and, with
+ *     --still-folds, on the training stills by 3-fold cross-validation (the clips always in training).
+ *   npx tsx scripts/accuracy/hand-shape-fit.ts fit --sets a,b --lambda L [--whole-hand] [--picture]
+ *       [--clip-seeds S1,S2 --clip-views V [--clip-joints mcp] [--clip-weight 0.3]]
  *     fits on training sets (and training clips) and writes vision/correction-hand-shape.json.
  *   npx tsx scripts/accuracy/hand-shape-fit.ts holdout [--count 300] [--reuse]
  *     renders and tracks the held-out set (seed HAND_SHAPE_HOLDOUT_SEED, never used for fitting or selection), scores
@@ -173,9 +175,23 @@ export const HAND_SPREAD_MARGIN_SD = 1.5;
 
 /**
  * The training range of each finger's curl minus the four fingers' mean (vision/correction-hand-shape.ts
- * HandSpreadRange): 1st-99th percentile, widened by `marginSd` standard deviations.
+ * HandSpreadRange): 1st-99th percentile, widened by `marginSd` standard deviations. Stills and clip frames are
+ * ranged apart and the range is their union: clip frames (four fingers moving exactly together) outnumber the
+ * stills, and pooled they would narrow the percentiles until the guard turned away the stills' own shapes.
  */
 export function handSpreadRange(samples: readonly HandShapeSample[], marginSd: number = HAND_SPREAD_MARGIN_SD): HandSpreadRange {
+  const sources = [...new Set(samples.map((s) => s.source ?? "stills"))];
+  if (sources.length > 1) {
+    const ranges = sources.map((source) => sourceSpreadRange(samples.filter((s) => (s.source ?? "stills") === source), marginSd));
+    return {
+      lowest: ranges[0].lowest.map((row, i) => row.map((_, k) => Math.min(...ranges.map((r) => r.lowest[i][k])))),
+      highest: ranges[0].highest.map((row, i) => row.map((_, k) => Math.max(...ranges.map((r) => r.highest[i][k])))),
+    };
+  }
+  return sourceSpreadRange(samples, marginSd);
+}
+
+function sourceSpreadRange(samples: readonly HandShapeSample[], marginSd: number): HandSpreadRange {
   const perStill = new Map<string, number[][]>();
   for (const s of samples) if (s.fingerIndex === 0) perStill.set(`${s.still}`, s.handRows);
   const spreads = [...perStill.values()].map((handRows) => fingerSpreads(Object.fromEntries(ESTIMATOR_FINGERS.map((f, i) => [f, handRows[i]])) as Record<Finger, number[]>));
@@ -377,8 +393,10 @@ function selectClips(values: Record<string, string | boolean | undefined>): void
   const views = String(values["clip-views"] ?? (family.name === "down" ? "down" : "palm,back")).split(",");
   const trainSeeds = String(values["clip-seeds"] ?? "").split(",").filter(Boolean).map((raw) => parseCount("clip-seeds", raw, 0));
   const holdoutSeed = parseCount("clip-holdout", values["clip-holdout"] as string | undefined, Number.NaN);
-  const weights = String(values["clip-weights"] ?? "1").split(",").map(Number);
+  // `--clip-weights none`: the stills-only variant alone (e.g. to compare feature sets quickly).
+  const weights = values["clip-weights"] === "none" ? [] : String(values["clip-weights"] ?? "1").split(",").map(parseClipWeight);
   const picture = Boolean(values.picture);
+  const stillFolds = Boolean(values["still-folds"]);
   const stills = loadSets([family.trainingSet], true, family.views, picture);
   const clips = handShapeClipSamples(trainSeeds, models, views, true, 3, picture);
   const scored = handShapeClipSamples([holdoutSeed], models, views, true, 3, picture);
@@ -392,21 +410,50 @@ function selectClips(values: Record<string, string | boolean | undefined>): void
       for (const { label, rows, weight } of variants) {
         const fit = fitJoint(rows, joint, lambda, weight);
         const spread = handSpreadRange(rows);
-        const cells = views.map((view) => {
-          const r = scored.filter((s) => s.model === model && s.view === view).map((s) => ({ truthDeg: s.truthDeg[joint], raw: rawDeg(s, joint), ...engineEstimate(fit, spread, s, joint) }));
-          const after = summarizeErrors(r.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.deg })));
-          const raw = summarizeErrors(r.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.raw })));
-          const kept = r.filter((x) => x.applied).length / Math.max(1, r.length);
-          return `${view} raw ${fmt(raw.meanAbsoluteErrorDeg)} -> ${fmt(after.meanAbsoluteErrorDeg)} slope ${fmt(after.slope, 2)} on ${Math.round(kept * 100)}%`;
-        });
-        console.log(`${model} ${joint} ${label}: ${cells.join(" | ")}`);
+        const cells = views.map((view) => cellSummary(view, scored.filter((s) => s.model === model && s.view === view).map((s) => ({ truthDeg: s.truthDeg[joint], raw: rawDeg(s, joint), ...engineEstimate(fit, spread, s, joint) }))));
+        console.log(`${model} ${joint} ${label}, clips ${holdoutSeed}: ${cells.join(" | ")}`);
+        if (!stillFolds) continue;
+        // The same variant scored on the training stills too (folds grouped by still, clips always in training): a fit
+        // that reads clips well must not lose the stills' random whole-hand shapes.
+        const own = stills.filter((s) => s.model === model);
+        const extra = rows.filter((s) => s.source === "clips");
+        const results = Array.from({ length: FOLDS }, (_, fold) => {
+          const train = [...own.filter((s) => foldOf(s) !== fold), ...extra];
+          const foldFit = fitJoint(train, joint, lambda, weight);
+          const foldSpread = handSpreadRange(train);
+          return own.filter((s) => foldOf(s) === fold).map((s) => ({ view: s.view, truthDeg: s.truthDeg[joint], raw: rawDeg(s, joint), ...engineEstimate(foldFit, foldSpread, s, joint) }));
+        }).flat();
+        const stillCells = family.views.map((view) => cellSummary(view, results.filter((x) => x.view === view)));
+        console.log(`${model} ${joint} ${label}, stills (${FOLDS}-fold): ${stillCells.join(" | ")}`);
       }
     }
   }
 }
 
+function parseClipWeight(raw: string): number {
+  const weight = Number(raw);
+  if (!raw || !Number.isFinite(weight) || weight <= 0) throw new Error(`--clip-weights: expected positive numbers, comma-separated, or none; got '${raw}'`);
+  return weight;
+}
+
+/** One view's cell of a selection line: raw and engine MAE, the engine's slope and the share of samples it read. */
+function cellSummary(view: string, r: readonly { truthDeg: number; raw: number; deg: number; applied: boolean }[]): string {
+  const after = summarizeErrors(r.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.deg })));
+  const raw = summarizeErrors(r.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.raw })));
+  const kept = r.filter((x) => x.applied).length / Math.max(1, r.length);
+  return `${view} raw ${fmt(raw.meanAbsoluteErrorDeg)} -> ${fmt(after.meanAbsoluteErrorDeg)} slope ${fmt(after.slope, 2)} on ${Math.round(kept * 100)}%`;
+}
+
 function round(value: number): number {
   return Math.round(value * 1e6) / 1e6;
+}
+
+/** Training clips for a fit: seeds and views, and optionally only some joints (default all) at a weight (default 1). */
+export interface ClipTraining {
+  seeds: readonly number[];
+  views: readonly string[];
+  joints?: readonly FingerJoint[];
+  weight?: number;
 }
 
 export function fitHandShapeEstimator(
@@ -415,17 +462,20 @@ export function fitHandShapeEstimator(
   wholeHand: boolean,
   models: readonly string[],
   views: readonly ValidationView[] = HAND_SHAPE_VIEWS,
-  clips?: { seeds: readonly number[]; views: readonly string[] },
+  clips?: ClipTraining,
   picture = false,
 ): HandShapeEstimatorModel {
   const all = [...loadSets(sets, wholeHand, views, picture), ...(clips?.seeds.length ? handShapeClipSamples(clips.seeds, models, clips.views, wholeHand, 3, picture) : [])];
+  const clipJoints = clips?.joints ?? FINGER_JOINTS;
   const fits: HandShapeEstimatorModel["fits"] = {};
   const handSpread: HandShapeEstimatorModel["handSpread"] = {};
   for (const model of models) {
     fits[model] = {};
     handSpread[model] = handSpreadRange(all.filter((s) => s.model === model));
     for (const joint of FINGER_JOINTS) {
-      const fit = fitJoint(all.filter((s) => s.model === model), joint, lambda);
+      // Clip frames train only the joints selection gave them (select-clips --still-folds), at their weight.
+      const rows = all.filter((s) => s.model === model && (s.source !== "clips" || clipJoints.includes(joint)));
+      const fit = fitJoint(rows, joint, lambda, clips?.weight ?? 1);
       fits[model][joint] = roundedFit(fit);
       console.log(`${model} ${joint}: ${fit.trainingSamples} samples, training MAE ${fit.trainingMaeDeg.toFixed(1)} deg`);
     }
@@ -435,7 +485,7 @@ export function fitHandShapeEstimator(
     wholeHandFeatures: wholeHand,
     handSpread,
     views,
-    trainingSets: [...sets, ...(clips?.seeds.length ? clips.seeds.map((seed) => `clips-${seed}-${clips.views.join("+")}`) : [])],
+    trainingSets: [...sets, ...(clips?.seeds.length ? clips.seeds.map((seed) => `clips-${seed}-${clips.views.join("+")}${clips.joints ? `-${clips.joints.join("+")}` : ""}${clips.weight !== undefined && clips.weight !== 1 ? `-weight-${clips.weight}` : ""}`) : [])],
     fits,
   };
 }
@@ -599,6 +649,9 @@ async function main(): Promise<void> {
       "clip-views": { type: "string" },
       "clip-weights": { type: "string" },
       picture: { type: "boolean" },
+      "still-folds": { type: "boolean" },
+      "clip-joints": { type: "string" },
+      "clip-weight": { type: "string" },
     },
   });
   const command = positionals[0];
@@ -610,7 +663,12 @@ async function main(): Promise<void> {
     const family = familyOf(values.family);
     const clipSeeds = String(values["clip-seeds"] ?? "").split(",").filter(Boolean).map((raw) => parseCount("clip-seeds", raw, 0));
     const clipViews = String(values["clip-views"] ?? (family.name === "down" ? "down" : "palm,back")).split(",");
-    const model = fitHandShapeEstimator(values.sets.split(","), lambda, values["whole-hand"] ?? false, parseModels(values.models), family.views, { seeds: clipSeeds, views: clipViews }, Boolean(values.picture));
+    const clipJoints = values["clip-joints"] === undefined ? undefined : String(values["clip-joints"]).split(",").map((joint) => {
+      if (!(FINGER_JOINTS as readonly string[]).includes(joint)) throw new Error(`--clip-joints: expected some of ${FINGER_JOINTS.join(", ")}; got '${joint}'`);
+      return joint as FingerJoint;
+    });
+    const clipWeight = values["clip-weight"] === undefined ? undefined : parseClipWeight(String(values["clip-weight"]));
+    const model = fitHandShapeEstimator(values.sets.split(","), lambda, values["whole-hand"] ?? false, parseModels(values.models), family.views, { seeds: clipSeeds, views: clipViews, joints: clipJoints, weight: clipWeight }, Boolean(values.picture));
     writeFileSync(family.file, `${JSON.stringify(model, null, 2)}\n`);
     console.error(`hand-shape estimator -> ${family.file}`);
     return;
