@@ -21,7 +21,12 @@ export const HAND_SHAPE_VALIDATION_FILE = path.join(HERE, "..", "..", "vision", 
 export const HAND_SHAPE_DOWN_VALIDATION_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape-down-validation.json");
 export const HAND_SHAPE_VALIDATION_FILES = [HAND_SHAPE_VALIDATION_FILE, HAND_SHAPE_DOWN_VALIDATION_FILE] as const;
 /** The held-out clip reports (scripts/accuracy/clip-validation.ts), one per condition. */
-export const CLIP_REPORT_FILES = [path.join(HERE, "clip-report.md"), path.join(HERE, "clip-report-gravity-minimized.md")] as const;
+export const CLIP_REPORT_FILES = [
+  path.join(HERE, "clip-report.md"),
+  path.join(HERE, "clip-report-gravity-minimized.md"),
+  // Whole-hand shapes: the finger test motions seen from the palm, the back and above (clip-validation.ts --view).
+  path.join(HERE, "clip-report-hand-shapes.md"),
+] as const;
 
 /** A held-out clip figure: the worst frame MAE over the reports' seeds for one group, view and model. */
 export interface ClipRow {
