@@ -216,9 +216,10 @@ export function deriveUncertaintyTable(
       "(SE = 0.755 * raw MAE / sqrt(samples)), raw 3-D otherwise; where held-out clips measured the cell (clipMaeDeg, the engine's worst frame MAE over " +
       "the clip reports' seeds; clipRawMaeDeg without correction), the worse of the still and clip figures. " +
       "Source: scripts/accuracy/report.md (held-out renders) and vision/correction-hand-shape-validation.json and " +
-      "correction-hand-shape-down-validation.json (held-out whole-hand shapes, seeds 20261206 and 20261208); " +
+      "correction-hand-shape-down-validation.json (held-out whole-hand shapes, seeds 20261212 and 20261213); " +
       "test-motion rows first, then whole-hand-shape rows, random-pose rows for the rest; scripts/accuracy/clip-report.md and " +
-      "clip-report-gravity-minimized.md (held-out clips, continuous motion, each motion in its recommended view).",
+      "clip-report-gravity-minimized.md (held-out clips, continuous motion, each motion in its recommended view) and " +
+      "clip-report-hand-shapes.md (the finger test motions seen from the palm, the back and above).",
     cells,
   };
 }

@@ -118,13 +118,13 @@ export function fingerFlexionFrame(rigs: Record<HandSide, HandRig>, seed: number
  * tendon-gliding positions of hand therapy [common practice]: open (straight), full fist, straight fist (MCP and PIP
  * bent, DIP straight), hook (MCP straight, PIP and DIP bent) and tabletop (MCP bent, PIP and DIP straight); the rest
  * close the hand along one curl or draw each joint on its own, so a fit also sees shapes in between. Used for the
- * whole-hand-shape estimator (training seeds 77000xxx) and its one held-out set (seed 20261206).
+ * whole-hand-shape estimator (training seeds 77000xxx) and its held-out sets (seed 20261206; 20261212 since kinarc-correction-7).
  */
 export const HAND_SHAPE_SET = "fingers.hand-shape";
 export const HAND_SHAPE_VIEWS: readonly CameraView[] = ["palm", "back", "oblique"];
 /**
  * The same shapes seen from above the back of a hand lying on a table (`down`), for the second whole-hand-shape fit
- * (training seed 77000103, held-out seed 20261208). A camera held over the back of the hand is often measured as this
+ * (training seed 77000103, held-out seed 20261208; 20261213 since kinarc-correction-7). A camera held over the back of the hand is often measured as this
  * view, and the first fit did not cover it.
  */
 export const HAND_SHAPE_DOWN_VIEWS: readonly CameraView[] = ["down"];
