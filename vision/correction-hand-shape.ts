@@ -88,27 +88,23 @@ export function handShapeFeatureRows(
   wholeHandFeatures: boolean,
   picture?: FingerPicture | null,
 ): Record<Finger, number[]> | null {
-  if (picture !== undefined) {
-    const rows = handShapeFeatureRows(hand, side, axes, wholeHandFeatures);
-    if (!rows || !picture) return null;
-    const out: Partial<Record<Finger, number[]>> = {};
-    for (const finger of ESTIMATOR_FINGERS) {
-      const inPicture = fingerPictureFeatures(picture, finger);
-      if (!inPicture) return null;
-      out[finger] = [...rows[finger], ...inPicture];
-    }
-    return out as Record<Finger, number[]>;
-  }
+  if (picture === null) return null;
   const rows: Partial<Record<Finger, number[]>> = {};
+  const inPicture: Partial<Record<Finger, number[]>> = {};
   for (const finger of ESTIMATOR_FINGERS) {
     const base = fingerFeatures(hand, side, finger, axes);
     if (!base) return null;
     rows[finger] = base;
+    if (picture) {
+      const own = fingerPictureFeatures(picture, finger);
+      if (!own) return null;
+      inPicture[finger] = own;
+    }
   }
   const full = rows as Record<Finger, number[]>;
-  if (!wholeHandFeatures) return full;
-  const means = CURL_FEATURE_INDEXES.map((i) => ESTIMATOR_FINGERS.reduce((sum, f) => sum + full[f][i], 0) / ESTIMATOR_FINGERS.length);
-  return Object.fromEntries(ESTIMATOR_FINGERS.map((f) => [f, [...full[f], ...means]])) as Record<Finger, number[]>;
+  const means = wholeHandFeatures ? CURL_FEATURE_INDEXES.map((i) => ESTIMATOR_FINGERS.reduce((sum, f) => sum + full[f][i], 0) / ESTIMATOR_FINGERS.length) : [];
+  // Feature order as the model lists them: the finger's own, the whole hand's, then the picture's.
+  return Object.fromEntries(ESTIMATOR_FINGERS.map((f) => [f, [...full[f], ...means, ...(inPicture[f] ?? [])]])) as Record<Finger, number[]>;
 }
 
 /**

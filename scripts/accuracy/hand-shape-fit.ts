@@ -68,7 +68,7 @@ import { loadHandRig } from "./rig-files";
 import { parseCount, parseModels } from "./run-accuracy";
 import { summarizeErrors, type ErrorSummary } from "./stats";
 import { trackRenderedSet, type TrackedSet } from "./tracked-set";
-import type { TrackedStill } from "./report";
+import { stillPicture, type TrackedStill } from "./report";
 
 const HERE = path.dirname(fileURLToPath(import.meta.url));
 export const HAND_SHAPE_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape.json");
@@ -152,7 +152,7 @@ export function handShapeSamples(
   set.stills.forEach((still, index) => {
     if (!still.hand || !views.includes(still.truth.view)) return;
     const axes = handAxes(still.hand, still.truth.side);
-    const inPicture = picture ? (still.image ? { image: still.image, aspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX } : null) : undefined;
+    const inPicture = picture ? stillPicture(still) : undefined;
     const rows = axes ? handShapeFeatureRows(still.hand, still.truth.side, axes, wholeHand, inPicture) : null;
     if (!rows) return;
     const handRows = ESTIMATOR_FINGERS.map((f) => rows[f]);
@@ -370,13 +370,7 @@ function select(values: Record<string, string | boolean | undefined>): void {
                 .filter((s) => foldOf(s) === fold && Math.floor(s.still / 1_000_000) === scoredSet)
                 .map((s) => ({ view: s.view, truthDeg: s.truthDeg[joint], raw: rawDeg(s, joint), ...engineEstimate(fit, spread, s, joint) }));
             }).flat();
-            const cells = family.views.map((view) => {
-              const r = results.filter((x) => x.view === view);
-              const after = summarizeErrors(r.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.deg })));
-              const raw = summarizeErrors(r.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.raw })));
-              const kept = r.filter((x) => x.applied).length / Math.max(1, r.length);
-              return `${view} raw ${fmt(raw.meanAbsoluteErrorDeg)} -> ${fmt(after.meanAbsoluteErrorDeg)} slope ${fmt(after.slope, 2)} on ${Math.round(kept * 100)}%`;
-            });
+            const cells = family.views.map((view) => cellSummary(view, results.filter((x) => x.view === view)));
             const overall = summarizeErrors(results.map((x) => ({ truthDeg: x.truthDeg, estimateDeg: x.deg }))).meanAbsoluteErrorDeg;
             console.log(`${model} ${joint} λ ${lambda} ${wholeHand ? "whole-hand" : "finger"} features, sets ${sets.join("+")}: ${cells.join(" | ")} | all ${fmt(overall)}`);
           }
@@ -533,8 +527,7 @@ export function scoreHoldout(set: TrackedSet, model: HandShapeEstimatorModel): H
               continue;
             }
             const rawValue = rows[finger][FINGER_JOINTS.indexOf(joint)];
-            const picture = still.image ? { image: still.image, aspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX } : null;
-            const estimate = estimateHandShapeJointDeg(model, handModel, joint, still.hand, still.truth.side, finger, axes, picture);
+            const estimate = estimateHandShapeJointDeg(model, handModel, joint, still.hand, still.truth.side, finger, axes, stillPicture(still));
             if (estimate !== null) applied += 1;
             raw.push({ truthDeg, estimateDeg: rawValue });
             after.push({ truthDeg, estimateDeg: estimate ?? rawValue });
