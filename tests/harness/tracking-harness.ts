@@ -74,6 +74,7 @@ export interface HarnessQuery {
   forearm?: boolean;
   thread?: "auto" | "worker" | "main";
   maxFps?: number;
+  minConfidence?: number;
 }
 
 export async function openHarnessPage(browser: Browser, server: HarnessServer, query: HarnessQuery = {}): Promise<Page> {

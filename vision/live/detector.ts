@@ -15,6 +15,8 @@ export interface DetectorConfig {
   poseModelUrl: string | null;
   poseIntervalMs: number;
   inputMirrored: boolean;
+  /** The hand landmarker's detection, presence and tracking confidence floors; null keeps the library's defaults. */
+  minConfidence: number | null;
   /** The module build of the wasm loader is needed inside module workers, which cannot use importScripts. */
   wasmAsModule: boolean;
 }
@@ -65,6 +67,9 @@ export async function createDetector(config: DetectorConfig): Promise<Detector> 
     baseOptions: { modelAssetPath: config.handModelUrl, delegate: "CPU" },
     runningMode: "VIDEO",
     numHands: 1,
+    ...(config.minConfidence === null
+      ? {}
+      : { minHandDetectionConfidence: config.minConfidence, minHandPresenceConfidence: config.minConfidence, minTrackingConfidence: config.minConfidence }),
   });
   beforeCreate();
   const pose = config.poseModelUrl

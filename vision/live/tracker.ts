@@ -55,12 +55,17 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
     inputMirrored = false,
     maxFps = 30,
     thread = "auto",
+    minConfidence,
   } = options;
   if (!(poseIntervalMs > 0)) throw new Error(`poseIntervalMs: expected a positive number, got ${poseIntervalMs}`);
+  if (minConfidence !== undefined && !(minConfidence > 0 && minConfidence < 1)) {
+    throw new Error(`minConfidence: expected a number between 0 and 1, got ${minConfidence}`);
+  }
   const config: Omit<DetectorConfig, "wasmAsModule"> = {
     ...modelUrls(new URL(assetBaseUrl || "/", globalThis.location?.href).href, handModel, forearm ? poseModel : null),
     poseIntervalMs,
     inputMirrored,
+    minConfidence: minConfidence ?? null,
   };
 
   let backend: Backend;

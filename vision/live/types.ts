@@ -51,6 +51,11 @@ export interface TrackerOptions {
   maxFps?: number;
   /** "auto" tries a worker and falls back to the main thread; the others force one. Default "auto". */
   thread?: "auto" | "worker" | "main";
+  /**
+   * The hand landmarker's three confidence floors (palm detection, hand presence, tracking), each in (0, 1).
+   * Default: the library's own (0.5 each).
+   */
+  minConfidence?: number;
 }
 
 export interface TrackerStats {

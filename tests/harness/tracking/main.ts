@@ -11,6 +11,7 @@
  *   forearm=1        also run the pose landmarker for the forearm direction
  *   thread=auto|worker|main
  *   maxFps=N         cap on processed frames per second (default 30)
+ *   minConfidence=N  the hand landmarker's confidence floors (default: the library's 0.5)
  */
 import { createHandTracker, type FrameTiming, type TrackedFrame, type TrackerStats } from "../../../vision/live";
 import { stepThroughClip } from "../../../vision/live/clip-stepper";
@@ -109,7 +110,13 @@ async function run(): Promise<void> {
 
   const startedAt = performance.now();
   // Load the models while the camera starts, as the app does.
-  const trackerPromise = createHandTracker({ handModel: model, forearm: params.get("forearm") === "1", thread, maxFps: numberParam("maxFps", 30) }).then(
+  const trackerPromise = createHandTracker({
+    handModel: model,
+    forearm: params.get("forearm") === "1",
+    thread,
+    maxFps: numberParam("maxFps", 30),
+    minConfidence: params.get("minConfidence") === null ? undefined : numberParam("minConfidence", 0.5),
+  }).then(
     (tracker) => {
       state.trackerReadyMs = performance.now() - startedAt;
       return tracker;
