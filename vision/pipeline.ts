@@ -9,7 +9,7 @@ import { PlaneAccumulator, readPlane, unitGravity, type PlaneReading } from "./p
 import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
 import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
 import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, type CorrectionModel, type HandModel } from "./correction";
-import { angleUncertaintyDeg, correctionHelps, UNCERTAINTY_TABLE, type UncertaintyTable, type ValidationView } from "./uncertainty";
+import { angleUncertaintyDeg, correctionHelps, UNCERTAINTY_TABLE, withoutStraightWristUncertaintyDeg, type UncertaintyTable, type ValidationView } from "./uncertainty";
 import { viewName, viewOfAxes, viewPolicy, viewQuality, type ViewPolicy, type ViewQuality } from "./view-policy";
 import { forearmFromNeutral, neutralReadingUncertaintyDeg, sideOnNeutral, sideOnWristFlexion, WRIST_AXIS_VALIDATION, type ForearmSource, type NeutralReading, type WristAxisValidation } from "./wrist-axis";
 
@@ -226,6 +226,11 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     return { direction: neutral, source: "capture-start" };
   }
 
+  /** A wrist read against how the hand was first seen carries the error of held-out clips read that way. */
+  function wristStartUncertainty(source: ForearmSource | null, cellDeg: number | null, score: number): number | null {
+    return source === "capture-start" ? (withoutStraightWristUncertaintyDeg(options.motion, cellDeg, score, table) ?? cellDeg) : cellDeg;
+  }
+
   function push(frame: PipelineFrame): LiveUpdate {
     frames += 1;
     const score = Number.isFinite(frame.score) ? frame.score : 0;
@@ -299,9 +304,12 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       rep: { phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
       method: frameMethod,
       // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
-      uncertaintyDeg:
+      uncertaintyDeg: wristStartUncertainty(
+        forearm?.source ?? null,
         (againstNeutral ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable, table) : null) ??
-        angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
+          angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
+        score,
+      ),
       view,
       viewQuality: viewQuality(policy, view),
       forearmSource: forearm?.source ?? null,
@@ -314,8 +322,10 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     const repPlane = segmenter.outwardPlane();
     const warnings: string[] = [];
     if (isWrist && usedNeutral) {
+      const pooled = table.withoutStraightWristReading;
       warnings.push(
-        `no forearm direction: neutral wrist position taken from the hand over the first ${neutralWindowMs} ms; angles assume the client started at neutral and kept the forearm still`,
+        `no forearm direction: neutral wrist position taken from the hand over the first ${neutralWindowMs} ms; angles assume the client started at neutral and kept the forearm still` +
+          (pooled ? ` (held-out clips read this way were off by ${pooled.maeDeg.toFixed(0)} deg on average; a straight-wrist reading before the attempt avoids it)` : ""),
       );
     }
     if (frames > 0 && usable / frames < 0.8) warnings.push(`only ${usable} of ${frames} frames had a usable hand`);
@@ -353,8 +363,12 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       plane: repPlane.empty ? allFramesPlane.result() : repPlane.result(),
       method: summaryMethod,
       uncertaintyDeg: usable
-        ? ((forearmSource === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, meanUsableScore, wristTable, table) : null) ??
-          angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames === usable ? "engine" : "raw"))
+        ? wristStartUncertainty(
+            forearmSource,
+            (forearmSource === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, meanUsableScore, wristTable, table) : null) ??
+              angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames === usable ? "engine" : "raw"),
+            meanUsableScore,
+          )
         : null,
       view,
       viewQuality: quality,

@@ -10,6 +10,8 @@ import {
   uncertaintyFromMaeDeg,
   VALIDATION_VIEWS,
   viewFromHand,
+  withoutStraightWristUncertaintyDeg,
+  type UncertaintyTable,
 } from "./uncertainty";
 
 /** Standard normal probability of |Z| <= z by Simpson's rule on the density: an outside check of the 90% constant. */
@@ -96,6 +98,29 @@ describe("the committed table (vision/uncertainty-table.json) against its own fi
       const all = UNCERTAINTY_TABLE.cells.filter((c) => c.group === group);
       expect(baseUncertaintyDeg(UNCERTAINTY_TABLE, group, null, null)).toBe(Math.max(...all.map((c) => c.uncertaintyDeg)));
     }
+  });
+});
+
+describe("a wrist read against how the hand was first seen (no straight-wrist reading)", () => {
+  const table: UncertaintyTable = { ...UNCERTAINTY_TABLE, withoutStraightWristReading: { readings: 11, maeDeg: 20, uncertaintyDeg: 41.2 } };
+
+  it("carries the held-out figure of clips read that way, widened by tracking score, unless its own cell is wider", () => {
+    expect(withoutStraightWristUncertaintyDeg("wrist.flexion", 10.8, 0.95, table)).toBe(41.2);
+    expect(withoutStraightWristUncertaintyDeg("wrist.ulnar_deviation", null, 0.7, table)).toBe(Math.round(41.2 * 1.5 * 10) / 10);
+    expect(withoutStraightWristUncertaintyDeg("wrist.extension", 55.9, 0.95, table)).toBe(55.9);
+  });
+
+  it("leaves finger motions, and tables without the figure, to the cell", () => {
+    expect(withoutStraightWristUncertaintyDeg("pip.flexion", 10, 0.95, table)).toBeNull();
+    expect(withoutStraightWristUncertaintyDeg("wrist.flexion", 10, 0.95, { ...table, withoutStraightWristReading: undefined })).toBeNull();
+  });
+
+  it("the committed figure is the interval rule on the clips' pooled error, and far wider than a reading with a straight wrist", () => {
+    const pooled = UNCERTAINTY_TABLE.withoutStraightWristReading!;
+    expect(pooled.readings).toBeGreaterThanOrEqual(5);
+    expect(pooled.uncertaintyDeg).toBe(Math.round(uncertaintyFromMaeDeg(pooled.maeDeg) * 10) / 10);
+    const wristCells = UNCERTAINTY_TABLE.cells.filter((c) => c.group.startsWith("wrist flexion") && (c.view === "ulnar" || c.view === "radial"));
+    expect(Math.max(...wristCells.map((c) => c.clipMaeDeg ?? 0))).toBeLessThan(pooled.maeDeg / 2);
   });
 });
 

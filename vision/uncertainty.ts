@@ -1,4 +1,4 @@
-import type { Digit, MotionId } from "@/lib/motions/catalog";
+import { MOTIONS, type Digit, type MotionId } from "@/lib/motions/catalog";
 import { correctionGroupFor, type HandModel } from "./correction";
 import type { ValidationView } from "./correction-views";
 import TABLE from "./uncertainty-table.json";
@@ -43,11 +43,24 @@ export interface ValidationCell {
   uncertaintyDeg: number;
 }
 
+/**
+ * Held-out wrist clips whose straight-wrist hold the tracker missed, so the engine read the wrist against how the hand
+ * was first seen (forearm line "capture-start"): pooled over the clip reports' seeds, models and conditions.
+ */
+export interface WithoutStraightWristReading {
+  readings: number;
+  /** Frame MAE over those readings' detected frames. */
+  maeDeg: number;
+  uncertaintyDeg: number;
+}
+
 export interface UncertaintyTable {
   version: string;
   correctionVersion: string;
   rule: string;
   cells: ValidationCell[];
+  /** Absent until the clip reports hold such readings. */
+  withoutStraightWristReading?: WithoutStraightWristReading;
 }
 
 export const UNCERTAINTY_TABLE = TABLE as UncertaintyTable;
@@ -117,6 +130,24 @@ export function trackingFactor(score: number): number {
   const s = Number.isFinite(score) ? Math.min(1, Math.max(0, score)) : 0;
   if (s >= FULL_CONFIDENCE_SCORE) return 1;
   return 1 + (FULL_CONFIDENCE_SCORE - s) / (FULL_CONFIDENCE_SCORE - LOWEST_READ_SCORE);
+}
+
+/**
+ * Uncertainty of a wrist angle read against how the hand was first seen (no straight-wrist reading, no forearm in
+ * view): the held-out clips read that way (UncertaintyTable.withoutStraightWristReading), widened by tracking score,
+ * or the cell's own figure when that is wider. Their error comes from where the hand happened to be when the tracker
+ * first found it, not from the joint or the view, so one pooled figure serves every wrist motion. Null for other
+ * motions or when the table has no such figure.
+ */
+export function withoutStraightWristUncertaintyDeg(
+  motion: MotionId,
+  cellUncertaintyDeg: number | null,
+  score: number,
+  table: UncertaintyTable = UNCERTAINTY_TABLE,
+): number | null {
+  const pooled = table.withoutStraightWristReading;
+  if (!pooled || MOTIONS[motion].joint !== "wrist") return null;
+  return Math.max(cellUncertaintyDeg ?? 0, Math.round(pooled.uncertaintyDeg * trackingFactor(score) * 10) / 10);
 }
 
 /** Uncertainty of a motion's angle: validation error for its joint, view and model, widened by tracking score. */

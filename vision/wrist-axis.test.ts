@@ -117,6 +117,11 @@ describe("wrist angles against a neutral reading", () => {
       expect(Math.max(...b.repetitions.map((r) => r.peakDeg))).toBeCloseTo(40, 4);
       expect(b.warnings.join(" ")).toMatch(/no forearm direction/);
       expect(a.warnings.join(" ")).not.toMatch(/no forearm direction/);
+      // Without the reading the interval is the held-out clips' figure for wrists read that way (vision/uncertainty.ts).
+      const pooled = UNCERTAINTY_TABLE.withoutStraightWristReading!.uncertaintyDeg;
+      expect(b.uncertaintyDeg).toBeGreaterThanOrEqual(pooled);
+      expect(a.uncertaintyDeg).toBeLessThan(pooled);
+      expect(b.warnings.join(" ")).toMatch(/held-out clips read this way were off by \d+ deg on average/);
     }
   });
 

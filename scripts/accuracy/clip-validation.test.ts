@@ -2,7 +2,17 @@ import { describe, expect, it } from "vitest";
 import { viewPolicy } from "@/vision/view-policy";
 import { neutralPose, poseHand, withMotionAngle } from "@/vision/testing/synthetic-hand";
 import type { TrackedFrame } from "@/vision/live/types";
-import { CLIP_MOTIONS, clipReport, planClips, readClip, summarizeClipReadings, type ClipReading } from "./clip-validation";
+import {
+  CLIP_MOTIONS,
+  clipReport,
+  parseMinConfidence,
+  planClips,
+  readClip,
+  summarizeClipReadings,
+  withoutStraightWristRows,
+  type ClipReading,
+} from "./clip-validation";
+import { parseWithoutStraightWrist } from "./derive-uncertainty";
 import { restPose, setPoseAngle } from "./hand-pose";
 import { sweepAnglesDeg } from "./sweep";
 import type { FrameTruth } from "./scene";
@@ -129,5 +139,31 @@ describe("reading a clip against its truth", () => {
     expect(clipReport([{ seed: 1, clips: 1, rows: [row] }], { glName: "test" })).toContain("- PIP flexion, ulnar, lite: meets (MAE 4.00 of at most 5, slope 1.00 in 0.9-1.1, detected 100% of at least 95%)");
     const worse = { ...row, ...summarizeClipReadings([make(76, 2, 6)]) };
     expect(clipReport([{ seed: 1, clips: 1, rows: [worse] }], { glName: "test" })).toContain("- PIP flexion, ulnar, lite: misses (MAE 6.00 of at most 5");
+  });
+
+  it("lists the readings made without a straight-wrist reading per model, in a table the uncertainty script reads back", () => {
+    const make = (model: "lite" | "full", errorDeg: number): ClipReading => ({
+      ...readClip(plan, model, "ring", frames, truth, "raw"),
+      forearmSource: "capture-start",
+      samples: anglesDeg.map((deg) => ({ truthDeg: deg, estimateDeg: deg + errorDeg })),
+    });
+    const rows = withoutStraightWristRows([make("lite", -20), make("full", -10), make("lite", -30)]);
+    expect(rows.map((r) => [r.model, r.readings])).toEqual([
+      ["lite", 2],
+      ["full", 1],
+    ]);
+    const text = clipReport([], { glName: "test", withoutStraightWrist: rows });
+    expect(text).toContain("## Wrist readings without a straight-wrist reading");
+    // Every frame detected and every reading the same length: the pooled error is the mean of 20, 30 and 10.
+    expect(parseWithoutStraightWrist([text])).toEqual({ readings: 3, maeDeg: 20 });
+    expect(clipReport([], { glName: "test" })).not.toContain("without a straight-wrist reading");
+  });
+});
+
+describe("--min-confidence (tracking with other confidence floors)", () => {
+  it("takes a number strictly between 0 and 1 and names the flag otherwise", () => {
+    expect(parseMinConfidence(undefined)).toBeUndefined();
+    expect(parseMinConfidence("0.3")).toBe(0.3);
+    for (const bad of ["0", "1", "1.5", "", "x"]) expect(() => parseMinConfidence(bad)).toThrow(`--min-confidence: expected a number between 0 and 1; got '${bad}'`);
   });
 });

@@ -179,9 +179,17 @@ async function renderClips(plans: readonly ClipPlan[], folder: string, reuse: bo
   }
 }
 
-async function trackClips(plans: readonly ClipPlan[], folder: string, model: HandModelVariant, reuse: boolean): Promise<Map<string, TrackedFrame[]>> {
+async function trackClips(
+  plans: readonly ClipPlan[],
+  folder: string,
+  model: HandModelVariant,
+  reuse: boolean,
+  minConfidence?: number,
+): Promise<Map<string, TrackedFrame[]>> {
   const tracked = new Map<string, TrackedFrame[]>();
-  const savedOf = (plan: ClipPlan) => path.join(folder, `${plan.name}-${model}.tracked.json`);
+  // Tracking with other confidence floors than the library's is kept apart from the shipped tracking.
+  const floors = minConfidence === undefined ? "" : `-c${Math.round(minConfidence * 100)}`;
+  const savedOf = (plan: ClipPlan) => path.join(folder, `${plan.name}-${model}${floors}.tracked.json`);
   // Tracking saved before frames carried the picture's aspect gets the renders' own size.
   const withAspect = (frames: TrackedFrame[]) => frames.map((frame) => (frame.imageAspect ? frame : { ...frame, imageAspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX }));
   for (const plan of plans) if (reuse && existsSync(savedOf(plan))) tracked.set(plan.name, withAspect(JSON.parse(readFileSync(savedOf(plan), "utf8")) as TrackedFrame[]));
@@ -193,7 +201,13 @@ async function trackClips(plans: readonly ClipPlan[], folder: string, model: Han
     server = await startHarnessServer({ port: HARNESS_PORT, allowDirs: [folder] });
     browser = await launchChromium();
     for (const plan of todo) {
-      const page = await openHarnessPage(browser, server, { clip: server.fileUrl(path.join(folder, `${plan.name}.webm`)), step: true, fps: FPS, model });
+      const page = await openHarnessPage(browser, server, {
+        clip: server.fileUrl(path.join(folder, `${plan.name}.webm`)),
+        step: true,
+        fps: FPS,
+        model,
+        minConfidence,
+      });
       const state = await waitForFrames(page, Number.MAX_SAFE_INTEGER, 15 * 60_000);
       await page.close();
       writeFileSync(savedOf(plan), JSON.stringify(state.frames));
@@ -328,13 +342,37 @@ function verdict(row: Pick<ClipRow, "bar" | "frames">): string {
   return `${meetsAcceptance(row.frames, target) ? "meets" : "misses"} (${parts.join(", ")})`;
 }
 
+/** Wrist readings the engine read against how the hand was first seen (no straight-wrist reading), per model. */
+export interface WithoutStraightWristRow {
+  model: HandModelVariant;
+  readings: number;
+  frames: ErrorSummary;
+  peakMaeDeg: number | null;
+  clips: string[];
+}
+
+export function withoutStraightWristRows(readings: readonly ClipReading[]): WithoutStraightWristRow[] {
+  const models = [...new Set(readings.map((r) => r.model))];
+  return models.map((model) => {
+    const mine = readings.filter((r) => r.model === model);
+    const summary = summarizeClipReadings(mine);
+    return { model, readings: mine.length, frames: summary.frames, peakMaeDeg: summary.peakMaeDeg, clips: mine.map((r) => r.plan.name) };
+  });
+}
+
+/** The report's table header of those readings (scripts/accuracy/derive-uncertainty.ts finds the table by it). */
+export const WITHOUT_STRAIGHT_WRIST_HEADER = "| forearm line | model | readings | frames | detected | bias ° | MAE ° | peak MAE ° | clips |";
+
 export interface ClipSection {
   seed: number;
   clips: number;
   rows: readonly ClipRow[];
 }
 
-export function clipReport(sections: readonly ClipSection[], meta: { glName: string; condition?: Condition; views?: readonly CameraView[] }): string {
+export function clipReport(
+  sections: readonly ClipSection[],
+  meta: { glName: string; condition?: Condition; views?: readonly CameraView[]; withoutStraightWrist?: readonly WithoutStraightWristRow[] },
+): string {
   const condition = meta.condition ?? "against_gravity";
   const where = meta.views
     ? `seen from ${meta.views.join(", ")} (views other than the recommended one, read by the whole-hand-shape estimators where they apply; issue 8's bars are set for the recommended view and are shown for reference)`
@@ -376,8 +414,37 @@ export function clipReport(sections: readonly ClipSection[], meta: { glName: str
       ),
     );
   }
+  if (meta.withoutStraightWrist?.length) {
+    lines.push(
+      "",
+      "## Wrist readings without a straight-wrist reading",
+      "",
+      "Engine readings above whose straight-wrist hold the tracker missed (no hand in it, or the hand first found when it was already moving), " +
+        "so the wrist was read against how the hand was first seen (forearm line `capture-start`), pooled over the seeds of this report. " +
+        "Their frame error sets the uncertainty of every wrist reading made that way (scripts/accuracy/derive-uncertainty.ts, vision/uncertainty.ts).",
+      "",
+      WITHOUT_STRAIGHT_WRIST_HEADER,
+      "| --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | --- |",
+      ...meta.withoutStraightWrist.map(
+        (row) =>
+          `| capture-start | ${row.model} | ${row.readings} | ${row.frames.samples} | ${pct(row.frames.detectionRate)} | ${fmt(row.frames.biasDeg)} | ${fmt(row.frames.meanAbsoluteErrorDeg, 2)} | ` +
+          `${fmt(row.peakMaeDeg)} | ${row.clips.join(", ")} |`,
+      ),
+    );
+  }
   lines.push("");
   return lines.join("\n");
+}
+
+/**
+ * `--min-confidence 0.3`: track with other hand-landmarker confidence floors than the library's 0.5 (an experiment;
+ * the tracking is saved apart, e.g. `-lite-c30.tracked.json`, and the shipped app keeps the library's floors).
+ */
+export function parseMinConfidence(raw: string | undefined): number | undefined {
+  if (raw === undefined) return undefined;
+  const value = Number(raw);
+  if (raw.trim() === "" || !(value > 0 && value < 1)) throw new Error(`--min-confidence: expected a number between 0 and 1; got '${raw}'`);
+  return value;
 }
 
 async function main(): Promise<void> {
@@ -392,14 +459,17 @@ async function main(): Promise<void> {
       out: { type: "string" },
       "per-clip": { type: "boolean" },
       view: { type: "string" },
+      "min-confidence": { type: "string" },
     },
   });
+  const minConfidence = parseMinConfidence(values["min-confidence"]);
   // --view palm,back,down: the clips in those views instead of the recommended one (the whole-hand-shape views).
   const views = values.view ? (values.view.split(",") as CameraView[]) : undefined;
   const badView = views?.find((view) => !CAMERA_VIEWS.includes(view));
   if (badView !== undefined) throw new Error(`--view: expected some of ${CAMERA_VIEWS.join(", ")}; got '${badView}'`);
   const motions = values.motions ? (values.motions.split(",") as MotionId[]) : undefined;
   const perClip: string[] = [];
+  const withoutStraight: ClipReading[] = [];
   const condition = (values.condition ?? "against_gravity") as Condition;
   if (!(condition in REPORT_FILES)) throw new Error(`--condition: expected against_gravity or gravity_minimized; got '${values.condition}'`);
   const clips = parseCount("clips", values.clips, 10);
@@ -414,7 +484,7 @@ async function main(): Promise<void> {
     await renderClips(plans, folder, reuse);
     const rows: ClipRow[] = [];
     for (const model of models) {
-      const tracked = await trackClips(plans, folder, model, reuse);
+      const tracked = await trackClips(plans, folder, model, reuse, minConfidence);
       for (const group of ["mcp.flexion", "pip.flexion", "dip.flexion", "wrist.flexion"] as const) {
         for (const view of [...new Set(plans.map((plan) => plan.view))]) {
           const groupPlans = plans.filter((plan) => plan.motion.bar === group && plan.view === view);
@@ -426,6 +496,7 @@ async function main(): Promise<void> {
               return plan.motion.digits.map((digit) => readClip(plan, model, digit, tracked.get(plan.name)!, truth, variant));
             });
             if (values["per-clip"] && variant === "engine") perClip.push(...readings.map(perClipLine));
+            if (variant === "engine") withoutStraight.push(...readings.filter((r) => r.forearmSource === "capture-start"));
             rows.push({ label, variant, bar: group, view, model, ...summarizeClipReadings(readings) });
           }
         }
@@ -436,7 +507,7 @@ async function main(): Promise<void> {
   const renderer = await HandRenderer.start();
   const glName = await renderer.glRenderer();
   await renderer.close();
-  const text = clipReport(sections, { glName, condition, views });
+  const text = clipReport(sections, { glName, condition, views, withoutStraightWrist: withoutStraightWristRows(withoutStraight) });
   writeFileSync(values.out ?? REPORT_FILES[condition], text);
   process.stdout.write(text);
   if (perClip.length) process.stdout.write(["", "| clip | model | side | digit | to ° | truth peak ° | peak ° | frame MAE ° | bias ° | reps | forearm | method |", ...perClip, ""].join("\n"));

@@ -6,9 +6,11 @@ import {
   ABS_ERROR_SD_PER_MEAN,
   CLIP_REPORT_FILES,
   correctionClearlyHelps,
+  deriveCommittedTable,
   deriveUncertaintyTable,
   parseAccuracyReport,
   parseClipReports,
+  parseWithoutStraightWrist,
   readClipRows,
   readHandShapeRows,
   REPORT_FILE,
@@ -18,7 +20,28 @@ describe("uncertainty table from the accuracy report", () => {
   const report = parseAccuracyReport(readFileSync(REPORT_FILE, "utf8"));
 
   it("the committed table is exactly what the committed report gives (re-run derive-uncertainty after the report)", () => {
-    expect(deriveUncertaintyTable(report, readHandShapeRows(), CORRECTION_VERSION, readClipRows())).toEqual(UNCERTAINTY_TABLE);
+    expect(deriveCommittedTable()).toEqual(UNCERTAINTY_TABLE);
+    // Without the clip reports' wrist rows the rest of the table is the same.
+    const { withoutStraightWristReading, ...cells } = UNCERTAINTY_TABLE;
+    expect(deriveUncertaintyTable(report, readHandShapeRows(), CORRECTION_VERSION, readClipRows())).toEqual(cells);
+    expect(withoutStraightWristReading).toBeDefined();
+  });
+
+  it("pools the wrist readings made without a straight-wrist reading over the reports, weighting each row by its detected frames", () => {
+    const table = (rows: string[]) =>
+      ["| forearm line | model | readings | frames | detected | bias ° | MAE ° | peak MAE ° | clips |", "| --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | --- |", ...rows].join("\n");
+    // 100 detected frames at 30 and 300 at 10: (3000 + 3000) / 400 = 15.
+    const pooled = parseWithoutStraightWrist([
+      table(["| capture-start | lite | 1 | 200 | 50% | -30 | 30 | 31 | a |"]),
+      "# another report\n\n" + table(["| capture-start | full | 2 | 300 | 100% | -10 | 10 | 12 | b, c |"]),
+    ]);
+    expect(pooled).toEqual({ readings: 3, maeDeg: 15 });
+    expect(parseWithoutStraightWrist(["# none\n"])).toBeNull();
+    expect(() => parseWithoutStraightWrist([table(["| capture-start | lite | 1 | 200 | 50% | -30 | n/a | 31 | a |"])])).toThrow(
+      /wrist row "capture-start, lite": expected a number of degrees for MAE °, got "n\/a"/,
+    );
+    // The motion rows' parser skips that table.
+    expect(parseClipReports([table(["| capture-start | lite | 1 | 200 | 50% | -30 | 30 | 31 | a |"])])).toEqual([]);
   });
 
   it("reads the clip reports' engine and raw rows, the worse over their seeds", () => {

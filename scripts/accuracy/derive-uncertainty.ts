@@ -55,6 +55,11 @@ export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
         columns = cells;
         continue;
       }
+      // Another table (parseWithoutStraightWrist reads it): its rows are not per-motion rows.
+      if (cells[0] === "forearm line") {
+        columns = null;
+        continue;
+      }
       if (!columns || cells[0].startsWith("---")) continue;
       const at = (name: string) => cells[columns!.indexOf(name)];
       const reading = at("reading");
@@ -69,6 +74,44 @@ export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
     }
   }
   return [...rows.values()];
+}
+
+/**
+ * The clip reports' wrist readings made without a straight-wrist reading (clip-validation.ts
+ * WITHOUT_STRAIGHT_WRIST_HEADER), pooled: the frame MAE over all their detected frames. Null when no report has any.
+ * Throws naming the row when a figure is not a number.
+ */
+export function parseWithoutStraightWrist(markdowns: readonly string[]): { readings: number; maeDeg: number } | null {
+  let readings = 0;
+  let detectedFrames = 0;
+  let errorSum = 0;
+  for (const markdown of markdowns) {
+    let columns: string[] | null = null;
+    for (const line of markdown.split("\n")) {
+      const text = line.trim();
+      if (!text.startsWith("|")) {
+        columns = null;
+        continue;
+      }
+      const cells = text.split("|").slice(1, -1).map((c) => c.trim());
+      if (cells[0] === "forearm line") {
+        columns = cells;
+        continue;
+      }
+      if (!columns || cells[0].startsWith("---")) continue;
+      const at = (name: string) => cells[columns!.indexOf(name)];
+      const number = (name: string, what: string) => {
+        const value = Number(at(name).replace(/%$/, ""));
+        if (!Number.isFinite(value)) throw new Error(`clip report: wrist row "${cells.slice(0, 2).join(", ")}": expected ${what} for ${name}, got "${at(name)}"`);
+        return value;
+      };
+      const detected = number("frames", "a count") * (number("detected", "a percentage") / 100);
+      readings += number("readings", "a count");
+      detectedFrames += detected;
+      errorSum += detected * number("MAE °", "a number of degrees");
+    }
+  }
+  return readings > 0 && detectedFrames > 0 ? { readings, maeDeg: Math.round((errorSum / detectedFrames) * 100) / 100 } : null;
 }
 
 /** The committed clip reports' rows (none for a report not yet written). */
@@ -169,6 +212,7 @@ export function deriveUncertaintyTable(
   handShapeRows: readonly HandShapeRow[] = [],
   correctionVersion: string = CORRECTION_VERSION,
   clipRows: readonly ClipRow[] = [],
+  withoutStraightWrist: { readings: number; maeDeg: number } | null = null,
 ): UncertaintyTable {
   const clips = new Map(clipRows.map((r) => [`${r.group}|${r.view}|${r.model}`, r]));
   const cells: ValidationCell[] = [];
@@ -219,8 +263,19 @@ export function deriveUncertaintyTable(
       "correction-hand-shape-down-validation.json (held-out whole-hand shapes, seeds 20261212 and 20261213); " +
       "test-motion rows first, then whole-hand-shape rows, random-pose rows for the rest; scripts/accuracy/clip-report.md and " +
       "clip-report-gravity-minimized.md (held-out clips, continuous motion, each motion in its recommended view) and " +
-      "clip-report-hand-shapes.md (the finger test motions seen from the palm, the back and above).",
+      "clip-report-hand-shapes.md (the finger test motions seen from the palm, the back and above). " +
+      "withoutStraightWristReading: the same rule on the frame MAE of the clip reports' wrist readings made against how the hand was first seen " +
+      "(the tracker missed the straight-wrist hold), pooled over their seeds, models and conditions; it stands for every wrist reading made that way.",
     cells,
+    ...(withoutStraightWrist
+      ? {
+          withoutStraightWristReading: {
+            readings: withoutStraightWrist.readings,
+            maeDeg: withoutStraightWrist.maeDeg,
+            uncertaintyDeg: round1(uncertaintyFromMaeDeg(withoutStraightWrist.maeDeg)),
+          },
+        }
+      : {}),
   };
 }
 
@@ -234,8 +289,20 @@ export function readHandShapeRows(files: readonly string[] = HAND_SHAPE_VALIDATI
   });
 }
 
+/** The table the committed reports give (what `main` writes and the committed table must equal). */
+export function deriveCommittedTable(): UncertaintyTable {
+  const clipReports = CLIP_REPORT_FILES.filter((file) => existsSync(file)).map((file) => readFileSync(file, "utf8"));
+  return deriveUncertaintyTable(
+    parseAccuracyReport(readFileSync(REPORT_FILE, "utf8")),
+    readHandShapeRows(),
+    CORRECTION_VERSION,
+    parseClipReports(clipReports),
+    parseWithoutStraightWrist(clipReports),
+  );
+}
+
 function main(): void {
-  const table = deriveUncertaintyTable(parseAccuracyReport(readFileSync(REPORT_FILE, "utf8")), readHandShapeRows(), CORRECTION_VERSION, readClipRows());
+  const table = deriveCommittedTable();
   writeFileSync(UNCERTAINTY_FILE, `${JSON.stringify(table, null, 2)}\n`);
   const applied = table.cells.filter((c) => c.correctionHelps).length;
   console.log(`${table.cells.length} cells, correction applied in ${applied}`);
