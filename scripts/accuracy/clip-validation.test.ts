@@ -6,6 +6,7 @@ import {
   CLIP_MOTIONS,
   clipReport,
   parseMinConfidence,
+  parseSensorNoise,
   planClips,
   readClip,
   summarizeClipReadings,
@@ -165,5 +166,13 @@ describe("--min-confidence (tracking with other confidence floors)", () => {
     expect(parseMinConfidence(undefined)).toBeUndefined();
     expect(parseMinConfidence("0.3")).toBe(0.3);
     for (const bad of ["0", "1", "1.5", "", "x"]) expect(() => parseMinConfidence(bad)).toThrow(`--min-confidence: expected a number between 0 and 1; got '${bad}'`);
+  });
+});
+
+describe("--sensor-noise (tracking grainy copies of the clips)", () => {
+  it("takes a whole number from 1 to 100 and names the flag otherwise", () => {
+    expect(parseSensorNoise(undefined)).toBeUndefined();
+    expect(parseSensorNoise("6")).toBe(6);
+    for (const bad of ["0", "101", "2.5", "", "x"]) expect(() => parseSensorNoise(bad)).toThrow(`--sensor-noise: expected a whole number from 1 to 100; got '${bad}'`);
   });
 });

@@ -23,6 +23,7 @@
  * `--condition gravity_minimized` renders the same motions in the view the policy recommends with gravity minimized
  * (the thumb side, from above a hand resting on its edge) and writes clip-report-gravity-minimized.md instead.
  */
+import { execFileSync } from "node:child_process";
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { parseArgs } from "node:util";
@@ -179,22 +180,36 @@ async function renderClips(plans: readonly ClipPlan[], folder: string, reuse: bo
   }
 }
 
+/**
+ * A copy of a rendered clip with fresh grain in every frame (ffmpeg's noise filter, temporal and uniform, seeded):
+ * a render's still stretch is the same picture frame after frame, where a camera's never is, so a palm detection
+ * that fails once fails for the whole stretch. An experiment (`--sensor-noise`); the reports use the clean renders.
+ */
+function addSensorNoise(from: string, to: string, strength: number, seed: number): void {
+  const filter = `noise=all_seed=${seed % 2_147_483_647}:alls=${strength}:allf=t+u`;
+  execFileSync("ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", "-i", from, "-vf", filter, "-c:v", "libvpx", "-b:v", "2M", to]);
+}
+
 async function trackClips(
   plans: readonly ClipPlan[],
   folder: string,
   model: HandModelVariant,
   reuse: boolean,
   minConfidence?: number,
+  sensorNoise?: number,
 ): Promise<Map<string, TrackedFrame[]>> {
   const tracked = new Map<string, TrackedFrame[]>();
-  // Tracking with other confidence floors than the library's is kept apart from the shipped tracking.
+  // Tracking with other confidence floors than the library's, or of noisier copies, is kept apart from the rest.
   const floors = minConfidence === undefined ? "" : `-c${Math.round(minConfidence * 100)}`;
-  const savedOf = (plan: ClipPlan) => path.join(folder, `${plan.name}-${model}${floors}.tracked.json`);
+  const noise = sensorNoise === undefined ? "" : `-n${sensorNoise}`;
+  const savedOf = (plan: ClipPlan) => path.join(folder, `${plan.name}-${model}${floors}${noise}.tracked.json`);
+  const clipOf = (plan: ClipPlan) => path.join(folder, `${plan.name}${noise}.webm`);
   // Tracking saved before frames carried the picture's aspect gets the renders' own size.
   const withAspect = (frames: TrackedFrame[]) => frames.map((frame) => (frame.imageAspect ? frame : { ...frame, imageAspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX }));
   for (const plan of plans) if (reuse && existsSync(savedOf(plan))) tracked.set(plan.name, withAspect(JSON.parse(readFileSync(savedOf(plan), "utf8")) as TrackedFrame[]));
   const todo = plans.filter((plan) => !tracked.has(plan.name));
   if (!todo.length) return tracked;
+  if (sensorNoise !== undefined) for (const plan of todo) if (!existsSync(clipOf(plan))) addSensorNoise(path.join(folder, `${plan.name}.webm`), clipOf(plan), sensorNoise, plan.seed);
   let server: HarnessServer | null = null;
   let browser: Browser | null = null;
   try {
@@ -202,7 +217,7 @@ async function trackClips(
     browser = await launchChromium();
     for (const plan of todo) {
       const page = await openHarnessPage(browser, server, {
-        clip: server.fileUrl(path.join(folder, `${plan.name}.webm`)),
+        clip: server.fileUrl(clipOf(plan)),
         step: true,
         fps: FPS,
         model,
@@ -447,6 +462,14 @@ export function parseMinConfidence(raw: string | undefined): number | undefined 
   return value;
 }
 
+/** `--sensor-noise 6`: track grainy copies of the clips (addSensorNoise; ffmpeg's noise strength, 1-100). */
+export function parseSensorNoise(raw: string | undefined): number | undefined {
+  if (raw === undefined) return undefined;
+  const value = Number(raw);
+  if (raw.trim() === "" || !Number.isInteger(value) || value < 1 || value > 100) throw new Error(`--sensor-noise: expected a whole number from 1 to 100; got '${raw}'`);
+  return value;
+}
+
 async function main(): Promise<void> {
   const { values } = parseArgs({
     options: {
@@ -460,9 +483,11 @@ async function main(): Promise<void> {
       "per-clip": { type: "boolean" },
       view: { type: "string" },
       "min-confidence": { type: "string" },
+      "sensor-noise": { type: "string" },
     },
   });
   const minConfidence = parseMinConfidence(values["min-confidence"]);
+  const sensorNoise = parseSensorNoise(values["sensor-noise"]);
   // --view palm,back,down: the clips in those views instead of the recommended one (the whole-hand-shape views).
   const views = values.view ? (values.view.split(",") as CameraView[]) : undefined;
   const badView = views?.find((view) => !CAMERA_VIEWS.includes(view));
@@ -484,7 +509,7 @@ async function main(): Promise<void> {
     await renderClips(plans, folder, reuse);
     const rows: ClipRow[] = [];
     for (const model of models) {
-      const tracked = await trackClips(plans, folder, model, reuse, minConfidence);
+      const tracked = await trackClips(plans, folder, model, reuse, minConfidence, sensorNoise);
       for (const group of ["mcp.flexion", "pip.flexion", "dip.flexion", "wrist.flexion"] as const) {
         for (const view of [...new Set(plans.map((plan) => plan.view))]) {
           const groupPlans = plans.filter((plan) => plan.motion.bar === group && plan.view === view);
