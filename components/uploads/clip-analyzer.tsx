@@ -133,7 +133,7 @@ export function ClipAnalyzer({ clip, target, showNumbers, onSaved }: { clip: Cli
         <p className={`text-sm ${neutral.ok ? "text-tide-700" : "text-flag-amber"}`} data-testid="clip-neutral" data-status={neutral.ok ? "taken" : "refused"}>
           {neutral.ok
             ? `Straight-wrist reading taken from ${(neutral.startMs / 1000).toFixed(1)} s into the clip: the wrist is measured against it.`
-            : `No straight-wrist reading: ${neutral.problem} The wrist is measured from how the hand started instead.`}
+            : `No straight-wrist reading: ${neutral.problem} The wrist is measured from how the hand started instead, which is far less certain. If you can, record the clip again, starting with 3 seconds of a still, straight wrist and the forearm resting.`}
         </p>
       ) : null}
     </section>

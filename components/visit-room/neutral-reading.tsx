@@ -4,7 +4,10 @@ import { NEUTRAL_HOLD_MS, type NeutralState } from "@/lib/tracking/use-hand-trac
 import type { NeutralStatus } from "@/lib/visits/telemetry";
 import type { ForearmSource } from "@/vision/wrist-axis";
 import { describeView } from "@/vision/view-policy";
-import { VALIDATION_VIEWS, type ValidationView } from "@/vision/uncertainty";
+import { UNCERTAINTY_TABLE, VALIDATION_VIEWS, type ValidationView } from "@/vision/uncertainty";
+
+/** Held-out clips read without a straight-wrist reading: their stated uncertainty (vision/uncertainty-table.json). */
+const WITHOUT_READING_DEG = UNCERTAINTY_TABLE.withoutStraightWristReading?.uncertaintyDeg ?? null;
 
 /** The straight-wrist instruction, worded as the guided self-check words it (components/tracking/self-check-flow.tsx). */
 export const NEUTRAL_INSTRUCTION =
@@ -52,7 +55,13 @@ export function ConsoleNeutralStatus({ neutral }: { neutral: ConsoleNeutral | nu
   // The view arrives as a string from the other browser: named only when it is one the engine knows.
   const view = neutral?.view && (VALIDATION_VIEWS as readonly string[]).includes(neutral.view) ? describeView(neutral.view as ValidationView) : null;
   const details = [view ? `${view} seen` : null, neutral?.spreadDeg == null ? null : `held within ${neutral.spreadDeg.toFixed(1)}°`].filter(Boolean).join(", ");
-  if (!neutral) return <p className="mt-2 text-xs text-ink-soft" data-testid="console-neutral" data-status="none">No straight-wrist reading yet: wrist angles are read from how the hand started.</p>;
+  if (!neutral)
+    return (
+      <p className="mt-2 text-xs text-ink-soft" data-testid="console-neutral" data-status="none">
+        No straight-wrist reading yet: wrist angles are read from how the hand started
+        {WITHOUT_READING_DEG === null ? "" : `, to within about ± ${WITHOUT_READING_DEG.toFixed(0)}° only`}. Ask for the reading before the attempt.
+      </p>
+    );
   return (
     <p className={`mt-2 text-xs ${neutral.status === "refused" ? "text-flag-rose" : "text-ink-soft"}`} role="status" data-testid="console-neutral" data-status={neutral.status}>
       {neutral.status === "asked" ? "Asking the client's device for the straight-wrist reading…" : null}

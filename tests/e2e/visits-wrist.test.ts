@@ -92,6 +92,8 @@ describe("straight-wrist reading in a video visit", () => {
     // Before any reading the angle is read from how the hand started, and the console says so.
     await expect.poll(() => therapistPage.getByTestId("live-forearm").getAttribute("data-source"), { timeout: 30_000 }).toBe("capture-start");
     expect(await therapistPage.getByTestId("console-neutral").getAttribute("data-status")).toBe("none");
+    // With the held-out figure for wrists read that way (vision/uncertainty-table.json withoutStraightWristReading).
+    expect(await therapistPage.getByTestId("console-neutral").textContent()).toMatch(/to within about ± \d+° only\. Ask for the reading before the attempt\./);
   });
 
   it("the reading is asked for, the client is walked through it, and the console learns it was taken", async () => {
