@@ -23,7 +23,6 @@
  * `--condition gravity_minimized` renders the same motions in the view the policy recommends with gravity minimized
  * (the thumb side, from above a hand resting on its edge) and writes clip-report-gravity-minimized.md instead.
  */
-import { execFileSync } from "node:child_process";
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { parseArgs } from "node:util";
@@ -35,7 +34,7 @@ import type { TrackedFrame } from "@/vision/live/types";
 import { viewPolicy } from "@/vision/view-policy";
 import { launchChromium, openHarnessPage, startHarnessServer, waitForFrames, type HarnessServer } from "../../tests/harness/tracking-harness";
 import { FINGERS, getPoseAngle, type PoseKey } from "./hand-pose";
-import { renderSweepClip } from "./render-jobs";
+import { renderSweepClip, runFfmpeg } from "./render-jobs";
 import { HandRenderer, RENDER_OUTPUT_ROOT } from "./renderer";
 import { loadHandRig } from "./rig-files";
 import type { HandSide } from "./rig";
@@ -185,9 +184,9 @@ async function renderClips(plans: readonly ClipPlan[], folder: string, reuse: bo
  * a render's still stretch is the same picture frame after frame, where a camera's never is, so a palm detection
  * that fails once fails for the whole stretch. An experiment (`--sensor-noise`); the reports use the clean renders.
  */
-function addSensorNoise(from: string, to: string, strength: number, seed: number): void {
+function addSensorNoise(from: string, to: string, strength: number, seed: number): Promise<void> {
   const filter = `noise=all_seed=${seed % 2_147_483_647}:alls=${strength}:allf=t+u`;
-  execFileSync("ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", "-i", from, "-vf", filter, "-c:v", "libvpx", "-b:v", "2M", to]);
+  return runFfmpeg(["-i", from, "-vf", filter, "-c:v", "libvpx", "-b:v", "2M", to]);
 }
 
 async function trackClips(
@@ -209,7 +208,9 @@ async function trackClips(
   for (const plan of plans) if (reuse && existsSync(savedOf(plan))) tracked.set(plan.name, withAspect(JSON.parse(readFileSync(savedOf(plan), "utf8")) as TrackedFrame[]));
   const todo = plans.filter((plan) => !tracked.has(plan.name));
   if (!todo.length) return tracked;
-  if (sensorNoise !== undefined) for (const plan of todo) if (!existsSync(clipOf(plan))) addSensorNoise(path.join(folder, `${plan.name}.webm`), clipOf(plan), sensorNoise, plan.seed);
+  if (sensorNoise !== undefined) {
+    for (const plan of todo) if (!existsSync(clipOf(plan))) await addSensorNoise(path.join(folder, `${plan.name}.webm`), clipOf(plan), sensorNoise, plan.seed);
+  }
   let server: HarnessServer | null = null;
   let browser: Browser | null = null;
   try {

@@ -28,6 +28,11 @@ export const CLIP_REPORT_FILES = [
   path.join(HERE, "clip-report-hand-shapes.md"),
 ] as const;
 
+/** A markdown table row's cells, trimmed (the row starts and ends with "|"). */
+function tableCells(row: string): string[] {
+  return row.split("|").slice(1, -1).map((c) => c.trim());
+}
+
 /** A held-out clip figure: the worst frame MAE over the reports' seeds for one group, view and model. */
 export interface ClipRow {
   group: string;
@@ -50,7 +55,7 @@ export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
     for (const line of markdown.split("\n")) {
       const text = line.trim();
       if (!text.startsWith("|")) continue;
-      const cells = text.split("|").slice(1, -1).map((c) => c.trim());
+      const cells = tableCells(text);
       if (cells[0] === "motion") {
         columns = cells;
         continue;
@@ -93,7 +98,7 @@ export function parseWithoutStraightWrist(markdowns: readonly string[]): { readi
         columns = null;
         continue;
       }
-      const cells = text.split("|").slice(1, -1).map((c) => c.trim());
+      const cells = tableCells(text);
       if (cells[0] === "forearm line") {
         columns = cells;
         continue;
@@ -114,9 +119,14 @@ export function parseWithoutStraightWrist(markdowns: readonly string[]): { readi
   return readings > 0 && detectedFrames > 0 ? { readings, maeDeg: Math.round((errorSum / detectedFrames) * 100) / 100 } : null;
 }
 
-/** The committed clip reports' rows (none for a report not yet written). */
+/** The committed clip reports' text (none for a report not yet written). */
+function readClipReports(files: readonly string[] = CLIP_REPORT_FILES): string[] {
+  return files.filter((file) => existsSync(file)).map((file) => readFileSync(file, "utf8"));
+}
+
+/** The committed clip reports' rows. */
 export function readClipRows(files: readonly string[] = CLIP_REPORT_FILES): ClipRow[] {
-  return parseClipReports(files.filter((file) => existsSync(file)).map((file) => readFileSync(file, "utf8")));
+  return parseClipReports(readClipReports(files));
 }
 
 /** A held-out cell of the whole-hand shapes: the figures the table needs. */
@@ -165,7 +175,7 @@ export function parseAccuracyReport(markdown: string): Record<ReportSection, Rec
       method = methods[heading] ?? null;
       if (section && method) seen.add(`${section} / ${method}`);
     } else if (section && method && heading.startsWith("|")) {
-      const cells = heading.split("|").slice(1, -1).map((c) => c.trim());
+      const cells = tableCells(heading);
       if (cells[0] === "joint") {
         maeColumn = cells.indexOf("MAE °");
         if (maeColumn < 0) throw new Error(`report: table "${section} / ${method}" has no "MAE °" column`);
@@ -291,7 +301,7 @@ export function readHandShapeRows(files: readonly string[] = HAND_SHAPE_VALIDATI
 
 /** The table the committed reports give (what `main` writes and the committed table must equal). */
 export function deriveCommittedTable(): UncertaintyTable {
-  const clipReports = CLIP_REPORT_FILES.filter((file) => existsSync(file)).map((file) => readFileSync(file, "utf8"));
+  const clipReports = readClipReports();
   return deriveUncertaintyTable(
     parseAccuracyReport(readFileSync(REPORT_FILE, "utf8")),
     readHandShapeRows(),

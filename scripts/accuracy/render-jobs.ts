@@ -61,7 +61,8 @@ export interface RenderedClip {
   msPerFrame: number;
 }
 
-function runFfmpeg(args: string[], input: Buffer[]): Promise<void> {
+/** Runs Debian's ffmpeg quietly (overwriting its output), feeding `input` on stdin; rejects with its error text. */
+export function runFfmpeg(args: string[], input: Buffer[] = []): Promise<void> {
   return new Promise((resolve, reject) => {
     const child = spawn("ffmpeg", ["-hide_banner", "-loglevel", "error", "-y", ...args], { stdio: ["pipe", "ignore", "pipe"] });
     let stderr = "";
