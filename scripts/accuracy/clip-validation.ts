@@ -20,6 +20,9 @@
  * `--view palm,back,down` renders the same clips in those views instead (named `<motion>-<view>-...`): the training
  * clips of the whole-hand-shape estimators (hand-shape-fit.ts) and their held-out check; write those with `--out`.
  *
+ * `--one-finger` moves one finger only (index, middle, ring, little in turn), its neighbours straight, and scores that
+ * finger: clips named `<motion>-alone-...` (what a finger tested on its own reads); write those with `--out`.
+ *
  * `--condition gravity_minimized` renders the same motions in the view the policy recommends with gravity minimized
  * (the thumb side, from above a hand resting on its edge) and writes clip-report-gravity-minimized.md instead.
  */
@@ -118,14 +121,16 @@ export function planClips(
   condition: Condition = "against_gravity",
   motions?: readonly MotionId[],
   viewOverride?: CameraView,
+  oneFinger = false,
 ): ClipPlan[] {
   if (count > SEEDS_PER_MOTION) throw new Error(`--clips: expected at most ${SEEDS_PER_MOTION}; got ${count}`);
   const unknown = motions?.filter((motion) => !CLIP_MOTIONS.some((m) => m.motion === motion)) ?? [];
   if (unknown.length) throw new Error(`--motions: expected some of ${CLIP_MOTIONS.map((m) => m.motion).join(", ")}; got ${unknown.join(", ")}`);
   // Render seeds from the set's own generator (as scene.ts frameSeeds): neighbouring seeds start xoroshiro128+ alike.
   const seeds = frameSeeds(seed, CLIP_MOTIONS.length * SEEDS_PER_MOTION);
-  return CLIP_MOTIONS.flatMap((motion, m) =>
+  return CLIP_MOTIONS.flatMap((allFingers, m) =>
     Array.from({ length: count }, (_, i) => {
+      const motion = oneFinger ? aloneMotion(allFingers, FINGERS[i % FINGERS.length]) : allFingers;
       const clipSeed = seeds[m * SEEDS_PER_MOTION + i];
       const draws = makeRng(clipSeed ^ 0x2545f491);
       // The first number of a freshly seeded generator depends little on small seeds; it is not used.
@@ -135,11 +140,21 @@ export function planClips(
       const view = viewOverride ?? (viewPolicy(motion.motion, condition, motion.digits[0]).recommended[0] as CameraView);
       const side: HandSide = i % 2 === 0 ? "right" : "left";
       // Against gravity keeps its first names (and cached renders); the other condition's clips are named apart.
-      const prefix = viewOverride ? `${motion.motion}-${viewOverride}` : condition === "against_gravity" ? motion.motion : `${motion.motion}-gm`;
+      const base = viewOverride ? `${motion.motion}-${viewOverride}` : condition === "against_gravity" ? motion.motion : `${motion.motion}-gm`;
+      const prefix = oneFinger ? `${base}-alone` : base;
       const name = `${prefix}-${seed}-${i}-${clipSeed}`;
       return { name, motion, side, view, condition, seed: clipSeed, toDeg, distanceM };
     }),
-  ).filter((plan) => !motions || motions.includes(plan.motion.motion));
+  ).filter((plan) => (!motions || motions.includes(plan.motion.motion)) && (!oneFinger || plan.motion.digits[0] !== null));
+}
+
+/**
+ * `--one-finger`: the finger motion with only `digit` moving, its neighbours straight (the way a therapist isolates
+ * one finger), scored for that finger alone. Named `<motion>-alone-...`, apart from the four-finger clips.
+ */
+export function aloneMotion(motion: ClipMotion, digit: Digit): ClipMotion {
+  if (motion.digits[0] === null) return motion;
+  return { ...motion, joints: motion.joints.filter((joint) => joint.startsWith(`${digit}.`)), digits: [digit] };
 }
 
 interface ClipTruthFile {
@@ -485,6 +500,7 @@ async function main(): Promise<void> {
       view: { type: "string" },
       "min-confidence": { type: "string" },
       "sensor-noise": { type: "string" },
+      "one-finger": { type: "boolean" },
     },
   });
   const minConfidence = parseMinConfidence(values["min-confidence"]);
@@ -502,11 +518,13 @@ async function main(): Promise<void> {
   const seeds = values.seeds ? values.seeds.split(",").map((raw) => parseCount("seeds", raw, 0)) : [...CLIP_VALIDATION_SEEDS];
   const models = parseModels(values.models);
   const reuse = values.reuse ?? false;
+  if (values["one-finger"] && !values.out) throw new Error("--one-finger: expected --out FILE (the held-out reports hold four-finger clips only)");
   const sections: ClipSection[] = [];
   for (const seed of seeds) {
     const folder = path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
     mkdirSync(folder, { recursive: true });
-    const plans = views ? views.flatMap((view) => planClips(seed, clips, condition, motions, view)) : planClips(seed, clips, condition, motions);
+    const oneFinger = values["one-finger"] ?? false;
+    const plans = views ? views.flatMap((view) => planClips(seed, clips, condition, motions, view, oneFinger)) : planClips(seed, clips, condition, motions, undefined, oneFinger);
     await renderClips(plans, folder, reuse);
     const rows: ClipRow[] = [];
     for (const model of models) {
