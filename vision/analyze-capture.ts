@@ -1,4 +1,4 @@
-import { MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
+import { isOneFingerMotion, MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
 import { createLivePipeline, type LiveUpdate, type LivePipelineOptions, type MeasurementMethod, type PipelineFrame } from "./pipeline";
 import type { PlaneReading } from "./plane";
 import type { Repetition } from "./reps";
@@ -17,6 +17,8 @@ export interface CaptureInput {
   frames: readonly PipelineFrame[];
   /** The picture's width over its height, when the frames carry picture points (`image`). */
   imageAspect?: number;
+  /** The tested finger bent on its own, the others held straight (LivePipelineOptions.oneFinger). */
+  oneFinger?: boolean;
   /** Frames of a neutral reading taken before the attempt (wrist straight, forearm resting still), when one was. */
   neutral?: { frames: readonly NeutralFrame[] } | null;
 }
@@ -37,6 +39,8 @@ export interface CaptureAnalysis {
   side: Side;
   digit: Digit | null;
   condition: Condition;
+  /** Read as one finger tested on its own (wider uncertainty, a warning). */
+  oneFinger: boolean;
   frames: number;
   usableFrames: number;
   meanScore: number;
@@ -84,6 +88,7 @@ export function analyzeCapture(capture: CaptureInput, { onUpdate, ...options }: 
     side: capture.side,
     digit: capture.digit,
     condition: capture.condition,
+    oneFinger: capture.oneFinger === true,
     gravity: capture.gravity ?? null,
     imageAspect: capture.imageAspect ?? null,
   });
@@ -113,6 +118,7 @@ export function analyzeCapture(capture: CaptureInput, { onUpdate, ...options }: 
     side: capture.side,
     digit: capture.digit,
     condition: capture.condition,
+    oneFinger: pipeline.options.oneFinger === true && isOneFingerMotion(capture.motion, capture.digit),
     frames: summary.frames,
     usableFrames: summary.usableFrames,
     meanScore: summary.meanScore,

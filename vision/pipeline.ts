@@ -1,5 +1,5 @@
 import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
-import { MOTIONS } from "@/lib/motions/catalog";
+import { isOneFingerMotion, MOTIONS } from "@/lib/motions/catalog";
 import { handAxes, negate, readMotion } from "./angles";
 import { PalmContinuity } from "./depth-mirror";
 import type { HandLandmarks } from "./landmarks";
@@ -9,7 +9,7 @@ import { PlaneAccumulator, readPlane, unitGravity, type PlaneReading } from "./p
 import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
 import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
 import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, type CorrectionModel, type HandModel } from "./correction";
-import { angleUncertaintyDeg, correctionHelps, UNCERTAINTY_TABLE, withoutStraightWristUncertaintyDeg, type UncertaintyTable, type ValidationView } from "./uncertainty";
+import { angleUncertaintyDeg, correctionHelps, fingerAloneCell, fingerAloneUncertaintyDeg, UNCERTAINTY_TABLE, withoutStraightWristUncertaintyDeg, type UncertaintyTable, type ValidationView } from "./uncertainty";
 import { viewName, viewOfAxes, viewPolicy, viewQuality, type ViewPolicy, type ViewQuality } from "./view-policy";
 import { forearmFromNeutral, neutralReadingUncertaintyDeg, sideOnNeutral, sideOnWristFlexion, WRIST_AXIS_VALIDATION, type ForearmSource, type NeutralReading, type WristAxisValidation } from "./wrist-axis";
 
@@ -43,6 +43,12 @@ export interface LivePipelineOptions {
   side: Side;
   digit: Digit | null;
   condition: Condition;
+  /**
+   * The tested finger bends on its own, the other three held straight (as a therapist isolates one finger). The hand
+   * tracker reads such a finger far worse than four fingers bent together (scripts/accuracy/report.md, "Single-finger
+   * test motions"): its angles carry that error (UncertaintyTable.fingerAlone) and the summary says so.
+   */
+  oneFinger?: boolean;
   /** The picture's width over its height: with it, frames' `image` points can be read as angles (the finger estimator's picture features). */
   imageAspect?: number | null;
   /** Gravity in camera axes; straight down the image when not given. */
@@ -226,6 +232,14 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     return { direction: neutral, source: "capture-start" };
   }
 
+  // A finger tested on its own carries the single-finger validation error (never narrower than the cell's own).
+  const oneFinger = options.oneFinger === true && isOneFingerMotion(options.motion, options.digit);
+  function oneFingerUncertainty(cellDeg: number | null, view: ValidationView | null, score: number): number | null {
+    if (!oneFinger) return cellDeg;
+    const alone = fingerAloneUncertaintyDeg(options.motion, options.digit, handModel, view, score, table);
+    return alone === null ? cellDeg : Math.max(alone, cellDeg ?? 0);
+  }
+
   /** A wrist read against how the hand was first seen carries the error of held-out clips read that way. */
   function wristStartUncertainty(source: ForearmSource | null, cellDeg: number | null, score: number): number | null {
     return source === "capture-start" ? (withoutStraightWristUncertaintyDeg(options.motion, cellDeg, score, table) ?? cellDeg) : cellDeg;
@@ -304,10 +318,14 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       rep: { phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
       method: frameMethod,
       // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
-      uncertaintyDeg: wristStartUncertainty(
-        forearm?.source ?? null,
-        (againstNeutral ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable, table) : null) ??
-          angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
+      uncertaintyDeg: oneFingerUncertainty(
+        wristStartUncertainty(
+          forearm?.source ?? null,
+          (againstNeutral ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable, table) : null) ??
+            angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
+          score,
+        ),
+        view,
         score,
       ),
       view,
@@ -326,6 +344,14 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       warnings.push(
         `no forearm direction: neutral wrist position taken from the hand over the first ${neutralWindowMs} ms; angles assume the client started at neutral and kept the forearm still` +
           (pooled ? ` (held-out clips read this way were off by ${pooled.maeDeg.toFixed(0)} deg on average; a straight-wrist reading before the attempt avoids it)` : ""),
+      );
+    }
+    if (oneFinger) {
+      const cell = fingerAloneCell(table, options.motion, options.digit, handModel, null);
+      warnings.push(
+        "one finger tested on its own, the others held straight: the hand tracker reads a finger bent alone far less truly than four fingers bent together" +
+          (cell ? ` (held-out renders: off by up to ${cell.maeDeg.toFixed(0)} deg on average, mostly reading too little bend)` : "") +
+          "; treat the range as a rough guide, or repeat with all four fingers bending together for a measured range",
       );
     }
     if (frames > 0 && usable / frames < 0.8) warnings.push(`only ${usable} of ${frames} frames had a usable hand`);
@@ -363,10 +389,14 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       plane: repPlane.empty ? allFramesPlane.result() : repPlane.result(),
       method: summaryMethod,
       uncertaintyDeg: usable
-        ? wristStartUncertainty(
-            forearmSource,
-            (forearmSource === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, meanUsableScore, wristTable, table) : null) ??
-              angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames === usable ? "engine" : "raw"),
+        ? oneFingerUncertainty(
+            wristStartUncertainty(
+              forearmSource,
+              (forearmSource === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, meanUsableScore, wristTable, table) : null) ??
+                angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames === usable ? "engine" : "raw"),
+              meanUsableScore,
+            ),
+            view,
             meanUsableScore,
           )
         : null,

@@ -54,6 +54,22 @@ export interface WithoutStraightWristReading {
   uncertaintyDeg: number;
 }
 
+/**
+ * One finger bent while the other three stayed straight (report.md, "Single-finger test motions in their recommended
+ * view"): the held-out error of the method the engine uses in that group, view and model.
+ */
+export interface FingerAloneCell {
+  group: string;
+  view: ValidationView;
+  model: HandModel;
+  samples: number;
+  rawMaeDeg: number;
+  correctedMaeDeg: number | null;
+  /** MAE of the method the engine uses in the four-finger cell of the same group, view and model. */
+  maeDeg: number;
+  uncertaintyDeg: number;
+}
+
 export interface UncertaintyTable {
   version: string;
   correctionVersion: string;
@@ -61,6 +77,8 @@ export interface UncertaintyTable {
   cells: ValidationCell[];
   /** Absent until the clip reports hold such readings. */
   withoutStraightWristReading?: WithoutStraightWristReading;
+  /** Absent until the report holds the single-finger tables. */
+  fingerAlone?: FingerAloneCell[];
 }
 
 export const UNCERTAINTY_TABLE = TABLE as UncertaintyTable;
@@ -132,6 +150,11 @@ export function trackingFactor(score: number): number {
   return 1 + (FULL_CONFIDENCE_SCORE - s) / (FULL_CONFIDENCE_SCORE - LOWEST_READ_SCORE);
 }
 
+/** A validation figure widened by the tracking score (trackingFactor), to 0.1 degree. */
+function widenedByScore(deg: number, score: number): number {
+  return Math.round(deg * trackingFactor(score) * 10) / 10;
+}
+
 /**
  * Uncertainty of a wrist angle read against how the hand was first seen (no straight-wrist reading, no forearm in
  * view): the held-out clips read that way (UncertaintyTable.withoutStraightWristReading), widened by tracking score,
@@ -147,7 +170,7 @@ export function withoutStraightWristUncertaintyDeg(
 ): number | null {
   const pooled = table.withoutStraightWristReading;
   if (!pooled || MOTIONS[motion].joint !== "wrist") return null;
-  return Math.max(cellUncertaintyDeg ?? 0, Math.round(pooled.uncertaintyDeg * trackingFactor(score) * 10) / 10);
+  return Math.max(cellUncertaintyDeg ?? 0, widenedByScore(pooled.uncertaintyDeg, score));
 }
 
 /** Uncertainty of a motion's angle: validation error for its joint, view and model, widened by tracking score. */
@@ -165,5 +188,31 @@ export function angleUncertaintyDeg(
   const group = target?.group ?? (motion.startsWith("finger.") ? "finger abduction" : null);
   if (!group) return null;
   const base = baseUncertaintyDeg(table, group, model, view, method);
-  return base === null ? null : Math.round(base * trackingFactor(score) * 10) / 10;
+  return base === null ? null : widenedByScore(base, score);
+}
+
+/**
+ * The single-finger cell for a motion's group, model and view; with the view (or model) unknown or without a cell of
+ * its own, the worst of the group's cells. Null for motions outside the table.
+ */
+export function fingerAloneCell(
+  table: UncertaintyTable,
+  motion: MotionId,
+  digit: Digit | null,
+  model: HandModel | null,
+  view: ValidationView | null,
+): FingerAloneCell | null {
+  const group = correctionGroupFor(motion, digit)?.group;
+  const cells = (table.fingerAlone ?? []).filter((c) => c.group === group);
+  const exact = cells.find((c) => c.model === model && c.view === view);
+  if (exact) return exact;
+  const pool = cells.filter((c) => model === null || c.model === model);
+  const from = pool.length ? pool : cells;
+  return from.length ? from.reduce((worst, c) => (c.uncertaintyDeg > worst.uncertaintyDeg ? c : worst)) : null;
+}
+
+/** Uncertainty of a finger tested on its own: its single-finger cell, widened by tracking score. */
+export function fingerAloneUncertaintyDeg(motion: MotionId, digit: Digit | null, model: HandModel | null, view: ValidationView | null, score: number, table = UNCERTAINTY_TABLE): number | null {
+  const cell = fingerAloneCell(table, motion, digit, model, view);
+  return cell ? widenedByScore(cell.uncertaintyDeg, score) : null;
 }

@@ -5,13 +5,13 @@ import { SafetyNote } from "@/components/safety-note";
 import { HandOverlay } from "@/components/tracking/hand-overlay";
 import { PositionIllustration } from "@/components/tracking/position-illustration";
 import { browserOutbox, runOutbox } from "@/lib/captures/outbox";
-import { getReferenceEndRange, MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
+import { getReferenceEndRange, isOneFingerMotion, MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
 import { newCaptureUid } from "@/lib/tracking/capture-recorder";
 import { useHandTracking } from "@/lib/tracking/use-hand-tracking";
 import { encodeTelemetry, type ControlMessage } from "@/lib/visits/telemetry";
 import { useVisitRoom } from "@/lib/visits/use-visit-room";
 import { MicCheck } from "./mic-check";
-import { fingersTogetherNote } from "@/lib/tracking/self-check-plan";
+import { fingersTogetherNote, oneFingerNote } from "@/lib/tracking/self-check-plan";
 import { ClientNeutralReading } from "./neutral-reading";
 import { CONDITION_LABELS } from "./test-picker";
 import { TrackAudio, TrackVideo } from "./track-video";
@@ -21,6 +21,7 @@ interface Test {
   side: Side;
   digit: Digit | null;
   condition: Condition;
+  oneFinger: boolean;
 }
 
 /** Telemetry goes out at most this often: enough for a smooth overlay, well under the data budget. */
@@ -33,7 +34,7 @@ const TELEMETRY_INTERVAL_MS = 66;
  */
 export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }: { visitId: string; clientId: string; therapistName: string; when: string; side: Side }) {
   const video = useRef<HTMLVideoElement>(null);
-  const [test, setTest] = useState<Test>({ motion: "wrist.extension", side, digit: null, condition: "against_gravity" });
+  const [test, setTest] = useState<Test>({ motion: "wrist.extension", side, digit: null, condition: "against_gravity", oneFinger: false });
   const [prompted, setPrompted] = useState(false);
   const [kept, setKept] = useState<string | null>(null);
   const tracking = useHandTracking({ ...test, videoRef: video, enabled: true, displayMirrored: true });
@@ -52,7 +53,8 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
 
   const onControl = async (m: ControlMessage) => {
     if (m.type === "prompt") {
-      const next: Test = { motion: m.motion as MotionId, side: m.side, digit: m.digit as Digit | null, condition: m.condition };
+      const digit = m.digit as Digit | null;
+      const next: Test = { motion: m.motion as MotionId, side: m.side, digit, condition: m.condition, oneFinger: m.oneFinger === true && isOneFingerMotion(m.motion as MotionId, digit) };
       setTest(next);
       setPrompted(true);
       setKept(null);
@@ -224,11 +226,12 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
             <>
               <p className="text-lg font-semibold" data-testid="client-test">
                 {def.label}
-                {test.digit ? `, ${test.digit} finger` : ""} ({test.side}) · {CONDITION_LABELS[test.condition]}
+                {test.digit ? `, ${test.digit} finger` : ""}
+                {test.oneFinger ? " on its own" : ""} ({test.side}) · {CONDITION_LABELS[test.condition]}
               </p>
               <div className="mt-2 grid gap-3 md:grid-cols-[1fr_14rem]">
                 <p className="text-base">
-                  {def.testPosition[test.condition]} {fingersTogetherNote(test.motion, test.digit) ?? ""}
+                  {def.testPosition[test.condition]} {(test.oneFinger ? oneFingerNote(test.digit) : fingersTogetherNote(test.motion, test.digit)) ?? ""}
                 </p>
                 <PositionIllustration cameraView={def.cameraView} condition={test.condition} wrist={def.joint === "wrist"} />
               </div>

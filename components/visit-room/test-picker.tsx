@@ -1,13 +1,15 @@
 "use client";
 
 import { useState } from "react";
-import { CONDITIONS, MOTION_IDS, MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
+import { CONDITIONS, isOneFingerMotion, MOTION_IDS, MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
 
 export interface TestChoice {
   motion: MotionId;
   side: Side;
   digit: Digit | null;
   condition: Condition;
+  /** The tested finger bends on its own, the others held straight (only for a finger's MCP, PIP or DIP motion). */
+  oneFinger?: boolean;
 }
 
 export const CONDITION_LABELS: Record<Condition, string> = { against_gravity: "Against gravity", gravity_minimized: "Gravity minimized" };
@@ -22,6 +24,7 @@ export function TestPicker({ initial, onPrompt, disabled }: { initial: TestChoic
       const digits = MOTIONS[next.motion].digits;
       if (!digits.length) next.digit = null;
       else if (!next.digit || !digits.includes(next.digit)) next.digit = digits[0];
+      if (!isOneFingerMotion(next.motion, next.digit)) next.oneFinger = false;
       return next;
     });
   const select = "mt-1 block w-full rounded-lg border border-sand-200 bg-white px-2 py-2 text-sm";
@@ -75,6 +78,17 @@ export function TestPicker({ initial, onPrompt, disabled }: { initial: TestChoic
           ))}
         </select>
       </label>
+      {isOneFingerMotion(choice.motion, choice.digit) ? (
+        <label className="col-span-2 flex items-start gap-2 text-sm">
+          <input type="checkbox" className="mt-1" checked={choice.oneFinger === true} onChange={(e) => set({ oneFinger: e.target.checked })} />
+          <span>
+            <span className="font-medium">Other fingers held straight</span>
+            <span className="block text-xs text-ink-soft">
+              The camera reads a finger bent on its own far less truly than four fingers bent together; such readings carry a much wider ± and a note.
+            </span>
+          </span>
+        </label>
+      ) : null}
       <p className="col-span-2 text-xs text-ink-soft">{def.testPosition[choice.condition]}</p>
       <button type="submit" disabled={disabled} className="col-span-2 rounded-lg bg-tide-600 px-3 py-2 text-sm font-semibold text-white disabled:bg-tide-200">
         Ask the client to do this

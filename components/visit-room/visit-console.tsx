@@ -61,7 +61,7 @@ export function VisitConsole(props: VisitConsoleProps) {
       if (m.type === "test") {
         // A reading holds only for the test it was taken for, as on the client's device (use-hand-tracking.ts).
         if (!sameTest(testRef.current, m)) setNeutral(null);
-        setTest({ motion: m.motion as MotionId, side: m.side, digit: m.digit as TestChoice["digit"], condition: m.condition });
+        setTest({ motion: m.motion as MotionId, side: m.side, digit: m.digit as TestChoice["digit"], condition: m.condition, oneFinger: m.oneFinger === true });
       }
       if (m.type === "neutral") {
         // Only the answer to the latest request counts; a late answer to an earlier one is dropped.
@@ -198,6 +198,12 @@ export function VisitConsole(props: VisitConsoleProps) {
                 Wrist angle read against: {frame?.forearmSource ? FOREARM_LINE_WORDS[frame.forearmSource] : "—"}
               </p>
             ) : null}
+            {test?.oneFinger ? (
+              <p className="text-sm text-flag-amber" data-testid="live-one-finger">
+                One finger on its own: the camera reads it far less truly than four fingers bent together, mostly too little bend. The ± above is the
+                single-finger validation error; for a measured range, ask for all four fingers together.
+              </p>
+            ) : null}
           </>
         )}
       </div>
@@ -206,7 +212,8 @@ export function VisitConsole(props: VisitConsoleProps) {
           {test && target ? (
             <p className="mb-3 text-sm" data-testid="current-test">
               {target.label}
-              {test.digit ? `, ${test.digit}` : ""}, {test.side} · {CONDITION_LABELS[test.condition]}
+              {test.digit ? `, ${test.digit}` : ""}
+              {test.oneFinger ? " (on its own)" : ""}, {test.side} · {CONDITION_LABELS[test.condition]}
             </p>
           ) : (
             <p className="mb-3 text-sm text-ink-soft">No test asked yet.</p>

@@ -65,6 +65,16 @@ describe("capture file v1", () => {
     expect(error.field).toBe("frames[4].t");
   });
 
+  it("accepts a finger tested on its own and names the field when it is claimed for a wrist or thumb motion", () => {
+    expect(parseCaptureText(JSON.stringify({ ...fixture(), oneFinger: true }), "attempt.json").oneFinger).toBe(true);
+    expect(errorOf(JSON.stringify({ ...fixture(), oneFinger: "yes" })).field).toBe("oneFinger");
+    const wrist = { ...fixture(), motion: "wrist.flexion", digit: null, oneFinger: true };
+    const error = errorOf(JSON.stringify(wrist));
+    expect(error.field).toBe("oneFinger");
+    expect(error.message).toMatch(/expected true only for a finger's \(not the thumb's\) MCP, PIP or DIP motion/);
+    expect(errorOf(JSON.stringify({ ...fixture(), motion: "ip.flexion", digit: "thumb", oneFinger: true })).field).toBe("oneFinger");
+  });
+
   it("rejects a score outside 0..1 and a zero gravity vector", () => {
     const capture = fixture();
     capture.frames[1].score = 1.5;

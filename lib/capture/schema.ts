@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { CONDITIONS, DIGITS, MOTIONS, MOTION_IDS, SIDES, digitAllowed } from "@/lib/motions/catalog";
+import { CONDITIONS, DIGITS, MOTIONS, MOTION_IDS, SIDES, digitAllowed, isOneFingerMotion } from "@/lib/motions/catalog";
 
 // Capture file, format version 1: the one format for recorded attempts (browser recorder, uploads, fixtures, CLI).
 // Landmarks are the tracker's world coordinates in metres, camera axes: x right, y down, z away from the camera, as
@@ -44,6 +44,11 @@ export const captureSchema = z
     digit: z.enum(DIGITS, { error: `expected one of ${DIGITS.join(", ")} or null` }).nullable(),
     condition: z.enum(CONDITIONS, { error: 'expected "against_gravity" or "gravity_minimized"' }),
     gravity: point.refine(nonZero, { error: "expected a non-zero gravity direction" }).optional(),
+    /**
+     * Optional: the tested finger bent on its own, the other three held straight (the engine reads it with the
+     * single-finger validation error, vision/pipeline.ts). Only for a finger's MCP, PIP or DIP motion.
+     */
+    oneFinger: z.boolean({ error: "expected true or false" }).optional(),
     passiveRangeDeg: z
       .number({ error: "expected degrees" })
       .gt(0, { error: "expected degrees above 0" })
@@ -69,6 +74,9 @@ export const captureSchema = z
         path: ["digit"],
         message: def.joint === "wrist" ? `expected null for ${capture.motion}` : `expected one of ${def.digits.join(", ")} for ${capture.motion}`,
       });
+    }
+    if (capture.oneFinger && !isOneFingerMotion(capture.motion, capture.digit)) {
+      ctx.addIssue({ code: "custom", path: ["oneFinger"], message: "expected true only for a finger's (not the thumb's) MCP, PIP or DIP motion" });
     }
     for (let i = 1; i < capture.frames.length; i++) {
       if (capture.frames[i].t < capture.frames[i - 1].t) {

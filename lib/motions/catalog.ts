@@ -305,6 +305,15 @@ export function digitAllowed(motion: MotionId, digit: Digit | null): boolean {
   return digit !== null && def.digits.includes(digit);
 }
 
+/**
+ * Motions a finger can be tested on alone, the other three held straight (as a therapist isolates one finger):
+ * flexion and extension at a finger's (not the thumb's) MCP, PIP or DIP.
+ */
+export function isOneFingerMotion(motion: MotionId, digit: Digit | null): boolean {
+  const finger = digit !== null && digit !== "thumb";
+  return finger && (motion === "mcp.flexion" || motion === "mcp.extension" || motion === "pip.flexion" || motion === "dip.flexion" || motion === "ip.extension");
+}
+
 export interface ReferenceEndRange {
   endRangeDeg: number;
   source: string;

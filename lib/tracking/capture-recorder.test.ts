@@ -35,6 +35,17 @@ describe("capture recorder", () => {
     expect(Math.abs(recorded.peakDeg! - 80)).toBeLessThanOrEqual(3);
   });
 
+  it("writes a finger tested on its own into the file only when it was", () => {
+    const record = (oneFinger?: boolean) => {
+      const recorder = new CaptureRecorder({ motion: "mcp.flexion", side: "left", digit: "index", condition: "gravity_minimized", ...(oneFinger === undefined ? {} : { oneFinger }) });
+      for (const f of source.frames.slice(0, 5)) recorder.push({ t: f.t, score: f.score, hand: f.hand as never });
+      return parseCapture(JSON.parse(JSON.stringify(recorder.finish())), "recorded");
+    };
+    expect(record(true).oneFinger).toBe(true);
+    expect("oneFinger" in record(false)).toBe(false);
+    expect("oneFinger" in record()).toBe(false);
+  });
+
   it("keeps broken frames as frames without a hand and never lets time run backwards", () => {
     const recorder = new CaptureRecorder({ motion: "pip.flexion", side: "right", digit: "middle", condition: "against_gravity" });
     const hand = source.frames.find((f) => f.hand)!.hand!;

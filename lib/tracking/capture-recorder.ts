@@ -13,6 +13,8 @@ export interface CaptureTarget {
   side: Side;
   digit: Digit | null;
   condition: Condition;
+  /** The tested finger bends on its own, the others held straight (written to the capture only when true). */
+  oneFinger?: boolean;
 }
 
 function finitePoint(p: readonly number[]): boolean {
@@ -72,7 +74,8 @@ export class CaptureRecorder {
   /** The capture file, or null when no frame was recorded. */
   finish(): CaptureFile | null {
     if (this.frames.length === 0) return null;
-    const capture: CaptureFile = { format: CAPTURE_FORMAT, version: CAPTURE_VERSION, ...this.target, frames: [...this.frames] };
+    const { oneFinger, ...target } = this.target;
+    const capture: CaptureFile = { format: CAPTURE_FORMAT, version: CAPTURE_VERSION, ...target, ...(oneFinger ? { oneFinger: true } : {}), frames: [...this.frames] };
     if (this.gravity && this.gravity.every(Number.isFinite) && Math.hypot(...this.gravity) > 1e-9) capture.gravity = [this.gravity[0], this.gravity[1], this.gravity[2]];
     if (this.keepsImage && this.imageAspect !== null) capture.imageAspect = this.imageAspect;
     return capture;

@@ -43,3 +43,12 @@ describe("fingersTogetherNote", () => {
     expect(fingersTogetherNote("mcp.extension", "index")).toBeNull();
   });
 });
+
+describe("oneFingerNote", () => {
+  it("tells the client to bend the named finger only and keep the others straight; nothing for the thumb", async () => {
+    const { oneFingerNote } = await import("./self-check-plan");
+    expect(oneFingerNote("ring")).toMatch(/^Bend only your ring finger\. Keep the other fingers straight/);
+    expect(oneFingerNote("thumb")).toBeNull();
+    expect(oneFingerNote(null)).toBeNull();
+  });
+});

@@ -65,3 +65,12 @@ export function fingersTogetherNote(motion: MotionId, digit: string | null): str
   if (!FINGER_FLEXION.includes(motion) || !digit || digit === "thumb") return null;
   return `Bend all four fingers together, even though the check is for your ${digit} finger: the camera reads a finger far better when its neighbours move with it.`;
 }
+
+/**
+ * The client's words when the therapist asks for one finger on its own (a visit's test with `oneFinger`): the other
+ * fingers stay straight, held down with the other hand if need be [common practice for isolating one finger's flexor].
+ */
+export function oneFingerNote(digit: string | null): string | null {
+  if (!digit || digit === "thumb") return null;
+  return `Bend only your ${digit} finger. Keep the other fingers straight; you may hold them flat with your other hand.`;
+}

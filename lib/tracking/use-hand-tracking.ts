@@ -23,6 +23,8 @@ export interface HandTrackingOptions {
   side: Side;
   digit: Digit | null;
   condition: Condition;
+  /** The tested finger bends on its own, the others held straight (the therapist's choice in a visit). */
+  oneFinger?: boolean;
   videoRef: RefObject<HTMLVideoElement | null>;
   /** Camera and tracker run only while true. */
   enabled: boolean;
@@ -98,7 +100,7 @@ function cameraError(error: unknown): string {
 }
 
 export function useHandTracking(options: HandTrackingOptions) {
-  const { motion, side, digit, condition, videoRef, enabled, facing = "user", handModel = "lite", displayMirrored = true } = options;
+  const { motion, side, digit, condition, oneFinger = false, videoRef, enabled, facing = "user", handModel = "lite", displayMirrored = true } = options;
   const [state, setState] = useState<HandTrackingState>(INITIAL);
 
   const pipelineRef = useRef<LivePipeline | null>(null);
@@ -107,13 +109,13 @@ export function useHandTracking(options: HandTrackingOptions) {
   const frameTimesRef = useRef<number[]>([]);
   const lumaRef = useRef<number | null>(null);
   const gravityRef = useRef<{ at: number; value: Vec3 } | null>(null);
-  const targetRef = useRef({ motion, side, digit, condition });
+  const targetRef = useRef({ motion, side, digit, condition, oneFinger });
   // Frames of the neutral reading while it is held, and the frames and reading kept once it is taken.
   const neutralHoldRef = useRef<{ startT: number | null; frames: NeutralFrame[] } | null>(null);
   const neutralRef = useRef<{ frames: NeutralFrame[]; reading: NeutralReading } | null>(null);
   useLayoutEffect(() => {
-    targetRef.current = { motion, side, digit, condition };
-  }, [motion, side, digit, condition]);
+    targetRef.current = { motion, side, digit, condition, oneFinger };
+  }, [motion, side, digit, condition, oneFinger]);
 
   // The correction and the stated uncertainty differ by landmark model (vision/correction.ts).
   const handModelRef = useRef(handModel);
@@ -136,7 +138,7 @@ export function useHandTracking(options: HandTrackingOptions) {
     neutralRef.current = null;
     neutralHoldRef.current = null;
     newPipeline();
-  }, [motion, side, digit, condition, handModel, newPipeline]);
+  }, [motion, side, digit, condition, oneFinger, handModel, newPipeline]);
 
   useEffect(() => {
     if (!enabled) return;

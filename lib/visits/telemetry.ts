@@ -109,8 +109,17 @@ export function decodeTelemetry(bytes: Uint8Array): TelemetryFrame | null {
 
 /** Reliable JSON messages between the two browsers of a visit. */
 export type ControlMessage =
-  | { type: "test"; motion: string; side: "left" | "right"; digit: string | null; condition: "against_gravity" | "gravity_minimized"; targetDeg: number | null }
-  | { type: "prompt"; motion: string; side: "left" | "right"; digit: string | null; condition: "against_gravity" | "gravity_minimized" }
+  | {
+      type: "test";
+      motion: string;
+      side: "left" | "right";
+      digit: string | null;
+      condition: "against_gravity" | "gravity_minimized";
+      /** The tested finger bends on its own, the others held straight. */
+      oneFinger?: boolean;
+      targetDeg: number | null;
+    }
+  | { type: "prompt"; motion: string; side: "left" | "right"; digit: string | null; condition: "against_gravity" | "gravity_minimized"; oneFinger?: boolean }
   | { type: "keep"; requestId: string }
   | { type: "kept"; requestId: string; captureUid: string; attemptId: string | null; queued: boolean }
   | { type: "clock"; sentAt: number }

@@ -76,6 +76,19 @@ describe("uncertainty table from the accuracy report", () => {
     expect(cell.correctionHelps).toBe(true);
   });
 
+  it("reads the single-finger rows: DIP flexion, radial view, full model, 58.3 raw and 40.1 corrected, read as the four-finger cell is", () => {
+    const find = (method: "raw 3-D" | "corrected") => report["single finger"][method].find((r) => r.group === "DIP flexion" && r.view === "radial" && r.model === "full")!;
+    expect(find("raw 3-D").maeDeg).toBe(58.3);
+    expect(find("corrected").maeDeg).toBe(40.1);
+    // Every single-finger cell takes the method the engine uses in the four-finger cell of the same group, view and model.
+    expect(UNCERTAINTY_TABLE.fingerAlone?.length).toBe(report["single finger"]["raw 3-D"].length);
+    for (const alone of UNCERTAINTY_TABLE.fingerAlone ?? []) {
+      const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === alone.group && c.view === alone.view && c.model === alone.model)!;
+      expect(alone.maeDeg).toBe(cell.correctionHelps ? alone.correctedMaeDeg : alone.rawMaeDeg);
+      expect(alone.uncertaintyDeg).toBeCloseTo(2.06 * alone.maeDeg, 0);
+    }
+  });
+
   it("every test-motion row of the report is a cell; random-pose rows fill the rest", () => {
     for (const row of report["test motions"]["raw 3-D"]) {
       const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === row.group && c.view === row.view && c.model === row.model)!;

@@ -10,7 +10,7 @@ import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { CORRECTION_VERSION, type HandModel } from "@/vision/correction";
-import { uncertaintyFromMaeDeg, VALIDATION_VIEWS, type UncertaintyTable, type ValidationCell, type ValidationView } from "@/vision/uncertainty";
+import { uncertaintyFromMaeDeg, VALIDATION_VIEWS, type FingerAloneCell, type UncertaintyTable, type ValidationCell, type ValidationView } from "@/vision/uncertainty";
 
 const HERE = path.dirname(fileURLToPath(import.meta.url));
 export const REPORT_FILE = path.join(HERE, "report.md");
@@ -147,12 +147,16 @@ export interface ReportRow {
   maeDeg: number | null;
 }
 
-export type ReportSection = "test motions" | "random poses";
+export type ReportSection = "test motions" | "random poses" | "single finger";
 export type ReportMethod = "raw 3-D" | "image plane" | "corrected";
 
 /** The report's tables by section and method, rows as numbers. Throws naming the heading when one is missing. */
 export function parseAccuracyReport(markdown: string): Record<ReportSection, Record<ReportMethod, ReportRow[]>> {
-  const sections: Record<string, ReportSection> = { "## Test motions in their recommended view": "test motions", "## Random poses in every view": "random poses" };
+  const sections: Record<string, ReportSection> = {
+    "## Test motions in their recommended view": "test motions",
+    "## Random poses in every view": "random poses",
+    "## Single-finger test motions in their recommended view": "single finger",
+  };
   const methods: Record<string, ReportMethod> = {
     "### Raw landmarks, 3-D angles": "raw 3-D",
     "### Raw landmarks, image plane angles": "image plane",
@@ -161,6 +165,7 @@ export function parseAccuracyReport(markdown: string): Record<ReportSection, Rec
   const out: Record<ReportSection, Record<ReportMethod, ReportRow[]>> = {
     "test motions": { "raw 3-D": [], "image plane": [], corrected: [] },
     "random poses": { "raw 3-D": [], "image plane": [], corrected: [] },
+    "single finger": { "raw 3-D": [], "image plane": [], corrected: [] },
   };
   let section: ReportSection | null = null;
   let method: ReportMethod | null = null;
@@ -260,6 +265,27 @@ export function deriveUncertaintyTable(
       });
     }
   }
+  // One finger bent alone: the method the engine uses in the four-finger cell of the same group, view and model.
+  const singleCorrected = new Map(report["single finger"].corrected.map((r) => [`${r.group}|${r.view}|${r.model}`, r]));
+  const fingerAlone: FingerAloneCell[] = report["single finger"]["raw 3-D"].flatMap((raw) => {
+    if (raw.maeDeg === null) return [];
+    const key = `${raw.group}|${raw.view}|${raw.model}`;
+    const correctedMae = singleCorrected.get(key)?.maeDeg ?? null;
+    const corrects = cells.find((c) => `${c.group}|${c.view}|${c.model}` === key)?.correctionHelps ?? false;
+    const maeDeg = corrects && correctedMae !== null ? correctedMae : raw.maeDeg;
+    return [
+      {
+        group: raw.group,
+        view: raw.view as ValidationView,
+        model: raw.model as HandModel,
+        samples: raw.samples,
+        rawMaeDeg: raw.maeDeg,
+        correctedMaeDeg: correctedMae,
+        maeDeg,
+        uncertaintyDeg: round1(uncertaintyFromMaeDeg(maeDeg)),
+      },
+    ];
+  });
   return {
     version: UNCERTAINTY_VERSION,
     correctionVersion,
@@ -275,7 +301,9 @@ export function deriveUncertaintyTable(
       "clip-report-gravity-minimized.md (held-out clips, continuous motion, each motion in its recommended view) and " +
       "clip-report-hand-shapes.md (the finger test motions seen from the palm, the back and above). " +
       "withoutStraightWristReading: the same rule on the frame MAE of the clip reports' wrist readings made against how the hand was first seen " +
-      "(the tracker missed the straight-wrist hold), pooled over their seeds, models and conditions; it stands for every wrist reading made that way.",
+      "(the tracker missed the straight-wrist hold), pooled over their seeds, models and conditions; it stands for every wrist reading made that way. " +
+      "fingerAlone: the same rule on report.md's single-finger test motions (one finger bent, the others straight), with the method the engine uses in the " +
+      "four-finger cell of the same group, view and model; it stands for a finger the therapist marks as tested on its own, the others held straight (vision/pipeline.ts oneFinger).",
     cells,
     ...(withoutStraightWrist
       ? {
@@ -286,6 +314,7 @@ export function deriveUncertaintyTable(
           },
         }
       : {}),
+    ...(fingerAlone.length ? { fingerAlone } : {}),
   };
 }
 

@@ -198,6 +198,30 @@ describe("a video visit through the local media server", () => {
     expect(await therapistPage.getByRole("button", { name: "Take the straight-wrist reading again" }).isEnabled()).toBe(true);
   });
 
+  it("one finger asked for on its own reaches the client's words, and its kept attempt carries the single-finger error", async () => {
+    const picker = therapistPage.getByRole("form", { name: "Next test" });
+    await picker.getByLabel("Motion").selectOption({ label: "PIP flexion" });
+    await picker.getByLabel("Digit").selectOption("ring");
+    await picker.getByLabel("Condition").selectOption("against_gravity");
+    await picker.getByLabel("Other fingers held straight").check();
+    await picker.getByRole("button", { name: "Ask the client to do this" }).click();
+    await expect.poll(() => clientPage.getByTestId("client-test").textContent(), { timeout: 15_000 }).toMatch(/PIP flexion, ring finger on its own \(right\)/);
+    expect(await clientPage.getByText("Bend only your ring finger. Keep the other fingers straight").count()).toBe(1);
+    await expect.poll(() => therapistPage.getByTestId("current-test").textContent(), { timeout: 15_000 }).toMatch(/PIP flexion, ring \(on its own\), right/);
+    expect(await therapistPage.getByTestId("live-one-finger").count()).toBe(1);
+    const before = (await db((d) => d.select().from(attempts).where(eq(attempts.visitId, visitId)))).length;
+    await therapistPage.waitForTimeout(3000);
+    await therapistPage.getByRole("button", { name: "Keep this attempt" }).click();
+    await expect.poll(async () => (await db((d) => d.select().from(attempts).where(eq(attempts.visitId, visitId)))).length, { timeout: 30_000 }).toBe(before + 1);
+    const stored = (await db((d) => d.select().from(attempts).where(eq(attempts.visitId, visitId)))).find((a) => a.digit === "ring")!;
+    expect(stored.warnings.some((w) => w.startsWith("one finger tested on its own"))).toBe(true);
+    // The single-finger cells of the table (report.md's single-finger rows) are all wider than 40 degrees.
+    expect(stored.uncertaintyDeg).toBeGreaterThan(40);
+    // The box is only offered where it applies.
+    await picker.getByLabel("Motion").selectOption("wrist.extension");
+    expect(await picker.getByLabel("Other fingers held straight").count()).toBe(0);
+  });
+
   it("ending the visit saves its notes and a summary of the kept attempts", async () => {
     const stored = await db((d) => d.select().from(attempts).where(eq(attempts.visitId, visitId)));
     await therapistPage.getByLabel("Visit notes").fill("Good effort; fist closes well.");
