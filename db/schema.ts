@@ -317,6 +317,8 @@ export const attempts = sqliteTable(
     cameraView: text("camera_view"),
     viewQuality: text("view_quality"),
     forearmSource: text("forearm_source"),
+    /** The therapist asked for the finger on its own, the others held straight: read with the single-finger error. */
+    oneFinger: integer("one_finger", { mode: "boolean" }).notNull().default(false),
     engineVersion: text("engine_version").notNull(),
     correctionVersion: text("correction_version"),
     warnings: text("warnings", { mode: "json" }).$type<string[]>().notNull().default(sql`'[]'`),

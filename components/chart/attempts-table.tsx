@@ -18,7 +18,21 @@ const SOURCE_WORDS: Record<string, string> = { self_check: "self-check", visit: 
 const COLUMNS = [
   col.accessor("recordedAt", { header: "Recorded", cell: (c) => c.getValue().slice(0, 16).replace("T", " ") }),
   col.accessor("source", { header: "From", enableSorting: false, cell: (c) => SOURCE_WORDS[c.getValue()] ?? c.getValue() }),
-  col.accessor("condition", { header: "Position", enableSorting: false, cell: (c) => c.getValue().replace("_", " ") }),
+  col.accessor("condition", {
+    header: "Position",
+    enableSorting: false,
+    cell: (c) => (
+      <>
+        {c.getValue().replace("_", " ")}
+        {c.row.original.oneFinger ? (
+          <span title="the other fingers were held straight; a finger bent on its own is read far less truly, hence the wide ±">
+            {" "}
+            <Badge tone="alert">one finger on its own</Badge>
+          </span>
+        ) : null}
+      </>
+    ),
+  }),
   col.accessor("peakDeg", { header: "Peak", cell: (c) => `${deg(c.getValue())}${c.row.original.uncertaintyDeg ? ` ±${c.row.original.uncertaintyDeg.toFixed(0)}°` : ""}` }),
   col.accessor("arcDeg", { header: "Arc", cell: (c) => deg(c.getValue()) }),
   col.accessor("planeVerified", {

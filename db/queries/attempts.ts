@@ -94,7 +94,7 @@ export interface AttemptListQuery {
 }
 
 export interface AttemptListPage {
-  rows: (RecentAttempt & Pick<Attempt, "source" | "cameraView" | "viewQuality" | "forearmSource">)[];
+  rows: (RecentAttempt & Pick<Attempt, "source" | "cameraView" | "viewQuality" | "forearmSource" | "oneFinger">)[];
   total: number;
   page: number;
   pageSize: number;
@@ -130,6 +130,7 @@ export async function listAttempts(db: DbOrTx, clinicId: string, clientId: strin
       cameraView: attempts.cameraView,
       viewQuality: attempts.viewQuality,
       forearmSource: attempts.forearmSource,
+      oneFinger: attempts.oneFinger,
     })
     .from(attempts)
     .where(where)

@@ -21,6 +21,7 @@ export function measuredColumns(analysis: CaptureAnalysis, engineVersion: string
     cameraView: analysis.view,
     viewQuality: analysis.viewQuality,
     forearmSource: analysis.forearmSource,
+    oneFinger: analysis.oneFinger,
     engineVersion,
     correctionVersion: analysis.correctionVersion,
     warnings: analysis.warnings,

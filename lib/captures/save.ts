@@ -59,6 +59,7 @@ export function attemptJson(a: Attempt): StoredAttempt {
     cameraView: a.cameraView,
     viewQuality: a.viewQuality,
     forearmSource: a.forearmSource,
+    oneFinger: a.oneFinger,
     engineVersion: a.engineVersion,
     correctionVersion: a.correctionVersion,
     warnings: a.warnings,

@@ -73,6 +73,8 @@ export interface StoredAttempt {
   cameraView: string | null;
   viewQuality: string | null;
   forearmSource: string | null;
+  /** Read as one finger tested on its own, the others held straight. */
+  oneFinger: boolean;
   engineVersion: string;
   /** The angle correction applied, e.g. "kinarc-correction-1"; null when the angles are raw. */
   correctionVersion: string | null;

@@ -214,6 +214,7 @@ describe("a video visit through the local media server", () => {
     await therapistPage.getByRole("button", { name: "Keep this attempt" }).click();
     await expect.poll(async () => (await db((d) => d.select().from(attempts).where(eq(attempts.visitId, visitId)))).length, { timeout: 30_000 }).toBe(before + 1);
     const stored = (await db((d) => d.select().from(attempts).where(eq(attempts.visitId, visitId)))).find((a) => a.digit === "ring")!;
+    expect(stored.oneFinger).toBe(true);
     expect(stored.warnings.some((w) => w.startsWith("one finger tested on its own"))).toBe(true);
     // The single-finger cells of the table (report.md's single-finger rows) are all wider than 40 degrees.
     expect(stored.uncertaintyDeg).toBeGreaterThan(40);

@@ -86,6 +86,22 @@ describe("saving a capture", () => {
     expect(events.map((e) => [e.action, e.actorUserId, e.address])).toEqual([["attempt.create", dorian.userId, "203.0.113.9"]]);
   });
 
+  it("a finger tested on its own is stored as such, with the single-finger error and note the engine gives it", async () => {
+    const client = await requireClientRecord(dorian, seed.clientIds!.dorian, { db: t.db });
+    const plain = await saveCapture(t.db, dorian, client, body(client.id));
+    const sent = body(client.id);
+    sent.capture = { ...sent.capture, oneFinger: true } as typeof sent.capture;
+    const saved = await saveCapture(t.db, dorian, client, sent);
+    const expected = analyzeCapture({ ...buildSyntheticCapture(SPEC), oneFinger: true });
+    expect(plain.attempt.oneFinger).toBe(false);
+    expect(saved.attempt).toMatchObject({ oneFinger: true, uncertaintyDeg: expected.uncertaintyDeg, peakDeg: plain.attempt.peakDeg });
+    // Never narrower; this palm-side view's own cell is already wider than the single-finger one (vision/one-finger.test.ts shows the widening).
+    expect(saved.attempt.uncertaintyDeg!).toBeGreaterThanOrEqual(plain.attempt.uncertaintyDeg!);
+    expect(saved.attempt.warnings.some((w) => w.startsWith("one finger tested on its own"))).toBe(true);
+    const [row] = await t.db.select().from(attempts).where(eq(attempts.id, saved.attempt.id));
+    expect(row.oneFinger).toBe(true);
+  });
+
   it("a retry of the same capture id returns the stored attempt instead of a second one", async () => {
     const client = await requireClientRecord(dorian, seed.clientIds!.dorian, { db: t.db });
     const sent = body(client.id);

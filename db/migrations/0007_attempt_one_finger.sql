@@ -1,0 +1,1 @@
+ALTER TABLE `attempts` ADD `one_finger` integer DEFAULT false NOT NULL;
