@@ -8,6 +8,7 @@ import {
   parseMinConfidence,
   parseSensorNoise,
   planClips,
+  statedCoverage,
   readClip,
   summarizeClipReadings,
   withoutStraightWristRows,
@@ -55,6 +56,21 @@ describe("held-out clip plans", () => {
     // Same draws (end of range, distance, hand), so a view is the only difference; the name says which view.
     expect(palm.map((plan) => [plan.toDeg, plan.distanceM, plan.side])).toEqual(recommended.map((plan) => [plan.toDeg, plan.distanceM, plan.side]));
     palm.forEach((plan, i) => expect(plan.name).toBe(recommended[i].name.replace("mcp.flexion-", "mcp.flexion-palm-")));
+  });
+
+  it("with one finger: the finger motions only, one finger moving per clip in turn, the same draws, named apart", () => {
+    const alone = planClips(20261205, 8, "against_gravity", undefined, undefined, true);
+    const fingers = plans.filter((plan) => plan.motion.digits[0] !== null);
+    expect(alone.map((plan) => plan.motion.motion)).toEqual(fingers.map((plan) => plan.motion.motion));
+    alone.forEach((plan, i) => {
+      const digit = ["index", "middle", "ring", "little"][i % 8 % 4];
+      expect(plan.motion.digits).toEqual([digit]);
+      expect(plan.motion.joints).toHaveLength(1);
+      expect(plan.motion.joints[0].startsWith(`${digit}.`)).toBe(true);
+      expect(plan.oneFinger).toBe(true);
+      expect([plan.toDeg, plan.distanceM, plan.side, plan.view]).toEqual([fingers[i].toDeg, fingers[i].distanceM, fingers[i].side, fingers[i].view]);
+      expect(plan.name).toBe(fingers[i].name.replace(/^([a-z.]+)-/, "$1-alone-"));
+    });
   });
 
   it("draw ends of range and distances across their whole span (neighbouring seeds once gave near-identical clips)", () => {
@@ -118,6 +134,19 @@ describe("reading a clip against its truth", () => {
     expect(reading.samples.every((s) => s.estimateDeg === null)).toBe(true);
     expect(reading.samples).toHaveLength(frames.length);
     expect([reading.peakDeg, reading.reps]).toEqual([null, 0]);
+  });
+
+  it("counts the frames whose error lies within the interval the engine stated for them", () => {
+    const reading = readClip(plan, "lite", "ring", frames, truth, "engine");
+    const detected = reading.samples.filter((s) => s.estimateDeg !== null).length;
+    expect(reading.uncertaintiesDeg.filter((u) => u !== null)).toHaveLength(detected);
+    // Hand-made: errors of 1, 3, 5 and 7 against a stated 4 (two within), a lost frame, a frame with no interval.
+    const made = {
+      samples: [1, 3, 5, 7, 0, 2].map((error, i) => ({ truthDeg: 40, estimateDeg: i === 4 ? null : 40 + error })),
+      uncertaintiesDeg: [4, 4, 4, 4, null, null],
+    };
+    expect(statedCoverage([made])).toBe(0.5);
+    expect(statedCoverage([{ samples: [], uncertaintiesDeg: [] }])).toBeNull();
   });
 
   it("refuses a clip whose tracked frames do not match its truth", () => {

@@ -105,6 +105,8 @@ export interface ClipPlan {
   seed: number;
   toDeg: number;
   distanceM: number;
+  /** One finger bends, the others stay straight (`--one-finger`): read as the app reads a finger tested on its own. */
+  oneFinger?: boolean;
 }
 
 /** The clips of one seed: for each motion, `count` clips alternating right and left hands, each drawn from its own seed. */
@@ -143,7 +145,7 @@ export function planClips(
       const base = viewOverride ? `${motion.motion}-${viewOverride}` : condition === "against_gravity" ? motion.motion : `${motion.motion}-gm`;
       const prefix = oneFinger ? `${base}-alone` : base;
       const name = `${prefix}-${seed}-${i}-${clipSeed}`;
-      return { name, motion, side, view, condition, seed: clipSeed, toDeg, distanceM };
+      return { name, motion, side, view, condition, seed: clipSeed, toDeg, distanceM, ...(oneFinger ? { oneFinger: true } : {}) };
     }),
   ).filter((plan) => (!motions || motions.includes(plan.motion.motion)) && (!oneFinger || plan.motion.digits[0] !== null));
 }
@@ -265,6 +267,8 @@ export interface ClipReading {
   model: HandModelVariant;
   digit: Digit | null;
   samples: ErrorSample[];
+  /** Per frame, the engine's stated 90% half-width (null where it gave no angle). */
+  uncertaintiesDeg: (number | null)[];
   truthPeakDeg: number;
   peakDeg: number | null;
   reps: number;
@@ -298,6 +302,7 @@ export function readClip(
       model,
       digit,
       samples: truthDeg.map((value) => ({ truthDeg: value, estimateDeg: null })),
+      uncertaintiesDeg: truthDeg.map(() => null),
       truthPeakDeg: Math.max(...truthDeg),
       peakDeg: null,
       reps: 0,
@@ -307,11 +312,15 @@ export function readClip(
     };
   }
   const angles: (number | null)[] = [];
-  const analysis = analyzeCapture(built.capture, {
+  const uncertainties: (number | null)[] = [];
+  const analysis = analyzeCapture(plan.oneFinger ? { ...built.capture, oneFinger: true } : built.capture, {
     handModel: model,
     correction: variant === "raw" ? "off" : "auto",
     depthMirror: variant === "engine",
-    onUpdate: (update) => angles.push(update.angleDeg),
+    onUpdate: (update) => {
+      angles.push(update.angleDeg);
+      uncertainties.push(update.uncertaintyDeg);
+    },
   });
   return {
     plan,
@@ -319,6 +328,7 @@ export function readClip(
     model,
     digit,
     samples: truthDeg.map((value, i) => ({ truthDeg: value, estimateDeg: angles[i] ?? null })),
+    uncertaintiesDeg: truthDeg.map((_, i) => uncertainties[i] ?? null),
     truthPeakDeg: Math.max(...truthDeg),
     peakDeg: analysis.peakDeg,
     reps: analysis.reps,
@@ -346,6 +356,8 @@ export interface ClipRow {
   peakWorstDeg: number | null;
   repsRight: number;
   neutralUsed: string;
+  /** Share of detected frames whose error lies within the engine's stated 90% interval (null with none). */
+  withinStated: number | null;
 }
 
 export function summarizeClipReadings(readings: readonly ClipReading[]): Omit<ClipRow, "label" | "variant" | "bar" | "view" | "model"> {
@@ -358,7 +370,26 @@ export function summarizeClipReadings(readings: readonly ClipReading[]): Omit<Cl
     peakWorstDeg: peaks.length ? peaks.reduce((worst, e) => (Math.abs(e) > Math.abs(worst) ? e : worst), 0) : null,
     repsRight: readings.filter((r) => r.reps === CYCLES).length,
     neutralUsed: wrist.length ? `${wrist.filter((r) => r.neutralUsed).length}/${wrist.length}` : "-",
+    withinStated: statedCoverage(readings),
   };
+}
+
+/**
+ * How often the stated uncertainty holds: the share of detected frames (with a stated interval) whose error is within
+ * it. The engine states a 90% interval, so about 0.9 is honest, well below is overconfident, near 1 is cautious.
+ */
+export function statedCoverage(readings: readonly Pick<ClipReading, "samples" | "uncertaintiesDeg">[]): number | null {
+  let frames = 0;
+  let within = 0;
+  for (const r of readings) {
+    r.samples.forEach((sample, i) => {
+      const stated = r.uncertaintiesDeg[i];
+      if (sample.estimateDeg === null || stated === null || stated === undefined) return;
+      frames += 1;
+      if (Math.abs(sample.estimateDeg - sample.truthDeg) <= stated) within += 1;
+    });
+  }
+  return frames ? within / frames : null;
 }
 
 const fmt = (value: number | null, digits = 1) => (value === null ? "-" : value.toFixed(digits));
@@ -421,7 +452,7 @@ export function clipReport(
       `(1 s; 3 s for the wrist, the straight-wrist reading), then ${CYCLES} cycles of ${CYCLE_SECONDS} s from rest to an end of range drawn from the seed and back, ${FPS} fps, ` +
       `camera 0.3-0.7 m, skin, light and background drawn from the seed, ${where}. Finger motions move all four fingers together; each finger is a reading. Nothing is fitted on these seeds.`,
     "- Path: the app's tracking code frame by frame (step mode, as analyze-clip and the upload review), the upload's capture builder, the engine's capture analysis as shipped (correction where it clearly helps, wrist read against the clip's straight-wrist reading, depth mirror on); `without depth mirror` and `raw` (no correction, no depth mirror) for comparison. Side-on wrist flexion/extension is read in the picture (vision/wrist-axis.ts) in every reading, raw included; the finger estimator reads each finger's picture points as well as its 3-D ones (vision/estimator.ts PICTURE_FEATURES).",
-    "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles.",
+    "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles. Within stated ±: the share of detected frames whose error lies inside the 90% interval the engine stated for that frame (vision/uncertainty.ts; about 90% is honest, far less is overconfident).",
     `- Renderer: ${meta.glName}.`,
   ];
   for (const section of sections) {
@@ -436,12 +467,12 @@ export function clipReport(
       "",
       ...rows.filter((row) => row.variant === "engine").map((row) => `- ${row.label}, ${row.view}, ${row.model}: ${verdict(row)}`),
       "",
-      "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope | within 5° | within 10° | peak MAE ° | worst peak error ° | repetitions right | straight-wrist reading used |",
-      "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
+      "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope | within 5° | within 10° | peak MAE ° | worst peak error ° | repetitions right | straight-wrist reading used | within stated ± |",
+      "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
       ...rows.map(
         (row) =>
           `| ${row.label} | ${row.view} | ${row.model} | ${row.variant} | ${row.readings} | ${row.frames.samples} | ${pct(row.frames.detectionRate)} | ${fmt(row.frames.biasDeg)} | ${fmt(row.frames.meanAbsoluteErrorDeg, 2)} | ` +
-          `${fmt(row.frames.slope, 2)} | ${pct(row.frames.within5)} | ${pct(row.frames.within10)} | ${fmt(row.peakMaeDeg)} | ${fmt(row.peakWorstDeg)} | ${row.repsRight}/${row.readings} | ${row.neutralUsed} |`,
+          `${fmt(row.frames.slope, 2)} | ${pct(row.frames.within5)} | ${pct(row.frames.within10)} | ${fmt(row.peakMaeDeg)} | ${fmt(row.peakWorstDeg)} | ${row.repsRight}/${row.readings} | ${row.neutralUsed} | ${pct(row.withinStated)} |`,
       ),
     );
   }
