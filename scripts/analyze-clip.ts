@@ -1,4 +1,4 @@
-// npm run -s analyze-clip -- --motion ID --side left|right [--digit D] --condition C [--out capture.json] [--fps N]
+// npm run -s analyze-clip -- --motion ID --side left|right [--digit D] [--one-finger] --condition C [--out capture.json] [--fps N]
 //                             [--scale S] [--reference DEG] [--table ID] CLIP
 // Runs the app's own tracking code in headless Chromium on every frame of a video file (webm, mp4, or MJPEG read at
 // --fps, default 30), builds a capture file v1 (written to --out when given) and prints the same JSON as `analyze`
@@ -38,7 +38,11 @@ export async function analyzeClip(argv: readonly string[]) {
     }
     const seen = handednessNote(tracked.frames, options.side);
     if (seen) process.stderr.write(`analyze-clip: note: ${seen}\n`);
-    const capture = captureFromFrames({ motion: options.motion, side: options.side, digit: options.digit, condition: options.condition }, tracked.frames, options.clip);
+    const capture = captureFromFrames(
+      { motion: options.motion, side: options.side, digit: options.digit, condition: options.condition, oneFinger: options.oneFinger },
+      tracked.frames,
+      options.clip,
+    );
     const text = `${JSON.stringify(capture)}\n`;
     if (options.out) {
       try {

@@ -50,6 +50,23 @@ describe("analyze command", () => {
     expect(run({ "ag.json": capture(60, "against_gravity") }, ["--scale", "mrc"]).grade).toMatchObject({ scale: "mrc", value: "2" });
   });
 
+  it("reads a finger tested on its own with the single-finger error, says so, and grades near a line as uncertain", () => {
+    // Seen from the little-finger side; gravity points up the picture, so the finger bends upward against it.
+    const side = { forearmDistal: [0, -1, 0] as const, forearmRadial: [0, 0, 1] as const, wrist: [0, 0, 0.5] as const };
+    const pip = buildSyntheticCapture({ motion: "pip.flexion", side: "right", digit: "ring", condition: "against_gravity", placement: side, reps: [{ peakDeg: 60 }, { peakDeg: 60 }], noiseMm: 0.3, seed: 5, gravity: [0, -1, 0] });
+    const together = run({ "p.json": pip }).captures[0];
+    const alone = run({ "p.json": { ...pip, oneFinger: true } });
+    expect(together.oneFinger).toBe(false);
+    expect(alone.captures[0].oneFinger).toBe(true);
+    expect(alone.captures[0].peakDeg).toBe(together.peakDeg);
+    expect(alone.captures[0].uncertaintyDeg!).toBeGreaterThan(40);
+    expect(alone.captures[0].warnings.some((w: string) => w.startsWith("one finger tested on its own"))).toBe(true);
+    // A reading of about 50 of the catalog's 100 deg PIP range (AAOS) with +-40 deg or more straddles both the 50% and
+    // the full-range (90%) lines of the Daniels grades: the grade asks for the range to be confirmed in person.
+    const note = alone.grade.inPerson.find((n: { reason: string }) => n.reason === "uncertain");
+    expect(note?.detail).toMatch(/straddles the 50% range line .* straddles the full-range \(90%\) line/);
+  });
+
   it("rejects mixed motions naming the second file and the field", () => {
     const other = { ...capture(40, "against_gravity"), motion: "wrist.extension" };
     expect(() => run({ "a.json": capture(60, "against_gravity"), "b.json": other })).toThrow(

@@ -76,6 +76,8 @@ function captureReport(file: string, a: CaptureAnalysis) {
     view: a.view,
     viewQuality: a.viewQuality,
     forearmSource: a.forearmSource,
+    // A finger tested on its own (the capture's oneFinger): its interval is the single-finger validation error.
+    oneFinger: a.oneFinger,
     repetitions: a.repetitions.map((r) => ({
       complete: r.complete,
       startDeg: round(r.startDeg),

@@ -13,6 +13,7 @@ describe("analyze-clip options", () => {
       side: "left",
       digit: "index",
       condition: "against_gravity",
+      oneFinger: false,
       out: "c.json",
       mjpegFps: DEFAULT_MJPEG_FPS,
       analyzeArgs: ["--scale", "mrc"],
@@ -37,6 +38,13 @@ describe("analyze-clip options", () => {
     expect(refusal([...BASE, "--fps", "0", "c.mjpeg"])).toBe('--fps: expected frames a second from 1 to 240, got "0"');
     expect(refusal([...BASE, "--out"])).toBe("--out: expected a value");
     expect(refusal([...BASE, "a.webm", "b.webm"])).toBe("CLIP: expected one video file, got 2");
+    expect(refusal(["--motion", "wrist.flexion", "--side", "left", "--condition", "against_gravity", "--one-finger", "c.webm"])).toBe(
+      "--one-finger: expected a finger's MCP, PIP or DIP motion with --digit index, middle, ring or little, got wrist.flexion",
+    );
+  });
+
+  it("takes --one-finger for a finger's joint motion", () => {
+    expect(parseClipArgs([...BASE, "--one-finger", "clip.webm"])).toMatchObject({ motion: "pip.flexion", digit: "index", oneFinger: true });
   });
 });
 

@@ -1,7 +1,7 @@
 /**
  * Command-line options of analyze-clip. Pure, so the unit test can check every refusal without a browser.
  */
-import { CONDITIONS, DIGITS, MOTIONS, MOTION_IDS, SIDES, digitAllowed, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
+import { CONDITIONS, DIGITS, MOTIONS, MOTION_IDS, SIDES, digitAllowed, isOneFingerMotion, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
 
 /** Bad flags, a missing file, a file that is not a video, a clip without a hand: exit status 2. */
 export class ClipInputError extends Error {}
@@ -11,6 +11,8 @@ export interface ClipOptions {
   side: Side;
   digit: Digit | null;
   condition: Condition;
+  /** `--one-finger`: the finger bent on its own, the others held straight (read with the single-finger error). */
+  oneFinger: boolean;
   out: string | null;
   /** Frame rate to read an MJPEG stream at (it carries none); other containers state their own. */
   mjpegFps: number;
@@ -31,6 +33,7 @@ export function parseClipArgs(argv: readonly string[]): ClipOptions {
   const given: Partial<Record<"motion" | "side" | "digit" | "condition" | "out" | "fps", string>> = {};
   const analyzeArgs: string[] = [];
   const clips: string[] = [];
+  let oneFinger = false;
   for (let i = 0; i < argv.length; i++) {
     const arg = argv[i];
     const value = () => {
@@ -40,10 +43,12 @@ export function parseClipArgs(argv: readonly string[]): ClipOptions {
     };
     if (arg === "--motion" || arg === "--side" || arg === "--digit" || arg === "--condition" || arg === "--out" || arg === "--fps") {
       given[arg.slice(2) as keyof typeof given] = value();
+    } else if (arg === "--one-finger") {
+      oneFinger = true;
     } else if (arg === "--scale" || arg === "--reference" || arg === "--table") {
       analyzeArgs.push(arg, value());
     } else if (arg.startsWith("--")) {
-      throw new ClipInputError(`${arg}: unknown option (expected --motion, --side, --digit, --condition, --out, --fps, --scale, --reference, --table)`);
+      throw new ClipInputError(`${arg}: unknown option (expected --motion, --side, --digit, --condition, --one-finger, --out, --fps, --scale, --reference, --table)`);
     } else {
       clips.push(arg);
     }
@@ -59,11 +64,12 @@ export function parseClipArgs(argv: readonly string[]): ClipOptions {
   }
   if (given.condition === undefined) throw new ClipInputError(`--condition: expected ${CONDITIONS.join(" or ")}`);
   const condition = oneOf("--condition", given.condition, CONDITIONS);
+  if (oneFinger && !isOneFingerMotion(motion, digit)) throw new ClipInputError(`--one-finger: expected a finger's MCP, PIP or DIP motion with --digit index, middle, ring or little, got ${motion}${digit ? ` --digit ${digit}` : ""}`);
   let mjpegFps = DEFAULT_MJPEG_FPS;
   if (given.fps !== undefined) {
     mjpegFps = Number(given.fps);
     if (!Number.isFinite(mjpegFps) || mjpegFps < 1 || mjpegFps > 240) throw new ClipInputError(`--fps: expected frames a second from 1 to 240, got ${JSON.stringify(given.fps)}`);
   }
   if (clips.length !== 1) throw new ClipInputError(clips.length === 0 ? "CLIP: expected a video file (webm, mp4 or mjpeg)" : `CLIP: expected one video file, got ${clips.length}`);
-  return { motion, side, digit, condition, out: given.out ?? null, mjpegFps, analyzeArgs, clip: clips[0] };
+  return { motion, side, digit, condition, oneFinger, out: given.out ?? null, mjpegFps, analyzeArgs, clip: clips[0] };
 }
