@@ -57,6 +57,13 @@ describe("one finger tested on its own", () => {
     for (const [u, b] of pairs) expect(u!).toBeGreaterThan(b!);
   });
 
+  it("says a finger seen not to move on its own is no evidence that it cannot", () => {
+    const still = (oneFinger: boolean) => analyzeCapture({ ...capture(oneFinger, "pip.flexion"), frames: capture(false).frames.slice(0, 20) });
+    expect(still(true).reps).toBe(0);
+    expect(still(true).warnings.find((w) => w.startsWith("no repetition found"))).toMatch(/not evidence that it cannot move/);
+    expect(still(false).warnings.find((w) => w.startsWith("no repetition found"))).not.toMatch(/cannot move/);
+  });
+
   it("is ignored where it does not apply (a wrist motion)", () => {
     const wrist = buildSyntheticCapture({ motion: "wrist.flexion", side: "right", digit: null, condition: "against_gravity", placement: ULNAR_VIEW, reps: [{ peakDeg: 60 }] });
     const plain = analyzeCapture(wrist);

@@ -355,7 +355,13 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       );
     }
     if (frames > 0 && usable / frames < 0.8) warnings.push(`only ${usable} of ${frames} frames had a usable hand`);
-    if (usable > 0 && repetitions.length === 0) warnings.push("no repetition found: the joint did not move clearly away from its resting angle");
+    if (usable > 0 && repetitions.length === 0) {
+      warnings.push(
+        "no repetition found: the joint did not move clearly away from its resting angle" +
+          // On renders a finger bent on its own behind the others showed no bend at all (scripts/accuracy/README.md).
+          (oneFinger ? "; a finger bent on its own, above all one hidden behind the others, may not show at all, so this is not evidence that it cannot move" : ""),
+      );
+    }
     if (repetitions.some((r) => !r.complete)) warnings.push("the capture ended before the last repetition returned to rest");
     if (palmContinuity.mirroredFrames > 0) {
       warnings.push(`in ${palmContinuity.mirroredFrames} of ${usable} usable frames the tracker saw the hand mirrored front to back; they were read the right way round`);
