@@ -52,6 +52,8 @@ import type { HandModelVariant } from "./tracked-set";
 export const CLIP_VALIDATION_SEEDS = [20_261_210, 20_261_209, 20_261_207, 20_261_205] as const;
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  20261214:
+    "Rendered and tracked after the one-finger handling (the therapist's `oneFinger`, the single-finger cells from report.md's stills) was committed; read once. Nothing is fitted on it.",
   20261210:
     "Never looked at before these figures were written: rendered and tracked while the picture-feature fit (kinarc-correction-6) was being chosen on training seeds 77000401-77000405, read only after it was committed to.",
   20261209:
@@ -433,24 +435,28 @@ export interface ClipSection {
 
 export function clipReport(
   sections: readonly ClipSection[],
-  meta: { glName: string; condition?: Condition; views?: readonly CameraView[]; withoutStraightWrist?: readonly WithoutStraightWristRow[] },
+  meta: { glName: string; condition?: Condition; views?: readonly CameraView[]; withoutStraightWrist?: readonly WithoutStraightWristRow[]; oneFinger?: boolean },
 ): string {
   const condition = meta.condition ?? "against_gravity";
   const where = meta.views
     ? `seen from ${meta.views.join(", ")} (views other than the recommended one, read by the whole-hand-shape estimators where they apply; issue 8's bars are set for the recommended view and are shown for reference)`
     : `in the view vision/view-policy.ts recommends ${CONDITION_WORDS[condition]}`;
+  const title = meta.views
+    ? `# Angle accuracy on held-out clips (continuous motion, seen from ${meta.views.join(", ")})`
+    : condition === "against_gravity"
+      ? "# Angle accuracy on held-out clips (continuous motion)"
+      : `# Angle accuracy on held-out clips (continuous motion, ${CONDITION_WORDS[condition]})`;
+  const fingers = meta.oneFinger
+    ? "One finger moves in each clip (index, middle, ring and little in turn), the others straight, read as the app reads a finger tested on its own (capture `oneFinger`: the single-finger error); issue 8's bars are set for four fingers together and are shown for reference."
+    : "Finger motions move all four fingers together; each finger is a reading.";
   const lines = [
-    meta.views
-      ? `# Angle accuracy on held-out clips (continuous motion, seen from ${meta.views.join(", ")})`
-      : condition === "against_gravity"
-        ? "# Angle accuracy on held-out clips (continuous motion)"
-        : `# Angle accuracy on held-out clips (continuous motion, ${CONDITION_WORDS[condition]})`,
+    meta.oneFinger ? title.replace(/\)$/, ", one finger on its own)") : title,
     "",
     "Written by `npx tsx scripts/accuracy/clip-validation.ts` (see its header); do not edit by hand.",
     "",
     `- Held-out clips: per motion, half right hands and half left, each a still start ` +
       `(1 s; 3 s for the wrist, the straight-wrist reading), then ${CYCLES} cycles of ${CYCLE_SECONDS} s from rest to an end of range drawn from the seed and back, ${FPS} fps, ` +
-      `camera 0.3-0.7 m, skin, light and background drawn from the seed, ${where}. Finger motions move all four fingers together; each finger is a reading. Nothing is fitted on these seeds.`,
+      `camera 0.3-0.7 m, skin, light and background drawn from the seed, ${where}. ${fingers} Nothing is fitted on these seeds.`,
     "- Path: the app's tracking code frame by frame (step mode, as analyze-clip and the upload review), the upload's capture builder, the engine's capture analysis as shipped (correction where it clearly helps, wrist read against the clip's straight-wrist reading, depth mirror on); `without depth mirror` and `raw` (no correction, no depth mirror) for comparison. Side-on wrist flexion/extension is read in the picture (vision/wrist-axis.ts) in every reading, raw included; the finger estimator reads each finger's picture points as well as its 3-D ones (vision/estimator.ts PICTURE_FEATURES).",
     "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles. Within stated ±: the share of detected frames whose error lies inside the 90% interval the engine stated for that frame (vision/uncertainty.ts; about 90% is honest, far less is overconfident).",
     `- Renderer: ${meta.glName}.`,
@@ -463,7 +469,11 @@ export function clipReport(
       "",
       SEED_NOTES[section.seed] ?? "Held out from every fit.",
       "",
-      meta.views ? "### Against issue 8's bars (for reference: not the recommended view)" : "### Acceptance (issue 8: recommended view, after correction, every frame)",
+      meta.views
+        ? "### Against issue 8's bars (for reference: not the recommended view)"
+        : meta.oneFinger
+          ? "### Against issue 8's bars (for reference: the bars are for four fingers together)"
+          : "### Acceptance (issue 8: recommended view, after correction, every frame)",
       "",
       ...rows.filter((row) => row.variant === "engine").map((row) => `- ${row.label}, ${row.view}, ${row.model}: ${verdict(row)}`),
       "",
@@ -582,7 +592,7 @@ async function main(): Promise<void> {
   const renderer = await HandRenderer.start();
   const glName = await renderer.glRenderer();
   await renderer.close();
-  const text = clipReport(sections, { glName, condition, views, withoutStraightWrist: withoutStraightWristRows(withoutStraight) });
+  const text = clipReport(sections, { glName, condition, views, withoutStraightWrist: withoutStraightWristRows(withoutStraight), oneFinger: values["one-finger"] ?? false });
   writeFileSync(values.out ?? REPORT_FILES[condition], text);
   process.stdout.write(text);
   if (perClip.length) process.stdout.write(["", "| clip | model | side | digit | to ° | truth peak ° | peak ° | frame MAE ° | bias ° | reps | forearm | method |", ...perClip, ""].join("\n"));
