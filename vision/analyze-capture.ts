@@ -1,4 +1,4 @@
-import { isOneFingerMotion, MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
+import { MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
 import { createLivePipeline, type LiveUpdate, type LivePipelineOptions, type MeasurementMethod, type PipelineFrame } from "./pipeline";
 import type { PlaneReading } from "./plane";
 import type { Repetition } from "./reps";
@@ -118,7 +118,7 @@ export function analyzeCapture(capture: CaptureInput, { onUpdate, ...options }: 
     side: capture.side,
     digit: capture.digit,
     condition: capture.condition,
-    oneFinger: pipeline.options.oneFinger === true && isOneFingerMotion(capture.motion, capture.digit),
+    oneFinger: summary.oneFinger,
     frames: summary.frames,
     usableFrames: summary.usableFrames,
     meanScore: summary.meanScore,

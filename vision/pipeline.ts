@@ -129,6 +129,8 @@ export interface PipelineSummary {
   recommendedViews: readonly ValidationView[];
   /** Wrist motions: the forearm source of most usable frames (null for finger motions or with no usable frame). */
   forearmSource: ForearmSource | null;
+  /** Read as one finger tested on its own: `oneFinger` asked for, and the motion is one it applies to. */
+  oneFinger: boolean;
   correctionVersion: string | null;
   warnings: string[];
 }
@@ -410,6 +412,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       viewQuality: quality,
       recommendedViews: policy.recommended,
       forearmSource,
+      oneFinger,
       correctionVersion: correctedFrames > 0 ? correctionModel.version : null,
       warnings,
     };
