@@ -9,7 +9,17 @@ import { PlaneAccumulator, readPlane, unitGravity, type PlaneReading } from "./p
 import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
 import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
 import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, type CorrectionModel, type HandModel } from "./correction";
-import { angleUncertaintyDeg, correctionHelps, fingerAloneCell, fingerAloneUncertaintyDeg, UNCERTAINTY_TABLE, withoutStraightWristUncertaintyDeg, type UncertaintyTable, type ValidationView } from "./uncertainty";
+import {
+  angleUncertaintyDeg,
+  correctionHelps,
+  fingerAloneCell,
+  fingerAloneUncertaintyDeg,
+  UNCERTAINTY_TABLE,
+  validationCell,
+  withoutStraightWristUncertaintyDeg,
+  type UncertaintyTable,
+  type ValidationView,
+} from "./uncertainty";
 import { viewName, viewOfAxes, viewPolicy, viewQuality, type ViewPolicy, type ViewQuality } from "./view-policy";
 import { forearmFromNeutral, neutralReadingUncertaintyDeg, sideOnNeutral, sideOnWristFlexion, WRIST_AXIS_VALIDATION, type ForearmSource, type NeutralReading, type WristAxisValidation } from "./wrist-axis";
 
@@ -17,6 +27,26 @@ import { forearmFromNeutral, neutralReadingUncertaintyDeg, sideOnNeutral, sideOn
 export type MeasurementMethod = "world3d" | "image_plane" | `world3d+${string}`;
 
 /** A stored attempt's method in the therapist's words (the upload review shows it). */
+
+/**
+ * Where the held-out clips split a cell by finger and this finger read clearly worse than the fingers together (its
+ * interval at least 1.25 times the cell's: our threshold for "clearly"), its figures; null otherwise. From the thumb
+ * side, for one, the index finger stands in front of the others.
+ */
+export function fingerReadsWorse(
+  table: UncertaintyTable,
+  motion: MotionId,
+  digit: Digit | null,
+  model: HandModel,
+  view: ValidationView,
+): { fingerMaeDeg: number; cellMaeDeg: number } | null {
+  const group = correctionGroupFor(motion, digit)?.group;
+  const cell = group ? validationCell(table, group, model, view) : null;
+  const own = cell?.byDigit?.find((f) => f.digit === digit);
+  if (!cell || !own || cell.clipMaeDeg === undefined || own.uncertaintyDeg < 1.25 * cell.uncertaintyDeg) return null;
+  return { fingerMaeDeg: own.clipMaeDeg, cellMaeDeg: cell.clipMaeDeg };
+}
+
 export function measurementMethodWords(method: string | null): string {
   if (method === "image_plane") return "read in the picture, the hand seen side-on (no correction)";
   if (method === "world3d") return "3-D hand landmarks (raw angles, no correction)";
@@ -381,6 +411,13 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       warnings.push(`view: ${seen} in most frames, not the ${recommendedWords} this motion and position need; the motion did not lie square to the camera, so these angles come from a poor view`);
     } else if (quality === "usable") {
       warnings.push(`view: ${seen}; the ${recommendedWords} measures more truly (validation error is larger from this side)`);
+    }
+    const hidden = view && !oneFinger ? fingerReadsWorse(table, options.motion, options.digit, handModel, view) : null;
+    if (hidden) {
+      warnings.push(
+        `seen in a ${viewName(view!)}, the ${options.digit} finger reads less truly than the others: on held-out clips its angle was off by ${hidden.fingerMaeDeg.toFixed(0)} deg on average ` +
+          `(the four fingers together: ${hidden.cellMaeDeg.toFixed(0)} deg), so its ± is wider`,
+      );
     }
     let forearmSource: ForearmSource | null = null;
     for (const [source, n] of forearmCounts) if (!forearmSource || n > (forearmCounts.get(forearmSource) ?? 0)) forearmSource = source;

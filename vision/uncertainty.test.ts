@@ -101,6 +101,62 @@ describe("the committed table (vision/uncertainty-table.json) against its own fi
   });
 });
 
+describe("a cell split by finger (held-out clips per finger)", () => {
+  /** The committed table with one cell replaced by a made-up split: pooled figure, then index, middle, ring, little. */
+  const splitTable = (group: string, view: "radial" | "ulnar", pooled: { uncertaintyDeg: number; clipMaeDeg: number }, fingers: [number, number][]) => {
+    const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === group && c.view === view && c.model === "lite")!;
+    const digits = ["index", "middle", "ring", "little"] as const;
+    const byDigit = fingers.map(([clipMaeDeg, uncertaintyDeg], i) => ({ digit: digits[i], clipMaeDeg, uncertaintyDeg }));
+    return { ...UNCERTAINTY_TABLE, cells: UNCERTAINTY_TABLE.cells.map((c) => (c === cell ? { ...c, ...pooled, byDigit } : c)) } satisfies UncertaintyTable;
+  };
+  // Thumb-side PIP (lite) with the index finger read well and the hidden little finger badly.
+  const table = splitTable("PIP flexion", "radial", { uncertaintyDeg: 20, clipMaeDeg: 9 }, [
+    [4, 10],
+    [6, 12.4],
+    [11, 22.7],
+    [16, 33],
+  ]);
+  const split = table.cells.find((c) => c.byDigit && c.group === "PIP flexion" && c.view === "radial" && c.model === "lite")!;
+
+  it("gives each finger its own figure, widened by tracking score, and the pooled one to no finger in particular", () => {
+    expect(angleUncertaintyDeg("pip.flexion", "index", "lite", "radial", 0.95, table)).toBe(10);
+    expect(angleUncertaintyDeg("pip.flexion", "little", "lite", "radial", 0.95, table)).toBe(33);
+    expect(angleUncertaintyDeg("pip.flexion", "little", "lite", "radial", 0.5, table)).toBe(66);
+    expect(baseUncertaintyDeg(table, "PIP flexion", "lite", "radial")).toBe(20);
+    // The raw method has no per-finger figure: the cell's raw one stands for every finger.
+    expect(baseUncertaintyDeg(table, "PIP flexion", "lite", "radial", "raw", "index")).toBe(baseUncertaintyDeg(table, "PIP flexion", "lite", "radial", "raw"));
+  });
+
+  it("an analysis of a hidden finger carries its own figure and says why; a finger read well gets no note", () => {
+    // Seen from the little-finger side (the synthetic hand's placement), a made-up split of that view's MCP cell.
+    const placement: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, 1], wrist: [0, 0, 0.5] };
+    const uncertaintyTable = splitTable("MCP flexion", "ulnar", { uncertaintyDeg: 10, clipMaeDeg: 4.9 }, [
+      [9.7, 20],
+      [4, 8.2],
+      [3, 8.2],
+      [3, 8.2],
+    ]);
+    const read = (digit: "index" | "ring") => {
+      const capture = buildSyntheticCapture({ motion: "mcp.flexion", side: "right", digit, condition: "against_gravity", placement, reps: [{ peakDeg: 70 }], seed: 3 });
+      const meanScore = capture.frames.filter((f) => f.hand).reduce((sum, f) => sum + f.score, 0) / capture.frames.filter((f) => f.hand).length;
+      return { result: analyzeCapture(capture, { uncertaintyTable }), factor: trackingFactor(meanScore) };
+    };
+    const index = read("index");
+    expect(index.result.view).toBe("ulnar");
+    expect(index.result.uncertaintyDeg).toBeCloseTo(20 * index.factor, 1);
+    expect(index.result.warnings).toContain("seen in a little-finger-side view, the index finger reads less truly than the others: on held-out clips its angle was off by 10 deg on average (the four fingers together: 5 deg), so its ± is wider");
+    const ring = read("ring");
+    expect(ring.result.uncertaintyDeg).toBeCloseTo(8.2 * ring.factor, 1);
+    expect(ring.result.warnings.some((w) => w.includes("reads less truly"))).toBe(false);
+  });
+
+  it("with the view unknown, takes the worst view for that finger", () => {
+    const others = table.cells.filter((c) => c.group === "PIP flexion" && c.model === "lite" && c !== split).map((c) => c.uncertaintyDeg);
+    expect(baseUncertaintyDeg(table, "PIP flexion", "lite", null, "engine", "little")).toBe(Math.max(33, ...others));
+    expect(baseUncertaintyDeg(table, "PIP flexion", "lite", null, "engine", "index")).toBe(Math.max(10, ...others));
+  });
+});
+
 describe("a wrist read against how the hand was first seen (no straight-wrist reading)", () => {
   const table: UncertaintyTable = { ...UNCERTAINTY_TABLE, withoutStraightWristReading: { readings: 11, maeDeg: 20, uncertaintyDeg: 41.2 } };
 

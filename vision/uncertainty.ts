@@ -41,6 +41,18 @@ export interface ValidationCell {
   correctionHelps: boolean;
   /** Half-width of the 90% interval for the method the engine uses here (see UncertaintyTable.rule). */
   uncertaintyDeg: number;
+  /**
+   * Where the held-out clips were split by finger: each finger's figure. A view can see some fingers well and hide
+   * others (from the thumb side the index finger stands in front of the rest), so a finger's reading takes its own.
+   */
+  byDigit?: DigitFigure[];
+}
+
+/** One finger's held-out clip figure within a cell, and its interval (the cell's still figure as a floor). */
+export interface DigitFigure {
+  digit: Exclude<Digit, "thumb">;
+  clipMaeDeg: number;
+  uncertaintyDeg: number;
 }
 
 /**
@@ -113,14 +125,15 @@ export function correctionHelps(table: UncertaintyTable, group: string, model: H
 /** Which method's error a figure is for: the one the engine uses in the cell, or raw 3-D angles (correction off). */
 export type UncertaintyMethod = "engine" | "raw";
 
-function cellUncertaintyDeg(cell: ValidationCell, method: UncertaintyMethod): number {
-  if (method === "engine") return cell.uncertaintyDeg;
+function cellUncertaintyDeg(cell: ValidationCell, method: UncertaintyMethod, digit: Digit | null): number {
+  if (method === "engine") return cell.byDigit?.find((f) => f.digit === digit)?.uncertaintyDeg ?? cell.uncertaintyDeg;
   return Math.round(uncertaintyFromMaeDeg(Math.max(cell.rawMaeDeg, cell.rawAnyPoseMaeDeg ?? 0, cell.clipRawMaeDeg ?? 0)) * 10) / 10;
 }
 
 /**
- * The validation uncertainty before any tracking factor. Where the view (or model) is unknown, or the report has no
- * cell for it, the worst cell of that group is taken. Null when the report has no figure for the group at all.
+ * The validation uncertainty before any tracking factor: the finger's own figure where the cell is split by finger.
+ * Where the view (or model) is unknown, or the report has no cell for it, the worst cell of that group is taken. Null
+ * when the report has no figure for the group at all.
  */
 export function baseUncertaintyDeg(
   table: UncertaintyTable,
@@ -128,12 +141,13 @@ export function baseUncertaintyDeg(
   model: HandModel | null,
   view: ValidationView | null,
   method: UncertaintyMethod = "engine",
+  digit: Digit | null = null,
 ): number | null {
   const exact = model && view ? validationCell(table, group, model, view) : null;
-  if (exact) return cellUncertaintyDeg(exact, method);
+  if (exact) return cellUncertaintyDeg(exact, method, digit);
   const candidates = cellsFor(table, group, model);
   const pool = candidates.length ? candidates : cellsFor(table, group, null);
-  return pool.length ? Math.max(...pool.map((c) => cellUncertaintyDeg(c, method))) : null;
+  return pool.length ? Math.max(...pool.map((c) => cellUncertaintyDeg(c, method, digit))) : null;
 }
 
 /**
@@ -187,7 +201,7 @@ export function angleUncertaintyDeg(
   // The middle finger's spread has no fit but is the same joint geometry as the other fingers' spread.
   const group = target?.group ?? (motion.startsWith("finger.") ? "finger abduction" : null);
   if (!group) return null;
-  const base = baseUncertaintyDeg(table, group, model, view, method);
+  const base = baseUncertaintyDeg(table, group, model, view, method, digit);
   return base === null ? null : widenedByScore(base, score);
 }
 

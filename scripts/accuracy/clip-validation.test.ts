@@ -5,6 +5,7 @@ import type { TrackedFrame } from "@/vision/live/types";
 import {
   CLIP_MOTIONS,
   clipReport,
+  fingerRows,
   parseMinConfidence,
   parseSensorNoise,
   planClips,
@@ -169,6 +170,26 @@ describe("reading a clip against its truth", () => {
     expect(clipReport([{ seed: 1, clips: 1, rows: [row] }], { glName: "test" })).toContain("- PIP flexion, ulnar, lite: meets (MAE 4.00 of at most 5, slope 1.00 in 0.9-1.1, detected 100% of at least 95%)");
     const worse = { ...row, ...summarizeClipReadings([make(76, 2, 6)]) };
     expect(clipReport([{ seed: 1, clips: 1, rows: [worse] }], { glName: "test" })).toContain("- PIP flexion, ulnar, lite: misses (MAE 6.00 of at most 5");
+  });
+
+  it("splits the engine's finger readings by finger, in the hand's order, and leaves other variants out", () => {
+    const make = (digit: "index" | "ring", errorDeg: number, variant: "engine" | "raw" = "engine"): ClipReading => ({
+      ...readClip(plan, "lite", digit, frames, truth, "raw"),
+      variant,
+      samples: anglesDeg.map((deg) => ({ truthDeg: deg, estimateDeg: deg + errorDeg })),
+    });
+    const rows = fingerRows("PIP flexion", "radial", "lite", [make("ring", 9), make("index", 2), make("ring", -3), make("index", 40, "raw")]);
+    expect(rows.map((r) => [r.digit, r.summary.readings])).toEqual([
+      ["index", 1],
+      ["ring", 2],
+    ]);
+    // Every frame detected, both ring readings the same length: the ring finger's MAE is the mean of 9 and 3.
+    expect(rows[0].summary.frames.meanAbsoluteErrorDeg).toBeCloseTo(2, 9);
+    expect(rows[1].summary.frames.meanAbsoluteErrorDeg).toBeCloseTo(6, 9);
+    const text = clipReport([{ seed: 1, clips: 1, rows: [], byFinger: rows }], { glName: "test" });
+    expect(text).toContain("### By finger (engine)");
+    expect(text).toContain("| PIP flexion | radial | lite | ring | 2 | 100% | 3.0 | 6.00 |");
+    expect(clipReport([{ seed: 1, clips: 1, rows: [] }], { glName: "test" })).not.toContain("By finger");
   });
 
   it("lists the readings made without a straight-wrist reading per model, in a table the uncertainty script reads back", () => {

@@ -23,6 +23,9 @@
  * `--one-finger` moves one finger only (index, middle, ring, little in turn), its neighbours straight, and scores that
  * finger: clips named `<motion>-alone-...` (what a finger tested on its own reads); write those with `--out`.
  *
+ * Each seed's section ends with the engine's finger readings split by finger ("By finger"): a view may see some fingers
+ * well and hide others, and derive-uncertainty.ts gives each finger its own interval where every seed was split.
+ *
  * `--condition gravity_minimized` renders the same motions in the view the policy recommends with gravity minimized
  * (the thumb side, from above a hand resting on its edge) and writes clip-report-gravity-minimized.md instead.
  */
@@ -52,6 +55,8 @@ import type { HandModelVariant } from "./tracked-set";
 export const CLIP_VALIDATION_SEEDS = [20_261_210, 20_261_209, 20_261_207, 20_261_205] as const;
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  20261215:
+    "Rendered and tracked while the per-finger intervals (derive-uncertainty.ts byDigit, from seeds 20261210 and 20261207) were being committed; read once, after. Nothing is fitted on it.",
   20261214:
     "Rendered and tracked after the one-finger handling (the therapist's `oneFinger`, the single-finger cells from report.md's stills) was committed; read once. Nothing is fitted on it.",
   20261210:
@@ -427,10 +432,32 @@ export function withoutStraightWristRows(readings: readonly ClipReading[]): With
 /** The report's table header of those readings (scripts/accuracy/derive-uncertainty.ts finds the table by it). */
 export const WITHOUT_STRAIGHT_WRIST_HEADER = "| forearm line | model | readings | frames | detected | bias ° | MAE ° | peak MAE ° | clips |";
 
+/** One finger's engine readings of a finger motion in one view and model: where a group's error comes from. */
+export interface FingerRow {
+  label: string;
+  view: CameraView;
+  model: HandModelVariant;
+  digit: Digit;
+  summary: Omit<ClipRow, "label" | "variant" | "bar" | "view" | "model">;
+}
+
+/** The engine's readings of finger motions split by finger, in the order of `FINGERS`. */
+export function fingerRows(label: string, view: CameraView, model: HandModelVariant, readings: readonly ClipReading[]): FingerRow[] {
+  return FINGERS.flatMap((digit) => {
+    const mine = readings.filter((r) => r.variant === "engine" && r.digit === digit);
+    return mine.length ? [{ label, view, model, digit, summary: summarizeClipReadings(mine) }] : [];
+  });
+}
+
+/** The report's header of the per-finger table (scripts/accuracy/derive-uncertainty.ts may find the table by it). */
+export const BY_FINGER_HEADER = "| motion | view | model | finger | readings | detected | bias ° | MAE ° | slope | within 10° | peak MAE ° | within stated ± |";
+
 export interface ClipSection {
   seed: number;
   clips: number;
   rows: readonly ClipRow[];
+  /** The engine's finger readings split by finger (absent in reports written before it). */
+  byFinger?: readonly FingerRow[];
 }
 
 export function clipReport(
@@ -485,6 +512,22 @@ export function clipReport(
           `${fmt(row.frames.slope, 2)} | ${pct(row.frames.within5)} | ${pct(row.frames.within10)} | ${fmt(row.peakMaeDeg)} | ${fmt(row.peakWorstDeg)} | ${row.repsRight}/${row.readings} | ${row.neutralUsed} | ${pct(row.withinStated)} |`,
       ),
     );
+    if (section.byFinger?.length) {
+      lines.push(
+        "",
+        "### By finger (engine)",
+        "",
+        "The engine's finger readings above, split by finger: which fingers the view sees well and which it hides.",
+        "",
+        BY_FINGER_HEADER,
+        "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
+        ...section.byFinger.map(
+          (row) =>
+            `| ${row.label} | ${row.view} | ${row.model} | ${row.digit} | ${row.summary.readings} | ${pct(row.summary.frames.detectionRate)} | ${fmt(row.summary.frames.biasDeg)} | ` +
+            `${fmt(row.summary.frames.meanAbsoluteErrorDeg, 2)} | ${fmt(row.summary.frames.slope, 2)} | ${pct(row.summary.frames.within10)} | ${fmt(row.summary.peakMaeDeg)} | ${pct(row.summary.withinStated)} |`,
+        ),
+      );
+    }
   }
   if (meta.withoutStraightWrist?.length) {
     lines.push(
@@ -568,6 +611,7 @@ async function main(): Promise<void> {
     const plans = views ? views.flatMap((view) => planClips(seed, clips, condition, motions, view, oneFinger)) : planClips(seed, clips, condition, motions, undefined, oneFinger);
     await renderClips(plans, folder, reuse);
     const rows: ClipRow[] = [];
+    const byFinger: FingerRow[] = [];
     for (const model of models) {
       const tracked = await trackClips(plans, folder, model, reuse, minConfidence, sensorNoise);
       for (const group of ["mcp.flexion", "pip.flexion", "dip.flexion", "wrist.flexion"] as const) {
@@ -582,12 +626,13 @@ async function main(): Promise<void> {
             });
             if (values["per-clip"] && variant === "engine") perClip.push(...readings.map(perClipLine));
             if (variant === "engine") withoutStraight.push(...readings.filter((r) => r.forearmSource === "capture-start"));
+            if (variant === "engine" && group !== "wrist.flexion") byFinger.push(...fingerRows(label, view, model, readings));
             rows.push({ label, variant, bar: group, view, model, ...summarizeClipReadings(readings) });
           }
         }
       }
     }
-    sections.push({ seed, clips, rows });
+    sections.push({ seed, clips, rows, byFinger });
   }
   const renderer = await HandRenderer.start();
   const glName = await renderer.glRenderer();

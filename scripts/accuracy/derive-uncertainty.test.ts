@@ -9,8 +9,10 @@ import {
   deriveCommittedTable,
   deriveUncertaintyTable,
   parseAccuracyReport,
+  parseClipFingerRows,
   parseClipReports,
   parseWithoutStraightWrist,
+  readClipFingerRows,
   readClipRows,
   readHandShapeRows,
   REPORT_FILE,
@@ -23,7 +25,9 @@ describe("uncertainty table from the accuracy report", () => {
     expect(deriveCommittedTable()).toEqual(UNCERTAINTY_TABLE);
     // Without the clip reports' wrist rows the rest of the table is the same.
     const { withoutStraightWristReading, ...cells } = UNCERTAINTY_TABLE;
-    expect(deriveUncertaintyTable(report, readHandShapeRows(), CORRECTION_VERSION, readClipRows())).toEqual(cells);
+    expect(deriveUncertaintyTable(report, readHandShapeRows(), CORRECTION_VERSION, readClipRows(), null, readClipFingerRows())).toEqual(cells);
+    // The held-out gravity-minimized clips are split by finger (clip-report-gravity-minimized.md, "By finger").
+    expect(UNCERTAINTY_TABLE.cells.filter((c) => c.byDigit).map((c) => `${c.group}|${c.view}`)).toContain("PIP flexion|radial");
     expect(withoutStraightWristReading).toBeDefined();
   });
 
@@ -57,13 +61,58 @@ describe("uncertainty table from the accuracy report", () => {
     expect(rows.some((r) => r.view === "radial" && r.group === "MCP flexion")).toBe(true);
   });
 
+  it("splits a clip-measured cell by finger only where every seed that measured it was split", () => {
+    // Two seeds of the thumb-side MCP cell (lite), each with its engine row; the finger table only under the first.
+    const motionTable = (mae: number) =>
+      [
+        "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope |",
+        "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: |",
+        `| MCP flexion | radial | lite | engine | 40 | 100 | 99% | 0.1 | ${mae} | 0.9 |`,
+        `| MCP flexion | radial | lite | raw | 40 | 100 | 99% | 0.1 | 30 | 0.9 |`,
+      ].join("\n");
+    const fingerTable = (maes: number[]) =>
+      [
+        "### By finger (engine)",
+        "",
+        "| motion | view | model | finger | readings | detected | bias ° | MAE ° | slope | within 10° | peak MAE ° | within stated ± |",
+        "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
+        ...["index", "middle", "ring", "little"].map((finger, i) => `| MCP flexion | radial | lite | ${finger} | 10 | 100% | 0.0 | ${maes[i]} | 1.00 | 90% | 3.0 | 90% |`),
+      ].join("\n");
+    const seedA = `## Seed 1\n\n${motionTable(8)}\n\n${fingerTable([3, 4, 9, 16])}\n`;
+    const seedB = `## Seed 2\n\n${motionTable(7)}\n\n${fingerTable([2, 5, 12, 11])}\n`;
+    // The finger table is not read as motion rows, and the motion rows count their seeds.
+    expect(parseClipReports([seedA, seedB])).toEqual([{ group: "MCP flexion", view: "radial", model: "lite", engineMaeDeg: 8, rawMaeDeg: 30, seeds: 2 }]);
+    const fingers = parseClipFingerRows([seedA, seedB]);
+    expect(fingers.map((r) => [r.digit, r.engineMaeDeg, r.seeds])).toEqual([
+      ["index", 3, 2],
+      ["middle", 5, 2],
+      ["ring", 12, 2],
+      ["little", 16, 2],
+    ]);
+    const cellOf = (table: ReturnType<typeof deriveUncertaintyTable>) => table.cells.find((c) => c.group === "MCP flexion" && c.view === "radial" && c.model === "lite")!;
+    const split = cellOf(deriveUncertaintyTable(report, [], CORRECTION_VERSION, parseClipReports([seedA, seedB]), null, fingers));
+    // The still figure is the floor: report.md's corrected thumb-side MCP (lite) is 5.3, above the index finger's 3.
+    expect(split.correctedMaeDeg).toBe(5.3);
+    expect(split.byDigit?.map((f) => [f.digit, f.uncertaintyDeg])).toEqual([
+      ["index", Math.round(2.0615 * 5.3 * 10) / 10],
+      ["middle", Math.round(2.0615 * 5.3 * 10) / 10],
+      ["ring", Math.round(2.0615 * 12 * 10) / 10],
+      ["little", Math.round(2.0615 * 16 * 10) / 10],
+    ]);
+    // The pooled figure stays for readings of no one finger: the worse seed's engine MAE, 8.
+    expect(split.uncertaintyDeg).toBe(Math.round(2.0615 * 8 * 10) / 10);
+    // A third seed without a finger table: the cell is not split.
+    const unsplit = cellOf(deriveUncertaintyTable(report, [], CORRECTION_VERSION, parseClipReports([seedA, seedB, `## Seed 3\n\n${motionTable(6)}\n`]), null, fingers));
+    expect(unsplit.byDigit).toBeUndefined();
+  });
+
   it("names the clip row whose MAE is not a number", () => {
     const table = [
       "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope |",
       "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: |",
       "| PIP flexion | ulnar | lite | engine | 40 | 100 | 99% | 0.1 | x | 0.9 |",
     ].join("\n");
-    expect(() => parseClipReports([table])).toThrow(/PIP flexion, ulnar, lite, engine.*expected a number of degrees for MAE, got "x"/);
+    expect(() => parseClipReports([table])).toThrow(/motion row "PIP flexion, ulnar, lite, engine": expected a number of degrees for MAE °, got "x"/);
   });
 
   it("reads the report's own rows: PIP flexion, ulnar view, lite model, 27.3 raw and 4.2 corrected", () => {

@@ -9,8 +9,9 @@
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
+import { FINGERS } from "@/lib/motions/catalog";
 import { CORRECTION_VERSION, type HandModel } from "@/vision/correction";
-import { uncertaintyFromMaeDeg, VALIDATION_VIEWS, type FingerAloneCell, type UncertaintyTable, type ValidationCell, type ValidationView } from "@/vision/uncertainty";
+import { uncertaintyFromMaeDeg, VALIDATION_VIEWS, type DigitFigure, type FingerAloneCell, type UncertaintyTable, type ValidationCell, type ValidationView } from "@/vision/uncertainty";
 
 const HERE = path.dirname(fileURLToPath(import.meta.url));
 export const REPORT_FILE = path.join(HERE, "report.md");
@@ -42,7 +43,54 @@ export interface ClipRow {
   engineMaeDeg: number;
   /** No correction, no depth mirror. */
   rawMaeDeg: number;
+  /** How many seeds' engine rows measured it. */
+  seeds: number;
 }
+
+/** A row of a markdown table, its cells looked up by the table's column names. */
+interface TableRow {
+  cells: string[];
+  at: (name: string) => string;
+}
+
+/**
+ * The body rows of every table in `markdowns` whose header `wants` (a header is the row right above a `| --- |` line;
+ * a table ends at the first line that is not a row).
+ */
+function tableRows(markdowns: readonly string[], wants: (header: readonly string[]) => boolean): TableRow[] {
+  const out: TableRow[] = [];
+  for (const markdown of markdowns) {
+    const lines = markdown.split("\n").map((line) => line.trim());
+    let columns: string[] | null = null;
+    lines.forEach((text, i) => {
+      if (!text.startsWith("|")) {
+        columns = null;
+        return;
+      }
+      const cells = tableCells(text);
+      if (cells[0].startsWith("---")) return;
+      if (lines[i + 1]?.startsWith("| ---")) {
+        columns = wants(cells) ? cells : null;
+        return;
+      }
+      const header = columns;
+      if (header) out.push({ cells, at: (name: string) => cells[header.indexOf(name)] });
+    });
+  }
+  return out;
+}
+
+/** A figure of a table row, named in the error when it is not a number (a trailing % is dropped). */
+function rowNumber(row: TableRow, name: string, what: string, kind: "motion" | "finger" | "wrist"): number {
+  const value = Number(row.at(name).replace(/%$/, ""));
+  // The cells that name the row: motion, view, model and reading (or finger); the wrist table's forearm line and model.
+  const naming = row.cells.slice(0, kind === "wrist" ? 2 : 4).join(", ");
+  if (!Number.isFinite(value)) throw new Error(`clip report: ${kind} row "${naming}": expected ${what} for ${name}, got "${row.at(name)}"`);
+  return value;
+}
+
+/** The per-motion tables: one row per reading method (the per-finger table below them has no "reading" column). */
+const isMotionTable = (header: readonly string[]) => header[0] === "motion" && header.includes("reading");
 
 /**
  * The clip reports' frame MAE per group, view and model, the worst over their seeds (and reports), for the engine and
@@ -50,73 +98,64 @@ export interface ClipRow {
  */
 export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
   const rows = new Map<string, ClipRow>();
-  for (const markdown of markdowns) {
-    let columns: string[] | null = null;
-    for (const line of markdown.split("\n")) {
-      const text = line.trim();
-      if (!text.startsWith("|")) continue;
-      const cells = tableCells(text);
-      if (cells[0] === "motion") {
-        columns = cells;
-        continue;
-      }
-      // Another table (parseWithoutStraightWrist reads it): its rows are not per-motion rows.
-      if (cells[0] === "forearm line") {
-        columns = null;
-        continue;
-      }
-      if (!columns || cells[0].startsWith("---")) continue;
-      const at = (name: string) => cells[columns!.indexOf(name)];
-      const reading = at("reading");
-      if (reading !== "engine" && reading !== "raw") continue;
-      const mae = Number(at("MAE °"));
-      if (!Number.isFinite(mae)) throw new Error(`clip report: row "${cells.slice(0, 4).join(", ")}": expected a number of degrees for MAE, got "${at("MAE °")}"`);
-      const key = `${cells[0]}|${at("view")}|${at("model")}`;
-      const row = rows.get(key) ?? { group: cells[0], view: at("view"), model: at("model"), engineMaeDeg: 0, rawMaeDeg: 0 };
-      if (reading === "engine") row.engineMaeDeg = Math.max(row.engineMaeDeg, mae);
-      else row.rawMaeDeg = Math.max(row.rawMaeDeg, mae);
-      rows.set(key, row);
-    }
+  for (const r of tableRows(markdowns, isMotionTable)) {
+    const reading = r.at("reading");
+    if (reading !== "engine" && reading !== "raw") continue;
+    const mae = rowNumber(r, "MAE °", "a number of degrees", "motion");
+    const key = `${r.cells[0]}|${r.at("view")}|${r.at("model")}`;
+    const row = rows.get(key) ?? { group: r.cells[0], view: r.at("view"), model: r.at("model"), engineMaeDeg: 0, rawMaeDeg: 0, seeds: 0 };
+    if (reading === "engine") {
+      row.engineMaeDeg = Math.max(row.engineMaeDeg, mae);
+      row.seeds += 1;
+    } else row.rawMaeDeg = Math.max(row.rawMaeDeg, mae);
+    rows.set(key, row);
   }
   return [...rows.values()];
 }
 
 /**
- * The clip reports' wrist readings made without a straight-wrist reading (clip-validation.ts
- * WITHOUT_STRAIGHT_WRIST_HEADER), pooled: the frame MAE over all their detected frames. Null when no report has any.
- * Throws naming the row when a figure is not a number.
+ * Held-out wrist readings made without a straight-wrist reading, pooled over the reports: their count and the frame
+ * MAE over their detected frames. Null when the reports hold none.
  */
 export function parseWithoutStraightWrist(markdowns: readonly string[]): { readings: number; maeDeg: number } | null {
   let readings = 0;
   let detectedFrames = 0;
   let errorSum = 0;
-  for (const markdown of markdowns) {
-    let columns: string[] | null = null;
-    for (const line of markdown.split("\n")) {
-      const text = line.trim();
-      if (!text.startsWith("|")) {
-        columns = null;
-        continue;
-      }
-      const cells = tableCells(text);
-      if (cells[0] === "forearm line") {
-        columns = cells;
-        continue;
-      }
-      if (!columns || cells[0].startsWith("---")) continue;
-      const at = (name: string) => cells[columns!.indexOf(name)];
-      const number = (name: string, what: string) => {
-        const value = Number(at(name).replace(/%$/, ""));
-        if (!Number.isFinite(value)) throw new Error(`clip report: wrist row "${cells.slice(0, 2).join(", ")}": expected ${what} for ${name}, got "${at(name)}"`);
-        return value;
-      };
-      const detected = number("frames", "a count") * (number("detected", "a percentage") / 100);
-      readings += number("readings", "a count");
-      detectedFrames += detected;
-      errorSum += detected * number("MAE °", "a number of degrees");
-    }
+  for (const r of tableRows(markdowns, (header) => header[0] === "forearm line")) {
+    const detected = rowNumber(r, "frames", "a count", "wrist") * (rowNumber(r, "detected", "a percentage", "wrist") / 100);
+    readings += rowNumber(r, "readings", "a count", "wrist");
+    detectedFrames += detected;
+    errorSum += detected * rowNumber(r, "MAE °", "a number of degrees", "wrist");
   }
   return readings > 0 && detectedFrames > 0 ? { readings, maeDeg: Math.round((errorSum / detectedFrames) * 100) / 100 } : null;
+}
+
+/** A held-out clip figure for one finger: the engine's worst frame MAE over the reports' seeds. */
+export interface ClipFingerRow {
+  group: string;
+  view: string;
+  model: string;
+  digit: string;
+  engineMaeDeg: number;
+  /** How many seeds measured it (a cell is split by finger only where every seed that measured it was split). */
+  seeds: number;
+}
+
+/**
+ * The clip reports' per-finger tables (clip-validation.ts "By finger (engine)"): per group, view, model and finger,
+ * the worst engine frame MAE over the seeds. Throws naming the row when a figure is not a number.
+ */
+export function parseClipFingerRows(markdowns: readonly string[]): ClipFingerRow[] {
+  const rows = new Map<string, ClipFingerRow>();
+  for (const r of tableRows(markdowns, (header) => header[0] === "motion" && header.includes("finger"))) {
+    const mae = rowNumber(r, "MAE °", "a number of degrees", "finger");
+    const key = `${r.cells[0]}|${r.at("view")}|${r.at("model")}|${r.at("finger")}`;
+    const row = rows.get(key) ?? { group: r.cells[0], view: r.at("view"), model: r.at("model"), digit: r.at("finger"), engineMaeDeg: 0, seeds: 0 };
+    row.engineMaeDeg = Math.max(row.engineMaeDeg, mae);
+    row.seeds += 1;
+    rows.set(key, row);
+  }
+  return [...rows.values()];
 }
 
 /** The committed clip reports' text (none for a report not yet written). */
@@ -127,6 +166,11 @@ function readClipReports(files: readonly string[] = CLIP_REPORT_FILES): string[]
 /** The committed clip reports' rows. */
 export function readClipRows(files: readonly string[] = CLIP_REPORT_FILES): ClipRow[] {
   return parseClipReports(readClipReports(files));
+}
+
+/** The committed clip reports' per-finger rows. */
+export function readClipFingerRows(files: readonly string[] = CLIP_REPORT_FILES): ClipFingerRow[] {
+  return parseClipFingerRows(readClipReports(files));
 }
 
 /** A held-out cell of the whole-hand shapes: the figures the table needs. */
@@ -228,8 +272,16 @@ export function deriveUncertaintyTable(
   correctionVersion: string = CORRECTION_VERSION,
   clipRows: readonly ClipRow[] = [],
   withoutStraightWrist: { readings: number; maeDeg: number } | null = null,
+  clipFingerRows: readonly ClipFingerRow[] = [],
 ): UncertaintyTable {
   const clips = new Map(clipRows.map((r) => [`${r.group}|${r.view}|${r.model}`, r]));
+  // A cell is split by finger where every seed that measured it was split, for all four fingers.
+  const byDigitOf = (key: string, clip: ClipRow | undefined, stillMae: number): DigitFigure[] | null => {
+    if (!clip) return null;
+    const figures = FINGERS.map((digit) => clipFingerRows.find((r) => `${r.group}|${r.view}|${r.model}|${r.digit}` === `${key}|${digit}` && r.seeds === clip.seeds));
+    if (figures.some((r) => !r)) return null;
+    return figures.map((r) => ({ digit: FINGERS.find((f) => f === r!.digit)!, clipMaeDeg: r!.engineMaeDeg, uncertaintyDeg: round1(uncertaintyFromMaeDeg(Math.max(stillMae, r!.engineMaeDeg))) }));
+  };
   const cells: ValidationCell[] = [];
   const taken = new Set<string>();
   const handShapes = {
@@ -250,6 +302,7 @@ export function deriveUncertaintyTable(
       const anyPose = source === "hand shapes" ? report["random poses"]["raw 3-D"].find((r) => `${r.group}|${r.view}|${r.model}` === key)?.maeDeg : null;
       const clip = clips.get(key);
       const stillMae = helps ? correctedMae! : Math.max(raw.maeDeg, anyPose ?? 0);
+      const byDigit = byDigitOf(key, clip, stillMae);
       cells.push({
         group: raw.group,
         view: raw.view as ValidationView,
@@ -262,6 +315,7 @@ export function deriveUncertaintyTable(
         ...(clip ? { clipMaeDeg: clip.engineMaeDeg, clipRawMaeDeg: clip.rawMaeDeg } : {}),
         correctionHelps: helps,
         uncertaintyDeg: round1(uncertaintyFromMaeDeg(Math.max(stillMae, clip?.engineMaeDeg ?? 0))),
+        ...(byDigit ? { byDigit } : {}),
       });
     }
   }
@@ -295,6 +349,8 @@ export function deriveUncertaintyTable(
       "(for whole-hand-shape cells, raw frames take the worse of the hand-shape and random-pose raw MAE, rawAnyPoseMaeDeg) " +
       "(SE = 0.755 * raw MAE / sqrt(samples)), raw 3-D otherwise; where held-out clips measured the cell (clipMaeDeg, the engine's worst frame MAE over " +
       "the clip reports' seeds; clipRawMaeDeg without correction), the worse of the still and clip figures. " +
+      "byDigit: where every clip seed that measured a cell also split it by finger (the clip reports' per-finger tables), each finger's " +
+      "interval from the worse of the cell's still figure and that finger's worst clip MAE over the seeds; it stands for readings of that finger. " +
       "Source: scripts/accuracy/report.md (held-out renders) and vision/correction-hand-shape-validation.json and " +
       "correction-hand-shape-down-validation.json (held-out whole-hand shapes, seeds 20261212 and 20261213); " +
       "test-motion rows first, then whole-hand-shape rows, random-pose rows for the rest; scripts/accuracy/clip-report.md and " +
@@ -337,6 +393,7 @@ export function deriveCommittedTable(): UncertaintyTable {
     CORRECTION_VERSION,
     parseClipReports(clipReports),
     parseWithoutStraightWrist(clipReports),
+    parseClipFingerRows(clipReports),
   );
 }
 
