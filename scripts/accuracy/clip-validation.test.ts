@@ -15,7 +15,7 @@ import {
   withoutStraightWristRows,
   type ClipReading,
 } from "./clip-validation";
-import { parseWithoutStraightWrist } from "./derive-uncertainty";
+import { parseClipFingerRows, parseWithoutStraightWrist } from "./derive-uncertainty";
 import { restPose, setPoseAngle } from "./hand-pose";
 import { sweepAnglesDeg } from "./sweep";
 import type { FrameTruth } from "./scene";
@@ -190,6 +190,11 @@ describe("reading a clip against its truth", () => {
     expect(text).toContain("### By finger (engine)");
     expect(text).toContain("| PIP flexion | radial | lite | ring | 2 | 100% | 3.0 | 6.00 |");
     expect(clipReport([{ seed: 1, clips: 1, rows: [] }], { glName: "test" })).not.toContain("By finger");
+    // The uncertainty script reads the table back as written.
+    expect(parseClipFingerRows([text]).map((r) => [r.group, r.view, r.model, r.digit, r.engineMaeDeg, r.seeds])).toEqual([
+      ["PIP flexion", "radial", "lite", "index", 2, 1],
+      ["PIP flexion", "radial", "lite", "ring", 6, 1],
+    ]);
   });
 
   it("lists the readings made without a straight-wrist reading per model, in a table the uncertainty script reads back", () => {
