@@ -27,26 +27,6 @@ import { forearmFromNeutral, neutralReadingUncertaintyDeg, sideOnNeutral, sideOn
 export type MeasurementMethod = "world3d" | "image_plane" | `world3d+${string}`;
 
 /** A stored attempt's method in the therapist's words (the upload review shows it). */
-
-/**
- * Where the held-out clips split a cell by finger and this finger read clearly worse than the fingers together (its
- * interval at least 1.25 times the cell's: our threshold for "clearly"), its figures; null otherwise. From the thumb
- * side, for one, the index finger stands in front of the others.
- */
-export function fingerReadsWorse(
-  table: UncertaintyTable,
-  motion: MotionId,
-  digit: Digit | null,
-  model: HandModel,
-  view: ValidationView,
-): { fingerMaeDeg: number; cellMaeDeg: number } | null {
-  const group = correctionGroupFor(motion, digit)?.group;
-  const cell = group ? validationCell(table, group, model, view) : null;
-  const own = cell?.byDigit?.find((f) => f.digit === digit);
-  if (!cell || !own || cell.clipMaeDeg === undefined || own.uncertaintyDeg < 1.25 * cell.uncertaintyDeg) return null;
-  return { fingerMaeDeg: own.clipMaeDeg, cellMaeDeg: cell.clipMaeDeg };
-}
-
 export function measurementMethodWords(method: string | null): string {
   if (method === "image_plane") return "read in the picture, the hand seen side-on (no correction)";
   if (method === "world3d") return "3-D hand landmarks (raw angles, no correction)";
@@ -179,6 +159,28 @@ function landmarksUsable(hand: HandLandmarks): boolean {
   if (hand.length !== LANDMARK_COUNT) return false;
   for (const p of hand) if (!isFiniteVec(p)) return false;
   return true;
+}
+
+/** How much wider than its cell's a finger's interval must be for the analysis to say it reads worse [our threshold]. */
+export const FINGER_READS_WORSE_RATIO = 1.25;
+
+/**
+ * Where the held-out clips split a cell by finger and this finger read clearly worse than the fingers together (its
+ * interval at least FINGER_READS_WORSE_RATIO times the cell's), its figures; null otherwise. From the thumb side, for
+ * one, the index finger stands in front of the others.
+ */
+export function fingerReadsWorse(
+  table: UncertaintyTable,
+  motion: MotionId,
+  digit: Digit | null,
+  model: HandModel,
+  view: ValidationView,
+): { fingerMaeDeg: number; cellMaeDeg: number } | null {
+  const group = correctionGroupFor(motion, digit)?.group;
+  const cell = group ? validationCell(table, group, model, view) : null;
+  const own = cell?.byDigit?.find((f) => f.digit === digit);
+  if (!cell || !own || cell.clipMaeDeg === undefined || own.uncertaintyDeg < FINGER_READS_WORSE_RATIO * cell.uncertaintyDeg) return null;
+  return { fingerMaeDeg: own.clipMaeDeg, cellMaeDeg: cell.clipMaeDeg };
 }
 
 /**

@@ -449,8 +449,8 @@ export function fingerRows(label: string, view: CameraView, model: HandModelVari
   });
 }
 
-/** The report's header of the per-finger table (scripts/accuracy/derive-uncertainty.ts may find the table by it). */
-export const BY_FINGER_HEADER = "| motion | view | model | finger | readings | detected | bias ° | MAE ° | slope | within 10° | peak MAE ° | within stated ± |";
+/** The report's header of the per-finger table (derive-uncertainty.ts parseClipFingerRows finds it by its "finger" column). */
+const BY_FINGER_HEADER = "| motion | view | model | finger | readings | detected | bias ° | MAE ° | slope | within 10° | peak MAE ° | within stated ± |";
 
 export interface ClipSection {
   seed: number;

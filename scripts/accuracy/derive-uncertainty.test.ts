@@ -62,7 +62,7 @@ describe("uncertainty table from the accuracy report", () => {
   });
 
   it("splits a clip-measured cell by finger only where every seed that measured it was split", () => {
-    // Two seeds of the thumb-side MCP cell (lite), each with its engine row; the finger table only under the first.
+    // Two seeds of the thumb-side MCP cell (lite), each with its engine rows and its finger table; a third without one below.
     const motionTable = (mae: number) =>
       [
         "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope |",

@@ -114,8 +114,9 @@ export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
 }
 
 /**
- * Held-out wrist readings made without a straight-wrist reading, pooled over the reports: their count and the frame
- * MAE over their detected frames. Null when the reports hold none.
+ * The clip reports' wrist readings made without a straight-wrist reading (clip-validation.ts
+ * WITHOUT_STRAIGHT_WRIST_HEADER), pooled: their count and the frame MAE over all their detected frames. Null when no
+ * report has any. Throws naming the row when a figure is not a number.
  */
 export function parseWithoutStraightWrist(markdowns: readonly string[]): { readings: number; maeDeg: number } | null {
   let readings = 0;
@@ -278,9 +279,13 @@ export function deriveUncertaintyTable(
   // A cell is split by finger where every seed that measured it was split, for all four fingers.
   const byDigitOf = (key: string, clip: ClipRow | undefined, stillMae: number): DigitFigure[] | null => {
     if (!clip) return null;
-    const figures = FINGERS.map((digit) => clipFingerRows.find((r) => `${r.group}|${r.view}|${r.model}|${r.digit}` === `${key}|${digit}` && r.seeds === clip.seeds));
-    if (figures.some((r) => !r)) return null;
-    return figures.map((r) => ({ digit: FINGERS.find((f) => f === r!.digit)!, clipMaeDeg: r!.engineMaeDeg, uncertaintyDeg: round1(uncertaintyFromMaeDeg(Math.max(stillMae, r!.engineMaeDeg))) }));
+    const figures: DigitFigure[] = [];
+    for (const digit of FINGERS) {
+      const row = clipFingerRows.find((r) => `${r.group}|${r.view}|${r.model}|${r.digit}` === `${key}|${digit}` && r.seeds === clip.seeds);
+      if (!row) return null;
+      figures.push({ digit, clipMaeDeg: row.engineMaeDeg, uncertaintyDeg: round1(uncertaintyFromMaeDeg(Math.max(stillMae, row.engineMaeDeg))) });
+    }
+    return figures;
   };
   const cells: ValidationCell[] = [];
   const taken = new Set<string>();
