@@ -22,7 +22,7 @@ export async function saveProgramItemAction(clientId: string, itemId: string | n
   return state;
 }
 
-export async function endProgramItemAction(clientId: string, itemId: string, _prev: FormState, _formData: FormData): Promise<FormState> {
+export async function endProgramItemAction(clientId: string, itemId: string): Promise<FormState> {
   const state = await guardedAction(PROGRAM_EDITORS, async (actor) => {
     await endProgramItemFor(getDb(), actor, clientId, itemId, { address: requestAddress(await headers()) });
     return { ok: true, message: "Program item ended." };
