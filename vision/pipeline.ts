@@ -12,6 +12,7 @@ import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, type Correcti
 import {
   angleUncertaintyDeg,
   correctionHelps,
+  digitFigure,
   fingerAloneCell,
   fingerAloneUncertaintyDeg,
   UNCERTAINTY_TABLE,
@@ -178,7 +179,7 @@ export function fingerReadsWorse(
 ): { fingerMaeDeg: number; cellMaeDeg: number } | null {
   const group = correctionGroupFor(motion, digit)?.group;
   const cell = group ? validationCell(table, group, model, view) : null;
-  const own = cell?.byDigit?.find((f) => f.digit === digit);
+  const own = cell ? digitFigure(cell, digit) : undefined;
   if (!cell || !own || cell.clipMaeDeg === undefined || own.uncertaintyDeg < FINGER_READS_WORSE_RATIO * cell.uncertaintyDeg) return null;
   return { fingerMaeDeg: own.clipMaeDeg, cellMaeDeg: cell.clipMaeDeg };
 }

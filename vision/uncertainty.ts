@@ -125,8 +125,13 @@ export function correctionHelps(table: UncertaintyTable, group: string, model: H
 /** Which method's error a figure is for: the one the engine uses in the cell, or raw 3-D angles (correction off). */
 export type UncertaintyMethod = "engine" | "raw";
 
+/** A finger's own figure in a cell split by finger (byDigit); undefined where the cell is not split or no finger is named. */
+export function digitFigure(cell: ValidationCell, digit: Digit | null): DigitFigure | undefined {
+  return digit ? cell.byDigit?.find((f) => f.digit === digit) : undefined;
+}
+
 function cellUncertaintyDeg(cell: ValidationCell, method: UncertaintyMethod, digit: Digit | null): number {
-  if (method === "engine") return cell.byDigit?.find((f) => f.digit === digit)?.uncertaintyDeg ?? cell.uncertaintyDeg;
+  if (method === "engine") return digitFigure(cell, digit)?.uncertaintyDeg ?? cell.uncertaintyDeg;
   return Math.round(uncertaintyFromMaeDeg(Math.max(cell.rawMaeDeg, cell.rawAnyPoseMaeDeg ?? 0, cell.clipRawMaeDeg ?? 0)) * 10) / 10;
 }
 
