@@ -76,6 +76,14 @@ export type AnalyzeOptions = Omit<LivePipelineOptions, "motion" | "side" | "digi
   onUpdate?: (update: LiveUpdate, frameIndex: number) => void;
 };
 
+/** The best repetition is the one that went furthest by the measure the motion is graded on. */
+export function bestRepetition(motion: MotionId, repetitions: readonly Repetition[]): Repetition | null {
+  const measure = MOTIONS[motion].gradedOn === "arc" ? (r: Repetition) => r.arcDeg : (r: Repetition) => r.peakDeg;
+  let best: Repetition | null = null;
+  for (const rep of repetitions) if (!best || measure(rep) > measure(best)) best = rep;
+  return best;
+}
+
 /** Runs a whole capture through the same pipeline the live view uses, then sums it up. */
 export function analyzeCapture(capture: CaptureInput, { onUpdate, ...options }: AnalyzeOptions = {}): CaptureAnalysis {
   // The neutral reading is taken again here from its frames, so the server reads the same forearm line the browser did.
@@ -99,10 +107,7 @@ export function analyzeCapture(capture: CaptureInput, { onUpdate, ...options }: 
   const summary = pipeline.summary();
   const limits = { ...DEFAULT_TRACKING_LIMITS, ...options.tracking };
 
-  // The best repetition is the one that went furthest by the measure the motion is graded on.
-  const measure = MOTIONS[capture.motion].gradedOn === "arc" ? (r: Repetition) => r.arcDeg : (r: Repetition) => r.peakDeg;
-  let best: Repetition | null = null;
-  for (const rep of summary.repetitions) if (!best || measure(rep) > measure(best)) best = rep;
+  const best = bestRepetition(capture.motion, summary.repetitions);
 
   const warnings = [...summary.warnings];
   if (neutral && !neutral.ok && isWrist) warnings.push(`neutral reading not used: ${neutral.problem}`);

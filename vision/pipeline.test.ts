@@ -15,7 +15,7 @@ describe("live pipeline, frame by frame", () => {
     expect(update.quality).toBe("ok");
     expect(update.angleDeg).toBeCloseTo(30, 6);
     expect(update.smoothedDeg).toBeCloseTo(30, 6);
-    expect(update.plane).toEqual({ verdict: "against_gravity", axisToGravityDeg: expect.closeTo(90, 3) });
+    expect(update.plane).toEqual({ verdict: "against_gravity", axisToGravityDeg: expect.closeTo(90, 3), travelAlongGravity: expect.any(Number) });
     expect(update.planeMatchesCondition).toBe(true);
     expect(update.rep).toEqual({ phase: "rest", count: 0, currentTopDeg: null });
     expect(update.method).toBe("world3d");

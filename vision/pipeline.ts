@@ -102,7 +102,8 @@ export interface LiveUpdate {
   angleDeg: number | null;
   imagePlaneDeg: number | null;
   smoothedDeg: number | null;
-  plane: PlaneReading | null;
+  /** The frame's plane reading; `travelAlongGravity` lets a reading built from several frames' angles find its plane again. */
+  plane: (PlaneReading & { travelAlongGravity: number }) | null;
   /** Whether this frame's plane reading agrees with the condition under test (null when the frame was skipped). */
   planeMatchesCondition: boolean | null;
   rep: { phase: RepPhase; count: number; currentTopDeg: number | null };
@@ -154,7 +155,7 @@ export interface LivePipeline {
 
 export const DEFAULT_MIN_SCORE = 0.5;
 const DEFAULT_NEUTRAL_WINDOW_MS = 500;
-const DEFAULT_MAX_GAP_MS = 500;
+export const DEFAULT_MAX_GAP_MS = 500;
 
 function landmarksUsable(hand: HandLandmarks): boolean {
   if (hand.length !== LANDMARK_COUNT) return false;
@@ -348,7 +349,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       angleDeg,
       imagePlaneDeg: Number.isFinite(reading.imagePlaneDeg) ? reading.imagePlaneDeg : null,
       smoothedDeg,
-      plane: { verdict: plane.verdict, axisToGravityDeg: plane.axisToGravityDeg },
+      plane: { verdict: plane.verdict, axisToGravityDeg: plane.axisToGravityDeg, travelAlongGravity: plane.travelAlongGravity },
       planeMatchesCondition: plane.verdict === options.condition,
       rep: { phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
       method: frameMethod,

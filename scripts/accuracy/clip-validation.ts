@@ -645,7 +645,8 @@ async function main(): Promise<void> {
   if (perClip.length) process.stdout.write(["", "| clip | model | side | digit | to ° | truth peak ° | peak ° | frame MAE ° | bias ° | reps | forearm | method |", ...perClip, ""].join("\n"));
 }
 
-if (!process.env.VITEST) {
+// Run only as the entry point: other scripts import readClip and planClips without starting a render.
+if (!process.env.VITEST && path.resolve(process.argv[1] ?? "") === path.resolve(__filename)) {
   main().catch((error: unknown) => {
     console.error(error instanceof Error ? (error.stack ?? error.message) : error);
     process.exitCode = 1;

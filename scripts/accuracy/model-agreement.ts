@@ -1,0 +1,153 @@
+/**
+ * Two hand models on the same clip: how far their readings differ, and what reading both gives.
+ *
+ * Clips tracked with both models (`clip-validation.ts --models lite,full`, saved tracking only; nothing is rendered or
+ * tracked here) are read by the engine once per model, finger by finger, and compared frame by frame with each other
+ * and with the truth. Why: the lite model once lost a deep PIP bend that the full model saw (held-out seed 20261216,
+ * clip 5), and each model misses frames the other finds.
+ *
+ * "both" is the engine's reading of the two captures together (vision/model-pair.ts `analyzeCapturePair`, whose header
+ * gives the rule); "peaks apart" counts the readings it warns about (`modelsDisagree`).
+ *
+ *   npx tsx scripts/accuracy/model-agreement.ts --seeds 77000401,77000402 [--motions pip.flexion,mcp.flexion]
+ *     [--condition against_gravity|gravity_minimized] [--clips 10] [--per-reading]
+ */
+import { existsSync, readFileSync } from "node:fs";
+import path from "node:path";
+import { parseArgs } from "node:util";
+import type { Condition, MotionId } from "@/lib/motions/catalog";
+import type { TrackedFrame } from "@/vision/live/types";
+import { ClipCaptureError, clipCapture } from "@/vision/live/clip-capture";
+import { analyzeCapturePair, PEAK_DISAGREEMENT_DEG } from "@/vision/model-pair";
+import { planClips, readClip, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
+import { RENDER_OUTPUT_ROOT } from "./renderer";
+import { IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX } from "./scene";
+import { summarizeErrors, type ErrorSample } from "./stats";
+
+/** One clip and finger read by both models together (vision/model-pair.ts), scored like a one-model reading. */
+export function readPair(lite: ClipReading, liteFrames: readonly TrackedFrame[], fullFrames: readonly TrackedFrame[]): Scored & { disagree: boolean } | null {
+  const target = { motion: lite.plan.motion.motion, side: lite.plan.side, digit: lite.digit, condition: lite.plan.condition };
+  let captures;
+  try {
+    captures = [clipCapture(target, liteFrames, lite.plan.name).capture, clipCapture(target, fullFrames, lite.plan.name).capture];
+  } catch (error) {
+    if (error instanceof ClipCaptureError) return null;
+    throw error;
+  }
+  const pair = analyzeCapturePair({ capture: captures[0], handModel: "lite" }, { capture: captures[1], handModel: "full" });
+  return {
+    samples: lite.samples.map((s, i) => ({ truthDeg: s.truthDeg, estimateDeg: pair.frameReadings[i].angleDeg })),
+    uncertaintiesDeg: pair.frameReadings.map((r) => r.uncertaintyDeg),
+    truthPeakDeg: lite.truthPeakDeg,
+    peakDeg: pair.peakDeg,
+    disagree: pair.modelsDisagree,
+  };
+}
+
+type Scored = Pick<ClipReading, "samples" | "uncertaintiesDeg" | "truthPeakDeg" | "peakDeg">;
+
+export interface AgreementRow {
+  reading: "lite" | "full" | "both";
+  readings: number;
+  detected: number;
+  maeDeg: number | null;
+  slope: number | null;
+  within: number | null;
+  peakMaeDeg: number | null;
+  worstPeakErrorDeg: number | null;
+}
+
+export function agreementRow(reading: AgreementRow["reading"], readings: readonly Scored[]): AgreementRow {
+  const samples: ErrorSample[] = readings.flatMap((r) => r.samples);
+  const s = summarizeErrors(samples);
+  const peakErrors = readings.filter((r) => r.peakDeg !== null).map((r) => r.peakDeg! - r.truthPeakDeg);
+  const worst = peakErrors.reduce<number | null>((w, e) => (w === null || Math.abs(e) > Math.abs(w) ? e : w), null);
+  return {
+    reading,
+    readings: readings.length,
+    detected: s.detectionRate,
+    maeDeg: s.meanAbsoluteErrorDeg,
+    slope: s.slope,
+    within: statedCoverage(readings),
+    peakMaeDeg: peakErrors.length ? peakErrors.reduce((sum, e) => sum + Math.abs(e), 0) / peakErrors.length : null,
+    worstPeakErrorDeg: worst,
+  };
+}
+
+function loadTracked(file: string): TrackedFrame[] | null {
+  if (!existsSync(file)) return null;
+  return (JSON.parse(readFileSync(file, "utf8")) as TrackedFrame[]).map((f) => (f.imageAspect ? f : { ...f, imageAspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX }));
+}
+
+type ClipTruthFile = Parameters<typeof readClip>[4];
+type Reading3 = [ClipReading, ClipReading, Scored & { disagree: boolean }];
+
+/** Both models' engine readings of every saved clip of `plans` (clips tracked with one model only are skipped). */
+export function readBoth(folder: string, plans: readonly ClipPlan[]): Reading3[] {
+  const pairs: Reading3[] = [];
+  for (const plan of plans) {
+    const lite = loadTracked(path.join(folder, `${plan.name}-lite.tracked.json`));
+    const full = loadTracked(path.join(folder, `${plan.name}-full.tracked.json`));
+    if (!lite || !full) continue;
+    const truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
+    for (const digit of plan.motion.digits) {
+      const one = readClip(plan, "lite", digit, lite, truth);
+      const both = readPair(one, lite, full) ?? { ...one, peakDeg: null, disagree: false };
+      pairs.push([one, readClip(plan, "full", digit, full, truth), both]);
+    }
+  }
+  return pairs;
+}
+
+const fmt = (v: number | null, digits = 2) => (v === null ? "-" : v.toFixed(digits));
+const pct = (v: number | null) => (v === null ? "-" : `${Math.round(v * 100)}%`);
+
+async function main(): Promise<void> {
+  const { values } = parseArgs({
+    options: { seeds: { type: "string" }, motions: { type: "string" }, condition: { type: "string" }, clips: { type: "string" }, "per-reading": { type: "boolean" } },
+  });
+  if (!values.seeds) throw new Error("--seeds: expected a comma-separated list of seeds, e.g. 77000401,77000402");
+  const seeds = values.seeds.split(",").map((raw) => {
+    const seed = Number(raw);
+    if (!Number.isInteger(seed) || seed < 0) throw new Error(`--seeds: expected whole numbers; got '${raw}'`);
+    return seed;
+  });
+  const motions = (values.motions ?? "mcp.flexion,pip.flexion,dip.flexion").split(",") as MotionId[];
+  const condition = (values.condition ?? "against_gravity") as Condition;
+  if (condition !== "against_gravity" && condition !== "gravity_minimized") throw new Error(`--condition: expected against_gravity or gravity_minimized; got '${condition}'`);
+  const clips = Number(values.clips ?? 10);
+  console.log(`Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}, engine readings.\n`);
+  console.log("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peaks > " + PEAK_DISAGREEMENT_DEG + "° apart |");
+  console.log("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |");
+  const perReading: string[] = [];
+  for (const motion of motions) {
+    const all: Reading3[] = [];
+    const rows = (label: string, pairs: Reading3[]) => {
+      const apart = pairs.filter((p) => p[2].disagree).length;
+      for (const row of [agreementRow("lite", pairs.map((p) => p[0])), agreementRow("full", pairs.map((p) => p[1])), agreementRow("both", pairs.map((p) => p[2]))]) {
+        console.log(
+          `| ${motion} | ${label} | ${row.reading} | ${row.readings} | ${pct(row.detected)} | ${fmt(row.maeDeg)} | ${fmt(row.slope)} | ${pct(row.within)} | ${fmt(row.peakMaeDeg, 1)} | ${fmt(row.worstPeakErrorDeg, 1)} | ${row.reading === "both" ? apart : ""} |`,
+        );
+      }
+    };
+    for (const seed of seeds) {
+      const folder = path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
+      const pairs = readBoth(folder, planClips(seed, clips, condition, [motion]));
+      if (!pairs.length) continue;
+      all.push(...pairs);
+      rows(String(seed), pairs);
+      for (const [a, b, c] of pairs) {
+        perReading.push(`| ${a.plan.name} | ${a.digit} | ${a.plan.side} | ${a.truthPeakDeg.toFixed(1)} | ${fmt(a.peakDeg, 1)} | ${fmt(b.peakDeg, 1)} | ${fmt(c.peakDeg, 1)} | ${fmt(summarizeErrors(a.samples).meanAbsoluteErrorDeg, 1)} | ${fmt(summarizeErrors(b.samples).meanAbsoluteErrorDeg, 1)} | ${fmt(summarizeErrors(c.samples).meanAbsoluteErrorDeg, 1)} |`);
+      }
+    }
+    if (seeds.length > 1 && all.length) rows("all", all);
+  }
+  if (values["per-reading"]) console.log(["", "| clip | finger | side | truth peak ° | lite peak ° | full peak ° | both peak ° | lite MAE ° | full MAE ° | both MAE ° |", "| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: |", ...perReading].join("\n"));
+}
+
+if (!process.env.VITEST && path.resolve(process.argv[1] ?? "") === path.resolve(__filename)) {
+  main().catch((error: unknown) => {
+    console.error(error instanceof Error ? error.message : error);
+    process.exitCode = 1;
+  });
+}

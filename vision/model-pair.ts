@@ -1,0 +1,142 @@
+/**
+ * One clip read by both hand models (lite and full), frame by frame, into one reading.
+ *
+ * Why: each model misses frames the other finds, their errors are partly independent, and once in held-out clips the
+ * lite model lost a deep PIP bend that the full model saw (scripts/accuracy/README.md, "Two hand models on one
+ * clip"). A clip that is measured after it was recorded (an upload, `analyze-clip`) can afford both.
+ *
+ * The rule (ours, fixed before any held-out clip was read with it):
+ * - where both models gave an angle, their mean; its 90% half-width the larger of the two stated ones plus half their
+ *   difference, so the interval holds both models' intervals (where the two agree, no narrower than either: the
+ *   averaging gain is not claimed until measured);
+ * - where one model gave an angle, that one with its own interval;
+ * - repetitions and peaks are found again on the combined angles, with the same filter and segmenter as one model;
+ * - two peaks more than `PEAK_DISAGREEMENT_DEG` apart add a warning, and the peak's interval covers both.
+ */
+import { analyzeCapture, bestRepetition, type AnalyzeOptions, type CaptureAnalysis, type CaptureInput } from "./analyze-capture";
+import type { HandModel } from "./correction";
+import { OneEuroFilter } from "./one-euro";
+import { DEFAULT_MAX_GAP_MS, type LiveUpdate } from "./pipeline";
+import { PlaneAccumulator } from "./plane";
+import { RepSegmenter } from "./reps";
+
+/**
+ * Two peaks further apart than this mean the models disagree about the attempt. Our margin above the training clips'
+ * spread (seeds 77000401-77000405, four-finger PIP flexion, little-finger side: 99% of 200 readings' peaks within
+ * 13.7° of each other), not fitted.
+ */
+export const PEAK_DISAGREEMENT_DEG = 20;
+
+export interface FrameReading {
+  angleDeg: number | null;
+  uncertaintyDeg: number | null;
+}
+
+/** One frame read by both models into one reading (see the header). */
+export function combineFrame(a: FrameReading, b: FrameReading): FrameReading {
+  if (a.angleDeg === null) return b.angleDeg === null ? { angleDeg: null, uncertaintyDeg: null } : b;
+  if (b.angleDeg === null) return a;
+  const half = Math.abs(a.angleDeg - b.angleDeg) / 2;
+  return { angleDeg: (a.angleDeg + b.angleDeg) / 2, uncertaintyDeg: Math.max(a.uncertaintyDeg ?? 0, b.uncertaintyDeg ?? 0) + half };
+}
+
+export interface ModelCapture {
+  capture: CaptureInput;
+  handModel: HandModel;
+}
+
+export interface PairAnalysis extends CaptureAnalysis {
+  handModels: [HandModel, HandModel];
+  /** Each model's own analysis, as if it had read the clip alone. */
+  byModel: [CaptureAnalysis, CaptureAnalysis];
+  /** Each frame's combined reading, in the captures' frame order. */
+  frameReadings: FrameReading[];
+  /** Frames where both models gave an angle. */
+  bothFrames: number;
+  /** The two models' peaks differ by more than PEAK_DISAGREEMENT_DEG. */
+  modelsDisagree: boolean;
+}
+
+function collect(input: ModelCapture, options: AnalyzeOptions): { analysis: CaptureAnalysis; updates: LiveUpdate[] } {
+  const updates: LiveUpdate[] = [];
+  const analysis = analyzeCapture(input.capture, { ...options, handModel: input.handModel, onUpdate: (update) => updates.push(update) });
+  return { analysis, updates };
+}
+
+/**
+ * Reads the same clip's two captures (one per hand model, the same frames at the same times) into one analysis.
+ * Throws when the captures are not of the same clip and attempt.
+ */
+export function analyzeCapturePair(first: ModelCapture, second: ModelCapture, options: Omit<AnalyzeOptions, "handModel" | "onUpdate"> = {}): PairAnalysis {
+  const a = first.capture;
+  const b = second.capture;
+  if (first.handModel === second.handModel) throw new Error(`two hand models expected; both captures name ${first.handModel}`);
+  if (a.motion !== b.motion || a.side !== b.side || a.digit !== b.digit || a.condition !== b.condition) {
+    throw new Error(`the two captures are of different attempts (${a.motion} ${a.side} ${a.digit ?? "-"} against ${b.motion} ${b.side} ${b.digit ?? "-"})`);
+  }
+  if (a.frames.length !== b.frames.length || a.frames.some((frame, i) => frame.t !== b.frames[i].t)) {
+    throw new Error(`the two captures are not of the same frames (${a.frames.length} and ${b.frames.length} frames, or different times)`);
+  }
+  const one = collect(first, options);
+  const two = collect(second, options);
+
+  // Repetitions found again on the combined angles, as the pipeline finds them on one model's.
+  const filter = new OneEuroFilter(options.filter);
+  const segmenter = new RepSegmenter(options.reps);
+  const allFramesPlane = new PlaneAccumulator();
+  const frameReadings: FrameReading[] = [];
+  let bothFrames = 0;
+  let lastMs = Number.NaN;
+  const maxGapMs = options.maxGapMs ?? DEFAULT_MAX_GAP_MS;
+  one.updates.forEach((u, i) => {
+    const v = two.updates[i];
+    const reading = combineFrame(u, v);
+    frameReadings.push(reading);
+    if (reading.angleDeg === null) return;
+    if (u.angleDeg !== null && v.angleDeg !== null) bothFrames += 1;
+    const plane = (u.angleDeg !== null ? u.plane : v.plane)!;
+    if (!Number.isNaN(lastMs) && u.t - lastMs > maxGapMs) filter.reset();
+    lastMs = u.t;
+    const smoothed = filter.filter(reading.angleDeg, u.t / 1000);
+    allFramesPlane.add(plane.axisToGravityDeg, plane.travelAlongGravity);
+    segmenter.push(u.t, reading.angleDeg, smoothed, filter.speed, plane.axisToGravityDeg, plane.travelAlongGravity);
+  });
+  const repetitions = segmenter.snapshot();
+  const best = bestRepetition(a.motion, repetitions);
+  const repPlane = segmenter.outwardPlane();
+  const planeReading = repPlane.empty ? allFramesPlane.result() : repPlane.result();
+
+  const [x, y] = [one.analysis, two.analysis];
+  const peaks = [x.peakDeg, y.peakDeg];
+  const modelsDisagree = peaks[0] !== null && peaks[1] !== null && Math.abs(peaks[0] - peaks[1]) > PEAK_DISAGREEMENT_DEG;
+  const spreadHalf = peaks[0] !== null && peaks[1] !== null ? Math.abs(peaks[0] - peaks[1]) / 2 : 0;
+  const stated = [x.uncertaintyDeg, y.uncertaintyDeg].filter((u): u is number => u !== null);
+  const warnings = [...new Set([...x.warnings, ...y.warnings])];
+  if (modelsDisagree) {
+    warnings.push(
+      `the two hand models disagree: peaks ${peaks[0]!.toFixed(0)} (${first.handModel}) and ${peaks[1]!.toFixed(0)} deg (${second.handModel}); ` +
+        "one of them lost the joint's bend, so repeat the attempt or treat the range as uncertain",
+    );
+  }
+  const usableFrames = frameReadings.filter((r) => r.angleDeg !== null).length;
+  const planeAgrees = planeReading?.verdict === a.condition;
+  return {
+    ...x,
+    reps: repetitions.length,
+    repetitions,
+    startDeg: best ? best.startDeg : null,
+    peakDeg: best ? best.peakDeg : null,
+    arcDeg: best ? best.arcDeg : null,
+    usableFrames,
+    trackingOk: x.trackingOk || y.trackingOk,
+    plane: planeReading,
+    planeAgrees,
+    uncertaintyDeg: stated.length ? Math.max(...stated) + spreadHalf : null,
+    warnings,
+    handModels: [first.handModel, second.handModel],
+    byModel: [x, y],
+    frameReadings,
+    bothFrames,
+    modelsDisagree,
+  };
+}
