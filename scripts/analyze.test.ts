@@ -67,6 +67,21 @@ describe("analyze command", () => {
     expect(note?.detail).toMatch(/straddles the 50% range line .* straddles the full-range \(90%\) line/);
   });
 
+  it("says which hand models a capture holds, and reads both when it carries the full model's frames", () => {
+    const side = { forearmDistal: [0, -1, 0] as const, forearmRadial: [0, 0, 1] as const, wrist: [0, 0, 0.5] as const };
+    const spec = { motion: "pip.flexion", side: "right", digit: "ring", condition: "against_gravity", placement: side, noiseMm: 0.3, gravity: [0, -1, 0] } as const;
+    const lite = buildSyntheticCapture({ ...spec, reps: [{ peakDeg: 60 }, { peakDeg: 60 }], seed: 5 });
+    const full = buildSyntheticCapture({ ...spec, reps: [{ peakDeg: 64 }, { peakDeg: 64 }], seed: 6 });
+    const one = run({ "p.json": lite }).captures[0];
+    const two = run({ "p.json": { ...lite, fullModel: { frames: full.frames } } }).captures[0];
+    const other = run({ "p.json": { ...lite, frames: full.frames } }).captures[0];
+    expect(one.handModels).toEqual(["lite"]);
+    expect(two.handModels).toEqual(["lite", "full"]);
+    // Between the two models' own peaks.
+    expect(two.peakDeg!).toBeGreaterThan(Math.min(one.peakDeg!, other.peakDeg!));
+    expect(two.peakDeg!).toBeLessThan(Math.max(one.peakDeg!, other.peakDeg!));
+  });
+
   it("rejects mixed motions naming the second file and the field", () => {
     const other = { ...capture(40, "against_gravity"), motion: "wrist.extension" };
     expect(() => run({ "a.json": capture(60, "against_gravity"), "b.json": other })).toThrow(

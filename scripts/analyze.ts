@@ -8,7 +8,8 @@ import { CaptureFormatError, parseCaptureText } from "@/lib/capture/parse";
 import type { CaptureFile } from "@/lib/capture/schema";
 import { GRADE_SCALES, chooseReference, gradeMotion, type GradeScale } from "@/lib/grading/grade";
 import { RANGE_TABLE_IDS, type RangeTableId } from "@/lib/motions/catalog";
-import { analyzeCapture, type CaptureAnalysis } from "@/vision/analyze-capture";
+import type { CaptureAnalysis } from "@/vision/analyze-capture";
+import { analyzeCaptureFile, type PairAnalysis } from "@/vision/model-pair";
 
 export class UsageError extends Error {}
 
@@ -53,7 +54,7 @@ function parseArgs(argv: readonly string[]): Options {
 
 const round = (deg: number | null) => (deg === null ? null : Math.round(deg * 10) / 10);
 
-function captureReport(file: string, a: CaptureAnalysis) {
+function captureReport(file: string, a: CaptureAnalysis | PairAnalysis) {
   return {
     file,
     motion: a.motion,
@@ -70,6 +71,8 @@ function captureReport(file: string, a: CaptureAnalysis) {
     trackingOk: a.trackingOk,
     method: a.method,
     correctionVersion: a.correctionVersion,
+    // The hand models whose frames were read: both when the capture carries the full model's too (vision/model-pair.ts).
+    handModels: "handModels" in a ? a.handModels : ["lite"],
     // 90% interval half-width of startDeg, peakDeg and each repetition's angles (vision/uncertainty.ts); view is the
     // camera view most frames saw and how it serves the motion; wrist motions say which forearm line they used.
     uncertaintyDeg: a.uncertaintyDeg,
@@ -116,7 +119,7 @@ export function analyzeFiles(argv: readonly string[], readText: (file: string) =
   }
 
   const { motion, digit } = captures[0].capture;
-  const analyses = captures.map(({ file, capture }) => ({ file, analysis: analyzeCapture(capture) }));
+  const analyses = captures.map(({ file, capture }) => ({ file, analysis: analyzeCaptureFile(capture) }));
   const passive = options.referenceDeg ?? captures.find((c) => c.capture.passiveRangeDeg !== undefined)?.capture.passiveRangeDeg ?? null;
   const reference = chooseReference(motion, digit, { passiveRangeDeg: passive, table: options.table })!;
   const grade = gradeMotion({

@@ -8,6 +8,7 @@ import { clipCaptureUid, clipLabel, type ClipTarget } from "@/lib/uploads/clip-t
 import { MOTIONS } from "@/lib/motions/catalog";
 import type { ClipNeutral } from "@/vision/live/clip-capture";
 import type { TrackedFrame } from "@/vision/live/types";
+import { readsWithBothModels } from "@/vision/model-pair-scope";
 
 export interface ClipToAnalyze {
   uploadId: string;
@@ -63,6 +64,9 @@ export function ClipAnalyzer({ clip, target, showNumbers, onSaved }: { clip: Cli
         const { analyzeClipInBrowser } = await import("@/vision/live/clip-analysis");
         const result = await analyzeClipInBrowser(element, src, target, {
           forearm: MOTIONS[target.motion].joint === "wrist",
+          // A finger's flexion clip is read by both hand models (vision/model-pair.ts): on held-out clips that read the
+          // angles more truly and lost fewer frames than either model alone (scripts/accuracy/README.md).
+          fullModel: readsWithBothModels(target.motion, target.digit),
           signal: abort.signal,
           onProgress: (done, total) => {
             // A state update per frame would re-render hundreds of times for nothing a person can read.

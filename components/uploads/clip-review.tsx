@@ -152,6 +152,9 @@ export function ClipReview({ upload, attempt, trace, digits, positions }: ClipRe
               <dt className="text-ink-soft">Method</dt>
               <dd>
                 {measurementMethodWords(attempt.method)}
+                {trace?.handModels.length === 2 ? (
+                  <span data-testid="clip-hand-models">; read by both hand models (lite and full), the mean where both saw the hand</span>
+                ) : null}
               </dd>
             </div>
           </dl>

@@ -88,6 +88,19 @@ describe("capture file v1", () => {
     expect(parseCaptureText(JSON.stringify({ ...fixture(), imageAspect: 16 / 9 }), "ok").imageAspect).toBeCloseTo(16 / 9, 12);
   });
 
+  it("accepts the full model's frames of the same clip and names the field when they are not the same frames", () => {
+    const capture = fixture();
+    const fullModel = { frames: capture.frames.map((f) => ({ ...f })) };
+    expect(parseCaptureText(JSON.stringify({ ...capture, fullModel }), "attempt.json").fullModel?.frames).toHaveLength(capture.frames.length);
+    const short = errorOf(JSON.stringify({ ...capture, fullModel: { frames: fullModel.frames.slice(1) } }));
+    expect(short.field).toBe("fullModel.frames");
+    expect(short.message).toContain(`expected the same ${capture.frames.length} frames as frames, got ${capture.frames.length - 1}`);
+    const shifted = { frames: fullModel.frames.map((f, i) => (i === 4 ? { ...f, t: f.t + 1 } : f)) };
+    const moved = errorOf(JSON.stringify({ ...capture, fullModel: shifted }));
+    expect(moved.field).toBe("fullModel.frames[4].t");
+    expect(moved.message).toContain(`expected the time of frames[4] (${capture.frames[4].t})`);
+  });
+
   it("formats paths the way the error lines show them", () => {
     expect(formatPath(["frames", 3, "hand", 7, 2])).toBe("frames[3].hand[7][2]");
   });

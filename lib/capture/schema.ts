@@ -65,6 +65,13 @@ export const captureSchema = z
     neutral: z
       .object({ frames: z.array(captureFrameSchema, { error: "expected an array of frames" }).min(1, { error: "expected at least one frame" }) }, { error: "expected { frames: [...] }" })
       .optional(),
+    /**
+     * Optional: the same clip tracked a second time with the full hand model (`frames` are the lite model's), the
+     * same frames at the same times. The engine then reads both together (vision/model-pair.ts analyzeCapturePair).
+     */
+    fullModel: z
+      .object({ frames: z.array(captureFrameSchema, { error: "expected an array of frames" }).min(1, { error: "expected at least one frame" }) }, { error: "expected { frames: [...] }" })
+      .optional(),
   })
   .superRefine((capture, ctx) => {
     if (!digitAllowed(capture.motion, capture.digit)) {
@@ -77,6 +84,13 @@ export const captureSchema = z
     }
     if (capture.oneFinger && !isOneFingerMotion(capture.motion, capture.digit)) {
       ctx.addIssue({ code: "custom", path: ["oneFinger"], message: "expected true only for a finger's (not the thumb's) MCP, PIP or DIP motion" });
+    }
+    const second = capture.fullModel?.frames;
+    if (second && second.length !== capture.frames.length) {
+      ctx.addIssue({ code: "custom", path: ["fullModel", "frames"], message: `expected the same ${capture.frames.length} frames as frames, got ${second.length}` });
+    } else if (second) {
+      const i = second.findIndex((frame, k) => frame.t !== capture.frames[k].t);
+      if (i >= 0) ctx.addIssue({ code: "custom", path: ["fullModel", "frames", i, "t"], message: `expected the time of frames[${i}] (${capture.frames[i].t})` });
     }
     for (let i = 1; i < capture.frames.length; i++) {
       if (capture.frames[i].t < capture.frames[i - 1].t) {

@@ -14,7 +14,7 @@ import { CaptureFormatError, parseCapture } from "@/lib/capture/parse";
 import { BadRequest } from "@/lib/http";
 import { checkPracticeMatches, joinPracticeSession, requirePracticeItem } from "@/lib/practice/sessions";
 import { linkClipAttempt, requireClipForCapture } from "@/lib/uploads/clip-attempt";
-import { analyzeCapture } from "@/vision/analyze-capture";
+import { analyzeCaptureFile } from "@/vision/model-pair";
 import { measuredColumns } from "./columns";
 import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } from "./upload";
 
@@ -121,7 +121,7 @@ async function saveNow(db: Database, actor: Actor, client: Client, rawBody: unkn
   const practiceItem = body.practiceItemId ? await requirePracticeItem(db, client, body.practiceItemId) : null;
   const clip = body.uploadId ? await requireClipForCapture(db, client, body.uploadId, capture) : null;
 
-  const analysis = analyzeCapture(capture);
+  const analysis = analyzeCaptureFile(capture);
   if (practiceItem) checkPracticeMatches(practiceItem, analysis);
   const recordedAt = new Date(body.recordedAt ?? now.getTime());
   const json = JSON.stringify(capture);

@@ -60,6 +60,29 @@ describe("the trace a therapist reviews", () => {
   });
 });
 
+describe("the trace of a clip read by both hand models", () => {
+  it("follows the mean of the two models where both saw the hand, either one where only it did, and says both were read", () => {
+    const lite = captureSchema.parse(buildSyntheticCapture(SPEC));
+    // The second model's frames: other landmark noise and lost frames, the same clip and times.
+    const full = buildSyntheticCapture({ ...SPEC, noiseMm: 1, seed: 4 });
+    const both = captureSchema.parse({ ...lite, fullModel: { frames: full.frames } });
+    const trace = clipReviewTrace(both, RAW);
+    const one = clipReviewTrace(lite, RAW);
+    const two = clipReviewTrace(captureSchema.parse({ ...lite, frames: full.frames }), RAW);
+    expect(trace.handModels).toEqual(["lite", "full"]);
+    expect(one.handModels).toEqual(["lite"]);
+    trace.points.forEach((p, i) => {
+      const [a, b] = [one.points[i].angleDeg, two.points[i].angleDeg];
+      if (a === null && b === null) return expect(p.angleDeg).toBeNull();
+      // The one-model traces are rounded to 0.1 degree as well.
+      const expected = a === null ? b! : b === null ? a : (a + b) / 2;
+      expect(Math.abs(p.angleDeg! - expected), `frame ${i}`).toBeLessThanOrEqual(0.11);
+    });
+    expect(trace.points.filter((p) => p.angleDeg !== null).length).toBeGreaterThan(one.points.filter((p) => p.angleDeg !== null).length);
+    expect(trace.repetitions).toHaveLength(2);
+  });
+});
+
 describe("frameIndexAt", () => {
   // Frame i of a 30 fps clip is on screen from i/30 s to (i+1)/30 s (the clip stepper's convention).
   const points = Array.from({ length: 90 }, (_, i) => ({ t: (i * 1000) / 30 }));

@@ -3,7 +3,8 @@
  * hand drawing, read from the stored capture with the same engine that produced the attempt. Pure (no I/O).
  */
 import type { CaptureFile } from "@/lib/capture/schema";
-import { analyzeCapture, type AnalyzeOptions } from "@/vision/analyze-capture";
+import type { AnalyzeOptions } from "@/vision/analyze-capture";
+import { analyzeCaptureFile } from "@/vision/model-pair";
 import type { FrameQuality } from "@/vision/pipeline";
 
 export interface TracePoint {
@@ -21,6 +22,8 @@ export interface ClipReviewTrace {
   images: ([number, number][] | null)[];
   /** Each repetition's span on the clip's clock and its held peak, for marks on the trace. */
   repetitions: { startMs: number; endMs: number; peakDeg: number }[];
+  /** The hand models whose frames the stored capture holds: both when it carries the full model's (vision/model-pair.ts). */
+  handModels: ("lite" | "full")[];
 }
 
 /** Rounded to 0.1 degree: finer than any angle the engine claims, and a minute of frames stays small to send. */
@@ -28,18 +31,19 @@ const tenth = (v: number | null) => (v === null ? null : Math.round(v * 10) / 10
 
 export function clipReviewTrace(capture: CaptureFile, options: Pick<AnalyzeOptions, "correction"> = {}): ClipReviewTrace {
   // One pass through the analysis itself, so the trace is read exactly as the stored figures were (straight-wrist
-  // reading, picture points and all).
+  // reading, picture points, both hand models and all).
   const points: TracePoint[] = [];
-  const analysis = analyzeCapture(capture, {
+  const analysis = analyzeCaptureFile(capture, {
     ...options,
-    onUpdate: (update, index) => {
-      points.push({ t: capture.frames[index].t, angleDeg: tenth(update.angleDeg), smoothedDeg: tenth(update.smoothedDeg), quality: update.quality });
+    onFrame: (reading, index) => {
+      points.push({ t: capture.frames[index].t, angleDeg: tenth(reading.angleDeg), smoothedDeg: tenth(reading.smoothedDeg), quality: reading.quality });
     },
   });
   return {
     points,
     images: capture.frames.map((f) => (f.hand && f.image ? f.image.map((p) => [p[0], p[1]] as [number, number]) : null)),
     repetitions: analysis.repetitions.map((r) => ({ startMs: r.startMs, endMs: r.endMs, peakDeg: r.peakDeg })),
+    handModels: capture.fullModel ? ["lite", "full"] : ["lite"],
   };
 }
 

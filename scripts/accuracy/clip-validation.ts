@@ -55,6 +55,8 @@ import type { HandModelVariant } from "./tracked-set";
 export const CLIP_VALIDATION_SEEDS = [20_261_210, 20_261_209, 20_261_207, 20_261_205] as const;
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  20261217:
+    "Rendered and tracked (finger motions, both conditions, both models) after the two-model reading's rule (vision/model-pair.ts) was committed; read once with it (model-agreement.ts). Nothing is fitted on it.",
   20261216:
     "Rendered and tracked (against gravity, finger motions) while the little-finger-side per-finger intervals (byDigit, from seeds 20261210, 20261209, 20261207 and 20261205) were being committed; read once, after. Nothing is fitted on it.",
   20261215:

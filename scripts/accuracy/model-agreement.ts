@@ -10,9 +10,11 @@
  * gives the rule); "peaks apart" counts the readings it warns about (`modelsDisagree`).
  *
  *   npx tsx scripts/accuracy/model-agreement.ts --seeds 77000401,77000402 [--motions pip.flexion,mcp.flexion]
- *     [--condition against_gravity|gravity_minimized] [--clips 10] [--per-reading]
+ *     [--condition against_gravity|gravity_minimized] [--clips 10] [--per-reading] [--out FILE]
+ *
+ * Prints markdown tables (and writes them to FILE with --out); per seed and motion, each model alone and both.
  */
-import { existsSync, readFileSync } from "node:fs";
+import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { parseArgs } from "node:util";
 import type { Condition, MotionId } from "@/lib/motions/catalog";
@@ -21,20 +23,29 @@ import { ClipCaptureError, clipCapture } from "@/vision/live/clip-capture";
 import { analyzeCapturePair, PEAK_DISAGREEMENT_DEG } from "@/vision/model-pair";
 import { planClips, readClip, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
+import { parseCount } from "./run-accuracy";
+import { ACCEPTANCE, meetsAcceptance, type AcceptanceKey } from "./acceptance";
 import { IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX } from "./scene";
 import { summarizeErrors, type ErrorSample } from "./stats";
 
-/** One clip and finger read by both models together (vision/model-pair.ts), scored like a one-model reading. */
-export function readPair(lite: ClipReading, liteFrames: readonly TrackedFrame[], fullFrames: readonly TrackedFrame[]): Scored & { disagree: boolean } | null {
+/**
+ * One clip and finger read by both models together (vision/model-pair.ts), scored like a one-model reading. Where one
+ * model found no hand in any frame there is no capture of it, and the other model's reading stands alone (as an app
+ * would measure such a clip).
+ */
+export function readPair(lite: ClipReading, full: ClipReading, liteFrames: readonly TrackedFrame[], fullFrames: readonly TrackedFrame[]): Scored & { disagree: boolean } {
   const target = { motion: lite.plan.motion.motion, side: lite.plan.side, digit: lite.digit, condition: lite.plan.condition };
-  let captures;
-  try {
-    captures = [clipCapture(target, liteFrames, lite.plan.name).capture, clipCapture(target, fullFrames, lite.plan.name).capture];
-  } catch (error) {
-    if (error instanceof ClipCaptureError) return null;
-    throw error;
-  }
-  const pair = analyzeCapturePair({ capture: captures[0], handModel: "lite" }, { capture: captures[1], handModel: "full" });
+  const captureOf = (frames: readonly TrackedFrame[]) => {
+    try {
+      return clipCapture(target, frames, lite.plan.name).capture;
+    } catch (error) {
+      if (error instanceof ClipCaptureError) return null;
+      throw error;
+    }
+  };
+  const [a, b] = [captureOf(liteFrames), captureOf(fullFrames)];
+  if (!a || !b) return { ...(a ? lite : full), disagree: false };
+  const pair = analyzeCapturePair({ capture: a, handModel: "lite" }, { capture: b, handModel: "full" });
   return {
     samples: lite.samples.map((s, i) => ({ truthDeg: s.truthDeg, estimateDeg: pair.frameReadings[i].angleDeg })),
     uncertaintiesDeg: pair.frameReadings.map((r) => r.uncertaintyDeg),
@@ -92,11 +103,18 @@ export function readBoth(folder: string, plans: readonly ClipPlan[]): Reading3[]
     const truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
     for (const digit of plan.motion.digits) {
       const one = readClip(plan, "lite", digit, lite, truth);
-      const both = readPair(one, lite, full) ?? { ...one, peakDeg: null, disagree: false };
-      pairs.push([one, readClip(plan, "full", digit, full, truth), both]);
+      const two = readClip(plan, "full", digit, full, truth);
+      pairs.push([one, two, readPair(one, two, lite, full)]);
     }
   }
   return pairs;
+}
+
+/** Issue 8's bars for the motion (scripts/accuracy/acceptance.ts), as the clip reports word them. */
+function bars(motion: MotionId, row: AgreementRow): string {
+  const target = ACCEPTANCE[motion as AcceptanceKey];
+  if (!target) return "-";
+  return meetsAcceptance({ meanAbsoluteErrorDeg: row.maeDeg, slope: row.slope, detectionRate: row.detected }, target) ? "meets" : "misses";
 }
 
 const fmt = (v: number | null, digits = 2) => (v === null ? "-" : v.toFixed(digits));
@@ -104,29 +122,26 @@ const pct = (v: number | null) => (v === null ? "-" : `${Math.round(v * 100)}%`)
 
 async function main(): Promise<void> {
   const { values } = parseArgs({
-    options: { seeds: { type: "string" }, motions: { type: "string" }, condition: { type: "string" }, clips: { type: "string" }, "per-reading": { type: "boolean" } },
+    options: { seeds: { type: "string" }, motions: { type: "string" }, condition: { type: "string" }, clips: { type: "string" }, "per-reading": { type: "boolean" }, out: { type: "string" } },
   });
   if (!values.seeds) throw new Error("--seeds: expected a comma-separated list of seeds, e.g. 77000401,77000402");
-  const seeds = values.seeds.split(",").map((raw) => {
-    const seed = Number(raw);
-    if (!Number.isInteger(seed) || seed < 0) throw new Error(`--seeds: expected whole numbers; got '${raw}'`);
-    return seed;
-  });
+  const seeds = values.seeds.split(",").map((raw) => parseCount("seeds", raw, 0));
   const motions = (values.motions ?? "mcp.flexion,pip.flexion,dip.flexion").split(",") as MotionId[];
   const condition = (values.condition ?? "against_gravity") as Condition;
   if (condition !== "against_gravity" && condition !== "gravity_minimized") throw new Error(`--condition: expected against_gravity or gravity_minimized; got '${condition}'`);
-  const clips = Number(values.clips ?? 10);
-  console.log(`Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}, engine readings.\n`);
-  console.log("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peaks > " + PEAK_DISAGREEMENT_DEG + "° apart |");
-  console.log("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |");
+  const clips = parseCount("clips", values.clips, 10);
+  const lines: string[] = [];
+  lines.push(`## Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}\n`);
+  lines.push("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peaks > " + PEAK_DISAGREEMENT_DEG + "° apart | issue 8's bars |");
+  lines.push("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- |");
   const perReading: string[] = [];
   for (const motion of motions) {
     const all: Reading3[] = [];
     const rows = (label: string, pairs: Reading3[]) => {
       const apart = pairs.filter((p) => p[2].disagree).length;
       for (const row of [agreementRow("lite", pairs.map((p) => p[0])), agreementRow("full", pairs.map((p) => p[1])), agreementRow("both", pairs.map((p) => p[2]))]) {
-        console.log(
-          `| ${motion} | ${label} | ${row.reading} | ${row.readings} | ${pct(row.detected)} | ${fmt(row.maeDeg)} | ${fmt(row.slope)} | ${pct(row.within)} | ${fmt(row.peakMaeDeg, 1)} | ${fmt(row.worstPeakErrorDeg, 1)} | ${row.reading === "both" ? apart : ""} |`,
+        lines.push(
+          `| ${motion} | ${label} | ${row.reading} | ${row.readings} | ${pct(row.detected)} | ${fmt(row.maeDeg)} | ${fmt(row.slope)} | ${pct(row.within)} | ${fmt(row.peakMaeDeg, 1)} | ${fmt(row.worstPeakErrorDeg, 1)} | ${row.reading === "both" ? apart : ""} | ${bars(motion, row)} |`,
         );
       }
     };
@@ -142,7 +157,10 @@ async function main(): Promise<void> {
     }
     if (seeds.length > 1 && all.length) rows("all", all);
   }
-  if (values["per-reading"]) console.log(["", "| clip | finger | side | truth peak ° | lite peak ° | full peak ° | both peak ° | lite MAE ° | full MAE ° | both MAE ° |", "| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: |", ...perReading].join("\n"));
+  if (values["per-reading"]) lines.push(["", "| clip | finger | side | truth peak ° | lite peak ° | full peak ° | both peak ° | lite MAE ° | full MAE ° | both MAE ° |", "| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: |", ...perReading].join("\n"));
+  const text = `${lines.join("\n")}\n`;
+  if (values.out) writeFileSync(values.out, text);
+  process.stdout.write(text);
 }
 
 if (!process.env.VITEST && path.resolve(process.argv[1] ?? "") === path.resolve(__filename)) {

@@ -157,6 +157,9 @@ describe("a client uploads a clip and the therapist reviews its analysis", () =>
     expect(stored.attempt!.frames).toBe(truth.frameCount);
     // Frame i at i/fps, the clip's own clock.
     expect(stored.capture!.frames.map((f) => Math.round((f.t * truth.fps) / 1000))).toEqual(truth.frames.map((f) => f.index));
+    // A finger's flexion clip is stepped a second time by the full hand model: the same frames at the same times.
+    expect(stored.capture!.fullModel?.frames.map((f) => f.t)).toEqual(stored.capture!.frames.map((f) => f.t));
+    expect(stored.capture!.fullModel!.frames.filter((f) => f.hand).length).toBeGreaterThan(0.9 * truth.frameCount);
   }, MEASURE_TIMEOUT_MS + 120_000);
 
   it("measures what the renderer commanded: every cycle found, the peak not over-read beyond the validation error", () => {
@@ -219,6 +222,7 @@ describe("a client uploads a clip and the therapist reviews its analysis", () =>
       await expect(peak.getAttribute("data-peak-deg")).resolves.toBe(String(attempt.peakDeg));
       await expect(peak.textContent()).resolves.toBe(`${attempt.peakDeg!.toFixed(0)}° ± ${attempt.uncertaintyDeg!.toFixed(0)}°`);
       await expect(page.getByTestId("clip-reps").textContent()).resolves.toBe(String(attempt.reps));
+      await expect(page.getByTestId("clip-hand-models").textContent()).resolves.toMatch(/read by both hand models/);
       await expect(page.getByTestId("clip-quality").textContent()).resolves.toMatch(new RegExp(`hand usable in ${attempt.usableFrames} of ${attempt.frames} frames`));
       await expect(page.getByTestId("clip-plane").textContent()).resolves.toMatch(attempt.planeVerified ? /as declared/ : /not as declared/);
       const trace = page.getByTestId("angle-trace");

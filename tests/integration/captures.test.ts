@@ -11,6 +11,7 @@ import { CAPTURE_BODY_LIMIT_BYTES } from "@/lib/captures/upload";
 import { BadRequest } from "@/lib/http";
 import { analyzeCapture } from "@/vision/analyze-capture";
 import { buildSyntheticCapture, type SyntheticCaptureSpec } from "@/vision/testing/synthetic-hand";
+import { analyzeCapturePair } from "@/vision/model-pair";
 import { actorByEmail as actorByEmailIn, tempDatabase, type TempDb } from "./support";
 
 let t: TempDb;
@@ -100,6 +101,28 @@ describe("saving a capture", () => {
     expect(saved.attempt.warnings.some((w) => w.startsWith("one finger tested on its own"))).toBe(true);
     const [row] = await t.db.select().from(attempts).where(eq(attempts.id, saved.attempt.id));
     expect(row.oneFinger).toBe(true);
+  });
+
+  it("a clip tracked by both hand models is read by both together, and both sets of frames are kept", async () => {
+    const client = await requireClientRecord(dorian, seed.clientIds!.dorian, { db: t.db });
+    const sent = body(client.id);
+    // The second model's frames: the same clip with other landmark noise and a bend read 30 degrees short.
+    const other = buildSyntheticCapture({ ...SPEC, seed: 8, reps: SPEC.reps.map(() => ({ peakDeg: 60 })) });
+    sent.capture = { ...sent.capture, fullModel: { frames: other.frames } } as typeof sent.capture;
+    const saved = await saveCapture(t.db, dorian, client, sent);
+    const pair = analyzeCapturePair({ capture: buildSyntheticCapture(SPEC), handModel: "lite" }, { capture: other, handModel: "full" });
+    expect(saved.attempt).toMatchObject({ peakDeg: pair.peakDeg, uncertaintyDeg: pair.uncertaintyDeg, reps: 3 });
+    // Between the two models' own peaks, with an interval that reaches both.
+    const [low, high] = pair.byModel.map((m) => m.peakDeg!).sort((a, b) => a - b);
+    expect(high - low).toBeGreaterThan(20);
+    expect(saved.attempt.peakDeg!).toBeGreaterThan(low);
+    expect(saved.attempt.peakDeg!).toBeLessThan(high);
+    expect(saved.attempt.peakDeg! - saved.attempt.uncertaintyDeg!).toBeLessThanOrEqual(low);
+    expect(saved.attempt.peakDeg! + saved.attempt.uncertaintyDeg!).toBeGreaterThanOrEqual(high);
+    expect(saved.attempt.warnings.some((w) => w.startsWith("the two hand models disagree"))).toBe(true);
+    const [row] = await t.db.select().from(attemptCaptures).where(eq(attemptCaptures.attemptId, saved.attempt.id));
+    const stored = JSON.parse(gunzipSync(row.gzip).toString("utf8"));
+    expect(stored.fullModel.frames).toHaveLength(other.frames.length);
   });
 
   it("a retry of the same capture id returns the stored attempt instead of a second one", async () => {

@@ -4,17 +4,27 @@
  * takes through the tracking harness page. Browser-only.
  */
 import type { CaptureFile } from "@/lib/capture/schema";
+import { CAPTURE_BODY_LIMIT_BYTES } from "@/lib/captures/upload";
 import type { CaptureTarget } from "@/lib/tracking/capture-recorder";
-import { clipCapture, otherHandSeen, type ClipNeutral } from "./clip-capture";
+import { ClipCaptureError, clipCapture, otherHandSeen, type ClipNeutral } from "./clip-capture";
 import { loadClip, stepThroughClip, type SteppedClip } from "./clip-stepper";
-import { createHandTracker } from "./tracker";
+import { createHandTracker, type HandTracker } from "./tracker";
 import type { ModelVariant, TrackedFrame } from "./types";
+
+/** The most a capture with both models' frames may weigh: room under the captures endpoint's limit for the request's other fields. */
+export const FULL_MODEL_BUDGET_BYTES = CAPTURE_BODY_LIMIT_BYTES - 256 * 1024;
 
 export interface ClipAnalysisOptions {
   /** The app's model; the server's correction and uncertainty assume it (vision/uncertainty.ts). Default "lite". */
   handModel?: ModelVariant;
   /** Forearm direction from the pose model, for wrist motions. */
   forearm?: boolean;
+  /**
+   * Step the clip a second time with the full hand model and keep its frames in the capture (`fullModel`), so the
+   * engine reads both models together (vision/model-pair.ts). For finger motions; wrist clips keep one model.
+   */
+  fullModel?: boolean;
+  /** Progress over every pass: with `fullModel` the total counts the clip's frames twice. */
   onProgress?: (done: number, total: number) => void;
   /** Each frame as it is tracked, e.g. to draw the hand over the clip while it is measured. */
   onFrame?: (frame: TrackedFrame) => void;
@@ -32,15 +42,49 @@ export interface ClipAnalysisResult {
 
 /** Analyzes the clip at `src` (an object URL of the picked file, or the stored file's URL) into a capture for `target`. */
 export async function analyzeClipInBrowser(video: HTMLVideoElement, src: string, target: CaptureTarget, options: ClipAnalysisOptions = {}): Promise<ClipAnalysisResult> {
-  const [tracker] = await Promise.all([createHandTracker({ handModel: options.handModel ?? "lite", forearm: options.forearm ?? false }), loadClip(video, src)]);
+  const passes = options.fullModel ? 2 : 1;
+  // The second model loads with the first, so a connection lost while the clip is stepped does not cost it. If it
+  // cannot load at all, the first model's reading stands.
+  const fullReady = options.fullModel ? createHandTracker({ handModel: "full", forearm: false }).catch(() => null) : Promise.resolve(null);
+  let full: HandTracker | null = null;
   try {
-    const unsubscribe = options.onFrame ? tracker.subscribe(options.onFrame) : () => {};
-    await tracker.warmUp(video);
-    const stepped = await stepThroughClip(video, tracker, { onProgress: options.onProgress, signal: options.signal });
-    unsubscribe();
+    const [tracker] = await Promise.all([createHandTracker({ handModel: options.handModel ?? "lite", forearm: options.forearm ?? false }), loadClip(video, src)]);
+    let stepped: SteppedClip;
+    try {
+      const unsubscribe = options.onFrame ? tracker.subscribe(options.onFrame) : () => {};
+      await tracker.warmUp(video);
+      stepped = await stepThroughClip(video, tracker, { onProgress: (done, total) => options.onProgress?.(done, passes * total), signal: options.signal });
+      unsubscribe();
+    } finally {
+      tracker.close();
+    }
     const { capture, neutral } = clipCapture(target, stepped.frames, "the clip");
-    return { capture, neutral, stepped, otherHand: otherHandSeen(stepped.frames, target.side) };
+    const alone: ClipAnalysisResult = { capture, neutral, stepped, otherHand: otherHandSeen(stepped.frames, target.side) };
+    full = await fullReady;
+    if (!full) return alone;
+    // The same frames at the same times (the first pass's frame rate), read by the other model.
+    await full.warmUp(video);
+    const second = await stepThroughClip(video, full, {
+      fps: stepped.fps,
+      onProgress: (done, total) => options.onProgress?.(total + done, 2 * total),
+      signal: options.signal,
+    });
+    const fullFrames = captureFramesOf(target, second.frames);
+    if (!fullFrames || fullFrames.length !== capture.frames.length || fullFrames.some((f, i) => f.t !== capture.frames[i].t)) return alone;
+    const both = { ...capture, fullModel: { frames: fullFrames } };
+    // A long clip's second set of frames could push the upload past the server's limit: then the first model's stands.
+    return JSON.stringify(both).length > FULL_MODEL_BUDGET_BYTES ? alone : { ...alone, capture: both };
   } finally {
-    tracker.close();
+    (full ?? (await fullReady))?.close();
+  }
+}
+
+/** The capture frames of a second pass, or null when that model found no hand in any frame (the first model's reading stands). */
+function captureFramesOf(target: CaptureTarget, frames: readonly TrackedFrame[]): CaptureFile["frames"] | null {
+  try {
+    return clipCapture(target, frames, "the clip").capture.frames;
+  } catch (error) {
+    if (error instanceof ClipCaptureError) return null;
+    throw error;
   }
 }
