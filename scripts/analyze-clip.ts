@@ -2,7 +2,8 @@
 //                             [--scale S] [--reference DEG] [--table ID] CLIP
 // Runs the app's own tracking code in headless Chromium on every frame of a video file (webm, mp4, or MJPEG read at
 // --fps, default 30), builds a capture file v1 (written to --out when given) and prints the same JSON as `analyze`
-// gives for that capture. Bad input (flags, missing file, not a video, no hand in view): exit 2, one line on stderr,
+// gives for that capture. A finger's MCP, PIP or DIP flexion clip is tracked by both hand models, as an upload is
+// (vision/model-pair.ts). Bad input (flags, missing file, not a video, no hand in view): exit 2, one line on stderr,
 // nothing on stdout.
 import { writeFileSync } from "node:fs";
 import { CaptureFormatError } from "@/lib/capture/parse";
@@ -11,6 +12,8 @@ import { captureFromFrames, handednessNote } from "./clip/capture";
 import { ClipInputError, parseClipArgs } from "./clip/options";
 import { prepareClip, remuxClip } from "./clip/prepare";
 import { trackClip } from "./clip/track-clip";
+import { withFullModelFrames } from "@/vision/live/clip-capture";
+import { readsWithBothModels } from "@/vision/model-pair-scope";
 
 /** Lets analyze refuse a bad --scale/--reference/--table before Chromium starts (it reads no file until the flags pass). */
 function checkAnalyzeFlags(analyzeArgs: readonly string[]): void {
@@ -38,11 +41,12 @@ export async function analyzeClip(argv: readonly string[]) {
     }
     const seen = handednessNote(tracked.frames, options.side);
     if (seen) process.stderr.write(`analyze-clip: note: ${seen}\n`);
-    const capture = captureFromFrames(
-      { motion: options.motion, side: options.side, digit: options.digit, condition: options.condition, oneFinger: options.oneFinger },
-      tracked.frames,
-      options.clip,
-    );
+    const target = { motion: options.motion, side: options.side, digit: options.digit, condition: options.condition, oneFinger: options.oneFinger };
+    const lite = captureFromFrames(target, tracked.frames, options.clip);
+    // As the app's upload does: a finger's flexion clip is stepped again with the full hand model and read by both.
+    const capture = readsWithBothModels(options.motion, options.digit)
+      ? withFullModelFrames(lite, target, (await trackClip(prepared, { model: "full" })).frames, options.clip)
+      : lite;
     const text = `${JSON.stringify(capture)}\n`;
     if (options.out) {
       try {

@@ -14,6 +14,7 @@ import { launchChromium } from "./support/browser";
 import { parseCaptureText } from "@/lib/capture/parse";
 import { correctionGroupFor } from "@/vision/correction";
 import { UNCERTAINTY_TABLE, validationCell } from "@/vision/uncertainty";
+import { analyzeCaptureFile } from "@/vision/model-pair";
 import { analyzeCapture } from "@/vision/analyze-capture";
 
 const REPO_ROOT = path.resolve(__dirname, "..", "..");
@@ -127,8 +128,17 @@ describe("analyze-clip on a rendered four-finger PIP sweep, 0-80-0 degrees x3, u
       const statedDeg = cell.byDigit?.find((f) => f.digit === digit)?.uncertaintyDeg ?? cell.uncertaintyDeg;
       expect(analysis.uncertaintyDeg, digit).toBe(statedDeg);
       expect(Math.abs(errorDeg!), digit).toBeLessThanOrEqual(statedDeg);
+      // Read as the app reads an uploaded finger clip: both hand models together (vision/model-pair.ts), the peak
+      // within the interval it states.
+      const both = analyzeCaptureFile({ ...capture, digit });
+      console.log(`analyze-clip figures (${digit}, both models): reported ${both.peakDeg?.toFixed(1)} ± ${both.uncertaintyDeg?.toFixed(1)} deg, repetitions ${both.reps}`);
+      expect(both.reps, digit).toBe(SWEEP.cycles);
+      expect(Math.abs(both.peakDeg! - SWEEP.toDeg), digit).toBeLessThanOrEqual(both.uncertaintyDeg!);
     }
     expect(clip.reps).toBe(SWEEP.cycles);
+    // The clip was tracked by both hand models, as an upload is.
+    expect(capture.fullModel?.frames.map((f) => f.t)).toEqual(capture.frames.map((f) => f.t));
+    expect((report.captures[0] as unknown as { handModels: string[] }).handModels).toEqual(["lite", "full"]);
   });
 
   it("reads the same clip as MJPEG (converted with ffmpeg first) frame for frame", () => {

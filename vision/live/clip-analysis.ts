@@ -6,7 +6,7 @@
 import type { CaptureFile } from "@/lib/capture/schema";
 import { CAPTURE_BODY_LIMIT_BYTES } from "@/lib/captures/upload";
 import type { CaptureTarget } from "@/lib/tracking/capture-recorder";
-import { ClipCaptureError, clipCapture, otherHandSeen, type ClipNeutral } from "./clip-capture";
+import { clipCapture, otherHandSeen, withFullModelFrames, type ClipNeutral } from "./clip-capture";
 import { loadClip, stepThroughClip, type SteppedClip } from "./clip-stepper";
 import { createHandTracker, type HandTracker } from "./tracker";
 import type { ModelVariant, TrackedFrame } from "./types";
@@ -69,22 +69,10 @@ export async function analyzeClipInBrowser(video: HTMLVideoElement, src: string,
       onProgress: (done, total) => options.onProgress?.(total + done, 2 * total),
       signal: options.signal,
     });
-    const fullFrames = captureFramesOf(target, second.frames);
-    if (!fullFrames || fullFrames.length !== capture.frames.length || fullFrames.some((f, i) => f.t !== capture.frames[i].t)) return alone;
-    const both = { ...capture, fullModel: { frames: fullFrames } };
+    const both = withFullModelFrames(capture, target, second.frames, "the clip");
     // A long clip's second set of frames could push the upload past the server's limit: then the first model's stands.
-    return JSON.stringify(both).length > FULL_MODEL_BUDGET_BYTES ? alone : { ...alone, capture: both };
+    return both === capture || JSON.stringify(both).length > FULL_MODEL_BUDGET_BYTES ? alone : { ...alone, capture: both };
   } finally {
     (full ?? (await fullReady))?.close();
-  }
-}
-
-/** The capture frames of a second pass, or null when that model found no hand in any frame (the first model's reading stands). */
-function captureFramesOf(target: CaptureTarget, frames: readonly TrackedFrame[]): CaptureFile["frames"] | null {
-  try {
-    return clipCapture(target, frames, "the clip").capture.frames;
-  } catch (error) {
-    if (error instanceof ClipCaptureError) return null;
-    throw error;
   }
 }

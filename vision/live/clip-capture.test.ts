@@ -6,7 +6,7 @@ import { analyzeCapture } from "@/vision/analyze-capture";
 import { MIDDLE_MCP, WRIST } from "@/vision/landmarks";
 import { neutralPose, poseHand, SeededRandom, withMotionAngle, type Placement } from "@/vision/testing/synthetic-hand";
 import type { Vec3 } from "@/vision/vec";
-import { CLIP_NEUTRAL, clipCapture, clipStartNeutral } from "./clip-capture";
+import { CLIP_NEUTRAL, clipCapture, clipStartNeutral, withFullModelFrames } from "./clip-capture";
 import type { TrackedFrame } from "./types";
 
 // Forearm resting on the table, seen obliquely from above and the little-finger side (camera axes: x right, y down, z away).
@@ -118,5 +118,25 @@ describe("clip capture with the reading", () => {
     const finger = clipCapture({ motion: "mcp.flexion", side: "right", digit: "index", condition: "gravity_minimized" }, clipFrames("right", "wrist.flexion", 4000, () => 0), "c.webm");
     expect(finger.neutral).toBeNull();
     expect(finger.capture.neutral).toBeUndefined();
+  });
+});
+
+describe("a second hand model's tracking of the same clip", () => {
+  const target = { motion: "wrist.flexion" as const, side: "right" as const, digit: null, condition: "against_gravity" as const };
+  const first = clipFrames("right", "wrist.flexion", 6000, stillThenRep(3000, 60));
+  const capture = clipCapture(target, first, "clip.webm").capture;
+
+  it("is kept as fullModel when it holds the same frames at the same times, and the file stays valid", () => {
+    const second = clipFrames("right", "wrist.flexion", 6000, stillThenRep(3000, 60), 8);
+    const both = withFullModelFrames(capture, target, second, "clip.webm");
+    expect(both.fullModel?.frames.map((f) => f.t)).toEqual(capture.frames.map((f) => f.t));
+    expect(both.frames).toBe(capture.frames);
+    expect(parseCapture(JSON.parse(JSON.stringify(both)), "clip.json").fullModel?.frames).toHaveLength(capture.frames.length);
+  });
+
+  it("is left out when that model found no hand, or stepped other frames", () => {
+    const none = first.map((f) => ({ ...f, score: 0, handedness: null, hand: null, image: null }));
+    expect(withFullModelFrames(capture, target, none, "clip.webm")).toBe(capture);
+    expect(withFullModelFrames(capture, target, first.slice(1), "clip.webm")).toBe(capture);
   });
 });

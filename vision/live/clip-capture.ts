@@ -86,3 +86,19 @@ export function otherHandSeen(frames: readonly Pick<TrackedFrame, "handedness">[
   if (named.length === 0 || other * 2 <= named.length) return null;
   return { seen: side === "left" ? "right" : "left", frames: other, framesWithHand: named.length };
 }
+
+/**
+ * The capture with a second model's tracking of the same clip kept as `fullModel` (vision/model-pair.ts), when that
+ * model found the hand somewhere and its frames are the capture's frames at the same times; else the capture as it was.
+ */
+export function withFullModelFrames(capture: CaptureFile, target: CaptureTarget, fullFrames: readonly TrackedFrame[], clipLabel: string): CaptureFile {
+  let frames: CaptureFile["frames"];
+  try {
+    frames = clipCapture(target, fullFrames, clipLabel).capture.frames;
+  } catch (error) {
+    if (error instanceof ClipCaptureError) return capture;
+    throw error;
+  }
+  if (frames.length !== capture.frames.length || frames.some((f, i) => f.t !== capture.frames[i].t)) return capture;
+  return { ...capture, fullModel: { frames } };
+}
