@@ -42,10 +42,12 @@ export interface ClipAnalysisResult {
 
 /** Analyzes the clip at `src` (an object URL of the picked file, or the stored file's URL) into a capture for `target`. */
 export async function analyzeClipInBrowser(video: HTMLVideoElement, src: string, target: CaptureTarget, options: ClipAnalysisOptions = {}): Promise<ClipAnalysisResult> {
-  const passes = options.fullModel ? 2 : 1;
+  // The second pass pairs the full model with the lite one (vision/model-pair.ts): only when the first is the lite.
+  const withFull = options.fullModel === true && (options.handModel ?? "lite") === "lite";
+  const passes = withFull ? 2 : 1;
   // The second model loads with the first, so a connection lost while the clip is stepped does not cost it. If it
   // cannot load at all, the first model's reading stands.
-  const fullReady = options.fullModel ? createHandTracker({ handModel: "full", forearm: false }).catch(() => null) : Promise.resolve(null);
+  const fullReady = withFull ? createHandTracker({ handModel: "full", forearm: false }).catch(() => null) : Promise.resolve(null);
   let full: HandTracker | null = null;
   try {
     const [tracker] = await Promise.all([createHandTracker({ handModel: options.handModel ?? "lite", forearm: options.forearm ?? false }), loadClip(video, src)]);
