@@ -92,6 +92,21 @@ describe("one clip read by two hand models", () => {
     expect(pair.warnings.join(" ")).toMatch(/two hand models disagree.*\(lite\).*\(full\)/);
   });
 
+  it("warns when the combined peak falls far from both models' own, though those two agree", () => {
+    // Each model loses the bend in a different cycle: their own best peaks (90°, 84°) agree within 20°, but no cycle
+    // reads high in both, so the combined best peak lies far below either.
+    const one = buildSyntheticCapture({ ...pipSpec(90, 9), reps: [{ peakDeg: 90 }, { peakDeg: 30 }, { peakDeg: 30 }] });
+    const two = buildSyntheticCapture({ ...pipSpec(90, 10), reps: [{ peakDeg: 30 }, { peakDeg: 84 }, { peakDeg: 30 }] });
+    const pair = analyzeCapturePair({ capture: one, handModel: "lite" }, { capture: two, handModel: "full" }, RAW);
+    const [a, b] = pair.byModel.map((m) => m.peakDeg!);
+    expect(Math.abs(a - b)).toBeLessThan(PEAK_DISAGREEMENT_DEG);
+    expect(Math.max(a, b) - pair.peakDeg!).toBeGreaterThan(PEAK_DISAGREEMENT_DEG);
+    expect(pair.modelsDisagree).toBe(true);
+    expect(pair.warnings.join(" ")).toMatch(/read together/);
+    // The stated interval still reaches both models' own peaks.
+    expect(pair.peakDeg! + pair.uncertaintyDeg!).toBeGreaterThanOrEqual(Math.max(a, b));
+  });
+
   it("reads a frame from whichever model found the hand", () => {
     const one = buildSyntheticCapture(pipSpec(80, 5, { noHandRate: 0.3 }));
     const two = buildSyntheticCapture(pipSpec(80, 6, { noHandRate: 0.3 }));

@@ -282,6 +282,8 @@ export interface ClipReading {
   uncertaintiesDeg: (number | null)[];
   truthPeakDeg: number;
   peakDeg: number | null;
+  /** The engine's stated 90% half-width of the peak (null where it gave none). */
+  peakUncertaintyDeg: number | null;
   reps: number;
   neutralUsed: boolean | null;
   forearmSource: string | null;
@@ -316,6 +318,7 @@ export function readClip(
       uncertaintiesDeg: truthDeg.map(() => null),
       truthPeakDeg: Math.max(...truthDeg),
       peakDeg: null,
+      peakUncertaintyDeg: null,
       reps: 0,
       neutralUsed: plan.motion.bar === "wrist.flexion" ? false : null,
       forearmSource: null,
@@ -342,6 +345,7 @@ export function readClip(
     uncertaintiesDeg: truthDeg.map((_, i) => uncertainties[i] ?? null),
     truthPeakDeg: Math.max(...truthDeg),
     peakDeg: analysis.peakDeg,
+    peakUncertaintyDeg: analysis.uncertaintyDeg,
     reps: analysis.reps,
     neutralUsed: plan.motion.bar === "wrist.flexion" ? analysis.neutral !== null : null,
     forearmSource: analysis.forearmSource,

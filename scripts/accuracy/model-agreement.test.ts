@@ -13,6 +13,7 @@ describe("a reading's row", () => {
       uncertaintiesDeg: [5, 5, 10, null],
       truthPeakDeg: 80,
       peakDeg: 52,
+      peakUncertaintyDeg: 10,
     };
     const row = agreementRow("lite", [reading, { ...reading, peakDeg: 84 }]);
     expect(row.detected).toBeCloseTo(0.75, 12);
@@ -21,5 +22,7 @@ describe("a reading's row", () => {
     expect(row.within).toBeCloseTo(2 / 3, 9);
     expect(row.peakMaeDeg).toBeCloseTo((28 + 4) / 2, 9);
     expect(row.worstPeakErrorDeg).toBe(-28);
+    // Peak errors -28 (outside ± 10) and +4 (inside).
+    expect(row.peakWithin).toBeCloseTo(0.5, 12);
   });
 });
