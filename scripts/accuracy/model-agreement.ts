@@ -137,7 +137,7 @@ async function main(): Promise<void> {
   const clips = parseCount("clips", values.clips, 10);
   const lines: string[] = [];
   lines.push(`## Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}\n`);
-  lines.push("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peak within stated ± | models disagree | issue 8's bars |");
+  lines.push("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peak within stated ± | models disagree (> " + PEAK_DISAGREEMENT_DEG + "°) | issue 8's bars |");
   lines.push("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- |");
   const perReading: string[] = [];
   for (const motion of motions) {
