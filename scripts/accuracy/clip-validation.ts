@@ -55,6 +55,8 @@ import type { HandModelVariant } from "./tracked-set";
 export const CLIP_VALIDATION_SEEDS = [20_261_210, 20_261_209, 20_261_207, 20_261_205] as const;
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  20261218:
+    "Rendered and tracked (against gravity, finger motions, both models) after the two-model peak rule was revised (vision/model-pair.ts, commit ccbbff1); read once with it (model-agreement.ts). Nothing is fitted on it.",
   20261217:
     "Rendered and tracked (finger motions, both conditions, both models) after the two-model reading's rule (vision/model-pair.ts) was committed; read once with it (model-agreement.ts). Nothing is fitted on it.",
   20261216:
