@@ -32,8 +32,6 @@ import { RepSegmenter } from "./reps";
  */
 export const PEAK_DISAGREEMENT_DEG = 20;
 
-export { readsWithBothModels } from "./model-pair-scope";
-
 export interface FrameReading {
   angleDeg: number | null;
   uncertaintyDeg: number | null;
@@ -64,7 +62,7 @@ export interface PairAnalysis extends CaptureAnalysis {
   qualities: FrameQuality[];
   /** Frames where both models gave an angle. */
   bothFrames: number;
-  /** The two models' peaks differ by more than PEAK_DISAGREEMENT_DEG. */
+  /** The two models' peaks, or the combined peak and either model's own, lie more than PEAK_DISAGREEMENT_DEG apart. */
   modelsDisagree: boolean;
 }
 

@@ -219,6 +219,11 @@ function addSensorNoise(from: string, to: string, strength: number, seed: number
   return runFfmpeg(["-i", from, "-vf", filter, "-c:v", "libvpx", "-b:v", "2M", to]);
 }
 
+/** A clip's saved tracking; tracking saved before frames carried the picture's aspect gets the renders' own size. */
+export function readSavedTracking(file: string): TrackedFrame[] {
+  return (JSON.parse(readFileSync(file, "utf8")) as TrackedFrame[]).map((frame) => (frame.imageAspect ? frame : { ...frame, imageAspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX }));
+}
+
 async function trackClips(
   plans: readonly ClipPlan[],
   folder: string,
@@ -233,9 +238,7 @@ async function trackClips(
   const noise = sensorNoise === undefined ? "" : `-n${sensorNoise}`;
   const savedOf = (plan: ClipPlan) => path.join(folder, `${plan.name}-${model}${floors}${noise}.tracked.json`);
   const clipOf = (plan: ClipPlan) => path.join(folder, `${plan.name}${noise}.webm`);
-  // Tracking saved before frames carried the picture's aspect gets the renders' own size.
-  const withAspect = (frames: TrackedFrame[]) => frames.map((frame) => (frame.imageAspect ? frame : { ...frame, imageAspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX }));
-  for (const plan of plans) if (reuse && existsSync(savedOf(plan))) tracked.set(plan.name, withAspect(JSON.parse(readFileSync(savedOf(plan), "utf8")) as TrackedFrame[]));
+  for (const plan of plans) if (reuse && existsSync(savedOf(plan))) tracked.set(plan.name, readSavedTracking(savedOf(plan)));
   const todo = plans.filter((plan) => !tracked.has(plan.name));
   if (!todo.length) return tracked;
   if (sensorNoise !== undefined) {

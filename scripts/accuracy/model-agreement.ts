@@ -19,33 +19,31 @@ import path from "node:path";
 import { parseArgs } from "node:util";
 import type { Condition, MotionId } from "@/lib/motions/catalog";
 import type { TrackedFrame } from "@/vision/live/types";
-import { ClipCaptureError, clipCapture } from "@/vision/live/clip-capture";
-import { analyzeCapturePair, PEAK_DISAGREEMENT_DEG } from "@/vision/model-pair";
-import { planClips, readClip, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
+import { ClipCaptureError, clipCapture, withFullModelFrames } from "@/vision/live/clip-capture";
+import { analyzeCaptureFile, PEAK_DISAGREEMENT_DEG } from "@/vision/model-pair";
+import { planClips, readClip, readSavedTracking, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
 import { parseCount } from "./run-accuracy";
 import { ACCEPTANCE, meetsAcceptance, type AcceptanceKey } from "./acceptance";
-import { IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX } from "./scene";
 import { summarizeErrors, type ErrorSample } from "./stats";
 
 /**
- * One clip and finger read by both models together (vision/model-pair.ts), scored like a one-model reading. Where one
- * model found no hand in any frame there is no capture of it, and the other model's reading stands alone (as an app
- * would measure such a clip).
+ * One clip and finger read by both models together, on the app's own path: the lite capture with the full model's
+ * frames attached (vision/live/clip-capture.ts withFullModelFrames) read by analyzeCaptureFile (vision/model-pair.ts),
+ * scored like a one-model reading. Where one model found no hand in any frame, the other model's reading stands alone,
+ * as the app measures such a clip.
  */
 export function readPair(lite: ClipReading, full: ClipReading, liteFrames: readonly TrackedFrame[], fullFrames: readonly TrackedFrame[]): Scored & { disagree: boolean } {
   const target = { motion: lite.plan.motion.motion, side: lite.plan.side, digit: lite.digit, condition: lite.plan.condition };
-  const captureOf = (frames: readonly TrackedFrame[]) => {
-    try {
-      return clipCapture(target, frames, lite.plan.name).capture;
-    } catch (error) {
-      if (error instanceof ClipCaptureError) return null;
-      throw error;
-    }
-  };
-  const [a, b] = [captureOf(liteFrames), captureOf(fullFrames)];
-  if (!a || !b) return { ...(a ? lite : full), disagree: false };
-  const pair = analyzeCapturePair({ capture: a, handModel: "lite" }, { capture: b, handModel: "full" });
+  let capture;
+  try {
+    capture = withFullModelFrames(clipCapture(target, liteFrames, lite.plan.name).capture, target, fullFrames, lite.plan.name);
+  } catch (error) {
+    if (error instanceof ClipCaptureError) return { ...full, disagree: false };
+    throw error;
+  }
+  const pair = analyzeCaptureFile(capture);
+  if (!("frameReadings" in pair)) return { ...lite, disagree: false };
   return {
     samples: lite.samples.map((s, i) => ({ truthDeg: s.truthDeg, estimateDeg: pair.frameReadings[i].angleDeg })),
     uncertaintiesDeg: pair.frameReadings.map((r) => r.uncertaintyDeg),
@@ -90,11 +88,6 @@ export function agreementRow(reading: AgreementRow["reading"], readings: readonl
   };
 }
 
-function loadTracked(file: string): TrackedFrame[] | null {
-  if (!existsSync(file)) return null;
-  return (JSON.parse(readFileSync(file, "utf8")) as TrackedFrame[]).map((f) => (f.imageAspect ? f : { ...f, imageAspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX }));
-}
-
 type ClipTruthFile = Parameters<typeof readClip>[4];
 type Reading3 = [ClipReading, ClipReading, Scored & { disagree: boolean }];
 
@@ -102,9 +95,9 @@ type Reading3 = [ClipReading, ClipReading, Scored & { disagree: boolean }];
 export function readBoth(folder: string, plans: readonly ClipPlan[]): Reading3[] {
   const pairs: Reading3[] = [];
   for (const plan of plans) {
-    const lite = loadTracked(path.join(folder, `${plan.name}-lite.tracked.json`));
-    const full = loadTracked(path.join(folder, `${plan.name}-full.tracked.json`));
-    if (!lite || !full) continue;
+    const [liteFile, fullFile] = ["lite", "full"].map((model) => path.join(folder, `${plan.name}-${model}.tracked.json`));
+    if (!existsSync(liteFile) || !existsSync(fullFile)) continue;
+    const [lite, full] = [readSavedTracking(liteFile), readSavedTracking(fullFile)];
     const truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
     for (const digit of plan.motion.digits) {
       const one = readClip(plan, "lite", digit, lite, truth);
