@@ -3,6 +3,8 @@ import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
 import { xoroshiro128plus } from "pure-rand/generator/xoroshiro128plus";
 import { analyzeCapture } from "./analyze-capture";
 import { analyzeCapturePair, combineFrame, PEAK_DISAGREEMENT_DEG } from "./model-pair";
+import { trackingFactor, UNCERTAINTY_TABLE, VALIDATION_VIEWS, type UncertaintyTable } from "./uncertainty";
+import type { LiveUpdate } from "./pipeline";
 import { buildSyntheticCapture, randomPlacement, SeededRandom, type SyntheticCaptureSpec } from "./testing/synthetic-hand";
 
 // Synthetic hands have exact landmarks, so these run with the correction off (as vision/analyze-capture.test.ts).
@@ -44,6 +46,15 @@ describe("combining two hand models' readings of a frame", () => {
     expect(combineFrame(a, none)).toEqual(a);
     expect(combineFrame(none, a)).toEqual(a);
     expect(combineFrame(none, none)).toEqual(none);
+  });
+
+  it("with a measured two-model figure, states it where the models agree and half their difference where they do not", () => {
+    const a = { angleDeg: 40, uncertaintyDeg: 6 };
+    expect(combineFrame(a, { angleDeg: 44, uncertaintyDeg: 9 }, 5)).toEqual({ angleDeg: 42, uncertaintyDeg: 5 });
+    // 30° apart: the interval still reaches both models' readings.
+    expect(combineFrame(a, { angleDeg: 70, uncertaintyDeg: 9 }, 5)).toEqual({ angleDeg: 55, uncertaintyDeg: 15 });
+    // One model alone keeps its own interval.
+    expect(combineFrame(a, { angleDeg: null, uncertaintyDeg: null }, 5)).toEqual(a);
   });
 
   it("shrinks the error of two independent readings of equal spread by √2, as the law of propagation of uncertainty says", () => {
@@ -114,6 +125,41 @@ describe("one clip read by two hand models", () => {
     const either = one.frames.filter((f, i) => f.hand || two.frames[i].hand).length;
     expect(pair.usableFrames).toBe(either);
     expect(pair.usableFrames).toBeGreaterThan(Math.max(pair.byModel[0].usableFrames, pair.byModel[1].usableFrames));
+  });
+
+  it("takes the measured two-model figure, widened by the lower tracking score, where both models saw the frame from the same view", () => {
+    // A table whose PIP cell for both models together is 3.3° in every view (the committed table has the little-finger side only).
+    const table: UncertaintyTable = { ...UNCERTAINTY_TABLE, pairs: VALIDATION_VIEWS.map((view) => ({ group: "PIP flexion", view, models: ["lite", "full"], seeds: 1, clipMaeDeg: 1.6, uncertaintyDeg: 3.3 })) };
+    const one = buildSyntheticCapture(pipSpec(80, 11));
+    const two = buildSyntheticCapture(pipSpec(80, 12));
+    const options = { uncertaintyTable: table };
+    const updates = (capture: typeof one, handModel: "lite" | "full") => {
+      const out: LiveUpdate[] = [];
+      analyzeCapture(capture, { ...options, handModel, onUpdate: (u) => out.push(u) });
+      return out;
+    };
+    const [u, v] = [updates(one, "lite"), updates(two, "full")];
+    const pair = analyzeCapturePair({ capture: one, handModel: "lite" }, { capture: two, handModel: "full" }, options);
+    let checked = 0;
+    pair.frameReadings.forEach((reading, i) => {
+      if (u[i].angleDeg === null || v[i].angleDeg === null || u[i].view !== v[i].view) return;
+      const measured = Math.round(3.3 * trackingFactor(Math.min(u[i].score, v[i].score)) * 10) / 10;
+      expect(reading.uncertaintyDeg).toBeCloseTo(Math.max(measured, Math.abs(u[i].angleDeg! - v[i].angleDeg!) / 2), 9);
+      checked += 1;
+    });
+    expect(checked).toBeGreaterThan(100);
+    // Narrower than the one-model rule (the larger stated interval plus half the difference) in those frames.
+    const oneModelRule = analyzeCapturePair({ capture: one, handModel: "lite" }, { capture: two, handModel: "full" }, { uncertaintyTable: { ...table, pairs: [] } });
+    const mean = (r: typeof pair) => r.frameReadings.reduce((sum, f) => sum + (f.uncertaintyDeg ?? 0), 0) / r.frameReadings.length;
+    expect(mean(pair)).toBeLessThan(mean(oneModelRule));
+    // The peak: the measured figure at the lower mean score, at least as far as the further model's own peak.
+    const reach = Math.max(...pair.byModel.map((m) => Math.abs(pair.peakDeg! - m.peakDeg!)));
+    const peakMeasured = Math.round(3.3 * trackingFactor(Math.min(pair.byModel[0].meanScore, pair.byModel[1].meanScore)) * 10) / 10;
+    expect(pair.uncertaintyDeg).toBeCloseTo(Math.max(peakMeasured, reach), 9);
+    // A finger tested on its own was not measured that way: the one-model rule stands.
+    const alone = analyzeCapturePair({ capture: { ...one, oneFinger: true }, handModel: "lite" }, { capture: { ...two, oneFinger: true }, handModel: "full" }, options);
+    const aloneRule = analyzeCapturePair({ capture: { ...one, oneFinger: true }, handModel: "lite" }, { capture: { ...two, oneFinger: true }, handModel: "full" }, { uncertaintyTable: { ...table, pairs: [] } });
+    expect(alone.frameReadings).toEqual(aloneRule.frameReadings);
   });
 
   it("refuses captures of different attempts, of different frames, or twice the same model", () => {

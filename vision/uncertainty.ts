@@ -82,6 +82,21 @@ export interface FingerAloneCell {
   uncertaintyDeg: number;
 }
 
+/**
+ * Both hand models read together (vision/model-pair.ts): the held-out frame error of their combined reading for one
+ * joint group in one view, measured on clips tracked by both (scripts/accuracy/clip-report-two-models.md).
+ */
+export interface PairCell {
+  group: string;
+  view: ValidationView;
+  models: [HandModel, HandModel];
+  /** How many held-out seeds measured it. */
+  seeds: number;
+  /** The combined reading's frame MAE, the worst over those seeds. */
+  clipMaeDeg: number;
+  uncertaintyDeg: number;
+}
+
 export interface UncertaintyTable {
   version: string;
   correctionVersion: string;
@@ -91,6 +106,8 @@ export interface UncertaintyTable {
   withoutStraightWristReading?: WithoutStraightWristReading;
   /** Absent until the report holds the single-finger tables. */
   fingerAlone?: FingerAloneCell[];
+  /** Absent until the two-model report holds held-out seeds. */
+  pairs?: PairCell[];
 }
 
 export const UNCERTAINTY_TABLE = TABLE as UncertaintyTable;
@@ -233,5 +250,15 @@ export function fingerAloneCell(
 /** Uncertainty of a finger tested on its own: its single-finger cell, widened by tracking score. */
 export function fingerAloneUncertaintyDeg(motion: MotionId, digit: Digit | null, model: HandModel | null, view: ValidationView | null, score: number, table = UNCERTAINTY_TABLE): number | null {
   const cell = fingerAloneCell(table, motion, digit, model, view);
+  return cell ? widenedByScore(cell.uncertaintyDeg, score) : null;
+}
+
+/**
+ * Uncertainty of both hand models read together, where the held-out clips measured their combined reading for the
+ * motion's group in this view (PairCell), widened by tracking score; null elsewhere (the caller keeps its one-model rule).
+ */
+export function pairUncertaintyDeg(motion: MotionId, digit: Digit | null, view: ValidationView | null, score: number, table: UncertaintyTable = UNCERTAINTY_TABLE): number | null {
+  const group = correctionGroupFor(motion, digit)?.group;
+  const cell = view === null || !group ? undefined : table.pairs?.find((c) => c.group === group && c.view === view);
   return cell ? widenedByScore(cell.uncertaintyDeg, score) : null;
 }

@@ -8,6 +8,7 @@ import {
   correctionClearlyHelps,
   deriveCommittedTable,
   deriveUncertaintyTable,
+  parsePairCells,
   parseAccuracyReport,
   parseClipFingerRows,
   parseClipReports,
@@ -24,7 +25,7 @@ describe("uncertainty table from the accuracy report", () => {
   it("the committed table is exactly what the committed report gives (re-run derive-uncertainty after the report)", () => {
     expect(deriveCommittedTable()).toEqual(UNCERTAINTY_TABLE);
     // Without the clip reports' wrist rows the rest of the table is the same.
-    const { withoutStraightWristReading, ...cells } = UNCERTAINTY_TABLE;
+    const { withoutStraightWristReading, pairs, ...cells } = UNCERTAINTY_TABLE;
     expect(deriveUncertaintyTable(report, readHandShapeRows(), CORRECTION_VERSION, readClipRows(), null, readClipFingerRows())).toEqual(cells);
     // Both clip reports are split by finger ("By finger"): the thumb side (gravity minimized) and the little-finger side.
     const split = UNCERTAINTY_TABLE.cells.filter((c) => c.byDigit).map((c) => `${c.group}|${c.view}|${c.model}`);
@@ -32,6 +33,31 @@ describe("uncertainty table from the accuracy report", () => {
       for (const view of ["radial", "ulnar"]) for (const model of ["lite", "full"]) expect(split).toContain(`${group}|${view}|${model}`);
     }
     expect(withoutStraightWristReading).toBeDefined();
+    // The two-model report gives the little-finger side's three finger joints.
+    expect(pairs?.map((c) => `${c.group}|${c.view}`)).toEqual(["MCP flexion|ulnar", "PIP flexion|ulnar", "DIP flexion|ulnar"]);
+  });
+
+  it("takes the two-model cells from the held-out seeds' 'both' rows against gravity only, the worst seed", () => {
+    const header = "| motion | seed | reading | readings | detected | MAE ° | slope |\n| --- | --- | --- | ---: | ---: | ---: | ---: |";
+    const markdown = [
+      "## Seeds 20261201, 20261202, 77000401, against gravity",
+      "",
+      header,
+      "| pip.flexion | 20261201 | lite | 40 | 100% | 9.00 | 0.9 |",
+      "| pip.flexion | 20261201 | both | 40 | 100% | 3.00 | 0.9 |",
+      "| pip.flexion | 20261202 | both | 40 | 100% | 4.00 | 0.9 |",
+      "| pip.flexion | 77000401 | both | 40 | 100% | 8.00 | 0.9 |",
+      "| pip.flexion | all | both | 120 | 100% | 5.00 | 0.9 |",
+      "",
+      "## Seeds 20261203, gravity minimized",
+      "",
+      header,
+      "| pip.flexion | 20261203 | both | 40 | 100% | 7.00 | 0.9 |",
+      "",
+    ].join("\n");
+    // 2.06 x 4.00 (the worse held-out seed; training seeds, the pooled row and the thumb side left out).
+    expect(parsePairCells(markdown)).toEqual([{ group: "PIP flexion", view: "ulnar", models: ["lite", "full"], seeds: 2, clipMaeDeg: 4, uncertaintyDeg: 8.2 }]);
+    expect(() => parsePairCells(markdown.replace("| 4.00 |", "| - |"))).toThrow(/pip.flexion, 20261202, both.*MAE °/);
   });
 
   it("pools the wrist readings made without a straight-wrist reading over the reports, weighting each row by its detected frames", () => {

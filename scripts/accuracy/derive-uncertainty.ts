@@ -11,7 +11,7 @@ import path from "node:path";
 import { fileURLToPath } from "node:url";
 import { FINGERS } from "@/lib/motions/catalog";
 import { CORRECTION_VERSION, type HandModel } from "@/vision/correction";
-import { uncertaintyFromMaeDeg, VALIDATION_VIEWS, type DigitFigure, type FingerAloneCell, type UncertaintyTable, type ValidationCell, type ValidationView } from "@/vision/uncertainty";
+import { uncertaintyFromMaeDeg, VALIDATION_VIEWS, type DigitFigure, type FingerAloneCell, type PairCell, type UncertaintyTable, type ValidationCell, type ValidationView } from "@/vision/uncertainty";
 
 const HERE = path.dirname(fileURLToPath(import.meta.url));
 export const REPORT_FILE = path.join(HERE, "report.md");
@@ -28,6 +28,9 @@ export const CLIP_REPORT_FILES = [
   // Whole-hand shapes: the finger test motions seen from the palm, the back and above (clip-validation.ts --view).
   path.join(HERE, "clip-report-hand-shapes.md"),
 ] as const;
+
+/** Both hand models on one clip (model-agreement.ts): its "both" rows give the two-model cells (PairCell). */
+export const TWO_MODEL_REPORT_FILE = path.join(HERE, "clip-report-two-models.md");
 
 /** A markdown table row's cells, trimmed (the row starts and ends with "|"). */
 function tableCells(row: string): string[] {
@@ -111,6 +114,33 @@ export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
     rows.set(key, row);
   }
   return [...rows.values()];
+}
+
+const PAIR_GROUPS: Record<string, string> = { "mcp.flexion": "MCP flexion", "pip.flexion": "PIP flexion", "dip.flexion": "DIP flexion" };
+
+/**
+ * The two-model cells from the two-model report: per finger joint, the engine's frame MAE of both models read together
+ * ("both" rows), the worst over the held-out seeds (2026xxxx; the training seeds' rows and the "all" rows are left out).
+ * Only the sections against gravity count, whose clips were seen from the little-finger side: the thumb-side cells are
+ * split by finger (byDigit) and the report does not split "both" by finger, so there the one-model rule stands.
+ * Throws naming the row when a figure is not a number.
+ */
+export function parsePairCells(markdown: string): PairCell[] {
+  const worst = new Map<string, { maeDeg: number; seeds: number }>();
+  const sections = markdown.split(/^## /m).slice(1);
+  for (const section of sections) {
+    const heading = section.split("\n")[0];
+    if (!heading.endsWith(", against gravity")) continue;
+    for (const r of tableRows([section], isMotionTable)) {
+      if (r.at("reading") !== "both" || !/^2026\d{4}$/.test(r.at("seed"))) continue;
+      const group = PAIR_GROUPS[r.cells[0]];
+      if (!group) throw new Error(`two-model report: row "${r.cells.slice(0, 3).join(", ")}": expected a motion of ${Object.keys(PAIR_GROUPS).join(", ")}`);
+      const mae = rowNumber(r, "MAE °", "a number of degrees", "motion");
+      const seen = worst.get(group) ?? { maeDeg: 0, seeds: 0 };
+      worst.set(group, { maeDeg: Math.max(seen.maeDeg, mae), seeds: seen.seeds + 1 });
+    }
+  }
+  return [...worst].map(([group, w]) => ({ group, view: "ulnar" as const, models: ["lite", "full"] as [HandModel, HandModel], seeds: w.seeds, clipMaeDeg: w.maeDeg, uncertaintyDeg: round1(uncertaintyFromMaeDeg(w.maeDeg)) }));
 }
 
 /**
@@ -274,6 +304,7 @@ export function deriveUncertaintyTable(
   clipRows: readonly ClipRow[] = [],
   withoutStraightWrist: { readings: number; maeDeg: number } | null = null,
   clipFingerRows: readonly ClipFingerRow[] = [],
+  pairCells: readonly PairCell[] = [],
 ): UncertaintyTable {
   const clips = new Map(clipRows.map((r) => [`${r.group}|${r.view}|${r.model}`, r]));
   // A cell is split by finger where every seed that measured it was split, for all four fingers.
@@ -364,7 +395,9 @@ export function deriveUncertaintyTable(
       "withoutStraightWristReading: the same rule on the frame MAE of the clip reports' wrist readings made against how the hand was first seen " +
       "(the tracker missed the straight-wrist hold), pooled over their seeds, models and conditions; it stands for every wrist reading made that way. " +
       "fingerAlone: the same rule on report.md's single-finger test motions (one finger bent, the others straight), with the method the engine uses in the " +
-      "four-finger cell of the same group, view and model; it stands for a finger the therapist marks as tested on its own, the others held straight (vision/pipeline.ts oneFinger).",
+      "four-finger cell of the same group, view and model; it stands for a finger the therapist marks as tested on its own, the others held straight (vision/pipeline.ts oneFinger). " +
+      "pairs: the same rule on the frame MAE of both hand models read together (vision/model-pair.ts), the worst over the held-out seeds of " +
+      "scripts/accuracy/clip-report-two-models.md, against gravity (little-finger side) only; it stands for a frame both models read in that view.",
     cells,
     ...(withoutStraightWrist
       ? {
@@ -376,6 +409,7 @@ export function deriveUncertaintyTable(
         }
       : {}),
     ...(fingerAlone.length ? { fingerAlone } : {}),
+    ...(pairCells.length ? { pairs: [...pairCells] } : {}),
   };
 }
 
@@ -399,6 +433,7 @@ export function deriveCommittedTable(): UncertaintyTable {
     parseClipReports(clipReports),
     parseWithoutStraightWrist(clipReports),
     parseClipFingerRows(clipReports),
+    existsSync(TWO_MODEL_REPORT_FILE) ? parsePairCells(readFileSync(TWO_MODEL_REPORT_FILE, "utf8")) : [],
   );
 }
 

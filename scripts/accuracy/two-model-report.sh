@@ -1,0 +1,22 @@
+#!/bin/sh
+# Writes scripts/accuracy/clip-report-two-models.md from saved tracking (see the accuracy README).
+set -e
+cd "$(dirname "$0")/../.."
+A="npx tsx scripts/accuracy/model-agreement.ts"
+{
+  echo "# Two hand models on one clip (lite, full, both together)"
+  echo
+  echo "Written by the commands in scripts/accuracy/README.md (\"Two hand models on one clip\"); do not edit by hand. Engine readings of saved tracking, every frame against the truth, all four fingers; \"both\" is vision/model-pair.ts analyzeCapturePair. Seed 20261218 is the fresh held-out seed for the rule as revised in commit ccbbff1, read once; seed 20261217 was fresh for the first rule; the other held-out seeds were read before for other purposes; 77000401-77000405 are training seeds."
+  echo
+  $A --seeds 20261218 --per-reading
+  echo
+  $A --seeds 20261217 --per-reading
+  echo
+  $A --seeds 20261217 --condition gravity_minimized --per-reading
+  echo
+  $A --seeds 20261210,20261209,20261207,20261205,20261216
+  echo
+  $A --seeds 20261210,20261207,20261215 --condition gravity_minimized
+  echo
+  $A --seeds 77000401,77000402,77000403,77000404,77000405
+} > scripts/accuracy/clip-report-two-models.md 2>"${TMPDIR:-/tmp}/two-model-report.err"
