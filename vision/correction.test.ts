@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { MOTIONS, type Digit, type MotionId } from "@/lib/motions/catalog";
 import { handAxes, readMotion } from "./angles";
 import COEFFICIENTS from "./correction-coefficients.json";
-import { CORRECTION_FEATURES, CORRECTION_MODEL, CORRECTION_VERSION, correctGroupAngle, correctionGroupFor, correctMotionAngle, type RawAngleFeatures } from "./correction";
+import { CORRECTION_FEATURES, CORRECTION_MODEL, CORRECTION_VERSION, correctGroupAngle, correctionGroupFor, correctMotionAngle, wristPictureGain, type RawAngleFeatures } from "./correction";
 import { estimateFingerJointDeg } from "./estimator";
 import { createLivePipeline } from "./pipeline";
 import { neutralPose, PINHOLE_ASPECT, pinholeFingerPicture, pinholePicture, poseHand, withMotionAngle, type Placement } from "./testing/synthetic-hand";
@@ -20,9 +20,9 @@ function featureValue(name: string, f: RawAngleFeatures): number {
 const SAMPLE: RawAngleFeatures = { deg: 41, imagePlaneDeg: 38, planeFacing: 0.8, radialTowardCamera: 0.9, palmTowardCamera: -0.2 };
 
 describe("the committed correction (vision/correction-coefficients.json)", () => {
-  it("is version kinarc-correction-7 with the engine's feature list, ten coefficients per linear fit and the finger estimator", () => {
+  it("is version kinarc-correction-8 with the engine's feature list, ten coefficients per linear fit and the finger estimator", () => {
     expect(COEFFICIENTS.version).toBe(CORRECTION_VERSION);
-    expect(CORRECTION_VERSION).toBe("kinarc-correction-7");
+    expect(CORRECTION_VERSION).toBe("kinarc-correction-8");
     expect(COEFFICIENTS.features).toEqual([...CORRECTION_FEATURES]);
     for (const groups of Object.values(CORRECTION_MODEL.groups)) for (const fit of Object.values(groups)) expect(fit.coefficients).toHaveLength(10);
     // Finger flexion is the estimator's alone: a linear fit beside it would never be read.
@@ -117,8 +117,8 @@ describe("the live pipeline with the correction", () => {
     const expected = correctGroupAngle(CORRECTION_MODEL, "lite", "PIP flexion", { ...withFrame(hand), deg: raw.deg, imagePlaneDeg: raw.imagePlaneDeg, planeFacing: 1, radialTowardCamera: 1, palmTowardCamera: 0 }, "index")!;
     expect(update.angleDeg).toBeCloseTo(expected, 9);
     expect(Math.abs(update.angleDeg! - raw.deg)).toBeGreaterThan(0.1);
-    expect(update.method).toBe("world3d+kinarc-correction-7");
-    expect(update.correctionVersion).toBe("kinarc-correction-7");
+    expect(update.method).toBe("world3d+kinarc-correction-8");
+    expect(update.correctionVersion).toBe("kinarc-correction-8");
     const cell = table.cells.find((c) => c.group === "PIP flexion" && c.model === "lite" && c.view === "radial")!;
     // The index finger's own figure where the held-out clips split the cell by finger.
     expect(update.uncertaintyDeg).toBeCloseTo(cell.byDigit?.find((f) => f.digit === "index")?.uncertaintyDeg ?? cell.uncertaintyDeg, 6);
@@ -134,5 +134,19 @@ describe("the live pipeline with the correction", () => {
     expect(update.angleDeg).toBeCloseTo(60, 6);
     expect(update.method).toBe("world3d");
     expect(update.correctionVersion).toBeNull();
+  });
+});
+
+describe("the picture-read wrist's gain (kinarc-correction-8)", () => {
+  it("takes the hand model's pooled fit, and none for a model without a usable fit", () => {
+    const fit = (gain: number) => ({ slope: 1 / gain, interceptDeg: 0, gain, frames: 100 });
+    const model = { ...CORRECTION_MODEL, wristPictureGains: { lite: { ...fit(0.9), bySide: { ulnar: fit(0.95) } } } };
+    expect(wristPictureGain(model, "lite")).toBe(0.9);
+    expect(wristPictureGain(model, "full")).toBeNull();
+    expect(wristPictureGain({ ...model, wristPictureGains: { lite: fit(-1) } }, "lite")).toBeNull();
+  });
+
+  it("the committed model carries a gain for both hand models", () => {
+    for (const handModel of ["lite", "full"]) expect(wristPictureGain(CORRECTION_MODEL, handModel)).toBeGreaterThan(0.85);
   });
 });

@@ -2,6 +2,7 @@ import type { Digit, MotionId, Side } from "@/lib/motions/catalog";
 import COEFFICIENTS from "./correction-coefficients.json";
 import HAND_SHAPE_FIT from "./correction-hand-shape.json";
 import HAND_SHAPE_DOWN_FIT from "./correction-hand-shape-down.json";
+import WRIST_PICTURE_GAIN from "./wrist-picture-gain.json";
 import { estimateHandShapeJointDeg, handShapeUsesPicture, type HandShapeEstimatorModel } from "./correction-hand-shape";
 import { estimateFingerJointDeg, fingerJointOfGroup, usesPicture, type Finger, type FingerEstimatorModel, type FingerPicture } from "./estimator";
 import { handAxes, type HandAxes } from "./angles";
@@ -39,7 +40,7 @@ export const CORRECTION_FEATURES = [
   "deg*palm",
 ] as const;
 
-export const CORRECTION_VERSION = "kinarc-correction-7";
+export const CORRECTION_VERSION = "kinarc-correction-8";
 
 /** Joint groups as the accuracy report names its rows: the four fingers share one fit per joint. */
 export const CORRECTION_GROUPS = [
@@ -101,6 +102,31 @@ export interface CorrectionModel {
    * from above the back of a hand on a table (version 4). The first whose views hold the frame's view reads it.
    */
   handShapeEstimators?: readonly HandShapeEstimatorModel[];
+  /**
+   * Side-on wrist flexion/extension read in the picture (vision/wrist-axis.ts), by hand model: the gain that undoes its
+   * over-read (version 8, scripts/accuracy/wrist-picture-fit.ts, vision/wrist-picture-gain.json).
+   */
+  wristPictureGains?: Record<string, WristPictureFit>;
+}
+
+/**
+ * One calibration line of the picture-read wrist: reading = interceptDeg + slope * truth on training clips seen from
+ * either side; gain = 1 / slope. `bySide` shows the same fit per side of the hand toward the camera; the engine takes
+ * the pooled one, because from the thumb side its view classifier names the side wrongly in about half the frames
+ * (the depth it rests on is what side-on tracking places least surely).
+ */
+export interface WristPictureFit {
+  slope: number;
+  interceptDeg: number;
+  gain: number;
+  frames: number;
+  bySide?: Record<string, Omit<WristPictureFit, "bySide">>;
+}
+
+/** The gain for a picture-read wrist angle, or null where the hand model has none (the angle is read as it is). */
+export function wristPictureGain(model: CorrectionModel, handModel: string): number | null {
+  const gain = model.wristPictureGains?.[handModel]?.gain;
+  return gain !== undefined && Number.isFinite(gain) && gain > 0 ? gain : null;
 }
 
 /** The committed coefficients. */
@@ -111,6 +137,7 @@ export const CORRECTION_MODEL: CorrectionModel = {
   ...(COEFFICIENTS as unknown as CorrectionModel),
   version: CORRECTION_VERSION,
   handShapeEstimators: [HAND_SHAPE_MODEL, HAND_SHAPE_DOWN_MODEL],
+  wristPictureGains: WRIST_PICTURE_GAIN.gains as Record<string, WristPictureFit>,
 };
 
 export function correctionFeatures(f: RawAngleFeatures): number[] {

@@ -93,6 +93,7 @@ describe("a stored attempt's method in words", () => {
     expect(measurementMethodWords("image_plane")).toMatch(/in the picture.*side-on/);
     expect(measurementMethodWords("world3d")).toMatch(/raw angles, no correction/);
     expect(measurementMethodWords("world3d+kinarc-correction-7")).toBe("hand landmarks, corrected (kinarc-correction-7)");
+    expect(measurementMethodWords("image_plane+kinarc-correction-8")).toBe("read in the picture, the hand seen side-on, scaled by its fitted gain (kinarc-correction-8)");
     expect(measurementMethodWords(null)).toBe("—");
   });
 });

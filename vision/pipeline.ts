@@ -8,7 +8,7 @@ import { OneEuroFilter, type OneEuroParams } from "./one-euro";
 import { PlaneAccumulator, readPlane, unitGravity, type PlaneReading } from "./plane";
 import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
 import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
-import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, type CorrectionModel, type HandModel } from "./correction";
+import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, wristPictureGain, type CorrectionModel, type HandModel } from "./correction";
 import {
   angleUncertaintyDeg,
   correctionHelps,
@@ -25,11 +25,12 @@ import { viewName, viewOfAxes, viewPolicy, viewQuality, type ViewPolicy, type Vi
 import { forearmFromNeutral, neutralReadingUncertaintyDeg, sideOnNeutral, sideOnWristFlexion, WRIST_AXIS_VALIDATION, type ForearmSource, type NeutralReading, type WristAxisValidation } from "./wrist-axis";
 
 /** How an angle was obtained: raw 3-D landmarks, or those corrected by a named correction ("world3d+kinarc-correction-2"). */
-export type MeasurementMethod = "world3d" | "image_plane" | `world3d+${string}`;
+export type MeasurementMethod = "world3d" | "image_plane" | `world3d+${string}` | `image_plane+${string}`;
 
 /** A stored attempt's method in the therapist's words (the upload review shows it). */
 export function measurementMethodWords(method: string | null): string {
   if (method === "image_plane") return "read in the picture, the hand seen side-on (no correction)";
+  if (method?.startsWith("image_plane+")) return `read in the picture, the hand seen side-on, scaled by its fitted gain (${method.slice("image_plane+".length)})`;
   if (method === "world3d") return "3-D hand landmarks (raw angles, no correction)";
   if (method?.startsWith("world3d+")) return `hand landmarks, corrected (${method.slice("world3d+".length)})`;
   return method ?? "—";
@@ -213,6 +214,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   const table = options.uncertaintyTable ?? UNCERTAINTY_TABLE;
   const correctionTarget = options.correction === "off" ? null : correctionGroupFor(options.motion, options.digit);
   const correctedMethod: MeasurementMethod = `world3d+${correctionModel.version}`;
+  const pictureCorrectedMethod: MeasurementMethod = `image_plane+${correctionModel.version}`;
   let correctedFrames = 0;
   let usableScoreSum = 0;
   const viewCounts = new Map<ValidationView, number>();
@@ -306,6 +308,13 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     const inPicture = pictureFlexion !== null;
     let frameMethod: MeasurementMethod = inPicture ? "image_plane" : "world3d";
     if (inPicture) pictureFrames += 1;
+    // Read in the picture, the wrist over-reads its turn a little; the fitted gain undoes it (kinarc-correction-8).
+    const pictureGain = inPicture && correctionTarget ? wristPictureGain(correctionModel, handModel) : null;
+    if (pictureGain !== null) {
+      angleDeg = reading.deg * pictureGain;
+      frameMethod = pictureCorrectedMethod;
+      correctedFrames += 1;
+    }
     // The finger estimator reads the picture points too (vision/estimator.ts PICTURE_FEATURES); the depth mirror
     // turns the world hand front to back and leaves the picture as it was.
     const aspect = frame.imageAspect ?? options.imageAspect;
@@ -367,7 +376,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       view,
       viewQuality: viewQuality(policy, view),
       forearmSource: forearm?.source ?? null,
-      correctionVersion: frameMethod === correctedMethod ? correctionModel.version : null,
+      correctionVersion: frameMethod === correctedMethod || frameMethod === pictureCorrectedMethod ? correctionModel.version : null,
     };
   }
 
@@ -429,7 +438,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       warnings.push(`forearm line: ${[...forearmCounts].map(([source, n]) => `${source} in ${n} frames`).join(", ")} (the pose landmarker saw the elbow only part of the time)`);
     }
     const meanUsableScore = usable ? usableScoreSum / usable : 0;
-    const summaryMethod: MeasurementMethod = correctedFrames > 0 ? correctedMethod : pictureFrames > 0 ? "image_plane" : "world3d";
+    const summaryMethod: MeasurementMethod = pictureFrames > 0 ? (correctedFrames > 0 ? pictureCorrectedMethod : "image_plane") : correctedFrames > 0 ? correctedMethod : "world3d";
     return {
       frames,
       usableFrames: usable,

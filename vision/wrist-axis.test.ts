@@ -4,6 +4,7 @@ import { parseCapture } from "@/lib/capture/parse";
 import { SIDES, type MotionId, type Side } from "@/lib/motions/catalog";
 import { analyzeCapture } from "./analyze-capture";
 import { handAxes, wristAngles } from "./angles";
+import { CORRECTION_MODEL, CORRECTION_VERSION } from "./correction";
 import { MIDDLE_MCP, THUMB_IP, THUMB_MCP, THUMB_TIP, WRIST } from "./landmarks";
 import { createLivePipeline } from "./pipeline";
 import { buildSyntheticCapture, neutralPose, poseHand, randomPlacement, SeededRandom, withMotionAngle, type Placement } from "./testing/synthetic-hand";
@@ -189,7 +190,8 @@ describe("side-on neutral reading: wrist flexion and extension read in the pictu
         expect(neutral.reading.sideOn!.thumbOffsetM).toBeGreaterThan(SIDE_ON_LIMITS.minThumbOffsetM);
         for (const [motion, deg] of [["wrist.flexion", 55], ["wrist.extension", 35]] as const) {
           const hand = poseHand(withMotionAngle(neutralPose(), motion, null, deg), side, placement).landmarks;
-          const update = createLivePipeline({ motion, side, digit: null, condition: "gravity_minimized", neutral: neutral.reading }).push({ t: 0, score: 0.95, hand });
+          // The picture's geometry itself, exact on synthetic hands: the fitted gain off (it is checked below).
+          const update = createLivePipeline({ motion, side, digit: null, condition: "gravity_minimized", neutral: neutral.reading, correction: "off" }).push({ t: 0, score: 0.95, hand });
           expect(update.method, `${side} ${facing} ${motion}`).toBe("image_plane");
           expect(update.angleDeg!, `${side} ${facing} ${motion}`).toBeCloseTo(deg, 0);
         }
@@ -210,7 +212,7 @@ describe("side-on neutral reading: wrist flexion and extension read in the pictu
     for (let i = 0; i < 20; i++) {
       const deg = -60 + 7 * i;
       const hand = depthBlurred(poseHand(withMotionAngle(neutralPose(), "wrist.flexion", null, deg), side, placement).landmarks, 0.05, 3, random);
-      const update = createLivePipeline({ motion: "wrist.flexion", side, digit: null, condition: "gravity_minimized", neutral: neutral.reading }).push({ t: 0, score: 0.95, hand });
+      const update = createLivePipeline({ motion: "wrist.flexion", side, digit: null, condition: "gravity_minimized", neutral: neutral.reading, correction: "off" }).push({ t: 0, score: 0.95, hand });
       pictureErrors.push(Math.abs(update.angleDeg! - deg));
       const world = wristAngles(handAxes(hand, side)!, forearmFromNeutral(neutral.reading));
       worldErrors.push(world ? Math.abs(world.flexion.deg - deg) : 180);
@@ -224,7 +226,7 @@ describe("side-on neutral reading: wrist flexion and extension read in the pictu
     const side: Side = "left";
     const placement = sideOnView(side, "radial");
     const random = new SeededRandom(22);
-    const pipeline = createLivePipeline({ motion: "wrist.extension", side, digit: null, condition: "gravity_minimized" });
+    const pipeline = createLivePipeline({ motion: "wrist.extension", side, digit: null, condition: "gravity_minimized", correction: "off" });
     let last = null;
     for (let t = 0; t <= 3000; t += 33) {
       const deg = t < 1200 ? 0 : Math.min(50, ((t - 1200) / 1000) * 50);
@@ -279,16 +281,20 @@ describe("side-on limits: how far the thumb must sit off the hand's line", () =>
 });
 
 describe("engine policy against a neutral reading", () => {
-  it("leaves wrist angles uncorrected (the correction was fitted against a true forearm) and states the neutral-reading validation error", () => {
+  it("leaves the 3-D wrist maps off (fitted against a true forearm), scales a picture-read angle by its fitted gain, and states the neutral-reading validation error", () => {
     const side: Side = "right";
     const placement = onTable(side);
     const neutral = neutralReading(heldFrames(side, placement, 2000, 0, 1), side);
     if (!neutral.ok) throw new Error(neutral.problem);
     const hand = poseHand(withMotionAngle(neutralPose(), "wrist.flexion", null, 40), side, placement).landmarks;
     const update = createLivePipeline({ motion: "wrist.flexion", side, digit: null, condition: "against_gravity", neutral: neutral.reading }).push({ t: 0, score: 0.95, hand });
-    // Seen side-on, the angle is read in the picture (exact here: the wrist's axis lies along the line of sight).
-    expect(update).toMatchObject({ forearmSource: "neutral-reading", method: "image_plane", correctionVersion: null });
-    expect(update.angleDeg).toBeCloseTo(40, 6);
+    // Seen side-on, the angle is read in the picture (exact here: the wrist's axis lies along the line of sight), then
+    // scaled by the lite model's gain (vision/wrist-picture-gain.json, fitted on training clips).
+    expect(update).toMatchObject({ forearmSource: "neutral-reading", method: `image_plane+${CORRECTION_VERSION}`, correctionVersion: CORRECTION_VERSION });
+    const gain = CORRECTION_MODEL.wristPictureGains!.lite!.gain;
+    expect(gain).toBeLessThan(1);
+    expect(update.angleDeg).toBeCloseTo(40 * gain, 6);
+    expect(update.imagePlaneDeg).toBeCloseTo(40, 6);
     const cell = WRIST_AXIS_VALIDATION.cells.find((c) => c.group === "wrist flexion (+) / extension (-)" && c.model === "lite" && c.view === update.view);
     expect(cell, `a validation cell for ${update.view}`).toBeDefined();
     // 90% half-width of a normal error with that MAE: 1.645 x sqrt(pi/2) x MAE (vision/uncertainty.ts), score 0.95: no

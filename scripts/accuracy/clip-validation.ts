@@ -172,7 +172,7 @@ export function aloneMotion(motion: ClipMotion, digit: Digit): ClipMotion {
   return { ...motion, joints: motion.joints.filter((joint) => joint.startsWith(`${digit}.`)), digits: [digit] };
 }
 
-interface ClipTruthFile {
+export interface ClipTruthFile {
   frameCount: number;
   frames: { index: number; timeMs: number; truth: FrameTruth }[];
 }
