@@ -229,7 +229,8 @@ export interface WristAxisCell {
 export interface WristAxisValidation {
   seed: number;
   source: "neutral-reading";
-  method: "raw";
+  /** "engine": read as the engine reads against a neutral reading (since kinarc-correction-8 the picture-read wrist takes its gain); "raw" before. */
+  method: "engine" | "raw";
   cells: WristAxisCell[];
 }
 

@@ -428,9 +428,9 @@ export function neutralValidationTable(seed: number, rows: readonly WristRow[]):
   return {
     seed,
     source: "neutral-reading",
-    method: "raw",
+    method: "engine",
     cells: rows
-      .filter((r) => r.landmarks === "tracked" && r.source === "neutral-reading" && r.method === "raw" && r.summary.meanAbsoluteErrorDeg !== null)
+      .filter((r) => r.landmarks === "tracked" && r.source === "neutral-reading" && r.method === "engine" && r.summary.meanAbsoluteErrorDeg !== null)
       .filter((r): r is WristRow & { model: HandModel } => r.model === "lite" || r.model === "full")
       .map((r) => ({
         group: r.group,
