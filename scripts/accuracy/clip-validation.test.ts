@@ -10,6 +10,7 @@ import {
   parseSensorNoise,
   planClips,
   statedCoverage,
+  peakCoverage,
   readClip,
   summarizeClipReadings,
   withoutStraightWristRows,
@@ -148,6 +149,19 @@ describe("reading a clip against its truth", () => {
     };
     expect(statedCoverage([made])).toBe(0.5);
     expect(statedCoverage([{ samples: [], uncertaintiesDeg: [] }])).toBeNull();
+  });
+
+  it("counts the readings whose peak lies within the interval stated for the peak", () => {
+    // Peak errors of -2, 6 and 3 against a stated 4 (two within, the second not), one with no interval, one with no peak.
+    const made = [
+      { peakDeg: 78, truthPeakDeg: 80, peakUncertaintyDeg: 4 },
+      { peakDeg: 86, truthPeakDeg: 80, peakUncertaintyDeg: 4 },
+      { peakDeg: 83, truthPeakDeg: 80, peakUncertaintyDeg: 4 },
+      { peakDeg: 80, truthPeakDeg: 80, peakUncertaintyDeg: null },
+      { peakDeg: null, truthPeakDeg: 80, peakUncertaintyDeg: null },
+    ];
+    expect(peakCoverage(made)).toBe(0.5);
+    expect(peakCoverage([made[4]])).toBeNull();
   });
 
   it("refuses a clip whose tracked frames do not match its truth", () => {

@@ -378,6 +378,8 @@ export interface ClipRow {
   neutralUsed: string;
   /** Share of detected frames whose error lies within the engine's stated 90% interval (null with none). */
   withinStated: number | null;
+  /** Share of readings with a peak whose peak error lies within the peak's stated interval (null with none). */
+  peakWithinStated: number | null;
 }
 
 export function summarizeClipReadings(readings: readonly ClipReading[]): Omit<ClipRow, "label" | "variant" | "bar" | "view" | "model"> {
@@ -391,7 +393,18 @@ export function summarizeClipReadings(readings: readonly ClipReading[]): Omit<Cl
     repsRight: readings.filter((r) => r.reps === CYCLES).length,
     neutralUsed: wrist.length ? `${wrist.filter((r) => r.neutralUsed).length}/${wrist.length}` : "-",
     withinStated: statedCoverage(readings),
+    peakWithinStated: peakCoverage(readings),
   };
+}
+
+/**
+ * How often the stated interval holds for the peak, the figure a grade rests on: the share of readings with a peak
+ * whose error lies inside the interval stated for it (a reading without a stated interval counts as outside).
+ */
+export function peakCoverage(readings: readonly Pick<ClipReading, "peakDeg" | "truthPeakDeg" | "peakUncertaintyDeg">[]): number | null {
+  const peaked = readings.filter((r) => r.peakDeg !== null);
+  if (!peaked.length) return null;
+  return peaked.filter((r) => r.peakUncertaintyDeg !== null && Math.abs(r.peakDeg! - r.truthPeakDeg) <= r.peakUncertaintyDeg).length / peaked.length;
 }
 
 /**
@@ -498,7 +511,7 @@ export function clipReport(
       `(1 s; 3 s for the wrist, the straight-wrist reading), then ${CYCLES} cycles of ${CYCLE_SECONDS} s from rest to an end of range drawn from the seed and back, ${FPS} fps, ` +
       `camera 0.3-0.7 m, skin, light and background drawn from the seed, ${where}. ${fingers} Nothing is fitted on these seeds.`,
     "- Path: the app's tracking code frame by frame (step mode, as analyze-clip and the upload review), the upload's capture builder, the engine's capture analysis as shipped (correction where it clearly helps, wrist read against the clip's straight-wrist reading, depth mirror on); `without depth mirror` and `raw` (no correction, no depth mirror) for comparison. Side-on wrist flexion/extension is read in the picture (vision/wrist-axis.ts) in every reading, raw included; the finger estimator reads each finger's picture points as well as its 3-D ones (vision/estimator.ts PICTURE_FEATURES).",
-    "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles. Within stated ±: the share of detected frames whose error lies inside the 90% interval the engine stated for that frame (vision/uncertainty.ts; about 90% is honest, far less is overconfident).",
+    "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles. Within stated ±: the share of detected frames whose error lies inside the 90% interval the engine stated for that frame (vision/uncertainty.ts; about 90% is honest, far less is overconfident); peak within stated ±: the same for each reading's peak and the interval stated for it.",
     `- Renderer: ${meta.glName}.`,
   ];
   for (const section of sections) {
@@ -517,12 +530,12 @@ export function clipReport(
       "",
       ...rows.filter((row) => row.variant === "engine").map((row) => `- ${row.label}, ${row.view}, ${row.model}: ${verdict(row)}`),
       "",
-      "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope | within 5° | within 10° | peak MAE ° | worst peak error ° | repetitions right | straight-wrist reading used | within stated ± |",
-      "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
+      "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope | within 5° | within 10° | peak MAE ° | worst peak error ° | repetitions right | straight-wrist reading used | within stated ± | peak within stated ± |",
+      "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
       ...rows.map(
         (row) =>
           `| ${row.label} | ${row.view} | ${row.model} | ${row.variant} | ${row.readings} | ${row.frames.samples} | ${pct(row.frames.detectionRate)} | ${fmt(row.frames.biasDeg)} | ${fmt(row.frames.meanAbsoluteErrorDeg, 2)} | ` +
-          `${fmt(row.frames.slope, 2)} | ${pct(row.frames.within5)} | ${pct(row.frames.within10)} | ${fmt(row.peakMaeDeg)} | ${fmt(row.peakWorstDeg)} | ${row.repsRight}/${row.readings} | ${row.neutralUsed} | ${pct(row.withinStated)} |`,
+          `${fmt(row.frames.slope, 2)} | ${pct(row.frames.within5)} | ${pct(row.frames.within10)} | ${fmt(row.peakMaeDeg)} | ${fmt(row.peakWorstDeg)} | ${row.repsRight}/${row.readings} | ${row.neutralUsed} | ${pct(row.withinStated)} | ${pct(row.peakWithinStated)} |`,
       ),
     );
     if (section.byFinger?.length) {

@@ -21,7 +21,7 @@ import type { Condition, MotionId } from "@/lib/motions/catalog";
 import type { TrackedFrame } from "@/vision/live/types";
 import { ClipCaptureError, clipCapture, withFullModelFrames } from "@/vision/live/clip-capture";
 import { analyzeCaptureFile, PEAK_DISAGREEMENT_DEG } from "@/vision/model-pair";
-import { planClips, readClip, readSavedTracking, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
+import { peakCoverage, planClips, readClip, readSavedTracking, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
 import { parseCount } from "./run-accuracy";
 import { ACCEPTANCE, meetsAcceptance, type AcceptanceKey } from "./acceptance";
@@ -84,7 +84,7 @@ export function agreementRow(reading: AgreementRow["reading"], readings: readonl
     within: statedCoverage(readings),
     peakMaeDeg: peakErrors.length ? peakErrors.reduce((sum, e) => sum + Math.abs(e), 0) / peakErrors.length : null,
     worstPeakErrorDeg: worst,
-    peakWithin: peaked.length ? peaked.filter((r) => Math.abs(r.peakDeg! - r.truthPeakDeg) <= (r.peakUncertaintyDeg ?? 0)).length / peaked.length : null,
+    peakWithin: peakCoverage(readings),
   };
 }
 
