@@ -3,7 +3,7 @@ import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
 import { xoroshiro128plus } from "pure-rand/generator/xoroshiro128plus";
 import { analyzeCapture } from "./analyze-capture";
 import { analyzeCapturePair, combineFrame, PEAK_DISAGREEMENT_DEG } from "./model-pair";
-import { trackingFactor, UNCERTAINTY_TABLE, VALIDATION_VIEWS, type UncertaintyTable } from "./uncertainty";
+import { pairUncertaintyDeg, trackingFactor, UNCERTAINTY_TABLE, VALIDATION_VIEWS, type UncertaintyTable } from "./uncertainty";
 import type { LiveUpdate } from "./pipeline";
 import { buildSyntheticCapture, randomPlacement, SeededRandom, type SyntheticCaptureSpec } from "./testing/synthetic-hand";
 
@@ -160,6 +160,23 @@ describe("one clip read by two hand models", () => {
     const alone = analyzeCapturePair({ capture: { ...one, oneFinger: true }, handModel: "lite" }, { capture: { ...two, oneFinger: true }, handModel: "full" }, options);
     const aloneRule = analyzeCapturePair({ capture: { ...one, oneFinger: true }, handModel: "lite" }, { capture: { ...two, oneFinger: true }, handModel: "full" }, { uncertaintyTable: { ...table, pairs: [] } });
     expect(alone.frameReadings).toEqual(aloneRule.frameReadings);
+  });
+
+  it("takes a finger's own two-model figure where the cell is split by finger (thumb side)", () => {
+    const cell = { group: "MCP flexion", view: "radial" as const, models: ["lite", "full"] as ["lite", "full"], seeds: 1, clipMaeDeg: 5, uncertaintyDeg: 10.3 };
+    const byDigit = [
+      { digit: "index" as const, clipMaeDeg: 3, uncertaintyDeg: 6.2 },
+      { digit: "little" as const, clipMaeDeg: 9, uncertaintyDeg: 18.6 },
+    ];
+    const table: UncertaintyTable = { ...UNCERTAINTY_TABLE, pairs: [{ ...cell, byDigit }] };
+    expect(pairUncertaintyDeg("mcp.flexion", "index", "radial", 0.95, table)).toBe(6.2);
+    expect(pairUncertaintyDeg("mcp.flexion", "little", "radial", 0.95, table)).toBe(18.6);
+    // A finger the split does not name takes the cell's figure; at a score of 0.7 every figure is widened by half.
+    expect(pairUncertaintyDeg("mcp.flexion", "ring", "radial", 0.95, table)).toBe(10.3);
+    expect(pairUncertaintyDeg("mcp.flexion", "index", "radial", 0.7, table)).toBe(9.3);
+    // No cell for the view, or for the joint: none.
+    expect(pairUncertaintyDeg("mcp.flexion", "index", "ulnar", 0.95, table)).toBeNull();
+    expect(pairUncertaintyDeg("pip.flexion", "index", "radial", 0.95, table)).toBeNull();
   });
 
   it("refuses captures of different attempts, of different frames, or twice the same model", () => {

@@ -10,8 +10,8 @@
  * - where both models gave an angle, their mean; its 90% half-width the larger of the two stated ones plus half their
  *   difference, so the interval holds both models' intervals (where the two agree, no narrower than either);
  * - where the held-out clips measured the combined reading for the motion's group in the frame's view (both models
- *   classing the frame alike; vision/uncertainty.ts PairCell, four fingers together, correction on), that measured
- *   figure widened by the lower of the two tracking scores instead, never narrower than half the two models'
+ *   classing the frame alike; vision/uncertainty.ts PairCell, four fingers together, correction on; from the thumb
+ *   side the finger's own figure), that measured figure widened by the lower of the two tracking scores instead, never narrower than half the two models'
  *   difference, so the interval still reaches both. The first rule's intervals held 98-100% of frames on held-out
  *   clips, against the 90% they state; the measured figure claims the averaging gain;
  * - where one model gave an angle, that one with its own interval;

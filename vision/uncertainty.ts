@@ -95,6 +95,8 @@ export interface PairCell {
   /** The combined reading's frame MAE, the worst over those seeds. */
   clipMaeDeg: number;
   uncertaintyDeg: number;
+  /** From the thumb side: each finger's own worst seed (the fingers read unalike there). */
+  byDigit?: DigitFigure[];
 }
 
 export interface UncertaintyTable {
@@ -260,5 +262,7 @@ export function fingerAloneUncertaintyDeg(motion: MotionId, digit: Digit | null,
 export function pairUncertaintyDeg(motion: MotionId, digit: Digit | null, view: ValidationView | null, score: number, table: UncertaintyTable = UNCERTAINTY_TABLE): number | null {
   const group = correctionGroupFor(motion, digit)?.group;
   const cell = view === null || !group ? undefined : table.pairs?.find((c) => c.group === group && c.view === view);
-  return cell ? widenedByScore(cell.uncertaintyDeg, score) : null;
+  if (!cell) return null;
+  const own = digit ? cell.byDigit?.find((f) => f.digit === digit) : undefined;
+  return widenedByScore(own?.uncertaintyDeg ?? cell.uncertaintyDeg, score);
 }

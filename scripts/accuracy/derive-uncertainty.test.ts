@@ -9,6 +9,7 @@ import {
   deriveCommittedTable,
   deriveUncertaintyTable,
   parsePairCells,
+  BOTH_BY_FINGER_HEADER,
   parseAccuracyReport,
   parseClipFingerRows,
   parseClipReports,
@@ -33,8 +34,15 @@ describe("uncertainty table from the accuracy report", () => {
       for (const view of ["radial", "ulnar"]) for (const model of ["lite", "full"]) expect(split).toContain(`${group}|${view}|${model}`);
     }
     expect(withoutStraightWristReading).toBeDefined();
-    // The two-model report gives the little-finger side's three finger joints.
-    expect(pairs?.map((c) => `${c.group}|${c.view}`)).toEqual(["MCP flexion|ulnar", "PIP flexion|ulnar", "DIP flexion|ulnar"]);
+    // The two-model report gives both sides' three finger joints, the thumb side split by finger.
+    expect(pairs?.map((c) => `${c.group}|${c.view}|${c.byDigit?.length ?? 0}`)).toEqual([
+      "MCP flexion|ulnar|0",
+      "PIP flexion|ulnar|0",
+      "DIP flexion|ulnar|0",
+      "MCP flexion|radial|4",
+      "PIP flexion|radial|4",
+      "DIP flexion|radial|4",
+    ]);
   });
 
   it("takes the two-model cells from the held-out seeds' 'both' rows against gravity only, the worst seed", () => {
@@ -58,6 +66,21 @@ describe("uncertainty table from the accuracy report", () => {
     // 2.06 x 4.00 (the worse held-out seed; training seeds, the pooled row and the thumb side left out).
     expect(parsePairCells(markdown)).toEqual([{ group: "PIP flexion", view: "ulnar", models: ["lite", "full"], seeds: 2, clipMaeDeg: 4, uncertaintyDeg: 8.2 }]);
     expect(() => parsePairCells(markdown.replace("| 4.00 |", "| - |"))).toThrow(/pip.flexion, 20261202, both.*MAE °/);
+  });
+
+  it("makes a thumb-side two-model cell only where every seed was split by finger, each finger from its own worst seed", () => {
+    const header = "| motion | seed | reading | readings | detected | MAE ° | slope |\n| --- | --- | --- | ---: | ---: | ---: | ---: |";
+    const fingers = (seed: number, maes: number[]) =>
+      [BOTH_BY_FINGER_HEADER, "| --- | --- | --- | ---: | ---: | ---: |", ...["index", "middle", "ring", "little"].map((f, i) => `| mcp.flexion | ${seed} | ${f} | 10 | 100% | ${maes[i].toFixed(2)} |`)].join("\n");
+    const section = (seed: number, mae: number, split: number[] | null) =>
+      [`## Seeds ${seed}, gravity minimized`, "", header, `| mcp.flexion | ${seed} | both | 40 | 100% | ${mae.toFixed(2)} | 0.9 |`, "", ...(split ? [fingers(seed, split), ""] : [])].join("\n");
+    const both = [section(20261201, 5, [3, 4, 6, 7]), section(20261202, 6, [4, 3, 5, 9])].join("\n");
+    const [cell] = parsePairCells(both);
+    expect(cell).toMatchObject({ group: "MCP flexion", view: "radial", seeds: 2, clipMaeDeg: 6, uncertaintyDeg: 12.4 });
+    // 2.06 x each finger's worse seed: index 4, middle 4, ring 6, little 9.
+    expect(cell.byDigit!.map((f) => [f.digit, f.clipMaeDeg, f.uncertaintyDeg])).toEqual([["index", 4, 8.2], ["middle", 4, 8.2], ["ring", 6, 12.4], ["little", 9, 18.6]]);
+    // One seed not split by finger: no thumb-side cell at all.
+    expect(parsePairCells([section(20261201, 5, [3, 4, 6, 7]), section(20261202, 6, null)].join("\n"))).toEqual([]);
   });
 
   it("pools the wrist readings made without a straight-wrist reading over the reports, weighting each row by its detected frames", () => {

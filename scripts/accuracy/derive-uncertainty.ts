@@ -116,31 +116,67 @@ export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
   return [...rows.values()];
 }
 
+/** The header of the two-model report's by-finger table of both models together (written by model-agreement.ts). */
+export const BOTH_BY_FINGER_HEADER = "| motion | seed | finger | both: readings | both: detected | both: MAE ° |";
+
 const PAIR_GROUPS: Record<string, string> = { "mcp.flexion": "MCP flexion", "pip.flexion": "PIP flexion", "dip.flexion": "DIP flexion" };
 
 /**
- * The two-model cells from the two-model report: per finger joint, the engine's frame MAE of both models read together
- * ("both" rows), the worst over the held-out seeds (2026xxxx; the training seeds' rows and the "all" rows are left out).
- * Only the sections against gravity count, whose clips were seen from the little-finger side: the thumb-side cells are
- * split by finger (byDigit) and the report does not split "both" by finger, so there the one-model rule stands.
- * Throws naming the row when a figure is not a number.
+ * The two-model cells from the two-model report: per finger joint and view, the engine's frame MAE of both models read
+ * together ("both" rows), the worst over the held-out seeds (2026xxxx; the training seeds' rows and the "all" rows are
+ * left out). Sections against gravity were seen from the little-finger side (view ulnar), with gravity minimized from
+ * the thumb side (radial). From the thumb side the fingers read unalike (the one-model cells there are split by
+ * finger), so a thumb-side cell is made only where every seed that measured it was also split by finger (the report's
+ * "both" by-finger tables), and each finger takes its own worst seed. Throws naming the row when a figure is not a number.
  */
 export function parsePairCells(markdown: string): PairCell[] {
-  const worst = new Map<string, { maeDeg: number; seeds: number }>();
-  const sections = markdown.split(/^## /m).slice(1);
-  for (const section of sections) {
+  const worst = new Map<string, { group: string; view: ValidationView; maeDeg: number; seeds: number }>();
+  const fingers = new Map<string, { maeDeg: number; seeds: number }>();
+  const heldOut = (seed: string) => /^2026\d{4}$/.test(seed);
+  const groupOf = (motion: string, naming: string) => {
+    const group = PAIR_GROUPS[motion];
+    if (!group) throw new Error(`two-model report: row "${naming}": expected a motion of ${Object.keys(PAIR_GROUPS).join(", ")}`);
+    return group;
+  };
+  for (const section of markdown.split(/^## /m).slice(1)) {
     const heading = section.split("\n")[0];
-    if (!heading.endsWith(", against gravity")) continue;
+    const view: ValidationView | null = heading.endsWith(", against gravity") ? "ulnar" : heading.endsWith(", gravity minimized") ? "radial" : null;
+    if (!view) continue;
     for (const r of tableRows([section], isMotionTable)) {
-      if (r.at("reading") !== "both" || !/^2026\d{4}$/.test(r.at("seed"))) continue;
-      const group = PAIR_GROUPS[r.cells[0]];
-      if (!group) throw new Error(`two-model report: row "${r.cells.slice(0, 3).join(", ")}": expected a motion of ${Object.keys(PAIR_GROUPS).join(", ")}`);
+      if (r.at("reading") !== "both" || !heldOut(r.at("seed"))) continue;
+      const group = groupOf(r.cells[0], r.cells.slice(0, 3).join(", "));
       const mae = rowNumber(r, "MAE °", "a number of degrees", "motion");
-      const seen = worst.get(group) ?? { maeDeg: 0, seeds: 0 };
-      worst.set(group, { maeDeg: Math.max(seen.maeDeg, mae), seeds: seen.seeds + 1 });
+      const key = `${group}|${view}`;
+      const seen = worst.get(key) ?? { group, view, maeDeg: 0, seeds: 0 };
+      worst.set(key, { ...seen, maeDeg: Math.max(seen.maeDeg, mae), seeds: seen.seeds + 1 });
+    }
+    for (const r of tableRows([section], (header) => tableCells(BOTH_BY_FINGER_HEADER).every((name, i) => header[i] === name))) {
+      if (!heldOut(r.at("seed"))) continue;
+      const group = groupOf(r.cells[0], r.cells.slice(0, 3).join(", "));
+      const mae = rowNumber(r, "both: MAE °", "a number of degrees", "finger");
+      const key = `${group}|${view}|${r.at("finger")}`;
+      const seen = fingers.get(key) ?? { maeDeg: 0, seeds: 0 };
+      fingers.set(key, { maeDeg: Math.max(seen.maeDeg, mae), seeds: seen.seeds + 1 });
     }
   }
-  return [...worst].map(([group, w]) => ({ group, view: "ulnar" as const, models: ["lite", "full"] as [HandModel, HandModel], seeds: w.seeds, clipMaeDeg: w.maeDeg, uncertaintyDeg: round1(uncertaintyFromMaeDeg(w.maeDeg)) }));
+  const cells: PairCell[] = [];
+  for (const [key, w] of worst) {
+    const split = FINGERS.map((digit) => ({ digit, row: fingers.get(`${key}|${digit}`) }));
+    const complete = split.every((f) => f.row && f.row.seeds === w.seeds);
+    if (w.view === "radial" && !complete) continue;
+    cells.push({
+      group: w.group,
+      view: w.view,
+      models: ["lite", "full"],
+      seeds: w.seeds,
+      clipMaeDeg: w.maeDeg,
+      uncertaintyDeg: round1(uncertaintyFromMaeDeg(w.maeDeg)),
+      ...(w.view === "radial"
+        ? { byDigit: split.map((f) => ({ digit: f.digit, clipMaeDeg: f.row!.maeDeg, uncertaintyDeg: round1(uncertaintyFromMaeDeg(f.row!.maeDeg)) })) }
+        : {}),
+    });
+  }
+  return cells;
 }
 
 /**
@@ -397,7 +433,8 @@ export function deriveUncertaintyTable(
       "fingerAlone: the same rule on report.md's single-finger test motions (one finger bent, the others straight), with the method the engine uses in the " +
       "four-finger cell of the same group, view and model; it stands for a finger the therapist marks as tested on its own, the others held straight (vision/pipeline.ts oneFinger). " +
       "pairs: the same rule on the frame MAE of both hand models read together (vision/model-pair.ts), the worst over the held-out seeds of " +
-      "scripts/accuracy/clip-report-two-models.md, against gravity (little-finger side) only; it stands for a frame both models read in that view.",
+      "scripts/accuracy/clip-report-two-models.md, against gravity (little-finger side) and with gravity minimized (thumb side; there only where every seed " +
+      "was split by finger, each finger's interval from its own worst seed, byDigit); it stands for a frame both models read in that view.",
     cells,
     ...(withoutStraightWrist
       ? {

@@ -26,6 +26,8 @@ import { RENDER_OUTPUT_ROOT } from "./renderer";
 import { parseCount } from "./run-accuracy";
 import { ACCEPTANCE, meetsAcceptance, type AcceptanceKey } from "./acceptance";
 import { summarizeErrors, type ErrorSample } from "./stats";
+// No "reading" column in the by-finger table: the motion tables' parser skips it.
+import { BOTH_BY_FINGER_HEADER } from "./derive-uncertainty";
 
 /**
  * One clip and finger read by both models together, on the app's own path: the lite capture with the full model's
@@ -89,6 +91,7 @@ export function agreementRow(reading: AgreementRow["reading"], readings: readonl
 }
 
 type ClipTruthFile = Parameters<typeof readClip>[4];
+
 type Reading3 = [ClipReading, ClipReading, Scored & { disagree: boolean }];
 
 /** Both models' engine readings of every saved clip of `plans` (clips tracked with one model only are skipped). */
@@ -133,6 +136,8 @@ async function main(): Promise<void> {
   lines.push("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peak within stated ± | models disagree (> " + PEAK_DISAGREEMENT_DEG + "°) | issue 8's bars |");
   lines.push("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- |");
   const perReading: string[] = [];
+  // Both models together, split by finger (derive-uncertainty.ts reads it for the thumb side's two-model cells).
+  const byFinger: string[] = [];
   for (const motion of motions) {
     const all: Reading3[] = [];
     const rows = (label: string, pairs: Reading3[]) => {
@@ -149,12 +154,19 @@ async function main(): Promise<void> {
       if (!pairs.length) continue;
       all.push(...pairs);
       rows(String(seed), pairs);
+      for (const digit of [...new Set(pairs.map((p) => p[0].digit))]) {
+        if (digit === null) continue;
+        const mine = pairs.filter((p) => p[0].digit === digit);
+        const both = summarizeErrors(mine.flatMap((p) => p[2].samples));
+        byFinger.push(`| ${motion} | ${seed} | ${digit} | ${mine.length} | ${pct(both.detectionRate)} | ${fmt(both.meanAbsoluteErrorDeg)} |`);
+      }
       for (const [a, b, c] of pairs) {
         perReading.push(`| ${a.plan.name} | ${a.digit} | ${a.plan.side} | ${a.truthPeakDeg.toFixed(1)} | ${fmt(a.peakDeg, 1)} | ${fmt(b.peakDeg, 1)} | ${fmt(c.peakDeg, 1)} | ${fmt(summarizeErrors(a.samples).meanAbsoluteErrorDeg, 1)} | ${fmt(summarizeErrors(b.samples).meanAbsoluteErrorDeg, 1)} | ${fmt(summarizeErrors(c.samples).meanAbsoluteErrorDeg, 1)} |`);
       }
     }
     if (seeds.length > 1 && all.length) rows("all", all);
   }
+  if (byFinger.length) lines.push(["", `${BOTH_BY_FINGER_HEADER}`, "| --- | --- | --- | ---: | ---: | ---: |", ...byFinger].join("\n"));
   if (values["per-reading"]) lines.push(["", "| clip | finger | side | truth peak ° | lite peak ° | full peak ° | both peak ° | lite MAE ° | full MAE ° | both MAE ° |", "| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: |", ...perReading].join("\n"));
   const text = `${lines.join("\n")}\n`;
   if (values.out) writeFileSync(values.out, text);
