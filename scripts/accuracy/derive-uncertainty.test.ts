@@ -35,13 +35,13 @@ describe("uncertainty table from the accuracy report", () => {
     }
     expect(withoutStraightWristReading).toBeDefined();
     // The two-model report gives both sides' three finger joints, the thumb side split by finger.
-    expect(pairs?.map((c) => `${c.group}|${c.view}|${c.byDigit?.length ?? 0}`)).toEqual([
-      "MCP flexion|ulnar|0",
-      "PIP flexion|ulnar|0",
+    expect(pairs?.map((c) => `${c.group}|${c.view}|${c.byDigit?.length ?? 0}`).sort()).toEqual([
+      "DIP flexion|radial|4",
       "DIP flexion|ulnar|0",
       "MCP flexion|radial|4",
+      "MCP flexion|ulnar|0",
       "PIP flexion|radial|4",
-      "DIP flexion|radial|4",
+      "PIP flexion|ulnar|0",
     ]);
   });
 
