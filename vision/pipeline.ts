@@ -222,6 +222,8 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   const forearmCounts = new Map<ForearmSource, number>();
   const neutralForearm = options.neutral ? forearmFromNeutral(options.neutral) : null;
   const wristInPicture = options.motion === "wrist.flexion" || options.motion === "wrist.extension";
+  // Read in the picture, the wrist over-reads its turn a little; the fitted gain undoes it (kinarc-correction-8).
+  const pictureGain = wristInPicture && correctionTarget ? wristPictureGain(correctionModel, handModel) : null;
   let sideOn = wristInPicture ? (options.neutral?.sideOn ?? null) : null;
   // Without a neutral reading the capture's first moments stand in for it, side-on figures included.
   const startHands: HandLandmarks[] = [];
@@ -308,9 +310,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     const inPicture = pictureFlexion !== null;
     let frameMethod: MeasurementMethod = inPicture ? "image_plane" : "world3d";
     if (inPicture) pictureFrames += 1;
-    // Read in the picture, the wrist over-reads its turn a little; the fitted gain undoes it (kinarc-correction-8).
-    const pictureGain = inPicture && correctionTarget ? wristPictureGain(correctionModel, handModel) : null;
-    if (pictureGain !== null) {
+    if (inPicture && pictureGain !== null) {
       angleDeg = reading.deg * pictureGain;
       frameMethod = pictureCorrectedMethod;
       correctedFrames += 1;

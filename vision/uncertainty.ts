@@ -145,7 +145,7 @@ export function correctionHelps(table: UncertaintyTable, group: string, model: H
 export type UncertaintyMethod = "engine" | "raw";
 
 /** A finger's own figure in a cell split by finger (byDigit); undefined where the cell is not split or no finger is named. */
-export function digitFigure(cell: ValidationCell, digit: Digit | null): DigitFigure | undefined {
+export function digitFigure(cell: Pick<ValidationCell, "byDigit">, digit: Digit | null): DigitFigure | undefined {
   return digit ? cell.byDigit?.find((f) => f.digit === digit) : undefined;
 }
 
@@ -263,6 +263,5 @@ export function pairUncertaintyDeg(motion: MotionId, digit: Digit | null, view: 
   const group = correctionGroupFor(motion, digit)?.group;
   const cell = view === null || !group ? undefined : table.pairs?.find((c) => c.group === group && c.view === view);
   if (!cell) return null;
-  const own = digit ? cell.byDigit?.find((f) => f.digit === digit) : undefined;
-  return widenedByScore(own?.uncertaintyDeg ?? cell.uncertaintyDeg, score);
+  return widenedByScore(digitFigure(cell, digit)?.uncertaintyDeg ?? cell.uncertaintyDeg, score);
 }

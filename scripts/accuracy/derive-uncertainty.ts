@@ -9,8 +9,9 @@
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { fileURLToPath } from "node:url";
-import { FINGERS } from "@/lib/motions/catalog";
-import { CORRECTION_VERSION, type HandModel } from "@/vision/correction";
+import { FINGERS, type MotionId } from "@/lib/motions/catalog";
+import { CORRECTION_VERSION, correctionGroupFor, type HandModel } from "@/vision/correction";
+import { fingerJointOfGroup } from "@/vision/estimator";
 import { uncertaintyFromMaeDeg, VALIDATION_VIEWS, type DigitFigure, type FingerAloneCell, type PairCell, type UncertaintyTable, type ValidationCell, type ValidationView } from "@/vision/uncertainty";
 
 const HERE = path.dirname(fileURLToPath(import.meta.url));
@@ -119,8 +120,6 @@ export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
 /** The header of the two-model report's by-finger table of both models together (written by model-agreement.ts). */
 export const BOTH_BY_FINGER_HEADER = "| motion | seed | finger | both: readings | both: detected | both: MAE ° |";
 
-const PAIR_GROUPS: Record<string, string> = { "mcp.flexion": "MCP flexion", "pip.flexion": "PIP flexion", "dip.flexion": "DIP flexion" };
-
 /**
  * The two-model cells from the two-model report: per finger joint and view, the engine's frame MAE of both models read
  * together ("both" rows), the worst over the held-out seeds (2026xxxx; the training seeds' rows and the "all" rows are
@@ -133,9 +132,10 @@ export function parsePairCells(markdown: string): PairCell[] {
   const worst = new Map<string, { group: string; view: ValidationView; maeDeg: number; seeds: number }>();
   const fingers = new Map<string, { maeDeg: number; seeds: number }>();
   const heldOut = (seed: string) => /^2026\d{4}$/.test(seed);
+  // The engine's own group for the motion (four fingers: no digit); only the finger flexion groups are read by both models.
   const groupOf = (motion: string, naming: string) => {
-    const group = PAIR_GROUPS[motion];
-    if (!group) throw new Error(`two-model report: row "${naming}": expected a motion of ${Object.keys(PAIR_GROUPS).join(", ")}`);
+    const group = correctionGroupFor(motion as MotionId, null)?.group;
+    if (!group || !fingerJointOfGroup(group)) throw new Error(`two-model report: row "${naming}": expected a finger's MCP, PIP or DIP flexion`);
     return group;
   };
   for (const section of markdown.split(/^## /m).slice(1)) {

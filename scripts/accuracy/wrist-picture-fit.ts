@@ -21,7 +21,7 @@ import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { parseArgs } from "node:util";
 import type { Condition } from "@/lib/motions/catalog";
-import type { HandModel } from "@/vision/correction";
+import type { HandModel, WristPictureFit } from "@/vision/correction";
 import { planClips, readClip, readSavedTracking, type ClipPlan, type ClipTruthFile } from "./clip-validation";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
 import { leastSquares } from "./stats";
@@ -39,13 +39,8 @@ export interface PictureSample {
   readingDeg: number;
 }
 
-/** One calibration line: reading = intercept + slope * truth, and the gain that undoes the slope. */
-export interface PictureFit {
-  slope: number;
-  interceptDeg: number;
-  gain: number;
-  frames: number;
-}
+/** One calibration line: reading = intercept + slope * truth, and the gain that undoes the slope (the engine's type). */
+export type PictureFit = Omit<WristPictureFit, "bySide">;
 
 export function fitPictureGain(samples: readonly Pick<PictureSample, "truthDeg" | "readingDeg">[]): PictureFit | null {
   const line = leastSquares(
