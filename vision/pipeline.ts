@@ -15,9 +15,11 @@ import {
   digitFigure,
   fingerAloneCell,
   fingerAloneUncertaintyDeg,
+  peakUncertaintyDeg,
   UNCERTAINTY_TABLE,
   validationCell,
   withoutStraightWristUncertaintyDeg,
+  type UncertaintyMethod,
   type UncertaintyTable,
   type ValidationView,
 } from "./uncertainty";
@@ -109,8 +111,13 @@ export interface LiveUpdate {
   planeMatchesCondition: boolean | null;
   rep: { phase: RepPhase; count: number; currentTopDeg: number | null };
   method: MeasurementMethod;
-  /** 90% interval half-width of `angleDeg` (and the smoothed angle and top): validation error, widened by tracking score. */
+  /** 90% interval half-width of `angleDeg` (and the smoothed angle): validation error, widened by tracking score. */
   uncertaintyDeg: number | null;
+  /**
+   * The interval a peak read at this frame carries (the live top of a repetition): `uncertaintyDeg`, never narrower
+   * than the held-out peaks' figure for this view and score (peakUncertaintyDeg); the summary's figure for the capture.
+   */
+  peakUncertaintyDeg: number | null;
   /** The camera view the frame's hand axes point to (scripts/accuracy views), null when the frame was skipped. */
   view: ValidationView | null;
   /** How that view serves the motion and test position (vision/view-policy.ts), null when the frame was skipped. */
@@ -129,7 +136,10 @@ export interface PipelineSummary {
   /** Plane over the outward part of every repetition, or over all usable frames when there was none. */
   plane: PlaneReading | null;
   method: MeasurementMethod;
-  /** 90% interval half-width for the capture's angles and peaks: its usual view (the worse of views when mixed), its mean score. */
+  /**
+   * 90% interval half-width for the capture's start, peak and arc: the frame interval of its usual view (the worse of
+   * views when mixed) at its mean score, never narrower than the held-out peaks' figure (peakUncertaintyDeg).
+   */
   uncertaintyDeg: number | null;
   /** The view seen in most usable frames, null when none held a majority. */
   view: ValidationView | null;
@@ -232,6 +242,12 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   let method: MeasurementMethod = "world3d";
   const palmContinuity = new PalmContinuity(options.side);
 
+  /** An interval for a peak: the frame interval, never narrower than the held-out peaks' figure (peakUncertaintyDeg). */
+  function atLeastPeakFigure(frameDeg: number | null, view: ValidationView | null, score: number, method: UncertaintyMethod): number | null {
+    const peak = peakUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, method);
+    return frameDeg === null ? peak : Math.max(frameDeg, peak ?? 0);
+  }
+
   function skipped(t: number, score: number, quality: FrameQuality): LiveUpdate {
     return {
       t,
@@ -245,6 +261,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       rep: { phase: segmenter.phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
       method,
       uncertaintyDeg: null,
+      peakUncertaintyDeg: null,
       view: null,
       viewQuality: null,
       forearmSource: null,
@@ -351,6 +368,17 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     const plane = readPlane(reading.axis, reading.travel, gravity);
     allFramesPlane.add(plane.axisToGravityDeg, plane.travelAlongGravity);
     const phase = segmenter.push(frame.t, angleDeg, smoothedDeg, filter.speed, plane.axisToGravityDeg, plane.travelAlongGravity);
+    // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
+    const frameUncertainty = oneFingerUncertainty(
+      wristStartUncertainty(
+        forearm?.source ?? null,
+        (againstNeutral ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable, table) : null) ??
+          angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
+        score,
+      ),
+      view,
+      score,
+    );
     return {
       t: frame.t,
       quality: "ok",
@@ -362,17 +390,8 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       planeMatchesCondition: plane.verdict === options.condition,
       rep: { phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
       method: frameMethod,
-      // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
-      uncertaintyDeg: oneFingerUncertainty(
-        wristStartUncertainty(
-          forearm?.source ?? null,
-          (againstNeutral ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable, table) : null) ??
-            angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
-          score,
-        ),
-        view,
-        score,
-      ),
+      uncertaintyDeg: frameUncertainty,
+      peakUncertaintyDeg: atLeastPeakFigure(frameUncertainty, view, score, frameMethod === correctedMethod || frameMethod === pictureCorrectedMethod ? "engine" : "raw"),
       view,
       viewQuality: viewQuality(policy, view),
       forearmSource: forearm?.source ?? null,
@@ -438,6 +457,21 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       warnings.push(`forearm line: ${[...forearmCounts].map(([source, n]) => `${source} in ${n} frames`).join(", ")} (the pose landmarker saw the elbow only part of the time)`);
     }
     const meanUsableScore = usable ? usableScoreSum / usable : 0;
+    // The capture's start, peak and arc: the frame interval of its usual view at its mean score, never narrower than
+    // the held-out peaks' own figure (a peak is one repetition's top and misses by more than a frame does).
+    function repetitionUncertainty(view: ValidationView | null, score: number, method: UncertaintyMethod): number | null {
+      const frame = oneFingerUncertainty(
+        wristStartUncertainty(
+          forearmSource,
+          (forearmSource === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable, table) : null) ??
+            angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, method),
+          score,
+        ),
+        view,
+        score,
+      );
+      return atLeastPeakFigure(frame, view, score, method);
+    }
     const summaryMethod: MeasurementMethod = pictureFrames > 0 ? (correctedFrames > 0 ? pictureCorrectedMethod : "image_plane") : correctedFrames > 0 ? correctedMethod : "world3d";
     return {
       frames,
@@ -446,18 +480,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       repetitions,
       plane: repPlane.empty ? allFramesPlane.result() : repPlane.result(),
       method: summaryMethod,
-      uncertaintyDeg: usable
-        ? oneFingerUncertainty(
-            wristStartUncertainty(
-              forearmSource,
-              (forearmSource === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, meanUsableScore, wristTable, table) : null) ??
-                angleUncertaintyDeg(options.motion, options.digit, handModel, view, meanUsableScore, table, correctedFrames === usable ? "engine" : "raw"),
-              meanUsableScore,
-            ),
-            view,
-            meanUsableScore,
-          )
-        : null,
+      uncertaintyDeg: usable ? repetitionUncertainty(view, meanUsableScore, correctedFrames === usable ? "engine" : "raw") : null,
       view,
       viewQuality: quality,
       recommendedViews: policy.recommended,

@@ -5,6 +5,7 @@ import { buildSyntheticCapture, type Placement } from "./testing/synthetic-hand"
 import {
   angleUncertaintyDeg,
   baseUncertaintyDeg,
+  peakUncertaintyDeg,
   trackingFactor,
   UNCERTAINTY_TABLE,
   uncertaintyFromMaeDeg,
@@ -212,10 +213,67 @@ describe("analysis results carry the uncertainty", () => {
     expect(result.view).toBe("ulnar");
     const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === "MCP flexion" && c.model === "lite" && c.view === "ulnar")!;
     const meanScore = capture.frames.filter((f) => f.hand).reduce((s, f) => s + f.score, 0) / capture.frames.filter((f) => f.hand).length;
-    expect(result.uncertaintyDeg).toBeCloseTo(cell.uncertaintyDeg * trackingFactor(meanScore), 1);
+    // The capture's start, peak and arc: the frame figure, or the held-out peaks' figure where that is wider.
+    expect(result.uncertaintyDeg).toBeCloseTo(Math.max(cell.uncertaintyDeg, cell.clipPeakP90Deg ?? 0) * trackingFactor(meanScore), 1);
     // The method is the one the cell's policy names (corrected where validation shows the correction helps).
     expect(result.method).toBe(cell.correctionHelps ? `world3d+${CORRECTION_VERSION}` : "world3d");
     expect(result.correctionVersion).toBe(cell.correctionHelps ? CORRECTION_VERSION : null);
     expect(result.peakDeg).not.toBeNull();
+  });
+});
+
+describe("the peak's own figure (held-out clips' peak P90)", () => {
+  const cellOf = (group: string, model: "lite" | "full", view: string) => UNCERTAINTY_TABLE.cells.find((c) => c.group === group && c.model === model && c.view === view)!;
+
+  it("is the cell's figure for the method used, widened by tracking score; with the view unknown, the worst of the group's", () => {
+    const wrist = cellOf("wrist flexion (+) / extension (-)", "lite", "ulnar");
+    expect(wrist.clipPeakP90Deg).toBeGreaterThan(0);
+    expect(peakUncertaintyDeg("wrist.flexion", null, "lite", "ulnar", 0.95)).toBe(wrist.clipPeakP90Deg);
+    expect(peakUncertaintyDeg("wrist.flexion", null, "lite", "ulnar", 0.7)).toBeCloseTo(wrist.clipPeakP90Deg! * trackingFactor(0.7), 1);
+    expect(peakUncertaintyDeg("wrist.flexion", null, "lite", "ulnar", 0.95, UNCERTAINTY_TABLE, "raw")).toBe(wrist.clipRawPeakP90Deg);
+    const withFigure = UNCERTAINTY_TABLE.cells.filter((c) => c.group === "PIP flexion" && c.model === "lite" && c.clipPeakP90Deg !== undefined);
+    expect(withFigure.length).toBeGreaterThanOrEqual(2);
+    expect(peakUncertaintyDeg("pip.flexion", "index", "lite", null, 1)).toBe(Math.max(...withFigure.map((c) => c.clipPeakP90Deg!)));
+  });
+
+  it("is absent where no held-out clip measured a peak: a view without clips, a table without figures, a motion outside the table", () => {
+    const palm = cellOf("PIP flexion", "lite", "palm");
+    expect(palm.clipPeakP90Deg).toBeUndefined();
+    expect(peakUncertaintyDeg("pip.flexion", "index", "lite", "palm", 1)).toBeNull();
+    const bare: UncertaintyTable = { ...UNCERTAINTY_TABLE, cells: UNCERTAINTY_TABLE.cells.map((c) => ({ ...c, clipPeakP90Deg: undefined, clipRawPeakP90Deg: undefined })) };
+    expect(peakUncertaintyDeg("wrist.flexion", null, "lite", "ulnar", 1, bare)).toBeNull();
+    // The middle finger's spread has no correction group (vision/correction.ts correctionGroupFor).
+    expect(peakUncertaintyDeg("finger.abduction", "middle", "lite", "ulnar", 1)).toBeNull();
+    // No held-out clip was read from above: that view's cell has no peak figure.
+    expect(cellOf("wrist flexion (+) / extension (-)", "full", "down").clipPeakP90Deg).toBeUndefined();
+  });
+
+  it("widens a capture's interval where peaks missed by more than frames did, and leaves it where they did not", () => {
+    // A synthetic MCP capture seen from the little-finger side; its table's peak figure set below and far above the frame figure.
+    const placement: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, 1], wrist: [0, 0, 0.5] };
+    const capture = buildSyntheticCapture({ motion: "mcp.flexion", side: "right", digit: "index", condition: "gravity_minimized", placement, reps: [{ peakDeg: 70 }], seed: 3 });
+    const cell = cellOf("MCP flexion", "lite", "ulnar");
+    const withPeak = (p90: number): UncertaintyTable => ({
+      ...UNCERTAINTY_TABLE,
+      cells: UNCERTAINTY_TABLE.cells.map((c) => (c === cell ? { ...c, clipPeakP90Deg: p90 } : c)),
+    });
+    const frameOnly = analyzeCapture(capture, { uncertaintyTable: withPeak(0.1) });
+    const wide = analyzeCapture(capture, { uncertaintyTable: withPeak(cell.uncertaintyDeg * 3) });
+    expect(frameOnly.view).toBe("ulnar");
+    const factor = frameOnly.uncertaintyDeg! / cell.uncertaintyDeg;
+    expect(factor).toBeGreaterThanOrEqual(1);
+    expect(wide.uncertaintyDeg).toBeCloseTo(cell.uncertaintyDeg * 3 * factor, 0);
+    // The frames keep their own interval: only the capture's figures (start, peak, arc) take the peaks' figure.
+    // The live view's running peak carries the peak figure of the frame that set it (LiveUpdate.peakUncertaintyDeg).
+    const frames: { frame: number; peak: number }[] = [];
+    analyzeCapture(capture, {
+      uncertaintyTable: withPeak(cell.uncertaintyDeg * 3),
+      onUpdate: (u) => {
+        if (u.uncertaintyDeg !== null) frames.push({ frame: u.uncertaintyDeg, peak: u.peakUncertaintyDeg! });
+      },
+    });
+    expect(frames.length).toBeGreaterThan(10);
+    expect(Math.max(...frames.map((f) => f.frame))).toBeLessThan(cell.uncertaintyDeg * 3);
+    for (const f of frames) expect(f.peak).toBeCloseTo((cell.uncertaintyDeg * 3 * f.frame) / cell.uncertaintyDeg, 0);
   });
 });

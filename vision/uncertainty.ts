@@ -37,6 +37,14 @@ export interface ValidationCell {
    */
   clipMaeDeg?: number;
   clipRawMaeDeg?: number;
+  /**
+   * Where every clip seed that measured the cell gave it: the half-width that held 90% of the held-out peaks (the
+   * clip reports' "peak P90 °", the worst over their seeds), for the engine and without correction. A peak is read
+   * off one repetition's top, where the tracker is least sure, and misses by more than a frame does (see
+   * peakUncertaintyDeg).
+   */
+  clipPeakP90Deg?: number;
+  clipRawPeakP90Deg?: number;
   /** The correction lowered the held-out mean absolute error here, so the engine applies it. */
   correctionHelps: boolean;
   /** Half-width of the 90% interval for the method the engine uses here (see UncertaintyTable.rule). */
@@ -227,6 +235,32 @@ export function angleUncertaintyDeg(
   if (!group) return null;
   const base = baseUncertaintyDeg(table, group, model, view, method, digit);
   return base === null ? null : widenedByScore(base, score);
+}
+
+/**
+ * The held-out peak figure for a motion (ValidationCell.clipPeakP90Deg, or clipRawPeakP90Deg for the raw method),
+ * widened by tracking score: the cell of its group, model and view, or with either unknown (or no such cell) the worst
+ * figure among the group's cells. Null where no held-out clip measured a peak for the group. A capture's start, peak
+ * and arc take the wider of this and the frame interval: on held-out clips a wrist's peak missed by about twice what
+ * a frame did, so the frame interval held fewer than 90% of peaks there (scripts/accuracy/README.md).
+ */
+export function peakUncertaintyDeg(
+  motion: MotionId,
+  digit: Digit | null,
+  model: HandModel | null,
+  view: ValidationView | null,
+  score: number,
+  table: UncertaintyTable = UNCERTAINTY_TABLE,
+  method: UncertaintyMethod = "engine",
+): number | null {
+  const group = correctionGroupFor(motion, digit)?.group;
+  if (!group) return null;
+  const figure = (c: ValidationCell) => (method === "engine" ? c.clipPeakP90Deg : c.clipRawPeakP90Deg);
+  const exact = model && view ? validationCell(table, group, model, view) : null;
+  const candidates = cellsFor(table, group, model);
+  const pool = exact ? [exact] : candidates.length ? candidates : cellsFor(table, group, null);
+  const figures = pool.flatMap((c) => (figure(c) === undefined ? [] : [figure(c)!]));
+  return figures.length ? widenedByScore(Math.max(...figures), score) : null;
 }
 
 /**

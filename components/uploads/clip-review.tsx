@@ -166,8 +166,9 @@ export function ClipReview({ upload, attempt, trace, digits, positions }: ClipRe
             </ul>
           ) : null}
           <p className="text-xs text-ink-faint">
-            ± is the 90% interval of the angle for this joint, camera view and tracking score, from Kinarc&apos;s validation against rendered hands; the
-            numbers are the server&apos;s own analysis of the stored frames.
+            ± is the 90% interval of the angle for this joint, camera view and tracking score, from Kinarc&apos;s validation against rendered hands (for
+            the peak, the width that held nine in ten peaks there, as a peak misses by more than a single frame); the numbers are the server&apos;s own
+            analysis of the stored frames.
           </p>
         </section>
       ) : null}

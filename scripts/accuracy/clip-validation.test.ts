@@ -11,6 +11,7 @@ import {
   planClips,
   statedCoverage,
   peakCoverage,
+  peakErrorP90,
   readClip,
   summarizeClipReadings,
   withoutStraightWristRows,
@@ -162,6 +163,17 @@ describe("reading a clip against its truth", () => {
     ];
     expect(peakCoverage(made)).toBe(0.5);
     expect(peakCoverage([made[4]])).toBeNull();
+  });
+
+  it("gives the peak the half-width that held 90% of peaks, leaving out wrists read against capture start", () => {
+    // Ten peak errors of 1..10 degrees (alternating sign): the ninth smallest, 9, holds nine of ten (nearest rank).
+    const made = Array.from({ length: 10 }, (_, i) => ({ peakDeg: 60 + (i % 2 ? 1 : -1) * (i + 1), truthPeakDeg: 60, forearmSource: "neutral-reading" }));
+    expect(peakErrorP90(made)).toBe(9);
+    // A reading read against how the hand was first seen carries its own pooled figure: a 40-degree miss does not count.
+    expect(peakErrorP90([...made, { peakDeg: 100, truthPeakDeg: 60, forearmSource: "capture-start" }])).toBe(9);
+    // A reading with no peak has no error to rank; none at all gives no figure.
+    expect(peakErrorP90([...made, { peakDeg: null, truthPeakDeg: 60, forearmSource: null }])).toBe(9);
+    expect(peakErrorP90([{ peakDeg: null, truthPeakDeg: 60, forearmSource: null }])).toBeNull();
   });
 
   it("refuses a clip whose tracked frames do not match its truth", () => {

@@ -46,7 +46,7 @@ import { loadHandRig } from "./rig-files";
 import type { HandSide } from "./rig";
 import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
 import { CAMERA_VIEWS, frameSeeds, IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, makeRng, type CameraView, type FrameTruth } from "./scene";
-import { summarizeErrors, type ErrorSample, type ErrorSummary } from "./stats";
+import { nearestRankPercentile, summarizeErrors, type ErrorSample, type ErrorSummary } from "./stats";
 import { ACCEPTANCE, meetsAcceptance, MIN_DETECTION, type AcceptanceKey } from "./acceptance";
 import { parseCount, parseModels } from "./run-accuracy";
 import type { HandModelVariant } from "./tracked-set";
@@ -374,6 +374,11 @@ export interface ClipRow {
   frames: ErrorSummary;
   peakMaeDeg: number | null;
   peakWorstDeg: number | null;
+  /**
+   * 90% of the readings' peaks lie within this of the truth's end of range (nearest rank; readings read against how the
+   * hand was first seen, forearm line capture-start, are left out: they carry their own pooled figure). Null with none.
+   */
+  peakP90Deg: number | null;
   repsRight: number;
   neutralUsed: string;
   /** Share of detected frames whose error lies within the engine's stated 90% interval (null with none). */
@@ -390,11 +395,21 @@ export function summarizeClipReadings(readings: readonly ClipReading[]): Omit<Cl
     frames: summarizeErrors(readings.flatMap((r) => r.samples)),
     peakMaeDeg: peaks.length ? peaks.reduce((a, e) => a + Math.abs(e), 0) / peaks.length : null,
     peakWorstDeg: peaks.length ? peaks.reduce((worst, e) => (Math.abs(e) > Math.abs(worst) ? e : worst), 0) : null,
+    peakP90Deg: peakErrorP90(readings),
     repsRight: readings.filter((r) => r.reps === CYCLES).length,
     neutralUsed: wrist.length ? `${wrist.filter((r) => r.neutralUsed).length}/${wrist.length}` : "-",
     withinStated: statedCoverage(readings),
     peakWithinStated: peakCoverage(readings),
   };
+}
+
+/**
+ * The 90th percentile (nearest rank) of the readings' absolute peak errors: the half-width that held 90% of peaks, the
+ * figure derive-uncertainty.ts gives a cell's peak. Readings read against capture start are left out (see ClipRow).
+ */
+export function peakErrorP90(readings: readonly Pick<ClipReading, "peakDeg" | "truthPeakDeg" | "forearmSource">[]): number | null {
+  const errors = readings.filter((r) => r.peakDeg !== null && r.forearmSource !== "capture-start").map((r) => Math.abs(r.peakDeg! - r.truthPeakDeg));
+  return nearestRankPercentile(errors, 0.9);
 }
 
 /**
@@ -511,7 +526,7 @@ export function clipReport(
       `(1 s; 3 s for the wrist, the straight-wrist reading), then ${CYCLES} cycles of ${CYCLE_SECONDS} s from rest to an end of range drawn from the seed and back, ${FPS} fps, ` +
       `camera 0.3-0.7 m, skin, light and background drawn from the seed, ${where}. ${fingers} Nothing is fitted on these seeds.`,
     "- Path: the app's tracking code frame by frame (step mode, as analyze-clip and the upload review), the upload's capture builder, the engine's capture analysis as shipped (correction where it clearly helps, wrist read against the clip's straight-wrist reading, depth mirror on); `without depth mirror` and `raw` (no correction, no depth mirror) for comparison. Side-on wrist flexion/extension is read in the picture (vision/wrist-axis.ts) in every reading, raw included; the finger estimator reads each finger's picture points as well as its 3-D ones (vision/estimator.ts PICTURE_FEATURES).",
-    "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles. Within stated ±: the share of detected frames whose error lies inside the 90% interval the engine stated for that frame (vision/uncertainty.ts; about 90% is honest, far less is overconfident); peak within stated ±: the same for each reading's peak and the interval stated for it.",
+    "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles. Within stated ±: the share of detected frames whose error lies inside the 90% interval the engine stated for that frame (vision/uncertainty.ts; about 90% is honest, far less is overconfident); peak within stated ±: the same for each reading's peak and the interval stated for it. Peak P90: 90% of the readings' peaks lie within this many degrees of the truth (nearest rank; readings read against how the hand was first seen are left out), the figure derive-uncertainty.ts gives the peak's interval.",
     `- Renderer: ${meta.glName}.`,
   ];
   for (const section of sections) {
@@ -530,12 +545,12 @@ export function clipReport(
       "",
       ...rows.filter((row) => row.variant === "engine").map((row) => `- ${row.label}, ${row.view}, ${row.model}: ${verdict(row)}`),
       "",
-      "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope | within 5° | within 10° | peak MAE ° | worst peak error ° | repetitions right | straight-wrist reading used | within stated ± | peak within stated ± |",
-      "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
+      "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope | within 5° | within 10° | peak MAE ° | worst peak error ° | peak P90 ° | repetitions right | straight-wrist reading used | within stated ± | peak within stated ± |",
+      "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
       ...rows.map(
         (row) =>
           `| ${row.label} | ${row.view} | ${row.model} | ${row.variant} | ${row.readings} | ${row.frames.samples} | ${pct(row.frames.detectionRate)} | ${fmt(row.frames.biasDeg)} | ${fmt(row.frames.meanAbsoluteErrorDeg, 2)} | ` +
-          `${fmt(row.frames.slope, 2)} | ${pct(row.frames.within5)} | ${pct(row.frames.within10)} | ${fmt(row.peakMaeDeg)} | ${fmt(row.peakWorstDeg)} | ${row.repsRight}/${row.readings} | ${row.neutralUsed} | ${pct(row.withinStated)} | ${pct(row.peakWithinStated)} |`,
+          `${fmt(row.frames.slope, 2)} | ${pct(row.frames.within5)} | ${pct(row.frames.within10)} | ${fmt(row.peakMaeDeg)} | ${fmt(row.peakWorstDeg)} | ${fmt(row.peakP90Deg)} | ${row.repsRight}/${row.readings} | ${row.neutralUsed} | ${pct(row.withinStated)} | ${pct(row.peakWithinStated)} |`,
       ),
     );
     if (section.byFinger?.length) {

@@ -158,6 +158,29 @@ describe("uncertainty table from the accuracy report", () => {
     expect(unsplit.byDigit).toBeUndefined();
   });
 
+  it("takes a cell's peak figure from the reports' peak P90, the worst seed, only where every seed gave one", () => {
+    // A seed's table; with the P90s null, as a report written before the column was added.
+    const seed = (n: number, engineP90: string | null, rawP90: string | null) =>
+      [
+        `## Seed ${n}`,
+        "",
+        `| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | peak MAE ° |${engineP90 === null ? "" : " peak P90 ° |"}`,
+        `| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: |${engineP90 === null ? "" : " ---: |"}`,
+        `| wrist flexion (+) / extension (-) | ulnar | lite | engine | 20 | 100 | 99% | 0.1 | 2 | 4 |${engineP90 === null ? "" : ` ${engineP90} |`}`,
+        `| wrist flexion (+) / extension (-) | ulnar | lite | raw | 20 | 100 | 99% | 0.1 | 3 | 5 |${rawP90 === null ? "" : ` ${rawP90} |`}`,
+      ].join("\n");
+    const [row] = parseClipReports([seed(1, "9.5", "12"), seed(2, "14.3", "11")]);
+    expect(row).toMatchObject({ engineMaeDeg: 2, seeds: 2, enginePeakP90Deg: 14.3, rawPeakP90Deg: 12 });
+    const cell = deriveUncertaintyTable(report, [], CORRECTION_VERSION, [row]).cells.find((c) => c.group === row.group && c.view === "ulnar" && c.model === "lite")!;
+    expect([cell.clipPeakP90Deg, cell.clipRawPeakP90Deg]).toEqual([14.3, 12]);
+    // A seed whose report predates the column, or whose readings found no peak ("-"): no figure rather than a partial one.
+    const [partial] = parseClipReports([seed(1, "9.5", "12"), seed(3, null, null)]);
+    expect(partial.seeds).toBe(2);
+    expect(partial.enginePeakP90Deg).toBeUndefined();
+    expect(parseClipReports([seed(1, "9.5", "12"), seed(2, "-", "-")])[0].enginePeakP90Deg).toBeUndefined();
+    expect(() => parseClipReports([seed(1, "n/a", "12")])).toThrow(/motion row "wrist flexion \(\+\) \/ extension \(-\), ulnar, lite, engine": expected a number of degrees for peak P90 °, got "n\/a"/);
+  });
+
   it("names the clip row whose MAE is not a number", () => {
     const table = [
       "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope |",

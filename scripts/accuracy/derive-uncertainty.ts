@@ -49,6 +49,12 @@ export interface ClipRow {
   rawMaeDeg: number;
   /** How many seeds' engine rows measured it. */
   seeds: number;
+  /**
+   * The half-width that held 90% of the peaks (the reports' "peak P90 °"), the worst over the seeds, engine and raw;
+   * absent unless every seed's row gave it (a report written before the column was added does not).
+   */
+  enginePeakP90Deg?: number;
+  rawPeakP90Deg?: number;
 }
 
 /** A row of a markdown table, its cells looked up by the table's column names. */
@@ -102,6 +108,8 @@ const isMotionTable = (header: readonly string[]) => header[0] === "motion" && h
  */
 export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
   const rows = new Map<string, ClipRow>();
+  // Per row and reading, how many seeds gave a peak P90 and the worst of them.
+  const peaks = new Map<string, { seeds: number; worstDeg: number }>();
   for (const r of tableRows(markdowns, isMotionTable)) {
     const reading = r.at("reading");
     if (reading !== "engine" && reading !== "raw") continue;
@@ -113,6 +121,19 @@ export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
       row.seeds += 1;
     } else row.rawMaeDeg = Math.max(row.rawMaeDeg, mae);
     rows.set(key, row);
+    // "-" where no reading found a peak; absent in reports written before the column.
+    const p90 = r.at("peak P90 °");
+    if (p90 !== undefined && p90 !== "-") {
+      const value = rowNumber(r, "peak P90 °", "a number of degrees", "motion");
+      const seen = peaks.get(`${key}|${reading}`) ?? { seeds: 0, worstDeg: 0 };
+      peaks.set(`${key}|${reading}`, { seeds: seen.seeds + 1, worstDeg: Math.max(seen.worstDeg, value) });
+    }
+  }
+  for (const [key, row] of rows) {
+    const engine = peaks.get(`${key}|engine`);
+    const raw = peaks.get(`${key}|raw`);
+    if (engine?.seeds === row.seeds) row.enginePeakP90Deg = engine.worstDeg;
+    if (raw?.seeds === row.seeds) row.rawPeakP90Deg = raw.worstDeg;
   }
   return [...rows.values()];
 }
@@ -385,6 +406,8 @@ export function deriveUncertaintyTable(
         correctedMaeDeg: correctedMae,
         ...(anyPose !== null && anyPose !== undefined ? { rawAnyPoseMaeDeg: anyPose } : {}),
         ...(clip ? { clipMaeDeg: clip.engineMaeDeg, clipRawMaeDeg: clip.rawMaeDeg } : {}),
+        ...(clip?.enginePeakP90Deg !== undefined ? { clipPeakP90Deg: clip.enginePeakP90Deg } : {}),
+        ...(clip?.rawPeakP90Deg !== undefined ? { clipRawPeakP90Deg: clip.rawPeakP90Deg } : {}),
         correctionHelps: helps,
         uncertaintyDeg: round1(uncertaintyFromMaeDeg(Math.max(stillMae, clip?.engineMaeDeg ?? 0))),
         ...(byDigit ? { byDigit } : {}),
@@ -423,6 +446,9 @@ export function deriveUncertaintyTable(
       "the clip reports' seeds; clipRawMaeDeg without correction), the worse of the still and clip figures. " +
       "byDigit: where every clip seed that measured a cell also split it by finger (the clip reports' per-finger tables), each finger's " +
       "interval from the worse of the cell's still figure and that finger's worst clip MAE over the seeds; it stands for readings of that finger. " +
+      "clipPeakP90Deg (clipRawPeakP90Deg without correction): where every clip seed that measured a cell gave it, the half-width that held 90% of the " +
+      "held-out peaks (nearest rank of the absolute peak errors, the clip reports' peak P90), the worst over the seeds; a capture's start, peak and arc " +
+      "take the wider of it and the frame interval (vision/uncertainty.ts peakUncertaintyDeg), both widened by tracking score. " +
       "Source: scripts/accuracy/report.md (held-out renders) and vision/correction-hand-shape-validation.json and " +
       "correction-hand-shape-down-validation.json (held-out whole-hand shapes, seeds 20261212 and 20261213); " +
       "test-motion rows first, then whole-hand-shape rows, random-pose rows for the rest; scripts/accuracy/clip-report.md and " +

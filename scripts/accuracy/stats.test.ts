@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { leastSquares, summarizeErrors } from "./stats";
+import { leastSquares, nearestRankPercentile, summarizeErrors } from "./stats";
 
 describe("least squares", () => {
   it("fits Anscombe's first data set to y = 3.00 + 0.500 x", () => {
@@ -44,5 +44,27 @@ describe("error summary", () => {
     expect(summary.detectionRate).toBe(0);
     expect(summary.meanAbsoluteErrorDeg).toBeNull();
     expect(summary.slope).toBeNull();
+  });
+});
+
+describe("nearest-rank percentile", () => {
+  // Worked example of the nearest-rank method (Wikipedia, "Percentile", from memory): for 15, 20, 35, 40, 50 the 30th
+  // percentile is 20, the 40th 20, the 50th 35 and the 100th 50.
+  it("reads the worked example", () => {
+    const values = [50, 15, 40, 20, 35];
+    expect(nearestRankPercentile(values, 0.3)).toBe(20);
+    expect(nearestRankPercentile(values, 0.4)).toBe(20);
+    expect(nearestRankPercentile(values, 0.5)).toBe(35);
+    expect(nearestRankPercentile(values, 1)).toBe(50);
+  });
+
+  it("keeps at least p of the values at or below it, and refuses an empty list's figure or p outside (0, 1]", () => {
+    const values = Array.from({ length: 40 }, (_, i) => (i * 7) % 40);
+    const p90 = nearestRankPercentile(values, 0.9)!;
+    expect(values.filter((v) => v <= p90).length / values.length).toBeGreaterThanOrEqual(0.9);
+    expect(values.filter((v) => v < p90).length / values.length).toBeLessThan(0.9);
+    expect(nearestRankPercentile([], 0.9)).toBeNull();
+    expect(() => nearestRankPercentile(values, 0)).toThrow(/p in \(0, 1\]/);
+    expect(() => nearestRankPercentile(values, 1.5)).toThrow(/p in \(0, 1\]/);
   });
 });

@@ -61,3 +61,16 @@ export function summarizeErrors(samples: readonly ErrorSample[]): ErrorSummary {
     within10: share(10),
   };
 }
+
+/**
+ * The nearest-rank percentile: the smallest value with at least p of the values at or below it (the ceil(p * n)-th
+ * smallest; Hyndman and Fan's definition 1). With the values the absolute errors of held-out readings, p of them lie
+ * within it, which is how a stated interval is checked (clip-validation.ts "within stated ±"). Null with no values;
+ * refuses p outside (0, 1].
+ */
+export function nearestRankPercentile(values: readonly number[], p: number): number | null {
+  if (!(p > 0 && p <= 1)) throw new Error(`nearestRankPercentile: expected p in (0, 1], got ${p}`);
+  if (!values.length) return null;
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.ceil(p * sorted.length) - 1];
+}
