@@ -41,6 +41,7 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
   const seq = useRef(0);
   const lastSent = useRef(0);
   const peak = useRef<number | null>(null);
+  const peakUncertainty = useRef<number | null>(null);
   // The therapist's request for a straight-wrist reading in progress, answered when the reading is taken or refused.
   const neutralAsk = useRef<string | null>(null);
   const [neutralAsked, setNeutralAsked] = useState(false);
@@ -140,7 +141,11 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
     if (now - lastSent.current < TELEMETRY_INTERVAL_MS) return;
     lastSent.current = now;
     const angle = u?.smoothedDeg ?? null;
-    if (angle !== null) peak.current = peak.current === null ? angle : Math.max(peak.current, angle);
+    // The peak keeps the interval of the frame that set it: a peak's, wider than a frame's where peaks read worse.
+    if (angle !== null && (peak.current === null || angle > peak.current)) {
+      peak.current = angle;
+      peakUncertainty.current = u?.peakUncertaintyDeg ?? null;
+    }
     room.sendTelemetry(
       encodeTelemetry({
         seq: seq.current++,
@@ -154,6 +159,7 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
         repPhase: u?.rep.phase ?? "rest",
         score: f.score,
         uncertaintyDeg: u?.uncertaintyDeg ?? null,
+        peakUncertaintyDeg: peak.current === null ? null : peakUncertainty.current,
         image: f.image ? f.image.map((p) => [p[0], p[1]] as [number, number]) : null,
         forearmSource: u?.forearmSource ?? null,
       }),

@@ -180,7 +180,7 @@ export function VisitConsole(props: VisitConsoleProps) {
             </div>
             <section aria-label="Live reading" className="grid grid-cols-2 gap-3 md:grid-cols-4">
               <Reading label="Angle now" value={frame?.angleDeg} unit="°" big testId="live-angle" uncertaintyDeg={frame?.uncertaintyDeg} />
-              <Reading label="Peak" value={frame?.peakDeg} unit="°" testId="live-peak" uncertaintyDeg={frame?.uncertaintyDeg} />
+              <Reading label="Peak" value={frame?.peakDeg} unit="°" testId="live-peak" uncertaintyDeg={frame?.peakUncertaintyDeg} />
               <Reading label="Repetitions" value={frame ? frame.reps : null} />
               <div className="rounded-card border border-sand-200 bg-white p-3">
                 <p className="text-xs uppercase tracking-wide text-ink-soft">Plane check</p>

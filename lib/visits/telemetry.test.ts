@@ -13,6 +13,7 @@ function frame(over: Partial<TelemetryFrame> = {}): TelemetryFrame {
     repPhase: "hold",
     score: 0.93,
     uncertaintyDeg: 6,
+    peakUncertaintyDeg: 11,
     image: Array.from({ length: 21 }, (_, i) => [i / 21, 1 - i / 42] as [number, number]),
     forearmSource: null,
     ...over,
@@ -23,11 +24,11 @@ describe("telemetry packets", () => {
   it("round-trip within the stated quantization (0.1°, 1/65535 of the image)", () => {
     const original = frame();
     const bytes = encodeTelemetry(original);
-    expect(bytes.byteLength).toBe(18 + 21 * 4);
+    expect(bytes.byteLength).toBe(19 + 21 * 4);
     const back = decodeTelemetry(bytes)!;
     expect(back.angleDeg).toBeCloseTo(62.3, 5);
     expect(back.peakDeg).toBeCloseTo(71.9, 5);
-    expect(back).toMatchObject({ seq: 7, t: 123_456, quality: "ok", plane: "against_gravity", reps: 2, repPhase: "hold", uncertaintyDeg: 6 });
+    expect(back).toMatchObject({ seq: 7, t: 123_456, quality: "ok", plane: "against_gravity", reps: 2, repPhase: "hold", uncertaintyDeg: 6, peakUncertaintyDeg: 11 });
     expect(back.score).toBeCloseTo(0.93, 2);
     back.image!.forEach(([x, y], i) => {
       expect(Math.abs(x - original.image![i][0])).toBeLessThanOrEqual(1 / 65535);
@@ -36,8 +37,26 @@ describe("telemetry packets", () => {
   });
 
   it("carries 'no angle' and 'no hand' explicitly rather than as zeros", () => {
-    const back = decodeTelemetry(encodeTelemetry(frame({ angleDeg: null, peakDeg: null, image: null, plane: null, quality: "no_hand", uncertaintyDeg: null })))!;
-    expect(back).toMatchObject({ angleDeg: null, peakDeg: null, image: null, plane: null, quality: "no_hand", uncertaintyDeg: null });
+    const back = decodeTelemetry(encodeTelemetry(frame({ angleDeg: null, peakDeg: null, image: null, plane: null, quality: "no_hand", uncertaintyDeg: null, peakUncertaintyDeg: null })))!;
+    expect(back).toMatchObject({ angleDeg: null, peakDeg: null, image: null, plane: null, quality: "no_hand", uncertaintyDeg: null, peakUncertaintyDeg: null });
+  });
+
+  it("still reads a version 1 packet from an older sender, its peak taking the angle's interval", () => {
+    // Version 1 is version 2 without the peak-uncertainty byte (offset 18).
+    for (const image of [frame().image, null]) {
+      const v2 = encodeTelemetry(frame({ image }));
+      const v1 = new Uint8Array(v2.byteLength - 1);
+      v1.set(v2.subarray(0, 18));
+      v1.set(v2.subarray(19), 18);
+      v1[0] = 1;
+      const back = decodeTelemetry(v1)!;
+      expect(back).toMatchObject({ seq: 7, angleDeg: 62.3, uncertaintyDeg: 6, peakUncertaintyDeg: 6 });
+      expect(back.image?.[20][0] ?? null).toBe(image ? decodeTelemetry(v2)!.image![20][0] : null);
+      // A version 1 packet of version 2's length is refused.
+      const wrong = v2.slice();
+      wrong[0] = 1;
+      expect(decodeTelemetry(wrong)).toBeNull();
+    }
   });
 
   it("keeps hyperextension (negative angles)", () => {
@@ -60,7 +79,7 @@ describe("telemetry packets", () => {
     for (const forearmSource of ["pose", "neutral-reading", "capture-start", null] as const) {
       for (const image of [frame().image, null]) {
         const bytes = encodeTelemetry(frame({ forearmSource, image, plane: null }));
-        expect(bytes.byteLength).toBe(18 + (image ? 21 * 4 : 0));
+        expect(bytes.byteLength).toBe(19 + (image ? 21 * 4 : 0));
         expect(decodeTelemetry(bytes)).toMatchObject({ forearmSource, plane: null, image: image ? expect.any(Array) : null });
       }
     }

@@ -3,19 +3,22 @@
  * (about 1.5 KB/s): one binary packet a tracked frame on LiveKit's lossy data channel, plus small JSON messages on the
  * reliable channel for the test in progress, the therapist's prompts and "keep this attempt".
  *
- * Frame packet, little-endian (version 1):
+ * Frame packet, little-endian (version 2):
  *   u8 version | u8 flags (1 hand present, 2 plane verdict known, bits 2-3 the wrist's forearm line: 0 none or not a
  *   wrist motion, 1 pose, 2 straight-wrist reading, 3 capture start) | u16 sequence | u32 t (ms, sender's clock)
  *   i16 angle ×10 | i16 peak ×10 | u8 quality | u8 plane verdict | u8 repetitions | u8 rep phase | u8 score ×255
- *   u8 uncertainty (whole degrees, 255 = unknown) | 21 × (u16 x, u16 y) image landmarks ×65535 when a hand is present
+ *   u8 uncertainty (whole degrees, 255 = unknown) | u8 peak uncertainty (the same)
+ *   | 21 × (u16 x, u16 y) image landmarks ×65535 when a hand is present
+ * Version 1 packets (an older sender: no peak uncertainty byte) still decode, the peak taking the angle's uncertainty.
  */
 
 import { FOREARM_SOURCES, type ForearmSource } from "@/vision/wrist-axis";
 
 export const TELEMETRY_TOPIC = "kinarc.telemetry";
 export const CONTROL_TOPIC = "kinarc.control";
-export const TELEMETRY_VERSION = 1;
-const HEADER_BYTES = 18;
+export const TELEMETRY_VERSION = 2;
+const HEADER_BYTES = 19;
+const V1_HEADER_BYTES = 18;
 const LANDMARKS = 21;
 
 export const QUALITIES = ["ok", "no_hand", "low_score", "bad_landmarks", "degenerate"] as const;
@@ -33,6 +36,8 @@ export interface TelemetryFrame {
   repPhase: string;
   score: number;
   uncertaintyDeg: number | null;
+  /** The peak's interval: a peak misses by more than a frame does (vision/pipeline.ts LiveUpdate.peakUncertaintyDeg). */
+  peakUncertaintyDeg: number | null;
   /** Normalized image coordinates (0..1), as the tracker reports them, or null when no hand. */
   image: [number, number][] | null;
   /** Wrist motions: where this frame's forearm line came from (vision/wrist-axis.ts); null for finger motions. */
@@ -50,7 +55,7 @@ export function encodeTelemetry(f: TelemetryFrame): Uint8Array {
   const bytes = new Uint8Array(HEADER_BYTES + (f.image ? LANDMARKS * 4 : 0));
   const view = new DataView(bytes.buffer);
   view.setUint8(0, TELEMETRY_VERSION);
-  // Older senders leave bits 2-3 clear, which reads as "no forearm line", so the packet version stays 1.
+  // Older senders leave bits 2-3 clear, which reads as "no forearm line".
   const forearm = f.forearmSource ? FOREARM_SOURCES.indexOf(f.forearmSource) + 1 : 0;
   view.setUint8(1, (f.image ? 1 : 0) | (f.plane ? 2 : 0) | ((forearm & 3) << 2));
   view.setUint16(2, f.seq & 0xffff, true);
@@ -63,6 +68,7 @@ export function encodeTelemetry(f: TelemetryFrame): Uint8Array {
   view.setUint8(15, indexOr(REP_PHASES, f.repPhase, 0));
   view.setUint8(16, clampInt(f.score * 255, 0, 255));
   view.setUint8(17, f.uncertaintyDeg === null ? 255 : clampInt(f.uncertaintyDeg, 0, 254));
+  view.setUint8(18, f.peakUncertaintyDeg === null ? 255 : clampInt(f.peakUncertaintyDeg, 0, 254));
   if (f.image) {
     if (f.image.length !== LANDMARKS) throw new Error(`telemetry: expected ${LANDMARKS} image landmarks, got ${f.image.length}`);
     f.image.forEach(([x, y], i) => {
@@ -75,20 +81,23 @@ export function encodeTelemetry(f: TelemetryFrame): Uint8Array {
 
 /** Decodes a frame packet; returns null for anything that is not one (wrong version or size), never throws. */
 export function decodeTelemetry(bytes: Uint8Array): TelemetryFrame | null {
-  if (bytes.byteLength < HEADER_BYTES) return null;
+  if (bytes.byteLength < V1_HEADER_BYTES) return null;
   const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
-  if (view.getUint8(0) !== TELEMETRY_VERSION) return null;
+  const version = view.getUint8(0);
+  if (version !== TELEMETRY_VERSION && version !== 1) return null;
+  const header = version === 1 ? V1_HEADER_BYTES : HEADER_BYTES;
   const flags = view.getUint8(1);
   const hasHand = (flags & 1) === 1;
-  if (bytes.byteLength !== HEADER_BYTES + (hasHand ? LANDMARKS * 4 : 0)) return null;
+  if (bytes.byteLength !== header + (hasHand ? LANDMARKS * 4 : 0)) return null;
   const angle = view.getInt16(8, true);
   const peak = view.getInt16(10, true);
   const uncertainty = view.getUint8(17);
+  const peakUncertainty = version === 1 ? uncertainty : view.getUint8(18);
   let image: [number, number][] | null = null;
   if (hasHand) {
     image = [];
     for (let i = 0; i < LANDMARKS; i++) {
-      image.push([view.getUint16(HEADER_BYTES + i * 4, true) / 65535, view.getUint16(HEADER_BYTES + i * 4 + 2, true) / 65535]);
+      image.push([view.getUint16(header + i * 4, true) / 65535, view.getUint16(header + i * 4 + 2, true) / 65535]);
     }
   }
   return {
@@ -102,6 +111,7 @@ export function decodeTelemetry(bytes: Uint8Array): TelemetryFrame | null {
     repPhase: REP_PHASES[view.getUint8(15)] ?? "rest",
     score: view.getUint8(16) / 255,
     uncertaintyDeg: uncertainty === 255 ? null : uncertainty,
+    peakUncertaintyDeg: peakUncertainty === 255 ? null : peakUncertainty,
     image,
     forearmSource: FOREARM_SOURCES[((flags >> 2) & 3) - 1] ?? null,
   };
