@@ -3,7 +3,7 @@ import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
 import { xoroshiro128plus } from "pure-rand/generator/xoroshiro128plus";
 import { analyzeCapture } from "./analyze-capture";
 import { analyzeCapturePair, combineFrame, PEAK_DISAGREEMENT_DEG } from "./model-pair";
-import { pairUncertaintyDeg, trackingFactor, UNCERTAINTY_TABLE, VALIDATION_VIEWS, type UncertaintyTable } from "./uncertainty";
+import { pairPeakUncertaintyDeg, pairUncertaintyDeg, trackingFactor, UNCERTAINTY_TABLE, VALIDATION_VIEWS, type UncertaintyTable } from "./uncertainty";
 import type { LiveUpdate } from "./pipeline";
 import { buildSyntheticCapture, randomPlacement, SeededRandom, type SyntheticCaptureSpec } from "./testing/synthetic-hand";
 
@@ -156,6 +156,15 @@ describe("one clip read by two hand models", () => {
     const reach = Math.max(...pair.byModel.map((m) => Math.abs(pair.peakDeg! - m.peakDeg!)));
     const peakMeasured = Math.round(3.3 * trackingFactor(Math.min(pair.byModel[0].meanScore, pair.byModel[1].meanScore)) * 10) / 10;
     expect(pair.uncertaintyDeg).toBeCloseTo(Math.max(peakMeasured, reach), 9);
+    // Where the held-out two-model peaks missed by more (their P90, here 20°), the peak takes that, widened alike.
+    const withPeaks: UncertaintyTable = { ...table, pairs: table.pairs!.map((c) => ({ ...c, clipPeakP90Deg: 20 })) };
+    const wide = analyzeCapturePair({ capture: one, handModel: "lite" }, { capture: two, handModel: "full" }, { uncertaintyTable: withPeaks });
+    const lower = Math.min(pair.byModel[0].meanScore, pair.byModel[1].meanScore);
+    expect(wide.uncertaintyDeg).toBeCloseTo(Math.max(Math.round(20 * trackingFactor(lower) * 10) / 10, reach), 9);
+    expect(pairPeakUncertaintyDeg("pip.flexion", "index", "ulnar", 0.95, withPeaks)).toBe(20);
+    expect(pairPeakUncertaintyDeg("pip.flexion", "index", "ulnar", 0.95, table)).toBeNull();
+    // The frames keep the measured frame figure.
+    expect(wide.frameReadings).toEqual(pair.frameReadings);
     // A finger tested on its own was not measured that way: the one-model rule stands.
     const alone = analyzeCapturePair({ capture: { ...one, oneFinger: true }, handModel: "lite" }, { capture: { ...two, oneFinger: true }, handModel: "full" }, options);
     const aloneRule = analyzeCapturePair({ capture: { ...one, oneFinger: true }, handModel: "lite" }, { capture: { ...two, oneFinger: true }, handModel: "full" }, { uncertaintyTable: { ...table, pairs: [] } });

@@ -17,7 +17,8 @@
  * - where one model gave an angle, that one with its own interval;
  * - repetitions and peaks are found again on the combined angles, with the same filter and segmenter as one model;
  * - the peak's interval: the larger of the two models' own (or, where both models' captures saw the same view and it
- *   was measured, the measured figure at the lower of their mean scores), widened by the distance from the combined
+ *   was measured, the measured figure at the lower of their mean scores, never narrower than the held-out two-model
+ *   peaks' own figure, PairCell.clipPeakP90Deg), widened by the distance from the combined
  *   peak to the further of the two models' own peaks (with the measured figure: never narrower than that distance),
  *   so it reaches both;
  * - a warning when the two models' peaks, or the combined peak and either model's own, lie more than
@@ -32,7 +33,7 @@ import { DEFAULT_MAX_GAP_MS, type FrameQuality, type LiveUpdate } from "./pipeli
 import { PlaneAccumulator } from "./plane";
 import type { ValidationView } from "./correction-views";
 import { RepSegmenter } from "./reps";
-import { pairUncertaintyDeg } from "./uncertainty";
+import { pairPeakUncertaintyDeg, pairUncertaintyDeg } from "./uncertainty";
 
 /**
  * Two peaks further apart than this mean the models disagree about the attempt. Our margin above the training clips'
@@ -147,7 +148,11 @@ export function analyzeCapturePair(first: ModelCapture, second: ModelCapture, op
   const reach = combined === null ? (own.length === 2 ? Math.abs(own[0] - own[1]) / 2 : 0) : Math.max(0, ...own.map((p) => Math.abs(combined - p)));
   const modelsDisagree = (own.length === 2 && Math.abs(own[0] - own[1]) > PEAK_DISAGREEMENT_DEG) || (combined !== null && reach > PEAK_DISAGREEMENT_DEG);
   const stated = [x.uncertaintyDeg, y.uncertaintyDeg].filter((u): u is number => u !== null);
-  const peakMeasured = stated.length === 2 && x.view === y.view ? measured(x.view, Math.min(x.meanScore, y.meanScore)) : null;
+  // The measured two-model figure for the peak: the frame figure at the lower mean score, never narrower than the
+  // held-out two-model peaks' own (pairPeakUncertaintyDeg).
+  const peakScore = Math.min(x.meanScore, y.meanScore);
+  const peakFrameFigure = stated.length === 2 && x.view === y.view ? measured(x.view, peakScore) : null;
+  const peakMeasured = peakFrameFigure === null ? null : Math.max(peakFrameFigure, pairPeakUncertaintyDeg(a.motion, a.digit, x.view, peakScore, options.uncertaintyTable) ?? 0);
   const warnings = [...new Set([...x.warnings, ...y.warnings])];
   if (modelsDisagree) {
     const word = (p: number | null) => (p === null ? "none" : `${p.toFixed(0)} deg`);

@@ -105,6 +105,8 @@ export interface PairCell {
   uncertaintyDeg: number;
   /** From the thumb side: each finger's own worst seed (the fingers read unalike there). */
   byDigit?: DigitFigure[];
+  /** The half-width that held 90% of the combined reading's peaks, the worst seed (as ValidationCell.clipPeakP90Deg). */
+  clipPeakP90Deg?: number;
 }
 
 export interface UncertaintyTable {
@@ -294,8 +296,17 @@ export function fingerAloneUncertaintyDeg(motion: MotionId, digit: Digit | null,
  * motion's group in this view (PairCell), widened by tracking score; null elsewhere (the caller keeps its one-model rule).
  */
 export function pairUncertaintyDeg(motion: MotionId, digit: Digit | null, view: ValidationView | null, score: number, table: UncertaintyTable = UNCERTAINTY_TABLE): number | null {
+  const cell = pairCell(motion, digit, view, table);
+  return cell ? widenedByScore(digitFigure(cell, digit)?.uncertaintyDeg ?? cell.uncertaintyDeg, score) : null;
+}
+
+/** The peak figure of both hand models read together (PairCell.clipPeakP90Deg), widened by tracking score; null without one. */
+export function pairPeakUncertaintyDeg(motion: MotionId, digit: Digit | null, view: ValidationView | null, score: number, table: UncertaintyTable = UNCERTAINTY_TABLE): number | null {
+  const figure = pairCell(motion, digit, view, table)?.clipPeakP90Deg;
+  return figure === undefined ? null : widenedByScore(figure, score);
+}
+
+function pairCell(motion: MotionId, digit: Digit | null, view: ValidationView | null, table: UncertaintyTable): PairCell | undefined {
   const group = correctionGroupFor(motion, digit)?.group;
-  const cell = view === null || !group ? undefined : table.pairs?.find((c) => c.group === group && c.view === view);
-  if (!cell) return null;
-  return widenedByScore(digitFigure(cell, digit)?.uncertaintyDeg ?? cell.uncertaintyDeg, score);
+  return view === null || !group ? undefined : table.pairs?.find((c) => c.group === group && c.view === view);
 }

@@ -407,7 +407,7 @@ export function summarizeClipReadings(readings: readonly ClipReading[]): Omit<Cl
  * The 90th percentile (nearest rank) of the readings' absolute peak errors: the half-width that held 90% of peaks, the
  * figure derive-uncertainty.ts gives a cell's peak. Readings read against capture start are left out (see ClipRow).
  */
-export function peakErrorP90(readings: readonly Pick<ClipReading, "peakDeg" | "truthPeakDeg" | "forearmSource">[]): number | null {
+export function peakErrorP90(readings: readonly (Pick<ClipReading, "peakDeg" | "truthPeakDeg"> & { forearmSource?: string | null })[]): number | null {
   const errors = readings.filter((r) => r.peakDeg !== null && r.forearmSource !== "capture-start").map((r) => Math.abs(r.peakDeg! - r.truthPeakDeg));
   return nearestRankPercentile(errors, 0.9);
 }

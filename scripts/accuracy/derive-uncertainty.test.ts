@@ -66,6 +66,12 @@ describe("uncertainty table from the accuracy report", () => {
     // 2.06 x 4.00 (the worse held-out seed; training seeds, the pooled row and the thumb side left out).
     expect(parsePairCells(markdown)).toEqual([{ group: "PIP flexion", view: "ulnar", models: ["lite", "full"], seeds: 2, clipMaeDeg: 4, uncertaintyDeg: 8.2 }]);
     expect(() => parsePairCells(markdown.replace("| 4.00 |", "| - |"))).toThrow(/pip.flexion, 20261202, both.*MAE °/);
+    // With a peak P90 column: the worse held-out seed's, only where every held-out seed gave one.
+    const withPeaks = markdown
+      .replace(/\| slope \|\n\| --- \| --- \| --- \| ---: \| ---: \| ---: \| ---: \|/g, "| slope | peak P90 ° |\n| --- | --- | --- | ---: | ---: | ---: | ---: | ---: |")
+      .replace(/(\| (?:20261201|20261202|20261203|77000401|all) \| (?:both|lite) \| .*\| 0\.9 \|)/g, (row) => `${row} ${row.includes("20261202") ? "11.5" : row.includes("77000401") ? "30" : "6.0"} |`);
+    expect(parsePairCells(withPeaks)[0]).toMatchObject({ clipMaeDeg: 4, clipPeakP90Deg: 11.5 });
+    expect(parsePairCells(withPeaks.replace("| 0.9 | 11.5 |", "| 0.9 | - |"))[0].clipPeakP90Deg).toBeUndefined();
   });
 
   it("makes a thumb-side two-model cell only where every seed was split by finger, each finger from its own worst seed", () => {

@@ -150,7 +150,7 @@ export const BOTH_BY_FINGER_HEADER = "| motion | seed | finger | both: readings 
  * "both" by-finger tables), and each finger takes its own worst seed. Throws naming the row when a figure is not a number.
  */
 export function parsePairCells(markdown: string): PairCell[] {
-  const worst = new Map<string, { group: string; view: ValidationView; maeDeg: number; seeds: number }>();
+  const worst = new Map<string, { group: string; view: ValidationView; maeDeg: number; seeds: number; peakP90Deg: number; peakSeeds: number }>();
   const fingers = new Map<string, { maeDeg: number; seeds: number }>();
   const heldOut = (seed: string) => /^2026\d{4}$/.test(seed);
   // The engine's own group for the motion (four fingers: no digit); only the finger flexion groups are read by both models.
@@ -168,8 +168,16 @@ export function parsePairCells(markdown: string): PairCell[] {
       const group = groupOf(r.cells[0], r.cells.slice(0, 3).join(", "));
       const mae = rowNumber(r, "MAE °", "a number of degrees", "motion");
       const key = `${group}|${view}`;
-      const seen = worst.get(key) ?? { group, view, maeDeg: 0, seeds: 0 };
-      worst.set(key, { ...seen, maeDeg: Math.max(seen.maeDeg, mae), seeds: seen.seeds + 1 });
+      const seen = worst.get(key) ?? { group, view, maeDeg: 0, seeds: 0, peakP90Deg: 0, peakSeeds: 0 };
+      // The peak P90 column: absent in sections written before it, "-" where no reading found a peak.
+      const p90 = r.at("peak P90 °") === undefined || r.at("peak P90 °") === "-" ? null : rowNumber(r, "peak P90 °", "a number of degrees", "motion");
+      worst.set(key, {
+        ...seen,
+        maeDeg: Math.max(seen.maeDeg, mae),
+        seeds: seen.seeds + 1,
+        peakP90Deg: Math.max(seen.peakP90Deg, p90 ?? 0),
+        peakSeeds: seen.peakSeeds + (p90 === null ? 0 : 1),
+      });
     }
     for (const r of tableRows([section], (header) => tableCells(BOTH_BY_FINGER_HEADER).every((name, i) => header[i] === name))) {
       if (!heldOut(r.at("seed"))) continue;
@@ -192,6 +200,7 @@ export function parsePairCells(markdown: string): PairCell[] {
       seeds: w.seeds,
       clipMaeDeg: w.maeDeg,
       uncertaintyDeg: round1(uncertaintyFromMaeDeg(w.maeDeg)),
+      ...(w.peakSeeds === w.seeds ? { clipPeakP90Deg: w.peakP90Deg } : {}),
       ...(w.view === "radial"
         ? { byDigit: split.map((f) => ({ digit: f.digit, clipMaeDeg: f.row!.maeDeg, uncertaintyDeg: round1(uncertaintyFromMaeDeg(f.row!.maeDeg)) })) }
         : {}),
@@ -460,7 +469,9 @@ export function deriveUncertaintyTable(
       "four-finger cell of the same group, view and model; it stands for a finger the therapist marks as tested on its own, the others held straight (vision/pipeline.ts oneFinger). " +
       "pairs: the same rule on the frame MAE of both hand models read together (vision/model-pair.ts), the worst over the held-out seeds of " +
       "scripts/accuracy/clip-report-two-models.md, against gravity (little-finger side) and with gravity minimized (thumb side; there only where every seed " +
-      "was split by finger, each finger's interval from its own worst seed, byDigit); it stands for a frame both models read in that view.",
+      "was split by finger, each finger's interval from its own worst seed, byDigit); it stands for a frame both models read in that view; " +
+      "a pair cell's clipPeakP90Deg is the same report's peak P90 of the 'both' rows, the worst seed, where every seed gave it: the two-model peak's " +
+      "interval is never narrower than it (vision/model-pair.ts).",
     cells,
     ...(withoutStraightWrist
       ? {

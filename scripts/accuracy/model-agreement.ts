@@ -21,7 +21,7 @@ import type { Condition, MotionId } from "@/lib/motions/catalog";
 import type { TrackedFrame } from "@/vision/live/types";
 import { ClipCaptureError, clipCapture, withFullModelFrames } from "@/vision/live/clip-capture";
 import { analyzeCaptureFile, PEAK_DISAGREEMENT_DEG } from "@/vision/model-pair";
-import { peakCoverage, planClips, readClip, readSavedTracking, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
+import { peakCoverage, peakErrorP90, planClips, readClip, readSavedTracking, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
 import { parseCount } from "./run-accuracy";
 import { ACCEPTANCE, meetsAcceptance, type AcceptanceKey } from "./acceptance";
@@ -67,6 +67,8 @@ export interface AgreementRow {
   within: number | null;
   peakMaeDeg: number | null;
   worstPeakErrorDeg: number | null;
+  /** The half-width that held 90% of the readings' peaks (clip-validation.ts peakErrorP90). */
+  peakP90Deg: number | null;
   /** Share of readings with a peak whose error lies inside the peak's stated interval. */
   peakWithin: number | null;
 }
@@ -86,6 +88,7 @@ export function agreementRow(reading: AgreementRow["reading"], readings: readonl
     within: statedCoverage(readings),
     peakMaeDeg: peakErrors.length ? peakErrors.reduce((sum, e) => sum + Math.abs(e), 0) / peakErrors.length : null,
     worstPeakErrorDeg: worst,
+    peakP90Deg: peakErrorP90(readings),
     peakWithin: peakCoverage(readings),
   };
 }
@@ -133,8 +136,8 @@ async function main(): Promise<void> {
   const clips = parseCount("clips", values.clips, 10);
   const lines: string[] = [];
   lines.push(`## Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}\n`);
-  lines.push("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peak within stated ± | models disagree (> " + PEAK_DISAGREEMENT_DEG + "°) | issue 8's bars |");
-  lines.push("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- |");
+  lines.push("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peak P90 ° | peak within stated ± | models disagree (> " + PEAK_DISAGREEMENT_DEG + "°) | issue 8's bars |");
+  lines.push("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- |");
   const perReading: string[] = [];
   // Both models together, split by finger (derive-uncertainty.ts reads it for the thumb side's two-model cells).
   const byFinger: string[] = [];
@@ -144,7 +147,7 @@ async function main(): Promise<void> {
       const apart = pairs.filter((p) => p[2].disagree).length;
       for (const row of [agreementRow("lite", pairs.map((p) => p[0])), agreementRow("full", pairs.map((p) => p[1])), agreementRow("both", pairs.map((p) => p[2]))]) {
         lines.push(
-          `| ${motion} | ${label} | ${row.reading} | ${row.readings} | ${pct(row.detected)} | ${fmt(row.maeDeg)} | ${fmt(row.slope)} | ${pct(row.within)} | ${fmt(row.peakMaeDeg, 1)} | ${fmt(row.worstPeakErrorDeg, 1)} | ${pct(row.peakWithin)} | ${row.reading === "both" ? apart : ""} | ${bars(motion, row)} |`,
+          `| ${motion} | ${label} | ${row.reading} | ${row.readings} | ${pct(row.detected)} | ${fmt(row.maeDeg)} | ${fmt(row.slope)} | ${pct(row.within)} | ${fmt(row.peakMaeDeg, 1)} | ${fmt(row.worstPeakErrorDeg, 1)} | ${fmt(row.peakP90Deg, 1)} | ${pct(row.peakWithin)} | ${row.reading === "both" ? apart : ""} | ${bars(motion, row)} |`,
         );
       }
     };
