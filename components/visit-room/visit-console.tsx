@@ -180,7 +180,14 @@ export function VisitConsole(props: VisitConsoleProps) {
             </div>
             <section aria-label="Live reading" className="grid grid-cols-2 gap-3 md:grid-cols-4">
               <Reading label="Angle now" value={frame?.angleDeg} unit="°" big testId="live-angle" uncertaintyDeg={frame?.uncertaintyDeg} />
-              <Reading label="Peak" value={frame?.peakDeg} unit="°" testId="live-peak" uncertaintyDeg={frame?.peakUncertaintyDeg} />
+              <Reading
+                label="Peak"
+                value={frame?.peakDeg}
+                unit="°"
+                testId="live-peak"
+                uncertaintyDeg={frame?.peakUncertaintyDeg}
+                uncertaintyTitle="90% of peaks in validation fell within this (a peak misses by more than a single frame)"
+              />
               <Reading label="Repetitions" value={frame ? frame.reps : null} />
               <div className="rounded-card border border-sand-200 bg-white p-3">
                 <p className="text-xs uppercase tracking-wide text-ink-soft">Plane check</p>
@@ -280,6 +287,7 @@ function Reading({
   big = false,
   testId,
   uncertaintyDeg,
+  uncertaintyTitle = "90% of readings in validation fell within this",
 }: {
   label: string;
   value: number | null | undefined;
@@ -288,6 +296,8 @@ function Reading({
   testId?: string;
   /** 90% interval half-width the engine states for this angle (vision/uncertainty.ts). */
   uncertaintyDeg?: number | null;
+  /** What the ± means, shown on hover. */
+  uncertaintyTitle?: string;
 }) {
   const shown = value !== null && value !== undefined;
   return (
@@ -297,7 +307,7 @@ function Reading({
         {shown ? `${Math.round(value)}${unit}` : "—"}
       </p>
       {shown && uncertaintyDeg != null ? (
-        <p className="text-sm tabular-nums text-ink-soft" data-testid={testId ? `${testId}-uncertainty` : undefined} title="90% of readings in validation fell within this">
+        <p className="text-sm tabular-nums text-ink-soft" data-testid={testId ? `${testId}-uncertainty` : undefined} title={uncertaintyTitle}>
           ± {Math.round(uncertaintyDeg)}°
         </p>
       ) : null}
