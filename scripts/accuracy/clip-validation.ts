@@ -55,6 +55,8 @@ import type { HandModelVariant } from "./tracked-set";
 export const CLIP_VALIDATION_SEEDS = [20_261_210, 20_261_209, 20_261_207, 20_261_205] as const;
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  20261221:
+    "Rendered and tracked (against gravity, finger and wrist motions, both models) while the peak figures (clipPeakP90Deg from the clip reports' peak P90, one model and both together) were being committed; read once, after. Nothing is fitted on it.",
   20261218:
     "Rendered and tracked (against gravity, finger motions, both models) after the two-model peak rule was revised (vision/model-pair.ts, commit ccbbff1); read once with it (model-agreement.ts). Nothing is fitted on it.",
   20261217:
