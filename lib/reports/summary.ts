@@ -13,7 +13,7 @@ import { GRADE_METHOD_LABELS, REASON_LABELS } from "@/lib/chart/model";
 export const ACCURACY_NOTES: readonly string[] = [
   "Angles are estimated from the client's camera with hand landmarks, not measured with a goniometer. In a pilot study camera-based landmarks agreed with a goniometer to a mean absolute error of about 5 degrees, with limits of agreement near ±17 degrees (Science Progress, 2026); on fast movements errors up to about 22 degrees RMSE were reported (Sprague et al., Sensors 2025;25:5716), and occlusion lowers the accuracy of MCP flexion (Gionfrida et al., PLoS ONE 2022;17:e0276799).",
   "For comparison, a universal goniometer at the wrist has ICCs of about 0.80-0.93 (LaStayo & Wheeler, Phys Ther 1994;74:162) and an accuracy of 6-7 degrees against fluoroscopy (Carter et al., J Hand Surg Am 2009;34:1422); finger goniometry has an SEM of 2.4-4.9 degrees (Macionis, BMC Musculoskelet Disord 2013;14:17).",
-  "Each attempt carries its own stated uncertainty where the engine gives one. A test plane is counted only when the camera's gravity check agreed with the declared position (against gravity or gravity minimized).",
+  "Each attempt carries its own stated uncertainty where the engine gives one: a 90% interval from Kinarc's validation on rendered hands for that joint, camera view and tracking quality, for the peak the width that held nine in ten held-out peaks. A test plane is counted only when the camera's gravity check agreed with the declared position (against gravity or gravity minimized).",
   "Range-based grades (up to 3) follow Daniels and Worthingham's Muscle Testing (Hislop, Avers & Brown, 9th ed., 2014); grades above 3, and 0 versus 1, need a resisted or palpation test in person.",
 ];
 
