@@ -242,6 +242,24 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   let method: MeasurementMethod = "world3d";
   const palmContinuity = new PalmContinuity(options.side);
 
+  /**
+   * The validation interval of an angle read against this forearm line, in this view, at this score: a wrist read
+   * against how the hand was first seen, or against the straight-wrist reading, takes those figures; a finger tested
+   * on its own its single-finger figure; the cell's otherwise.
+   */
+  function statedInterval(source: ForearmSource | null, view: ValidationView | null, score: number, method: UncertaintyMethod): number | null {
+    return oneFingerUncertainty(
+      wristStartUncertainty(
+        source,
+        (source === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable, table) : null) ??
+          angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, method),
+        score,
+      ),
+      view,
+      score,
+    );
+  }
+
   /** An interval for a peak: the frame interval, never narrower than the held-out peaks' figure (peakUncertaintyDeg). */
   function atLeastPeakFigure(frameDeg: number | null, view: ValidationView | null, score: number, method: UncertaintyMethod): number | null {
     const peak = peakUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, method);
@@ -369,16 +387,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     allFramesPlane.add(plane.axisToGravityDeg, plane.travelAlongGravity);
     const phase = segmenter.push(frame.t, angleDeg, smoothedDeg, filter.speed, plane.axisToGravityDeg, plane.travelAlongGravity);
     // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
-    const frameUncertainty = oneFingerUncertainty(
-      wristStartUncertainty(
-        forearm?.source ?? null,
-        (againstNeutral ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable, table) : null) ??
-          angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, frameMethod === correctedMethod ? "engine" : "raw"),
-        score,
-      ),
-      view,
-      score,
-    );
+    const frameUncertainty = statedInterval(forearm?.source ?? null, view, score, frameMethod === correctedMethod ? "engine" : "raw");
     return {
       t: frame.t,
       quality: "ok",
@@ -457,21 +466,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       warnings.push(`forearm line: ${[...forearmCounts].map(([source, n]) => `${source} in ${n} frames`).join(", ")} (the pose landmarker saw the elbow only part of the time)`);
     }
     const meanUsableScore = usable ? usableScoreSum / usable : 0;
-    // The capture's start, peak and arc: the frame interval of its usual view at its mean score, never narrower than
-    // the held-out peaks' own figure (a peak is one repetition's top and misses by more than a frame does).
-    function repetitionUncertainty(view: ValidationView | null, score: number, method: UncertaintyMethod): number | null {
-      const frame = oneFingerUncertainty(
-        wristStartUncertainty(
-          forearmSource,
-          (forearmSource === "neutral-reading" ? neutralReadingUncertaintyDeg(options.motion, handModel, view, score, wristTable, table) : null) ??
-            angleUncertaintyDeg(options.motion, options.digit, handModel, view, score, table, method),
-          score,
-        ),
-        view,
-        score,
-      );
-      return atLeastPeakFigure(frame, view, score, method);
-    }
+    const uncertaintyMethod: UncertaintyMethod = correctedFrames === usable ? "engine" : "raw";
     const summaryMethod: MeasurementMethod = pictureFrames > 0 ? (correctedFrames > 0 ? pictureCorrectedMethod : "image_plane") : correctedFrames > 0 ? correctedMethod : "world3d";
     return {
       frames,
@@ -480,7 +475,9 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       repetitions,
       plane: repPlane.empty ? allFramesPlane.result() : repPlane.result(),
       method: summaryMethod,
-      uncertaintyDeg: usable ? repetitionUncertainty(view, meanUsableScore, correctedFrames === usable ? "engine" : "raw") : null,
+      // The capture's start, peak and arc: the interval of its usual view at its mean score, never narrower than the
+      // held-out peaks' own figure (a peak is one repetition's top and misses by more than a frame does).
+      uncertaintyDeg: usable ? atLeastPeakFigure(statedInterval(forearmSource, view, meanUsableScore, uncertaintyMethod), view, meanUsableScore, uncertaintyMethod) : null,
       view,
       viewQuality: quality,
       recommendedViews: policy.recommended,
