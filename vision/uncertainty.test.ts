@@ -5,6 +5,7 @@ import { buildSyntheticCapture, type Placement } from "./testing/synthetic-hand"
 import {
   angleUncertaintyDeg,
   baseUncertaintyDeg,
+  digitFigure,
   peakUncertaintyDeg,
   trackingFactor,
   UNCERTAINTY_TABLE,
@@ -54,8 +55,24 @@ describe("the committed table (vision/uncertainty-table.json) against its own fi
     for (const c of UNCERTAINTY_TABLE.cells) {
       if (c.correctionHelps) expect(c.correctedMaeDeg!, `${c.group} ${c.view} ${c.model}`).toBeLessThan(c.rawMaeDeg);
       const stillMae = c.correctionHelps ? c.correctedMaeDeg! : Math.max(c.rawMaeDeg, c.rawAnyPoseMaeDeg ?? 0);
-      expect(c.uncertaintyDeg).toBeCloseTo(uncertaintyFromMaeDeg(Math.max(stillMae, c.clipMaeDeg ?? 0)), 1);
+      // The normal rule on the worse MAE, never narrower than the width that held 90% of held-out clip frames.
+      expect(c.uncertaintyDeg).toBeCloseTo(Math.max(uncertaintyFromMaeDeg(Math.max(stillMae, c.clipMaeDeg ?? 0)), c.clipFramesP90Deg ?? 0), 1);
     }
+  });
+
+  it("keeps an interval at least as wide as the width that held 90% of held-out frames, where the errors' tails are heavy", () => {
+    const withFigure = UNCERTAINTY_TABLE.cells.filter((c) => c.clipFramesP90Deg !== undefined);
+    expect(withFigure.length).toBeGreaterThanOrEqual(16);
+    for (const c of withFigure) {
+      expect(c.uncertaintyDeg, `${c.group} ${c.view} ${c.model}`).toBeGreaterThanOrEqual(c.clipFramesP90Deg!);
+      for (const f of c.byDigit ?? []) expect(f.uncertaintyDeg).toBeGreaterThanOrEqual(f.clipFramesP90Deg ?? 0);
+      if (c.clipRawFramesP90Deg !== undefined) expect(baseUncertaintyDeg(UNCERTAINTY_TABLE, c.group, c.model, c.view, "raw")).toBeGreaterThanOrEqual(c.clipRawFramesP90Deg);
+    }
+    // Somewhere the normal rule (2.06 x MAE) falls short of it: from the thumb side, lite PIP, where the hidden fingers
+    // miss by far more now and then than the mean suggests.
+    const thumbSidePip = UNCERTAINTY_TABLE.cells.find((c) => c.group === "PIP flexion" && c.view === "radial" && c.model === "lite")!;
+    expect(thumbSidePip.clipFramesP90Deg!).toBeGreaterThan(uncertaintyFromMaeDeg(thumbSidePip.clipMaeDeg!));
+    expect(thumbSidePip.uncertaintyDeg).toBe(thumbSidePip.clipFramesP90Deg);
   });
 
   it("takes the held-out clips' figure where a continuous motion read worse than the stills", () => {
@@ -73,7 +90,7 @@ describe("the committed table (vision/uncertainty-table.json) against its own fi
     // Thumb-side MCP flexion, lite: the stills gave 8.8 degrees after correction, the gravity-minimized clips 10.0 (read in the picture).
     const thumbSide = UNCERTAINTY_TABLE.cells.find((c) => c.group === "MCP flexion" && c.view === "radial" && c.model === "lite")!;
     expect(thumbSide.clipMaeDeg!).toBeGreaterThan(thumbSide.correctedMaeDeg!);
-    expect(thumbSide.uncertaintyDeg).toBeCloseTo(uncertaintyFromMaeDeg(thumbSide.clipMaeDeg!), 1);
+    expect(thumbSide.uncertaintyDeg).toBeCloseTo(Math.max(uncertaintyFromMaeDeg(thumbSide.clipMaeDeg!), thumbSide.clipFramesP90Deg ?? 0), 1);
   });
 
   it("finger flexion seen from the palm, back, obliquely or from above is judged on the held-out whole-hand shapes; raw frames there keep the any-pose error", () => {
@@ -152,9 +169,11 @@ describe("a cell split by finger (held-out clips per finger)", () => {
   });
 
   it("with the view unknown, takes the worst view for that finger", () => {
-    const others = table.cells.filter((c) => c.group === "PIP flexion" && c.model === "lite" && c !== split).map((c) => c.uncertaintyDeg);
-    expect(baseUncertaintyDeg(table, "PIP flexion", "lite", null, "engine", "little")).toBe(Math.max(33, ...others));
-    expect(baseUncertaintyDeg(table, "PIP flexion", "lite", null, "engine", "index")).toBe(Math.max(10, ...others));
+    // Other cells split by finger (the thumb side, the palm, the back, above) give that finger's own figure too.
+    const others = (digit: "little" | "index") =>
+      table.cells.filter((c) => c.group === "PIP flexion" && c.model === "lite" && c !== split).map((c) => digitFigure(c, digit)?.uncertaintyDeg ?? c.uncertaintyDeg);
+    expect(baseUncertaintyDeg(table, "PIP flexion", "lite", null, "engine", "little")).toBe(Math.max(33, ...others("little")));
+    expect(baseUncertaintyDeg(table, "PIP flexion", "lite", null, "engine", "index")).toBe(Math.max(10, ...others("index")));
   });
 });
 
@@ -237,9 +256,10 @@ describe("the peak's own figure (held-out clips' peak P90)", () => {
   });
 
   it("is absent where no held-out clip measured a peak: a view without clips, a table without figures, a motion outside the table", () => {
-    const palm = cellOf("PIP flexion", "lite", "palm");
-    expect(palm.clipPeakP90Deg).toBeUndefined();
-    expect(peakUncertaintyDeg("pip.flexion", "index", "lite", "palm", 1)).toBeNull();
+    // No held-out clip was seen obliquely.
+    const oblique = cellOf("PIP flexion", "lite", "oblique");
+    expect(oblique.clipPeakP90Deg).toBeUndefined();
+    expect(peakUncertaintyDeg("pip.flexion", "index", "lite", "oblique", 1)).toBeNull();
     const bare: UncertaintyTable = { ...UNCERTAINTY_TABLE, cells: UNCERTAINTY_TABLE.cells.map((c) => ({ ...c, clipPeakP90Deg: undefined, clipRawPeakP90Deg: undefined })) };
     expect(peakUncertaintyDeg("wrist.flexion", null, "lite", "ulnar", 1, bare)).toBeNull();
     // The middle finger's spread has no correction group (vision/correction.ts correctionGroupFor).

@@ -45,6 +45,13 @@ export interface ValidationCell {
    */
   clipPeakP90Deg?: number;
   clipRawPeakP90Deg?: number;
+  /**
+   * The same for frames: the half-width that held 90% of the held-out clips' detected frames (the reports' "frame P90
+   * °", worst seed). The interval is never narrower: the normal rule (2.06 × MAE) holds fewer than 90% of errors
+   * whose tails are heavy, as from the palm, the back or above.
+   */
+  clipFramesP90Deg?: number;
+  clipRawFramesP90Deg?: number;
   /** The correction lowered the held-out mean absolute error here, so the engine applies it. */
   correctionHelps: boolean;
   /** Half-width of the 90% interval for the method the engine uses here (see UncertaintyTable.rule). */
@@ -60,6 +67,8 @@ export interface ValidationCell {
 export interface DigitFigure {
   digit: Exclude<Digit, "thumb">;
   clipMaeDeg: number;
+  /** The finger's own frame P90 (as ValidationCell.clipFramesP90Deg), where every seed gave it. */
+  clipFramesP90Deg?: number;
   uncertaintyDeg: number;
 }
 
@@ -161,7 +170,7 @@ export function digitFigure(cell: Pick<ValidationCell, "byDigit">, digit: Digit 
 
 function cellUncertaintyDeg(cell: ValidationCell, method: UncertaintyMethod, digit: Digit | null): number {
   if (method === "engine") return digitFigure(cell, digit)?.uncertaintyDeg ?? cell.uncertaintyDeg;
-  return Math.round(uncertaintyFromMaeDeg(Math.max(cell.rawMaeDeg, cell.rawAnyPoseMaeDeg ?? 0, cell.clipRawMaeDeg ?? 0)) * 10) / 10;
+  return Math.round(Math.max(uncertaintyFromMaeDeg(Math.max(cell.rawMaeDeg, cell.rawAnyPoseMaeDeg ?? 0, cell.clipRawMaeDeg ?? 0)), cell.clipRawFramesP90Deg ?? 0) * 10) / 10;
 }
 
 /**

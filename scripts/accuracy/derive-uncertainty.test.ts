@@ -187,6 +187,40 @@ describe("uncertainty table from the accuracy report", () => {
     expect(() => parseClipReports([seed(1, "n/a", "12")])).toThrow(/motion row "wrist flexion \(\+\) \/ extension \(-\), ulnar, lite, engine": expected a number of degrees for peak P90 °, got "n\/a"/);
   });
 
+  it("keeps a cell's and a finger's interval at least their frames' P90, the worst seed, only where every seed gave one", () => {
+    const seed = (n: number, engineP90: string | null, fingerP90s: number[] | null) =>
+      [
+        `## Seed ${n}`,
+        "",
+        `| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° |${engineP90 === null ? "" : " frame P90 ° |"}`,
+        `| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: |${engineP90 === null ? "" : " ---: |"}`,
+        `| PIP flexion | radial | lite | engine | 40 | 100 | 99% | 0.1 | 6 |${engineP90 === null ? "" : ` ${engineP90} |`}`,
+        `| PIP flexion | radial | lite | raw | 40 | 100 | 99% | 0.1 | 20 |${engineP90 === null ? "" : " 41.5 |"}`,
+        "",
+        `| motion | view | model | finger | readings | detected | bias ° | MAE ° |${fingerP90s === null ? "" : " frame P90 ° |"}`,
+        `| --- | --- | --- | --- | ---: | ---: | ---: | ---: |${fingerP90s === null ? "" : " ---: |"}`,
+        ...["index", "middle", "ring", "little"].map((f, i) => `| PIP flexion | radial | lite | ${f} | 10 | 100% | 0.0 | ${4 + i} |${fingerP90s === null ? "" : ` ${fingerP90s[i]} |`}`),
+      ].join("\n");
+    const cellOf = (markdowns: string[]) =>
+      deriveUncertaintyTable(report, [], CORRECTION_VERSION, parseClipReports(markdowns), null, parseClipFingerRows(markdowns)).cells.find(
+        (c) => c.group === "PIP flexion" && c.view === "radial" && c.model === "lite",
+      )!;
+    const both = cellOf([seed(1, "20.5", [9, 10, 30, 12]), seed(2, "18", [8, 11, 14, 35])]);
+    // report.md's still figure for the cell (the method the engine uses there), above the clips' MAE of 6.
+    const still = both.correctionHelps ? both.correctedMaeDeg! : Math.max(both.rawMaeDeg, both.rawAnyPoseMaeDeg ?? 0);
+    expect(2.0615 * Math.max(still, 6)).toBeLessThan(20.5);
+    // The normal rule on the worse MAE falls short of the frames' P90 of 20.5, which stands.
+    expect([both.clipFramesP90Deg, both.clipRawFramesP90Deg, both.uncertaintyDeg]).toEqual([20.5, 41.5, 20.5]);
+    // Each finger: the worse of the normal rule on its own MAE and its own worst-seed P90.
+    expect(both.byDigit!.map((f) => f.clipFramesP90Deg)).toEqual([9, 11, 30, 35]);
+    expect(both.byDigit!.map((f) => f.uncertaintyDeg)).toEqual([9, 11, 30, 35].map((p90, i) => Math.round(Math.max(p90, 2.0615 * Math.max(still, 4 + i)) * 10) / 10));
+    // A seed without the column: no frame figure, the normal rule alone.
+    const older = cellOf([seed(1, "20.5", [9, 10, 30, 12]), seed(2, null, null)]);
+    expect(older.clipFramesP90Deg).toBeUndefined();
+    expect(older.byDigit!.every((f) => f.clipFramesP90Deg === undefined)).toBe(true);
+    expect(older.uncertaintyDeg).toBe(Math.round(2.0615 * Math.max(still, 6) * 10) / 10);
+  });
+
   it("names the clip row whose MAE is not a number", () => {
     const table = [
       "| motion | view | model | reading | readings | frames | detected | bias ° | MAE ° | slope |",

@@ -55,6 +55,9 @@ export interface ClipRow {
    */
   enginePeakP90Deg?: number;
   rawPeakP90Deg?: number;
+  /** The half-width that held 90% of detected frames (the reports' "frame P90 °"), the worst seed; as the peak's. */
+  engineFramesP90Deg?: number;
+  rawFramesP90Deg?: number;
 }
 
 /** A row of a markdown table, its cells looked up by the table's column names. */
@@ -108,8 +111,7 @@ const isMotionTable = (header: readonly string[]) => header[0] === "motion" && h
  */
 export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
   const rows = new Map<string, ClipRow>();
-  // Per row and reading, how many seeds gave a peak P90 and the worst of them.
-  const peaks = new Map<string, { seeds: number; worstDeg: number }>();
+  const optional = new OptionalFigures();
   for (const r of tableRows(markdowns, isMotionTable)) {
     const reading = r.at("reading");
     if (reading !== "engine" && reading !== "raw") continue;
@@ -121,21 +123,40 @@ export function parseClipReports(markdowns: readonly string[]): ClipRow[] {
       row.seeds += 1;
     } else row.rawMaeDeg = Math.max(row.rawMaeDeg, mae);
     rows.set(key, row);
-    // "-" where no reading found a peak; absent in reports written before the column.
-    const p90 = r.at("peak P90 °");
-    if (p90 !== undefined && p90 !== "-") {
-      const value = rowNumber(r, "peak P90 °", "a number of degrees", "motion");
-      const seen = peaks.get(`${key}|${reading}`) ?? { seeds: 0, worstDeg: 0 };
-      peaks.set(`${key}|${reading}`, { seeds: seen.seeds + 1, worstDeg: Math.max(seen.worstDeg, value) });
-    }
+    optional.add(`${key}|${reading}|peak`, r, "peak P90 °", "motion");
+    optional.add(`${key}|${reading}|frames`, r, "frame P90 °", "motion");
   }
   for (const [key, row] of rows) {
-    const engine = peaks.get(`${key}|engine`);
-    const raw = peaks.get(`${key}|raw`);
-    if (engine?.seeds === row.seeds) row.enginePeakP90Deg = engine.worstDeg;
-    if (raw?.seeds === row.seeds) row.rawPeakP90Deg = raw.worstDeg;
+    const figures = {
+      enginePeakP90Deg: optional.worstOverAll(`${key}|engine|peak`, row.seeds),
+      rawPeakP90Deg: optional.worstOverAll(`${key}|raw|peak`, row.seeds),
+      engineFramesP90Deg: optional.worstOverAll(`${key}|engine|frames`, row.seeds),
+      rawFramesP90Deg: optional.worstOverAll(`${key}|raw|frames`, row.seeds),
+    };
+    for (const [name, value] of Object.entries(figures)) if (value !== null) row[name as keyof typeof figures] = value;
   }
   return [...rows.values()];
+}
+
+/**
+ * Figures of a column that older reports lack (or show as "-" where there was nothing to rank): per key, the worst
+ * over the rows that gave one, and how many did. A cell takes such a figure only where every seed gave it.
+ */
+class OptionalFigures {
+  private readonly seen = new Map<string, { seeds: number; worstDeg: number }>();
+
+  add(key: string, row: TableRow, column: string, kind: "motion" | "finger"): void {
+    const cell = row.at(column);
+    if (cell === undefined || cell === "-") return;
+    const value = rowNumber(row, column, "a number of degrees", kind);
+    const before = this.seen.get(key) ?? { seeds: 0, worstDeg: 0 };
+    this.seen.set(key, { seeds: before.seeds + 1, worstDeg: Math.max(before.worstDeg, value) });
+  }
+
+  worstOverAll(key: string, seeds: number): number | null {
+    const figure = this.seen.get(key);
+    return figure && figure.seeds === seeds ? figure.worstDeg : null;
+  }
 }
 
 /** The header of the two-model report's by-finger table of both models together (written by model-agreement.ts). */
@@ -236,6 +257,8 @@ export interface ClipFingerRow {
   engineMaeDeg: number;
   /** How many seeds measured it (a cell is split by finger only where every seed that measured it was split). */
   seeds: number;
+  /** The finger's frame P90, the worst seed, where every seed gave it. */
+  engineFramesP90Deg?: number;
 }
 
 /**
@@ -244,6 +267,7 @@ export interface ClipFingerRow {
  */
 export function parseClipFingerRows(markdowns: readonly string[]): ClipFingerRow[] {
   const rows = new Map<string, ClipFingerRow>();
+  const optional = new OptionalFigures();
   for (const r of tableRows(markdowns, (header) => header[0] === "motion" && header.includes("finger"))) {
     const mae = rowNumber(r, "MAE °", "a number of degrees", "finger");
     const key = `${r.cells[0]}|${r.at("view")}|${r.at("model")}|${r.at("finger")}`;
@@ -251,6 +275,11 @@ export function parseClipFingerRows(markdowns: readonly string[]): ClipFingerRow
     row.engineMaeDeg = Math.max(row.engineMaeDeg, mae);
     row.seeds += 1;
     rows.set(key, row);
+    optional.add(key, r, "frame P90 °", "finger");
+  }
+  for (const [key, row] of rows) {
+    const p90 = optional.worstOverAll(key, row.seeds);
+    if (p90 !== null) row.engineFramesP90Deg = p90;
   }
   return [...rows.values()];
 }
@@ -380,7 +409,12 @@ export function deriveUncertaintyTable(
     for (const digit of FINGERS) {
       const row = clipFingerRows.find((r) => `${r.group}|${r.view}|${r.model}|${r.digit}` === `${key}|${digit}` && r.seeds === clip.seeds);
       if (!row) return null;
-      figures.push({ digit, clipMaeDeg: row.engineMaeDeg, uncertaintyDeg: round1(uncertaintyFromMaeDeg(Math.max(stillMae, row.engineMaeDeg))) });
+      figures.push({
+        digit,
+        clipMaeDeg: row.engineMaeDeg,
+        ...(row.engineFramesP90Deg !== undefined ? { clipFramesP90Deg: row.engineFramesP90Deg } : {}),
+        uncertaintyDeg: round1(Math.max(uncertaintyFromMaeDeg(Math.max(stillMae, row.engineMaeDeg)), row.engineFramesP90Deg ?? 0)),
+      });
     }
     return figures;
   };
@@ -417,8 +451,10 @@ export function deriveUncertaintyTable(
         ...(clip ? { clipMaeDeg: clip.engineMaeDeg, clipRawMaeDeg: clip.rawMaeDeg } : {}),
         ...(clip?.enginePeakP90Deg !== undefined ? { clipPeakP90Deg: clip.enginePeakP90Deg } : {}),
         ...(clip?.rawPeakP90Deg !== undefined ? { clipRawPeakP90Deg: clip.rawPeakP90Deg } : {}),
+        ...(clip?.engineFramesP90Deg !== undefined ? { clipFramesP90Deg: clip.engineFramesP90Deg } : {}),
+        ...(clip?.rawFramesP90Deg !== undefined ? { clipRawFramesP90Deg: clip.rawFramesP90Deg } : {}),
         correctionHelps: helps,
-        uncertaintyDeg: round1(uncertaintyFromMaeDeg(Math.max(stillMae, clip?.engineMaeDeg ?? 0))),
+        uncertaintyDeg: round1(Math.max(uncertaintyFromMaeDeg(Math.max(stillMae, clip?.engineMaeDeg ?? 0)), clip?.engineFramesP90Deg ?? 0)),
         ...(byDigit ? { byDigit } : {}),
       });
     }
@@ -455,6 +491,9 @@ export function deriveUncertaintyTable(
       "the clip reports' seeds; clipRawMaeDeg without correction), the worse of the still and clip figures. " +
       "byDigit: where every clip seed that measured a cell also split it by finger (the clip reports' per-finger tables), each finger's " +
       "interval from the worse of the cell's still figure and that finger's worst clip MAE over the seeds; it stands for readings of that finger. " +
+      "clipFramesP90Deg (clipRawFramesP90Deg without correction): where every clip seed that measured a cell gave it, the half-width that held 90% of " +
+      "its detected frames (nearest rank, the clip reports' frame P90, worst seed); an interval is never narrower, nor a finger's than its own " +
+      "(byDigit clipFramesP90Deg): it widens the normal rule where errors have heavy tails. " +
       "clipPeakP90Deg (clipRawPeakP90Deg without correction): where every clip seed that measured a cell gave it, the half-width that held 90% of the " +
       "held-out peaks (nearest rank of the absolute peak errors, the clip reports' peak P90), the worst over the seeds; a capture's start, peak and arc " +
       "take the wider of it and the frame interval (vision/uncertainty.ts peakUncertaintyDeg), both widened by tracking score. " +
