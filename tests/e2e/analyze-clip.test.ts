@@ -124,8 +124,10 @@ describe("analyze-clip on a rendered four-finger PIP sweep, 0-80-0 degrees x3, u
         expect(inCycle.length, `${digit}, cycle ${cycle + 1}`).toBe(1);
       }
       // "Within the validation error": inside the 90% interval the engine derives from it and shows the therapist,
-      // the finger's own where the held-out clips were split by finger (the cell's byDigit), else the cell's.
-      const statedDeg = cell.byDigit?.find((f) => f.digit === digit)?.uncertaintyDeg ?? cell.uncertaintyDeg;
+      // the finger's own where the held-out clips were split by finger (the cell's byDigit), else the cell's, never
+      // narrower for a peak than the width that held 90% of held-out peaks (the cell's clipPeakP90Deg).
+      const frameDeg = cell.byDigit?.find((f) => f.digit === digit)?.uncertaintyDeg ?? cell.uncertaintyDeg;
+      const statedDeg = Math.max(frameDeg, cell.clipPeakP90Deg ?? 0);
       expect(analysis.uncertaintyDeg, digit).toBe(statedDeg);
       expect(Math.abs(errorDeg!), digit).toBeLessThanOrEqual(statedDeg);
       // Read as the app reads an uploaded finger clip: both hand models together (vision/model-pair.ts), the peak
