@@ -171,7 +171,8 @@ export const BOTH_BY_FINGER_HEADER = "| motion | seed | finger | both: readings 
  * "both" by-finger tables), and each finger takes its own worst seed. Throws naming the row when a figure is not a number.
  */
 export function parsePairCells(markdown: string): PairCell[] {
-  const worst = new Map<string, { group: string; view: ValidationView; maeDeg: number; seeds: number; peakP90Deg: number; peakSeeds: number }>();
+  const worst = new Map<string, { group: string; view: ValidationView; maeDeg: number; seeds: number }>();
+  const peaks = new OptionalFigures();
   const fingers = new Map<string, { maeDeg: number; seeds: number }>();
   const heldOut = (seed: string) => /^2026\d{4}$/.test(seed);
   // The engine's own group for the motion (four fingers: no digit); only the finger flexion groups are read by both models.
@@ -189,16 +190,9 @@ export function parsePairCells(markdown: string): PairCell[] {
       const group = groupOf(r.cells[0], r.cells.slice(0, 3).join(", "));
       const mae = rowNumber(r, "MAE °", "a number of degrees", "motion");
       const key = `${group}|${view}`;
-      const seen = worst.get(key) ?? { group, view, maeDeg: 0, seeds: 0, peakP90Deg: 0, peakSeeds: 0 };
-      // The peak P90 column: absent in sections written before it, "-" where no reading found a peak.
-      const p90 = r.at("peak P90 °") === undefined || r.at("peak P90 °") === "-" ? null : rowNumber(r, "peak P90 °", "a number of degrees", "motion");
-      worst.set(key, {
-        ...seen,
-        maeDeg: Math.max(seen.maeDeg, mae),
-        seeds: seen.seeds + 1,
-        peakP90Deg: Math.max(seen.peakP90Deg, p90 ?? 0),
-        peakSeeds: seen.peakSeeds + (p90 === null ? 0 : 1),
-      });
+      const seen = worst.get(key) ?? { group, view, maeDeg: 0, seeds: 0 };
+      worst.set(key, { ...seen, maeDeg: Math.max(seen.maeDeg, mae), seeds: seen.seeds + 1 });
+      peaks.add(key, r, "peak P90 °", "motion");
     }
     for (const r of tableRows([section], (header) => tableCells(BOTH_BY_FINGER_HEADER).every((name, i) => header[i] === name))) {
       if (!heldOut(r.at("seed"))) continue;
@@ -211,6 +205,7 @@ export function parsePairCells(markdown: string): PairCell[] {
   }
   const cells: PairCell[] = [];
   for (const [key, w] of worst) {
+    const peakP90Deg = peaks.worstOverAll(key, w.seeds);
     const split = FINGERS.map((digit) => ({ digit, row: fingers.get(`${key}|${digit}`) }));
     const complete = split.every((f) => f.row && f.row.seeds === w.seeds);
     if (w.view === "radial" && !complete) continue;
@@ -221,7 +216,7 @@ export function parsePairCells(markdown: string): PairCell[] {
       seeds: w.seeds,
       clipMaeDeg: w.maeDeg,
       uncertaintyDeg: round1(uncertaintyFromMaeDeg(w.maeDeg)),
-      ...(w.peakSeeds === w.seeds ? { clipPeakP90Deg: w.peakP90Deg } : {}),
+      ...(peakP90Deg !== null ? { clipPeakP90Deg: peakP90Deg } : {}),
       ...(w.view === "radial"
         ? { byDigit: split.map((f) => ({ digit: f.digit, clipMaeDeg: f.row!.maeDeg, uncertaintyDeg: round1(uncertaintyFromMaeDeg(f.row!.maeDeg)) })) }
         : {}),
