@@ -116,6 +116,8 @@ export interface PairCell {
   byDigit?: DigitFigure[];
   /** The half-width that held 90% of the combined reading's peaks, the worst seed (as ValidationCell.clipPeakP90Deg). */
   clipPeakP90Deg?: number;
+  /** The same for its frames, a floor under uncertaintyDeg (as ValidationCell.clipFramesP90Deg). */
+  clipFramesP90Deg?: number;
 }
 
 export interface UncertaintyTable {

@@ -85,6 +85,23 @@ describe("uncertainty table from the accuracy report", () => {
     expect(cell).toMatchObject({ group: "MCP flexion", view: "radial", seeds: 2, clipMaeDeg: 6, uncertaintyDeg: 12.4 });
     // 2.06 x each finger's worse seed: index 4, middle 4, ring 6, little 9.
     expect(cell.byDigit!.map((f) => [f.digit, f.clipMaeDeg, f.uncertaintyDeg])).toEqual([["index", 4, 8.2], ["middle", 4, 8.2], ["ring", 6, 12.4], ["little", 9, 18.6]]);
+    // With frame P90 columns (the "both" rows and the by-finger table): floors under the cell's and each finger's interval.
+    const withP90 = (seed: number, mae: number, p90: number, split: number[], fingerP90: number[]) =>
+      [
+        `## Seeds ${seed}, gravity minimized`,
+        "",
+        "| motion | seed | reading | readings | detected | MAE ° | slope | frame P90 ° |\n| --- | --- | --- | ---: | ---: | ---: | ---: | ---: |",
+        `| mcp.flexion | ${seed} | both | 40 | 100% | ${mae.toFixed(2)} | 0.9 | ${p90} |`,
+        "",
+        `${BOTH_BY_FINGER_HEADER} both: frame P90 ° |`,
+        "| --- | --- | --- | ---: | ---: | ---: | ---: |",
+        ...["index", "middle", "ring", "little"].map((f, i) => `| mcp.flexion | ${seed} | ${f} | 10 | 100% | ${split[i].toFixed(2)} | ${fingerP90[i]} |`),
+        "",
+      ].join("\n");
+    const [floored] = parsePairCells([withP90(20261201, 5, 16, [3, 4, 6, 7], [6, 9, 20, 14]), withP90(20261202, 6, 11, [4, 3, 5, 9], [7, 8, 12, 25])].join("\n"));
+    // 2.06 x 6 = 12.4 < 16 (the worse seed's P90); per finger the worse of 2.06 x MAE and its own worst P90.
+    expect(floored).toMatchObject({ clipMaeDeg: 6, clipFramesP90Deg: 16, uncertaintyDeg: 16 });
+    expect(floored.byDigit!.map((f) => [f.digit, f.clipFramesP90Deg, f.uncertaintyDeg])).toEqual([["index", 7, 8.2], ["middle", 9, 9], ["ring", 20, 20], ["little", 25, 25]]);
     // One seed not split by finger: no thumb-side cell at all.
     expect(parsePairCells([section(20261201, 5, [3, 4, 6, 7]), section(20261202, 6, null)].join("\n"))).toEqual([]);
   });

@@ -172,7 +172,7 @@ export const BOTH_BY_FINGER_HEADER = "| motion | seed | finger | both: readings 
  */
 export function parsePairCells(markdown: string): PairCell[] {
   const worst = new Map<string, { group: string; view: ValidationView; maeDeg: number; seeds: number }>();
-  const peaks = new OptionalFigures();
+  const optional = new OptionalFigures();
   const fingers = new Map<string, { maeDeg: number; seeds: number }>();
   const heldOut = (seed: string) => /^2026\d{4}$/.test(seed);
   // The engine's own group for the motion (four fingers: no digit); only the finger flexion groups are read by both models.
@@ -192,7 +192,8 @@ export function parsePairCells(markdown: string): PairCell[] {
       const key = `${group}|${view}`;
       const seen = worst.get(key) ?? { group, view, maeDeg: 0, seeds: 0 };
       worst.set(key, { ...seen, maeDeg: Math.max(seen.maeDeg, mae), seeds: seen.seeds + 1 });
-      peaks.add(key, r, "peak P90 °", "motion");
+      optional.add(`${key}|peak`, r, "peak P90 °", "motion");
+      optional.add(`${key}|frames`, r, "frame P90 °", "motion");
     }
     for (const r of tableRows([section], (header) => tableCells(BOTH_BY_FINGER_HEADER).every((name, i) => header[i] === name))) {
       if (!heldOut(r.at("seed"))) continue;
@@ -201,11 +202,13 @@ export function parsePairCells(markdown: string): PairCell[] {
       const key = `${group}|${view}|${r.at("finger")}`;
       const seen = fingers.get(key) ?? { maeDeg: 0, seeds: 0 };
       fingers.set(key, { maeDeg: Math.max(seen.maeDeg, mae), seeds: seen.seeds + 1 });
+      optional.add(`${key}|frames`, r, "both: frame P90 °", "finger");
     }
   }
   const cells: PairCell[] = [];
   for (const [key, w] of worst) {
-    const peakP90Deg = peaks.worstOverAll(key, w.seeds);
+    const peakP90Deg = optional.worstOverAll(`${key}|peak`, w.seeds);
+    const framesP90Deg = optional.worstOverAll(`${key}|frames`, w.seeds);
     const split = FINGERS.map((digit) => ({ digit, row: fingers.get(`${key}|${digit}`) }));
     const complete = split.every((f) => f.row && f.row.seeds === w.seeds);
     if (w.view === "radial" && !complete) continue;
@@ -215,10 +218,22 @@ export function parsePairCells(markdown: string): PairCell[] {
       models: ["lite", "full"],
       seeds: w.seeds,
       clipMaeDeg: w.maeDeg,
-      uncertaintyDeg: round1(uncertaintyFromMaeDeg(w.maeDeg)),
+      // The normal rule, never narrower than the width that held 90% of the held-out frames (as for one model).
+      uncertaintyDeg: round1(Math.max(uncertaintyFromMaeDeg(w.maeDeg), framesP90Deg ?? 0)),
+      ...(framesP90Deg !== null ? { clipFramesP90Deg: framesP90Deg } : {}),
       ...(peakP90Deg !== null ? { clipPeakP90Deg: peakP90Deg } : {}),
       ...(w.view === "radial"
-        ? { byDigit: split.map((f) => ({ digit: f.digit, clipMaeDeg: f.row!.maeDeg, uncertaintyDeg: round1(uncertaintyFromMaeDeg(f.row!.maeDeg)) })) }
+        ? {
+            byDigit: split.map((f) => {
+              const fingerP90 = optional.worstOverAll(`${key}|${f.digit}|frames`, w.seeds);
+              return {
+                digit: f.digit,
+                clipMaeDeg: f.row!.maeDeg,
+                ...(fingerP90 !== null ? { clipFramesP90Deg: fingerP90 } : {}),
+                uncertaintyDeg: round1(Math.max(uncertaintyFromMaeDeg(f.row!.maeDeg), fingerP90 ?? 0)),
+              };
+            }),
+          }
         : {}),
     });
   }
@@ -504,7 +519,8 @@ export function deriveUncertaintyTable(
       "pairs: the same rule on the frame MAE of both hand models read together (vision/model-pair.ts), the worst over the held-out seeds of " +
       "scripts/accuracy/clip-report-two-models.md, against gravity (little-finger side) and with gravity minimized (thumb side; there only where every seed " +
       "was split by finger, each finger's interval from its own worst seed, byDigit); it stands for a frame both models read in that view; " +
-      "a pair cell's clipPeakP90Deg is the same report's peak P90 of the 'both' rows, the worst seed, where every seed gave it: the two-model peak's " +
+      "a pair cell's clipFramesP90Deg (and each finger's from the thumb side) is the same report's frame P90 of the 'both' rows, the worst seed, where every " +
+      "seed gave it, a floor under its interval as for one model; its clipPeakP90Deg the peak P90 alike: the two-model peak's " +
       "interval is never narrower than it (vision/model-pair.ts).",
     cells,
     ...(withoutStraightWrist

@@ -21,7 +21,7 @@ import type { Condition, MotionId } from "@/lib/motions/catalog";
 import type { TrackedFrame } from "@/vision/live/types";
 import { ClipCaptureError, clipCapture, withFullModelFrames } from "@/vision/live/clip-capture";
 import { analyzeCaptureFile, PEAK_DISAGREEMENT_DEG } from "@/vision/model-pair";
-import { peakCoverage, peakErrorP90, planClips, readClip, readSavedTracking, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
+import { frameErrorP90, peakCoverage, peakErrorP90, planClips, readClip, readSavedTracking, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
 import { parseCount } from "./run-accuracy";
 import { ACCEPTANCE, meetsAcceptance, type AcceptanceKey } from "./acceptance";
@@ -69,6 +69,8 @@ export interface AgreementRow {
   worstPeakErrorDeg: number | null;
   /** The half-width that held 90% of the readings' peaks (clip-validation.ts peakErrorP90). */
   peakP90Deg: number | null;
+  /** The same for every detected frame (clip-validation.ts frameErrorP90). */
+  framesP90Deg: number | null;
   /** Share of readings with a peak whose error lies inside the peak's stated interval. */
   peakWithin: number | null;
 }
@@ -89,6 +91,7 @@ export function agreementRow(reading: AgreementRow["reading"], readings: readonl
     peakMaeDeg: peakErrors.length ? peakErrors.reduce((sum, e) => sum + Math.abs(e), 0) / peakErrors.length : null,
     worstPeakErrorDeg: worst,
     peakP90Deg: peakErrorP90(readings),
+    framesP90Deg: frameErrorP90(readings),
     peakWithin: peakCoverage(readings),
   };
 }
@@ -136,8 +139,8 @@ async function main(): Promise<void> {
   const clips = parseCount("clips", values.clips, 10);
   const lines: string[] = [];
   lines.push(`## Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}\n`);
-  lines.push("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peak P90 ° | peak within stated ± | models disagree (> " + PEAK_DISAGREEMENT_DEG + "°) | issue 8's bars |");
-  lines.push("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- |");
+  lines.push("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peak P90 ° | frame P90 ° | peak within stated ± | models disagree (> " + PEAK_DISAGREEMENT_DEG + "°) | issue 8's bars |");
+  lines.push("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- |");
   const perReading: string[] = [];
   // Both models together, split by finger (derive-uncertainty.ts reads it for the thumb side's two-model cells).
   const byFinger: string[] = [];
@@ -147,7 +150,7 @@ async function main(): Promise<void> {
       const apart = pairs.filter((p) => p[2].disagree).length;
       for (const row of [agreementRow("lite", pairs.map((p) => p[0])), agreementRow("full", pairs.map((p) => p[1])), agreementRow("both", pairs.map((p) => p[2]))]) {
         lines.push(
-          `| ${motion} | ${label} | ${row.reading} | ${row.readings} | ${pct(row.detected)} | ${fmt(row.maeDeg)} | ${fmt(row.slope)} | ${pct(row.within)} | ${fmt(row.peakMaeDeg, 1)} | ${fmt(row.worstPeakErrorDeg, 1)} | ${fmt(row.peakP90Deg, 1)} | ${pct(row.peakWithin)} | ${row.reading === "both" ? apart : ""} | ${bars(motion, row)} |`,
+          `| ${motion} | ${label} | ${row.reading} | ${row.readings} | ${pct(row.detected)} | ${fmt(row.maeDeg)} | ${fmt(row.slope)} | ${pct(row.within)} | ${fmt(row.peakMaeDeg, 1)} | ${fmt(row.worstPeakErrorDeg, 1)} | ${fmt(row.peakP90Deg, 1)} | ${fmt(row.framesP90Deg, 1)} | ${pct(row.peakWithin)} | ${row.reading === "both" ? apart : ""} | ${bars(motion, row)} |`,
         );
       }
     };
@@ -161,7 +164,7 @@ async function main(): Promise<void> {
         if (digit === null) continue;
         const mine = pairs.filter((p) => p[0].digit === digit);
         const both = summarizeErrors(mine.flatMap((p) => p[2].samples));
-        byFinger.push(`| ${motion} | ${seed} | ${digit} | ${mine.length} | ${pct(both.detectionRate)} | ${fmt(both.meanAbsoluteErrorDeg)} |`);
+        byFinger.push(`| ${motion} | ${seed} | ${digit} | ${mine.length} | ${pct(both.detectionRate)} | ${fmt(both.meanAbsoluteErrorDeg)} | ${fmt(frameErrorP90(mine.map((p) => p[2])), 1)} |`);
       }
       for (const [a, b, c] of pairs) {
         perReading.push(`| ${a.plan.name} | ${a.digit} | ${a.plan.side} | ${a.truthPeakDeg.toFixed(1)} | ${fmt(a.peakDeg, 1)} | ${fmt(b.peakDeg, 1)} | ${fmt(c.peakDeg, 1)} | ${fmt(summarizeErrors(a.samples).meanAbsoluteErrorDeg, 1)} | ${fmt(summarizeErrors(b.samples).meanAbsoluteErrorDeg, 1)} | ${fmt(summarizeErrors(c.samples).meanAbsoluteErrorDeg, 1)} |`);
@@ -169,7 +172,7 @@ async function main(): Promise<void> {
     }
     if (seeds.length > 1 && all.length) rows("all", all);
   }
-  if (byFinger.length) lines.push(["", `${BOTH_BY_FINGER_HEADER}`, "| --- | --- | --- | ---: | ---: | ---: |", ...byFinger].join("\n"));
+  if (byFinger.length) lines.push(["", `${BOTH_BY_FINGER_HEADER} both: frame P90 ° |`, "| --- | --- | --- | ---: | ---: | ---: | ---: |", ...byFinger].join("\n"));
   if (values["per-reading"]) lines.push(["", "| clip | finger | side | truth peak ° | lite peak ° | full peak ° | both peak ° | lite MAE ° | full MAE ° | both MAE ° |", "| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: |", ...perReading].join("\n"));
   const text = `${lines.join("\n")}\n`;
   if (values.out) writeFileSync(values.out, text);
