@@ -388,6 +388,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     const phase = segmenter.push(frame.t, angleDeg, smoothedDeg, filter.speed, plane.axisToGravityDeg, plane.travelAlongGravity);
     // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
     const frameUncertainty = statedInterval(forearm?.source ?? null, view, score, frameMethod === correctedMethod ? "engine" : "raw");
+    const correctedFrame = frameMethod === correctedMethod || frameMethod === pictureCorrectedMethod;
     return {
       t: frame.t,
       quality: "ok",
@@ -400,11 +401,11 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       rep: { phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
       method: frameMethod,
       uncertaintyDeg: frameUncertainty,
-      peakUncertaintyDeg: atLeastPeakFigure(frameUncertainty, view, score, frameMethod === correctedMethod || frameMethod === pictureCorrectedMethod ? "engine" : "raw"),
+      peakUncertaintyDeg: atLeastPeakFigure(frameUncertainty, view, score, correctedFrame ? "engine" : "raw"),
       view,
       viewQuality: viewQuality(policy, view),
       forearmSource: forearm?.source ?? null,
-      correctionVersion: frameMethod === correctedMethod || frameMethod === pictureCorrectedMethod ? correctionModel.version : null,
+      correctionVersion: correctedFrame ? correctionModel.version : null,
     };
   }
 

@@ -147,6 +147,15 @@ export function uncertaintyFromMaeDeg(maeDeg: number): number {
   return Z90 * Math.sqrt(Math.PI / 2) * maeDeg;
 }
 
+/**
+ * The half-width from a mean absolute error (uncertaintyFromMaeDeg), never narrower than the width that held 90% of
+ * the held-out clips' frames where they measured it (the clip reports' "frame P90 °"): the normal rule holds fewer
+ * than 90% of errors whose tails are heavy.
+ */
+export function flooredUncertaintyDeg(maeDeg: number, framesP90Deg: number | null | undefined): number {
+  return Math.max(uncertaintyFromMaeDeg(maeDeg), framesP90Deg ?? 0);
+}
+
 function cellsFor(table: UncertaintyTable, group: string, model: HandModel | null): ValidationCell[] {
   return table.cells.filter((c) => c.group === group && (model === null || c.model === model));
 }
@@ -172,7 +181,7 @@ export function digitFigure(cell: Pick<ValidationCell, "byDigit">, digit: Digit 
 
 function cellUncertaintyDeg(cell: ValidationCell, method: UncertaintyMethod, digit: Digit | null): number {
   if (method === "engine") return digitFigure(cell, digit)?.uncertaintyDeg ?? cell.uncertaintyDeg;
-  return Math.round(Math.max(uncertaintyFromMaeDeg(Math.max(cell.rawMaeDeg, cell.rawAnyPoseMaeDeg ?? 0, cell.clipRawMaeDeg ?? 0)), cell.clipRawFramesP90Deg ?? 0) * 10) / 10;
+  return Math.round(flooredUncertaintyDeg(Math.max(cell.rawMaeDeg, cell.rawAnyPoseMaeDeg ?? 0, cell.clipRawMaeDeg ?? 0), cell.clipRawFramesP90Deg) * 10) / 10;
 }
 
 /**
@@ -188,11 +197,19 @@ export function baseUncertaintyDeg(
   method: UncertaintyMethod = "engine",
   digit: Digit | null = null,
 ): number | null {
-  const exact = model && view ? validationCell(table, group, model, view) : null;
-  if (exact) return cellUncertaintyDeg(exact, method, digit);
-  const candidates = cellsFor(table, group, model);
-  const pool = candidates.length ? candidates : cellsFor(table, group, null);
+  const pool = cellPool(table, group, model, view);
   return pool.length ? Math.max(...pool.map((c) => cellUncertaintyDeg(c, method, digit))) : null;
+}
+
+/**
+ * The cells a reading's figure comes from: the one of its group, model and view; with either unknown, or no such
+ * cell, every cell of the group for that model (or for any model when it has none), whose worst figure is taken.
+ */
+function cellPool(table: UncertaintyTable, group: string, model: HandModel | null, view: ValidationView | null): ValidationCell[] {
+  const exact = model && view ? validationCell(table, group, model, view) : null;
+  if (exact) return [exact];
+  const candidates = cellsFor(table, group, model);
+  return candidates.length ? candidates : cellsFor(table, group, null);
 }
 
 /**
@@ -269,10 +286,7 @@ export function peakUncertaintyDeg(
   const group = correctionGroupFor(motion, digit)?.group;
   if (!group) return null;
   const figure = (c: ValidationCell) => (method === "engine" ? c.clipPeakP90Deg : c.clipRawPeakP90Deg);
-  const exact = model && view ? validationCell(table, group, model, view) : null;
-  const candidates = cellsFor(table, group, model);
-  const pool = exact ? [exact] : candidates.length ? candidates : cellsFor(table, group, null);
-  const figures = pool.flatMap((c) => (figure(c) === undefined ? [] : [figure(c)!]));
+  const figures = cellPool(table, group, model, view).flatMap((c) => (figure(c) === undefined ? [] : [figure(c)!]));
   return figures.length ? widenedByScore(Math.max(...figures), score) : null;
 }
 

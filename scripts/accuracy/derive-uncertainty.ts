@@ -12,7 +12,7 @@ import { fileURLToPath } from "node:url";
 import { FINGERS, type MotionId } from "@/lib/motions/catalog";
 import { CORRECTION_VERSION, correctionGroupFor, type HandModel } from "@/vision/correction";
 import { fingerJointOfGroup } from "@/vision/estimator";
-import { uncertaintyFromMaeDeg, VALIDATION_VIEWS, type DigitFigure, type FingerAloneCell, type PairCell, type UncertaintyTable, type ValidationCell, type ValidationView } from "@/vision/uncertainty";
+import { flooredUncertaintyDeg, uncertaintyFromMaeDeg, VALIDATION_VIEWS, type DigitFigure, type FingerAloneCell, type PairCell, type UncertaintyTable, type ValidationCell, type ValidationView } from "@/vision/uncertainty";
 
 const HERE = path.dirname(fileURLToPath(import.meta.url));
 export const REPORT_FILE = path.join(HERE, "report.md");
@@ -219,7 +219,7 @@ export function parsePairCells(markdown: string): PairCell[] {
       seeds: w.seeds,
       clipMaeDeg: w.maeDeg,
       // The normal rule, never narrower than the width that held 90% of the held-out frames (as for one model).
-      uncertaintyDeg: round1(Math.max(uncertaintyFromMaeDeg(w.maeDeg), framesP90Deg ?? 0)),
+      uncertaintyDeg: round1(flooredUncertaintyDeg(w.maeDeg, framesP90Deg)),
       ...(framesP90Deg !== null ? { clipFramesP90Deg: framesP90Deg } : {}),
       ...(peakP90Deg !== null ? { clipPeakP90Deg: peakP90Deg } : {}),
       ...(w.view === "radial"
@@ -230,7 +230,7 @@ export function parsePairCells(markdown: string): PairCell[] {
                 digit: f.digit,
                 clipMaeDeg: f.row!.maeDeg,
                 ...(fingerP90 !== null ? { clipFramesP90Deg: fingerP90 } : {}),
-                uncertaintyDeg: round1(Math.max(uncertaintyFromMaeDeg(f.row!.maeDeg), fingerP90 ?? 0)),
+                uncertaintyDeg: round1(flooredUncertaintyDeg(f.row!.maeDeg, fingerP90)),
               };
             }),
           }
@@ -423,7 +423,7 @@ export function deriveUncertaintyTable(
         digit,
         clipMaeDeg: row.engineMaeDeg,
         ...(row.engineFramesP90Deg !== undefined ? { clipFramesP90Deg: row.engineFramesP90Deg } : {}),
-        uncertaintyDeg: round1(Math.max(uncertaintyFromMaeDeg(Math.max(stillMae, row.engineMaeDeg)), row.engineFramesP90Deg ?? 0)),
+        uncertaintyDeg: round1(flooredUncertaintyDeg(Math.max(stillMae, row.engineMaeDeg), row.engineFramesP90Deg)),
       });
     }
     return figures;
@@ -464,7 +464,7 @@ export function deriveUncertaintyTable(
         ...(clip?.engineFramesP90Deg !== undefined ? { clipFramesP90Deg: clip.engineFramesP90Deg } : {}),
         ...(clip?.rawFramesP90Deg !== undefined ? { clipRawFramesP90Deg: clip.rawFramesP90Deg } : {}),
         correctionHelps: helps,
-        uncertaintyDeg: round1(Math.max(uncertaintyFromMaeDeg(Math.max(stillMae, clip?.engineMaeDeg ?? 0)), clip?.engineFramesP90Deg ?? 0)),
+        uncertaintyDeg: round1(flooredUncertaintyDeg(Math.max(stillMae, clip?.engineMaeDeg ?? 0), clip?.engineFramesP90Deg)),
         ...(byDigit ? { byDigit } : {}),
       });
     }
