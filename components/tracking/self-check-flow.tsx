@@ -13,7 +13,8 @@ import { readyToStart } from "@/lib/tracking/setup-checks";
 import { fingersTogetherNote } from "@/lib/tracking/self-check-plan";
 import { NEUTRAL_HOLD_MS, useHandTracking } from "@/lib/tracking/use-hand-tracking";
 import { NEUTRAL_INSTRUCTION } from "@/components/visit-room/neutral-reading";
-import { analyzeCapture, type CaptureAnalysis } from "@/vision/analyze-capture";
+import type { CaptureAnalysis } from "@/vision/analyze-capture";
+import { analyzeCaptureFile, type PairAnalysis } from "@/vision/model-pair";
 import { describeView, viewPolicy } from "@/vision/view-policy";
 import { HandOverlay } from "./hand-overlay";
 import { PositionIllustration } from "./position-illustration";
@@ -74,7 +75,7 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
   const [condition, setCondition] = useState<Condition>(props.practice?.condition ?? "against_gravity");
   const [facing, setFacing] = useState<"user" | "environment">("user");
   const [countdown, setCountdown] = useState(COUNTDOWN_SECONDS);
-  const [result, setResult] = useState<{ captureUid: string; local: CaptureAnalysis } | null>(null);
+  const [result, setResult] = useState<{ captureUid: string; local: CaptureAnalysis | PairAnalysis } | null>(null);
   const [saved, setSaved] = useState<StoredAttempt | null>(null);
   const [queueProblem, setQueueProblem] = useState<string | null>(null);
   const recordingStartedAt = useRef(0);
@@ -87,7 +88,10 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
   const reference = useMemo(() => getReferenceEndRange(motion, digit, props.rangeTable), [motion, digit, props.rangeTable]);
   const cameraOn = step === "setup" || step === "neutral" || step === "countdown" || step === "recording";
   const mirrored = facing === "user";
-  const tracking = useHandTracking({ motion, side, digit, condition, videoRef, enabled: cameraOn, facing, displayMirrored: mirrored });
+  // Finger flexion is read by both hand models while recording, as an uploaded clip is (vision/model-pair.ts): the
+  // second model loads during the set-up and reads from the countdown on, so every recorded frame has both readings.
+  const bothModels = step === "countdown" || step === "recording" ? "on" : cameraOn ? "ready" : "off";
+  const tracking = useHandTracking({ motion, side, digit, condition, videoRef, enabled: cameraOn, facing, displayMirrored: mirrored, bothModels });
   const { startRecording } = tracking;
 
   // Server confirmations of the latest attempt (now or later, after a dropped connection). The id is set before the
@@ -118,7 +122,8 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
     if (!recorded) return;
     const captureUid = newCaptureUid();
     latestUid.current = captureUid;
-    setResult({ captureUid, local: analyzeCapture(recorded.capture) });
+    // The same reading the server will make of the same file: both models together when it carries both.
+    setResult({ captureUid, local: analyzeCaptureFile(recorded.capture) });
     setSaved(null);
     setQueueProblem(null);
     const practiceIds = props.practice ? { practiceItemId: props.practice.itemId, practiceSessionId: props.practice.sessionId } : {};
@@ -404,6 +409,11 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
                 Repetition <span data-testid="rep-count">{Math.min(reps + 1, REPETITIONS)}</span> of {REPETITIONS}. Move only as far as is comfortable;
                 stop if it hurts.
               </p>
+              {tracking.paired ? (
+                <p className="mt-1 text-xs text-ink-faint" data-testid="recording-models">
+                  Two tracking models read each frame, so the picture updates a little less often.
+                </p>
+              ) : null}
               <Button className="mt-3" variant="quiet" onClick={() => void finish()}>
                 Finish now
               </Button>
@@ -456,7 +466,7 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
   );
 }
 
-function Summary({ local, saved, reference }: { local: CaptureAnalysis; saved: StoredAttempt | null; reference: { endRangeDeg: number; source: string } | null }) {
+function Summary({ local, saved, reference }: { local: CaptureAnalysis | PairAnalysis; saved: StoredAttempt | null; reference: { endRangeDeg: number; source: string } | null }) {
   // The server's numbers, once it has them, are the ones kept; until then the same engine's reading in the browser.
   const shown = saved ?? { reps: local.reps, peakDeg: local.peakDeg, arcDeg: local.arcDeg, planeVerified: local.planeAgrees, warnings: local.warnings, usableFrames: local.usableFrames, frames: local.frames };
   const measure = MOTIONS[local.motion].gradedOn === "arc" ? shown.arcDeg : shown.peakDeg;
@@ -491,6 +501,10 @@ function Summary({ local, saved, reference }: { local: CaptureAnalysis; saved: S
       <dt className="text-ink-soft">Hand tracked</dt>
       <dd className="font-medium">
         {shown.usableFrames} of {shown.frames} frames
+      </dd>
+      <dt className="text-ink-soft">Tracking models</dt>
+      <dd className="font-medium" data-testid="summary-models" data-models={"byModel" in local ? 2 : 1}>
+        {"byModel" in local ? "Two models read each frame; the angles are their combined reading." : "One model read the frames."}
       </dd>
       {shown.warnings.length ? (
         <>

@@ -1,8 +1,11 @@
 import { describe, expect, it } from "vitest";
 import { parseCapture } from "@/lib/capture/parse";
 import { analyzeCapture } from "@/vision/analyze-capture";
-import { buildSyntheticCapture } from "@/vision/testing/synthetic-hand";
-import { CaptureRecorder, newCaptureUid } from "./capture-recorder";
+import { buildSyntheticCapture, type SyntheticCaptureSpec } from "@/vision/testing/synthetic-hand";
+import { FULL_MODEL_BUDGET_BYTES } from "@/lib/captures/upload";
+import type { LandmarkXYZ, TrackedFrame } from "@/vision/live/types";
+import { analyzeCaptureFile, type PairAnalysis } from "@/vision/model-pair";
+import { CaptureRecorder, MIN_PAIRED_SHARE, newCaptureUid } from "./capture-recorder";
 
 // The synthetic hand (vision/testing) bends the index MCP to a known 80 degrees twice; recording its frames as the
 // live tracker delivers them (camera clock times, no image landmarks kept) must give a file the engine's own schema
@@ -65,5 +68,70 @@ describe("capture recorder", () => {
     const ids = new Set(Array.from({ length: 100 }, newCaptureUid));
     expect(ids.size).toBe(100);
     for (const id of ids) expect(id).toMatch(/^[A-Za-z0-9_-]{16,64}$/);
+  });
+
+  describe("both hand models on one attempt", () => {
+    // Two synthetic readings of the same PIP bends at the same times, as the lite and the full model might give them
+    // (different landmark noise); the tracker hands the second in `fullModel`.
+    const target = { motion: "pip.flexion", side: "right", digit: "middle", condition: "against_gravity" } as const;
+    const spec: Omit<SyntheticCaptureSpec, "seed"> = {
+      ...target,
+      placement: { forearmDistal: [0, -1, 0], forearmRadial: [-1, 0, 0], wrist: [0, 0.1, 0.45] },
+      reps: [{ peakDeg: 70 }, { peakDeg: 70 }],
+      noiseMm: 1,
+    };
+    const lite = buildSyntheticCapture({ ...spec, seed: 5 });
+    const full = buildSyntheticCapture({ ...spec, seed: 6 });
+    const tracked = (f: (typeof lite.frames)[number]): TrackedFrame => ({
+      t: f.t,
+      score: f.score,
+      handedness: f.hand ? "right" : null,
+      hand: f.hand as LandmarkXYZ[] | null,
+      image: f.image ? f.image.map(([x, y]): LandmarkXYZ => [x, y, 0]) : null,
+    });
+    const record = (pairedFrom: number, fullFrames = full.frames) => {
+      const recorder = new CaptureRecorder(target, null, false, true);
+      lite.frames.forEach((f, i) => recorder.push({ ...tracked(f), t: 5000 + f.t, ...(i >= pairedFrom ? { fullModel: { ...tracked(fullFrames[i]), t: 5000 + f.t } } : {}) }));
+      return { recorder, capture: parseCapture(JSON.parse(JSON.stringify(recorder.finish())), "recorded") };
+    };
+
+    it("keeps the second model's frames beside the first's, same times, and the engine reads both", () => {
+      expect(full.frames.map((f) => f.t)).toEqual(lite.frames.map((f) => f.t));
+      // Pairing switched on a frame late, as when it starts with a frame already on its way to the tracker.
+      const { recorder, capture } = record(1);
+      expect(recorder.pairedFrameCount).toBe(lite.frames.length - 1);
+      expect(capture.fullModel?.frames.map((f) => f.t)).toEqual(capture.frames.map((f) => f.t));
+      // The frame the second model did not read counts as one where it found no hand.
+      expect(capture.fullModel?.frames[0]).toMatchObject({ hand: null, score: 0 });
+      expect(capture.fullModel?.frames[1].hand).not.toBeNull();
+      const analysis = analyzeCaptureFile(capture) as PairAnalysis;
+      expect(analysis.handModels).toEqual(["lite", "full"]);
+      expect(analysis.reps).toBe(2);
+      expect(analysis.bothFrames).toBeGreaterThan(0.8 * capture.frames.length);
+    });
+
+    it("keeps one model's reading when the second read too few frames, found no hand, or would pass the size limit", () => {
+      const late = Math.ceil(lite.frames.length * (1 - MIN_PAIRED_SHARE)) + 1;
+      expect(record(late).capture.fullModel).toBeUndefined();
+      expect(record(0, full.frames.map((f) => ({ ...f, score: 0, hand: null, image: null }))).capture.fullModel).toBeUndefined();
+      expect(new CaptureRecorder(target, null, false, false).finish()).toBeNull();
+
+      const long = new CaptureRecorder(target, null, false, true);
+      const frame = tracked(lite.frames.find((f) => f.hand)!);
+      let t = 0;
+      let lastKept = 0;
+      // About 2 KB a frame for each model with picture points: add frames until the second model's are let go.
+      for (let batch = 0; batch < 100; batch++) {
+        for (let i = 0; i < 250; i++) long.push({ ...frame, t: (t += 33), fullModel: { ...frame, t } });
+        const now = long.finish()!;
+        if (!now.fullModel) break;
+        lastKept = JSON.stringify(now).length;
+      }
+      const capture = long.finish()!;
+      expect(capture.fullModel).toBeUndefined();
+      expect(lastKept).toBeGreaterThan(0);
+      expect(lastKept).toBeLessThanOrEqual(FULL_MODEL_BUDGET_BYTES);
+      expect(JSON.stringify({ ...capture, fullModel: { frames: capture.frames } }).length).toBeGreaterThan(FULL_MODEL_BUDGET_BYTES);
+    });
   });
 });

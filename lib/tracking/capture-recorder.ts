@@ -3,6 +3,7 @@
  * Frame times restart at 0; the tracker's landmarks are already in the unmirrored camera axes the format asks for.
  */
 import { CAPTURE_FORMAT, CAPTURE_VERSION, IMAGE_ASPECT_RANGE, type CaptureFile, type CaptureFrame } from "@/lib/capture/schema";
+import { FULL_MODEL_BUDGET_BYTES } from "@/lib/captures/upload";
 import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
 import type { TrackedFrame } from "@/vision/live/types";
 import { CORRECTION_MODEL, readsPicturePoints } from "@/vision/correction";
@@ -21,11 +22,23 @@ function finitePoint(p: readonly number[]): boolean {
   return p.length === 3 && p.every(Number.isFinite);
 }
 
+/**
+ * With both models: the least share of an attempt's frames the second model must have read for its frames to be kept.
+ * Pairing starts a frame or two late at most (a frame already on its way when it was switched on); a capture where
+ * the second model fell away (it stopped loading, the page was slowed) keeps one model's reading. Our threshold.
+ */
+export const MIN_PAIRED_SHARE = 0.9;
+
+type RecordedFrame = Pick<TrackedFrame, "t" | "score" | "hand" | "forearm"> & Partial<Pick<TrackedFrame, "image" | "imageAspect" | "fullModel">>;
+
 export class CaptureRecorder {
   private readonly frames: CaptureFrame[] = [];
   private startMs: number | null = null;
   private imageAspect: number | null = null;
   private readonly keepsImage: boolean;
+  /** With `pairModel`: the full model's frames, one for each of `frames`, and how many it actually read. */
+  private readonly fullFrames: CaptureFrame[] | null;
+  private pairedFrames = 0;
 
   constructor(
     readonly target: CaptureTarget,
@@ -37,11 +50,18 @@ export class CaptureRecorder {
      * server can too.
      */
     keepImage = false,
+    /**
+     * Keep the full model's reading of each frame (`TrackedFrame.fullModel`) as the capture's `fullModel`, so the
+     * engine reads both models together (vision/model-pair.ts). Frames the second model did not read count as frames
+     * where it found no hand; see MIN_PAIRED_SHARE.
+     */
+    pairModel = false,
   ) {
     this.keepsImage = keepImage || readsPicturePoints(CORRECTION_MODEL, target.motion, target.digit);
+    this.fullFrames = pairModel ? [] : null;
   }
 
-  push(frame: Pick<TrackedFrame, "t" | "score" | "hand" | "forearm"> & Partial<Pick<TrackedFrame, "image" | "imageAspect">>): void {
+  push(frame: RecordedFrame): void {
     const aspect = frame.imageAspect;
     if (this.imageAspect === null && aspect !== undefined && aspect > IMAGE_ASPECT_RANGE[0] && aspect < IMAGE_ASPECT_RANGE[1]) {
       this.imageAspect = aspect;
@@ -50,6 +70,14 @@ export class CaptureRecorder {
     const last = this.frames[this.frames.length - 1];
     // Times must not run backwards in the file; a camera clock that stutters is held at the last time.
     const t = Math.max(last?.t ?? 0, frame.t - this.startMs);
+    this.frames.push(this.captureFrame(t, frame));
+    if (this.fullFrames) {
+      if (frame.fullModel) this.pairedFrames++;
+      this.fullFrames.push(this.captureFrame(t, frame.fullModel ?? { score: 0, hand: null }));
+    }
+  }
+
+  private captureFrame(t: number, frame: Omit<RecordedFrame, "t">): CaptureFrame {
     // A frame with a broken landmark is kept as "no hand" rather than dropped, so the frame count stays honest.
     const hand = frame.hand && frame.hand.length === 21 && frame.hand.every(finitePoint) ? frame.hand.map((p) => [p[0], p[1], p[2]] as [number, number, number]) : null;
     const score = Number.isFinite(frame.score) ? Math.min(1, Math.max(0, frame.score)) : 0;
@@ -60,7 +88,12 @@ export class CaptureRecorder {
       const image = hand && frame.image && frame.image.length === 21 && frame.image.every(finitePoint) ? frame.image : null;
       out.image = image ? image.map((p) => [Math.round(p[0] * 1e5) / 1e5, Math.round(p[1] * 1e5) / 1e5] as [number, number]) : null;
     }
-    this.frames.push(out);
+    return out;
+  }
+
+  /** With `pairModel`: how many of the recorded frames the second model read. */
+  get pairedFrameCount(): number {
+    return this.pairedFrames;
   }
 
   get frameCount(): number {
@@ -78,6 +111,12 @@ export class CaptureRecorder {
     const capture: CaptureFile = { format: CAPTURE_FORMAT, version: CAPTURE_VERSION, ...target, ...(oneFinger ? { oneFinger: true } : {}), frames: [...this.frames] };
     if (this.gravity && this.gravity.every(Number.isFinite) && Math.hypot(...this.gravity) > 1e-9) capture.gravity = [this.gravity[0], this.gravity[1], this.gravity[2]];
     if (this.keepsImage && this.imageAspect !== null) capture.imageAspect = this.imageAspect;
+    const full = this.fullFrames;
+    if (full && this.pairedFrames >= MIN_PAIRED_SHARE * this.frames.length && full.some((f) => f.hand)) {
+      const both: CaptureFile = { ...capture, fullModel: { frames: [...full] } };
+      // A long attempt's second set of frames could push the upload past the server's limit: then one model's stands.
+      if (JSON.stringify(both).length <= FULL_MODEL_BUDGET_BYTES) return both;
+    }
     return capture;
   }
 }

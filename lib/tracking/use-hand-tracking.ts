@@ -4,6 +4,7 @@
  * Camera → live tracker (vision/live) → the measurement engine's live pipeline, as a React hook. Exposes the latest
  * frame, angle, quality, plane verdict, repetition state and frame rate, runs the set-up checks, and records frames
  * into a capture file (format v1) between `startRecording` and `stopRecording`. Everything is released on unmount.
+ * Finger flexion can be read by both hand models while recording (`bothModels`), as an uploaded clip is.
  */
 import { useCallback, useEffect, useLayoutEffect, useRef, useState, type RefObject } from "react";
 import type { CaptureFile } from "@/lib/capture/schema";
@@ -11,6 +12,7 @@ import { MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@
 import { createLivePipeline, type LivePipeline, type LiveUpdate } from "@/vision/pipeline";
 import type { HandTracker } from "@/vision/live/tracker";
 import type { ModelVariant, TrackedFrame } from "@/vision/live/types";
+import { readsWithBothModels } from "@/vision/model-pair-scope";
 import type { Vec3 } from "@/vision/vec";
 import { neutralReading, type NeutralFrame, type NeutralReading } from "@/vision/wrist-axis";
 import { CaptureRecorder } from "./capture-recorder";
@@ -32,6 +34,14 @@ export interface HandTrackingOptions {
   handModel?: ModelVariant;
   /** The preview is shown mirrored (the usual selfie view); only affects the wording of the set-up checks. */
   displayMirrored?: boolean;
+  /**
+   * Reading with both hand models (vision/model-pair.ts), for motions they were measured on together (four fingers'
+   * flexion; not a finger on its own) and only where tracking runs in a worker, so the page stays responsive:
+   * "ready" loads the full model beside the lite one; "on" also reads every frame with it, and an attempt recorded
+   * while on keeps both models' frames. Each frame then costs both models' time, so the frame rate drops (about
+   * halves on a laptop). Default "off".
+   */
+  bothModels?: "off" | "ready" | "on";
 }
 
 export interface HandTrackingState {
@@ -53,6 +63,8 @@ export interface HandTrackingState {
   neutral: NeutralState;
   /** The motion, side, digit and test position the neutral state belongs to; it is shown only for that target. */
   neutralFor: string | null;
+  /** Frames are being read by both hand models now (see `bothModels`). */
+  paired: boolean;
 }
 
 export type NeutralState =
@@ -85,6 +97,7 @@ const INITIAL: HandTrackingState = {
   recordedFrames: 0,
   neutral: { status: "none" },
   neutralFor: null,
+  paired: false,
 };
 
 function targetKey(t: { motion: MotionId; side: Side; digit: Digit | null; condition: Condition }): string {
@@ -100,11 +113,12 @@ function cameraError(error: unknown): string {
 }
 
 export function useHandTracking(options: HandTrackingOptions) {
-  const { motion, side, digit, condition, oneFinger = false, videoRef, enabled, facing = "user", handModel = "lite", displayMirrored = true } = options;
+  const { motion, side, digit, condition, oneFinger = false, videoRef, enabled, facing = "user", handModel = "lite", displayMirrored = true, bothModels = "off" } = options;
   const [state, setState] = useState<HandTrackingState>(INITIAL);
 
   const pipelineRef = useRef<LivePipeline | null>(null);
   const recorderRef = useRef<CaptureRecorder | null>(null);
+  const trackerRef = useRef<HandTracker | null>(null);
   const recentRef = useRef<TrackedFrame[]>([]);
   const frameTimesRef = useRef<number[]>([]);
   const lumaRef = useRef<number | null>(null);
@@ -230,6 +244,7 @@ export function useHandTracking(options: HandTrackingOptions) {
       await video.play();
       if (video.readyState < 2) await new Promise((resolve) => video.addEventListener("loadeddata", resolve, { once: true }));
       tracker = await trackerReady;
+      trackerRef.current = tracker;
       if (cancelled) return;
       await tracker.warmUp(video);
       if (cancelled) return;
@@ -250,6 +265,7 @@ export function useHandTracking(options: HandTrackingOptions) {
       window.removeEventListener("devicemotion", onMotion);
       if (lumaTimer) clearInterval(lumaTimer);
       tracker?.close();
+      trackerRef.current = null;
       for (const track of stream?.getTracks() ?? []) track.stop();
       if (video.srcObject === stream) video.srcObject = null;
       recentRef.current = [];
@@ -258,6 +274,25 @@ export function useHandTracking(options: HandTrackingOptions) {
       setState(INITIAL);
     };
   }, [enabled, facing, handModel, displayMirrored, videoRef, newPipeline]);
+
+  // The second model: loaded when asked for and the motion is one both models were measured on; frames read by both
+  // only while "on". Where tracking runs on the page's own thread it stays off: two models would halve the page's time.
+  const wantsPair = bothModels !== "off" && handModel === "lite" && !oneFinger && readsWithBothModels(motion, digit);
+  const running = state.status === "running" && state.thread === "worker";
+  useEffect(() => {
+    const tracker = trackerRef.current;
+    if (!running || !tracker) return;
+    if (!wantsPair) return tracker.setPaired(false);
+    let current = true;
+    void tracker.loadPairModel().then((loaded) => {
+      if (!current) return;
+      tracker.setPaired(loaded && bothModels === "on");
+      setState((s) => (s.paired === tracker.paired ? s : { ...s, paired: tracker.paired }));
+    });
+    return () => {
+      current = false;
+    };
+  }, [running, wantsPair, bothModels]);
 
   /**
    * Starts a neutral reading: the next NEUTRAL_HOLD_MS of frames, wrist straight and forearm still on the table. The
@@ -273,7 +308,9 @@ export function useHandTracking(options: HandTrackingOptions) {
   const startRecording = useCallback(() => {
     newPipeline();
     const t = targetRef.current;
-    recorderRef.current = new CaptureRecorder(t, freshGravity());
+    // Both models' frames are kept when both read the frames as recording starts (the recorder drops the second
+    // model's if it then reads too few of them).
+    recorderRef.current = new CaptureRecorder(t, freshGravity(), false, trackerRef.current?.paired ?? false);
     // The preview's last reading (and its repetition count) must not leak into the attempt's first render.
     setState((s) => ({ ...s, recording: true, recordedFrames: 0, update: null }));
   }, [newPipeline]);
@@ -298,5 +335,7 @@ export function useHandTracking(options: HandTrackingOptions) {
 
   // A neutral reading taken for another motion, side or position does not hold for this one (the refs were cleared).
   const neutral: NeutralState = state.neutralFor === targetKey({ motion, side, digit, condition }) ? state.neutral : { status: "none" };
-  return { ...state, neutral, startRecording, stopRecording, requestMotionSensors, takeNeutral };
+  // Stale once the pairing is no longer wanted: the tracker has already stopped it then.
+  const paired = state.paired && wantsPair && bothModels === "on";
+  return { ...state, neutral, paired, startRecording, stopRecording, requestMotionSensors, takeNeutral };
 }

@@ -2,8 +2,8 @@
  * The client's guided self-check in the built app, on Chromium's fake camera fed with a clip made at test time from
  * real hand photos (Debian's gcompris-qt-data, never committed): a right hand, palm to the camera, open for two
  * seconds and then a fist for two, looping. Checks tracking on the clip, the raw engine's finger flexion on open hand
- * and fist, that a finished attempt reaches the database with values computed on the server, and that an attempt
- * finished while offline is saved exactly once when the connection returns.
+ * and fist, that the attempt is read by both hand models and reaches the database with values computed on the server,
+ * and that an attempt finished while offline is saved exactly once when the connection returns.
  */
 import path from "node:path";
 import { gunzipSync } from "node:zlib";
@@ -16,7 +16,7 @@ import { DEMO_PASSWORD } from "@/db/seed/demo";
 import { parseCapture } from "@/lib/capture/parse";
 import type { CaptureFile } from "@/lib/capture/schema";
 import { FINGERS, type MotionId } from "@/lib/motions/catalog";
-import { analyzeCapture } from "@/vision/analyze-capture";
+import { analyzeCaptureFile } from "@/vision/model-pair";
 import { handAxes, readMotion } from "@/vision/angles";
 import { createLivePipeline } from "@/vision/pipeline";
 import { makeHandClip } from "../../scripts/fixtures/hand-photos";
@@ -140,6 +140,8 @@ describe("guided self-check on the hand-photo clip", () => {
     const thread = await page.getByTestId("camera-view").getAttribute("data-thread");
     expect(["worker", "main"]).toContain(thread);
     await waitForStep(page, "recording", 15_000);
+    // Where tracking runs in a worker, the second model reads from the countdown on, and the page says so.
+    if (thread === "worker") await page.getByTestId("recording-models").waitFor({ timeout: 5_000 });
     // Three repetitions of about four seconds each, plus settling; the flow ends by itself after the third.
     await waitForStep(page, "summary", 80_000);
     await page.waitForSelector("[data-testid=save-status][data-saved=yes]", { timeout: 20_000 });
@@ -154,8 +156,20 @@ describe("guided self-check on the hand-photo clip", () => {
     const withHand = capture.frames.filter((f) => f.hand).length;
     const detectionRate = withHand / capture.frames.length;
 
+    // Finger flexion is read by both hand models while recording (where tracking runs in a worker): the stored capture
+    // carries the full model's frames at the same times, and the page says so.
+    const fullFrames = capture.fullModel?.frames ?? [];
+    const fullWithHand = fullFrames.filter((f) => f.hand).length;
+    if (thread === "worker") {
+      expect(fullFrames.map((f) => f.t)).toEqual(capture.frames.map((f) => f.t));
+      expect(fullWithHand / fullFrames.length).toBeGreaterThanOrEqual(MIN_DETECTION_RATE);
+      expect(await page.getByTestId("summary-models").getAttribute("data-models")).toBe("2");
+    } else {
+      expect(capture.fullModel).toBeUndefined();
+    }
+
     // The stored numbers are the engine's analysis of the stored capture (the server's own), not the browser's.
-    const analysis = analyzeCapture(capture);
+    const analysis = analyzeCaptureFile(capture);
     expect(row.frames).toBe(capture.frames.length);
     expect(row.usableFrames).toBe(analysis.usableFrames);
     expect(row.reps).toBe(analysis.reps);
@@ -173,7 +187,8 @@ describe("guided self-check on the hand-photo clip", () => {
     const open = { pip: median(pip.filter((v) => v < cut)), mcp: median(mcp.filter((_, i) => pip[i] < cut)) };
     const fist = { pip: median(pip.filter((v) => v >= cut)), mcp: median(mcp.filter((_, i) => pip[i] >= cut)) };
     console.log(
-      `self-check clip (tracking in the ${thread} thread): ${withHand}/${capture.frames.length} frames with a hand (${(detectionRate * 100).toFixed(1)}%); ` +
+      `self-check clip (tracking in the ${thread} thread): ${withHand}/${capture.frames.length} frames with a hand (${(detectionRate * 100).toFixed(1)}%), ` +
+        `full model ${fullWithHand}/${fullFrames.length}; ` +
         `stored attempt: ${row.reps} reps, peak ${row.peakDeg?.toFixed(1)}°, plane ${row.planeVerdict} (${row.planeVerified ? "agrees" : "does not agree"}); ` +
         `raw engine, mean of index-little, median: open hand MCP ${open.mcp.toFixed(0)}° PIP ${open.pip.toFixed(0)}°, fist MCP ${fist.mcp.toFixed(0)}° PIP ${fist.pip.toFixed(0)}°`,
     );

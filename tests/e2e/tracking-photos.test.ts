@@ -147,6 +147,28 @@ describe("live tracking on Chromium's fake camera (open hand and fist, looping)"
     await page.close();
   });
 
+  it("with both models on, every frame carries the full model's reading of the same picture at the same time", async () => {
+    const page = await openHarnessPage(browser, server, { paired: true });
+    const state = await waitForFrames(page, 45);
+    expect(state.thread).toBe("worker");
+    const frames = state.frames;
+    expect(frames.every((f) => f.fullModel !== undefined && f.fullModel.t === f.t)).toBe(true);
+    expect(frames.filter((f) => f.fullModel!.hand).length / frames.length).toBeGreaterThanOrEqual(MIN_DETECTION_RATE);
+    // The same picture: where both found the hand, the wrist lands within 5% of the picture in both readings (the
+    // models differ in depth, not in where the hand is; our margin).
+    const both = frames.filter((f) => f.image && f.fullModel!.image);
+    expect(both.length).toBeGreaterThan(0);
+    for (const f of both) expect(Math.hypot(f.image![0][0] - f.fullModel!.image![0][0], f.image![0][1] - f.fullModel!.image![0][1])).toBeLessThan(0.05);
+    // Each frame costs both models' time, and the governor spaces frames by it.
+    const timed = state.timings.filter((t) => t.pairMs !== null);
+    expect(timed.length).toBeGreaterThan(0);
+    console.log(
+      `both models: ${frames.length} frames, full model found the hand in ${frames.filter((f) => f.fullModel!.hand).length}; ` +
+        `lite median ${medianOf(timed.map((t) => t.landmarksMs)).toFixed(1)} ms, full median ${medianOf(timed.map((t) => t.pairMs!)).toFixed(1)} ms`,
+    );
+    await page.close();
+  });
+
   it("with the forearm on, also runs the pose model at a lower rate in the worker, and reports no forearm without an elbow", async () => {
     const page = await openHarnessPage(browser, server, { forearm: true });
     const state = await waitForFrames(page, 45);

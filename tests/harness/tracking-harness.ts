@@ -75,6 +75,8 @@ export interface HarnessQuery {
   thread?: "auto" | "worker" | "main";
   maxFps?: number;
   minConfidence?: number;
+  /** Read every frame with the full hand model too. */
+  paired?: boolean;
 }
 
 export async function openHarnessPage(browser: Browser, server: HarnessServer, query: HarnessQuery = {}): Promise<Page> {

@@ -4,15 +4,12 @@
  * takes through the tracking harness page. Browser-only.
  */
 import type { CaptureFile } from "@/lib/capture/schema";
-import { CAPTURE_BODY_LIMIT_BYTES } from "@/lib/captures/upload";
+import { FULL_MODEL_BUDGET_BYTES } from "@/lib/captures/upload";
 import type { CaptureTarget } from "@/lib/tracking/capture-recorder";
 import { clipCapture, otherHandSeen, withFullModelFrames, type ClipNeutral } from "./clip-capture";
 import { loadClip, stepThroughClip, type SteppedClip } from "./clip-stepper";
 import { createHandTracker, type HandTracker } from "./tracker";
 import type { ModelVariant, TrackedFrame } from "./types";
-
-/** The most a capture with both models' frames may weigh: room under the captures endpoint's limit for the request's other fields. */
-export const FULL_MODEL_BUDGET_BYTES = CAPTURE_BODY_LIMIT_BYTES - 256 * 1024;
 
 export interface ClipAnalysisOptions {
   /** The app's model; the server's correction and uncertainty assume it (vision/uncertainty.ts). Default "lite". */

@@ -25,10 +25,21 @@ export interface DetectionStep {
   frame: TrackedFrame;
   landmarksMs: number;
   poseMs: number | null;
+  /** Time inside the second hand landmarker on frames it read (`detect` with `paired`). */
+  pairMs: number | null;
 }
 
 export interface Detector {
-  detect(image: TexImageSource, t: number): DetectionStep;
+  /**
+   * `paired`: the second hand landmarker (`loadPairModel`) reads the same image too, into `frame.fullModel`. Ignored
+   * until that model is loaded.
+   */
+  detect(image: TexImageSource, t: number, paired?: boolean): DetectionStep;
+  /**
+   * Loads a second hand landmarker (the full model, `url`) beside the first, for frames read by both models
+   * (vision/model-pair.ts). Loading twice is a no-op.
+   */
+  loadPairModel(url: string): Promise<void>;
   close(): void;
 }
 
@@ -63,14 +74,15 @@ export async function createDetector(config: DetectorConfig): Promise<Detector> 
   beforeCreate();
   // CPU: the GPU delegate falls back to software WebGL on many machines and is then 10x slower (hand-models notes).
   // One hand: asking for more than are in view runs the palm detector on every frame.
-  const hands = await HandLandmarker.createFromOptions(fileset, {
-    baseOptions: { modelAssetPath: config.handModelUrl, delegate: "CPU" },
-    runningMode: "VIDEO",
+  const handOptions = (url: string) => ({
+    baseOptions: { modelAssetPath: url, delegate: "CPU" as const },
+    runningMode: "VIDEO" as const,
     numHands: 1,
     ...(config.minConfidence === null
       ? {}
       : { minHandDetectionConfidence: config.minConfidence, minHandPresenceConfidence: config.minConfidence, minTrackingConfidence: config.minConfidence }),
   });
+  const hands = await HandLandmarker.createFromOptions(fileset, handOptions(config.handModelUrl));
   beforeCreate();
   const pose = config.poseModelUrl
     ? await PoseLandmarker.createFromOptions(fileset, {
@@ -87,9 +99,11 @@ export async function createDetector(config: DetectorConfig): Promise<Detector> 
   let timestampOffset = 0;
   let lastPoseAt = -Infinity;
   let lastForearm: { t: number; direction: LandmarkXYZ } | null = null;
+  let second: HandLandmarker | null = null;
+  let secondLoading: Promise<void> | null = null;
 
   return {
-    detect(image, t) {
+    detect(image, t, paired = false) {
       if (t + timestampOffset <= lastTimestamp) timestampOffset = lastTimestamp + 1 - t;
       const timestamp = t + timestampOffset;
       lastTimestamp = timestamp;
@@ -107,11 +121,29 @@ export async function createDetector(config: DetectorConfig): Promise<Detector> 
       if (lastForearm && timestamp - lastForearm.t <= config.poseIntervalMs * FOREARM_STALE_AFTER_INTERVALS) {
         frame.forearm = lastForearm.direction;
       }
-      return { frame, landmarksMs, poseMs };
+      let pairMs: number | null = null;
+      if (paired && second) {
+        // The same image at the same time; the second landmarker sees only paired frames, their times still growing.
+        const pairStarted = performance.now();
+        frame.fullModel = handFrame(t, second.detectForVideo(image, timestamp), config.inputMirrored);
+        pairMs = performance.now() - pairStarted;
+      }
+      return { frame, landmarksMs, poseMs, pairMs };
+    },
+    loadPairModel(url) {
+      secondLoading ??= (async () => {
+        beforeCreate();
+        second = await HandLandmarker.createFromOptions(fileset, handOptions(url));
+      })().catch((error: unknown) => {
+        secondLoading = null;
+        throw error;
+      });
+      return secondLoading;
     },
     close() {
       hands.close();
       pose?.close();
+      second?.close();
     },
   };
 }

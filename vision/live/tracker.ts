@@ -24,6 +24,20 @@ export interface HandTracker {
    * `t` must grow from call to call.
    */
   processFrame(video: HTMLVideoElement, t: number): Promise<TrackedFrame | null>;
+  /**
+   * Loads the full hand model beside the tracker's own (lite) one, so frames can be read by both
+   * (vision/model-pair.ts). Resolves false where that is not offered: the tracker's own model is not the lite one, or
+   * the second model failed to load (the reason goes to the console). Loading twice is a no-op.
+   */
+  loadPairModel(): Promise<boolean>;
+  /**
+   * While on, each frame is read by both models: the full model's reading of the same picture comes in
+   * `TrackedFrame.fullModel`. Has no effect until `loadPairModel` resolved true. A frame costs both models' time then,
+   * and the frame governor lowers the frame rate to match.
+   */
+  setPaired(on: boolean): void;
+  /** Whether frames are being read by both models now. */
+  readonly paired: boolean;
   /** Follows the video's frames until `stop()`. The video must be playing (camera stream or clip). */
   start(video: HTMLVideoElement): void;
   stop(): void;
@@ -41,7 +55,8 @@ const WORKER_READY_TIMEOUT_MS = 30_000;
 interface Backend {
   thread: "worker" | "main";
   /** Resolves with the detection step, or null when the frame could not be processed. */
-  process(video: HTMLVideoElement, t: number): Promise<DetectionStep | null>;
+  process(video: HTMLVideoElement, t: number, paired: boolean): Promise<DetectionStep | null>;
+  loadPairModel(url: string): Promise<void>;
   close(): void;
 }
 
@@ -61,8 +76,9 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
   if (minConfidence !== undefined && !(minConfidence > 0 && minConfidence < 1)) {
     throw new Error(`minConfidence: expected a number between 0 and 1, got ${minConfidence}`);
   }
+  const assetBase = new URL(assetBaseUrl || "/", globalThis.location?.href).href;
   const config: Omit<DetectorConfig, "wasmAsModule"> = {
-    ...modelUrls(new URL(assetBaseUrl || "/", globalThis.location?.href).href, handModel, forearm ? poseModel : null),
+    ...modelUrls(assetBase, handModel, forearm ? poseModel : null),
     poseIntervalMs,
     inputMirrored,
     minConfidence: minConfidence ?? null,
@@ -88,6 +104,9 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
   let generation = 0;
   let framesWithHand = 0;
   let firstHandAfterMs: number | null = null;
+  let pairLoaded = false;
+  let pairLoading: Promise<boolean> | null = null;
+  let paired = false;
 
   // Set when a frame arrived while another was in flight: the newest frame is then taken as soon as the slot frees,
   // instead of waiting up to a whole frame period for the next one.
@@ -95,7 +114,7 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
 
   const emit = (step: DetectionStep, t: number, grabbedAt: number, video: HTMLVideoElement) => {
     if (video.videoWidth > 0 && video.videoHeight > 0) step.frame.imageAspect = video.videoWidth / video.videoHeight;
-    const timing: FrameTiming = { t, landmarksMs: step.landmarksMs, poseMs: step.poseMs, roundTripMs: performance.now() - grabbedAt };
+    const timing: FrameTiming = { t, landmarksMs: step.landmarksMs, poseMs: step.poseMs, pairMs: step.pairMs, roundTripMs: performance.now() - grabbedAt };
     // One failing consumer (a pipeline, the overlay) must neither stop the loop nor keep the others from the frame.
     const deliver = <T,>(listeners: Set<(value: T) => void>, value: T) => {
       for (const listener of listeners) {
@@ -129,10 +148,10 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
     const t = video.srcObject || mediaTimeS === null ? nowMs - run.startedAt : mediaTimeS * 1000;
     const grabbedAt = performance.now();
     backend
-      .process(video, t)
+      .process(video, t, paired)
       .then((step) => {
         if (!step || run.generation !== generation) return governor.abandon();
-        governor.end(backend.thread === "worker" ? step.landmarksMs + (step.poseMs ?? 0) : performance.now() - grabbedAt);
+        governor.end(backend.thread === "worker" ? step.landmarksMs + (step.poseMs ?? 0) + (step.pairMs ?? 0) : performance.now() - grabbedAt);
         if (step.frame.hand) {
           framesWithHand++;
           if (firstHandAfterMs === null) firstHandAfterMs = performance.now() - run.startedAt;
@@ -177,18 +196,35 @@ export async function createHandTracker(options: TrackerOptions = {}): Promise<H
       if (governor.processed > 0 || running) throw new Error("warmUp: call it before start()");
       if (video.readyState < 2) throw new Error("warmUp: the video has no frame yet (wait for loadeddata)");
       // Time 0 keeps the landmarker's clock below every later frame time, camera or clip.
-      await backend.process(video, 0);
+      await backend.process(video, 0, false);
     },
     async processFrame(video, t) {
       if (running) throw new Error("processFrame: the tracker is following a video; stop() it first");
       if (video.readyState < 2) throw new Error("processFrame: the video has no frame at its current time");
       const grabbedAt = performance.now();
-      const step = await backend.process(video, t);
+      const step = await backend.process(video, t, paired);
       if (!step) return null;
       governor.end(performance.now() - grabbedAt);
       if (step.frame.hand) framesWithHand++;
       emit(step, t, grabbedAt, video);
       return step.frame;
+    },
+    loadPairModel() {
+      if (handModel !== "lite") return Promise.resolve(false);
+      pairLoading ??= backend
+        .loadPairModel(modelUrls(assetBase, "full", null).handModelUrl)
+        .then(() => (pairLoaded = true))
+        .catch((error: unknown) => {
+          console.warn(`tracking: the second hand model could not load (${error instanceof Error ? error.message : String(error)}); reading with one model`);
+          return false;
+        });
+      return pairLoading;
+    },
+    setPaired(on) {
+      paired = on && pairLoaded;
+    },
+    get paired() {
+      return paired;
     },
     start(video) {
       stop();
@@ -225,7 +261,8 @@ async function mainThreadBackend(config: Omit<DetectorConfig, "wasmAsModule">): 
   const detector = await createDetector({ ...config, wasmAsModule: false });
   return {
     thread: "main",
-    process: async (video, t) => detector.detect(video, t),
+    process: async (video, t, paired) => detector.detect(video, t, paired),
+    loadPairModel: (url) => detector.loadPairModel(url),
     close: () => detector.close(),
   };
 }
@@ -246,6 +283,8 @@ async function workerBackend(config: Omit<DetectorConfig, "wasmAsModule">): Prom
   // The literal `new Worker(new URL(..., import.meta.url))` form is what bundlers (Next, Vite) recognise.
   const worker = new Worker(new URL("./tracker.worker.ts", import.meta.url), { type: "module", name: "kinarc-tracking" });
   const pending = new Map<number, (step: DetectionStep | null) => void>();
+  let pairWaiter: { resolve: () => void; reject: (error: Error) => void } | null = null;
+  let pairRequest: Promise<void> | null = null;
   let nextId = 0;
   let failure: string | null = null;
 
@@ -278,29 +317,51 @@ async function workerBackend(config: Omit<DetectorConfig, "wasmAsModule">): Prom
       pending.delete(message.id);
       if (message.type === "frame-error") console.error(`tracking: ${message.message}`);
       resolve?.(message.type === "result" ? message.step : null);
+    } else if (message.type === "pair-ready") {
+      pairWaiter?.resolve();
+      pairWaiter = null;
+    } else if (message.type === "pair-error") {
+      pairWaiter?.reject(new Error(message.message));
+      pairWaiter = null;
     }
   };
   worker.onerror = (event) => {
     failure = event.message || "worker error";
     for (const resolve of pending.values()) resolve(null);
     pending.clear();
+    pairWaiter?.reject(new Error(failure));
+    pairWaiter = null;
   };
 
   return {
     thread: "worker",
-    async process(video, t) {
+    async process(video, t, paired) {
       if (failure) throw new Error(`tracking worker stopped: ${failure}`);
       const image = await grabFrame(video, t);
       const id = nextId++;
       return new Promise<DetectionStep | null>((resolve) => {
         pending.set(id, resolve);
-        worker.postMessage({ type: "frame", id, t, image } satisfies WorkerRequest, [image]);
+        worker.postMessage({ type: "frame", id, t, image, paired } satisfies WorkerRequest, [image]);
       });
+    },
+    loadPairModel(url) {
+      if (failure) return Promise.reject(new Error(`tracking worker stopped: ${failure}`));
+      // One request at a time: the worker answers in order, and a later call shares the first's answer.
+      pairRequest ??= new Promise<void>((resolve, reject) => {
+        pairWaiter = { resolve, reject };
+        worker.postMessage({ type: "pair-model", url } satisfies WorkerRequest);
+      }).catch((error: unknown) => {
+        pairRequest = null;
+        throw error;
+      });
+      return pairRequest;
     },
     close() {
       worker.postMessage({ type: "close" } satisfies WorkerRequest);
       for (const resolve of pending.values()) resolve(null);
       pending.clear();
+      pairWaiter?.reject(new Error("the tracker was closed"));
+      pairWaiter = null;
     },
   };
 }

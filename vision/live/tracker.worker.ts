@@ -25,12 +25,20 @@ scope.onmessage = async (event: MessageEvent<WorkerRequest>) => {
   } else if (message.type === "frame") {
     try {
       if (!detector) throw new Error("worker: frame received before the landmarkers were ready");
-      const step = detector.detect(message.image, message.t);
+      const step = detector.detect(message.image, message.t, message.paired);
       reply({ type: "result", step, id: message.id });
     } catch (error) {
       reply({ type: "frame-error", id: message.id, message: error instanceof Error ? error.message : String(error) });
     } finally {
       message.image.close();
+    }
+  } else if (message.type === "pair-model") {
+    try {
+      if (!detector) throw new Error("worker: second model asked for before the landmarkers were ready");
+      await detector.loadPairModel(message.url);
+      reply({ type: "pair-ready" });
+    } catch (error) {
+      reply({ type: "pair-error", message: error instanceof Error ? error.message : String(error) });
     }
   } else if (message.type === "close") {
     detector?.close();

@@ -20,6 +20,11 @@ export interface TrackedFrame {
   forearm?: LandmarkXYZ;
   /** The picture's width over its height (what `image` x and y are fractions of), when the video reported its size. */
   imageAspect?: number;
+  /**
+   * The same picture read by the full hand model too, at the same `t`, when the tracker was asked to pair
+   * (`HandTracker.setPaired`); a capture then keeps both models' frames (vision/model-pair.ts).
+   */
+  fullModel?: TrackedFrame;
 }
 
 /** Per-frame cost, kept apart from the frame stream so benchmarks and the UI can read it without touching results. */
@@ -29,6 +34,8 @@ export interface FrameTiming {
   landmarksMs: number;
   /** Time inside the pose landmarker on frames where it ran. */
   poseMs: number | null;
+  /** Time inside the second (full) hand landmarker on frames it read. */
+  pairMs: number | null;
   /** From grabbing the frame to the result reaching the page (includes transfer to and from the worker). */
   roundTripMs: number;
 }

@@ -12,6 +12,7 @@
  *   thread=auto|worker|main
  *   maxFps=N         cap on processed frames per second (default 30)
  *   minConfidence=N  the hand landmarker's confidence floors (default: the library's 0.5)
+ *   paired=1         also read every frame with the full hand model (`TrackedFrame.fullModel`), as a self-check records
  */
 import { createHandTracker, type FrameTiming, type TrackedFrame, type TrackerStats } from "../../../vision/live";
 import { stepThroughClip } from "../../../vision/live/clip-stepper";
@@ -134,6 +135,10 @@ async function run(): Promise<void> {
     statusLine.textContent = `${state.thread} | frames ${state.frames.length} | with hand ${state.stats.framesWithHand} | ${timing.landmarksMs.toFixed(1)} ms`;
   });
   await tracker.warmUp(video);
+  if (params.get("paired") === "1") {
+    if (!(await tracker.loadPairModel())) throw new Error("paired: the second hand model did not load");
+    tracker.setPaired(true);
+  }
   state.status = "running";
   if (clip && params.get("step") === "1") {
     // The app's own clip path (vision/live/clip-stepper.ts), as an uploaded clip is analyzed in the browser.
