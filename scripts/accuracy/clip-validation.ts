@@ -75,7 +75,7 @@ export const SEED_NOTES: Record<number, string> = {
   20261205:
     "Looked at while developing the depth mirror (vision/depth-mirror.ts): its first rule, which anchored a clip on its first frame, turned one MCP clip here over and was replaced by the anatomical rule. Nothing was fitted on it.",
 };
-const FPS = 30;
+export const CLIP_FPS = 30;
 const CYCLES = 2;
 const CYCLE_SECONDS = 2.5;
 const REPORT_FILES: Record<Condition, string> = {
@@ -194,7 +194,7 @@ async function renderClips(plans: readonly ClipPlan[], folder: string, reuse: bo
           toDeg: plan.toDeg,
           cycles: CYCLES,
           cycleSeconds: CYCLE_SECONDS,
-          fps: FPS,
+          fps: CLIP_FPS,
           view: plan.view,
           side: plan.side,
           seed: plan.seed,
@@ -255,7 +255,7 @@ async function trackClips(
       const page = await openHarnessPage(browser, server, {
         clip: server.fileUrl(clipOf(plan)),
         step: true,
-        fps: FPS,
+        fps: CLIP_FPS,
         model,
         minConfidence,
       });
@@ -542,7 +542,7 @@ export function clipReport(
     "Written by `npx tsx scripts/accuracy/clip-validation.ts` (see its header); do not edit by hand.",
     "",
     `- Held-out clips: per motion, half right hands and half left, each a still start ` +
-      `(1 s; 3 s for the wrist, the straight-wrist reading), then ${CYCLES} cycles of ${CYCLE_SECONDS} s from rest to an end of range drawn from the seed and back, ${FPS} fps, ` +
+      `(1 s; 3 s for the wrist, the straight-wrist reading), then ${CYCLES} cycles of ${CYCLE_SECONDS} s from rest to an end of range drawn from the seed and back, ${CLIP_FPS} fps, ` +
       `camera 0.3-0.7 m, skin, light and background drawn from the seed, ${where}. ${fingers} Nothing is fitted on these seeds.`,
     "- Path: the app's tracking code frame by frame (step mode, as analyze-clip and the upload review), the upload's capture builder, the engine's capture analysis as shipped (correction where it clearly helps, wrist read against the clip's straight-wrist reading, depth mirror on); `without depth mirror` and `raw` (no correction, no depth mirror) for comparison. Side-on wrist flexion/extension is read in the picture (vision/wrist-axis.ts) in every reading, raw included; the finger estimator reads each finger's picture points as well as its 3-D ones (vision/estimator.ts PICTURE_FEATURES).",
     "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles. Within stated ±: the share of detected frames whose error lies inside the 90% interval the engine stated for that frame (vision/uncertainty.ts; about 90% is honest, far less is overconfident); peak within stated ±: the same for each reading's peak and the interval stated for it. Peak P90: 90% of the readings' peaks lie within this many degrees of the truth (nearest rank; readings read against how the hand was first seen are left out), the figure derive-uncertainty.ts gives the peak's interval; frame P90: the same over every detected frame, the least width derive-uncertainty.ts gives a frame's interval.",

@@ -10,7 +10,11 @@
  * gives the rule); "peaks apart" counts the readings it warns about (`modelsDisagree`).
  *
  *   npx tsx scripts/accuracy/model-agreement.ts --seeds 77000401,77000402 [--motions pip.flexion,mcp.flexion]
- *     [--condition against_gravity|gravity_minimized] [--clips 10] [--per-reading] [--out FILE]
+ *     [--condition against_gravity|gravity_minimized] [--clips 10] [--per-reading] [--fps N] [--out FILE]
+ *
+ * `--fps N` (below the clips' own 30) reads only the frames a camera at N frames a second would have given, as live
+ * tracking with both models delivers fewer frames than a clip has. An approximation: the saved tracking followed every
+ * frame, while a tracker given fewer frames starts each one from a hand that moved further.
  *
  * Prints markdown tables (and writes them to FILE with --out); per seed and motion, each model alone and both.
  */
@@ -21,7 +25,7 @@ import type { Condition, MotionId } from "@/lib/motions/catalog";
 import type { TrackedFrame } from "@/vision/live/types";
 import { ClipCaptureError, clipCapture, withFullModelFrames } from "@/vision/live/clip-capture";
 import { analyzeCaptureFile, PEAK_DISAGREEMENT_DEG } from "@/vision/model-pair";
-import { frameErrorP90, peakCoverage, peakErrorP90, planClips, readClip, readSavedTracking, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
+import { CLIP_FPS, frameErrorP90, peakCoverage, peakErrorP90, planClips, readClip, readSavedTracking, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
 import { parseCount } from "./run-accuracy";
 import { ACCEPTANCE, meetsAcceptance, type AcceptanceKey } from "./acceptance";
@@ -100,14 +104,31 @@ type ClipTruthFile = Parameters<typeof readClip>[4];
 
 type Reading3 = [ClipReading, ClipReading, Scored & { disagree: boolean }];
 
-/** Both models' engine readings of every saved clip of `plans` (clips tracked with one model only are skipped). */
-export function readBoth(folder: string, plans: readonly ClipPlan[]): Reading3[] {
+/**
+ * Which of a clip's frames a camera at `fps` would have given, from a clip at `clipFps`: frame i is kept where
+ * floor(i × fps / clipFps) steps up, so 20 of 30 keeps two frames in three, evenly spread. Every frame at or above the clip's rate.
+ */
+export function framesAtRate(count: number, fps: number, clipFps: number): number[] {
+  if (!(fps > 0)) throw new Error(`fps: expected a positive number, got ${fps}`);
+  const ratio = Math.min(1, fps / clipFps);
+  const kept: number[] = [];
+  for (let i = 0; i < count; i++) if (Math.floor(i * ratio) !== Math.floor((i - 1) * ratio)) kept.push(i);
+  return kept;
+}
+
+/** Both models' engine readings of every saved clip of `plans` (clips tracked with one model only are skipped); `fps` as framesAtRate. */
+export function readBoth(folder: string, plans: readonly ClipPlan[], fps: number | null = null): Reading3[] {
   const pairs: Reading3[] = [];
   for (const plan of plans) {
     const [liteFile, fullFile] = ["lite", "full"].map((model) => path.join(folder, `${plan.name}-${model}.tracked.json`));
     if (!existsSync(liteFile) || !existsSync(fullFile)) continue;
-    const [lite, full] = [readSavedTracking(liteFile), readSavedTracking(fullFile)];
-    const truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
+    let [lite, full] = [readSavedTracking(liteFile), readSavedTracking(fullFile)];
+    let truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
+    if (fps !== null) {
+      const kept = framesAtRate(truth.frameCount, fps, CLIP_FPS);
+      [lite, full] = [kept.map((i) => lite[i]), kept.map((i) => full[i])];
+      truth = { ...truth, frameCount: kept.length, frames: kept.map((i) => truth.frames[i]) };
+    }
     for (const digit of plan.motion.digits) {
       const one = readClip(plan, "lite", digit, lite, truth);
       const two = readClip(plan, "full", digit, full, truth);
@@ -129,7 +150,15 @@ const pct = (v: number | null) => (v === null ? "-" : `${Math.round(v * 100)}%`)
 
 async function main(): Promise<void> {
   const { values } = parseArgs({
-    options: { seeds: { type: "string" }, motions: { type: "string" }, condition: { type: "string" }, clips: { type: "string" }, "per-reading": { type: "boolean" }, out: { type: "string" } },
+    options: {
+      seeds: { type: "string" },
+      motions: { type: "string" },
+      condition: { type: "string" },
+      clips: { type: "string" },
+      "per-reading": { type: "boolean" },
+      fps: { type: "string" },
+      out: { type: "string" },
+    },
   });
   if (!values.seeds) throw new Error("--seeds: expected a comma-separated list of seeds, e.g. 77000401,77000402");
   const seeds = values.seeds.split(",").map((raw) => parseCount("seeds", raw, 0));
@@ -137,8 +166,9 @@ async function main(): Promise<void> {
   const condition = (values.condition ?? "against_gravity") as Condition;
   if (condition !== "against_gravity" && condition !== "gravity_minimized") throw new Error(`--condition: expected against_gravity or gravity_minimized; got '${condition}'`);
   const clips = parseCount("clips", values.clips, 10);
+  const fps = values.fps === undefined ? null : parseCount("fps", values.fps, CLIP_FPS);
   const lines: string[] = [];
-  lines.push(`## Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}\n`);
+  lines.push(`## Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}${fps === null ? "" : `, read at ${fps} frames a second`}\n`);
   lines.push("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peak P90 ° | frame P90 ° | peak within stated ± | models disagree (> " + PEAK_DISAGREEMENT_DEG + "°) | issue 8's bars |");
   lines.push("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- |");
   const perReading: string[] = [];
@@ -156,7 +186,7 @@ async function main(): Promise<void> {
     };
     for (const seed of seeds) {
       const folder = path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
-      const pairs = readBoth(folder, planClips(seed, clips, condition, [motion]));
+      const pairs = readBoth(folder, planClips(seed, clips, condition, [motion]), fps);
       if (!pairs.length) continue;
       all.push(...pairs);
       rows(String(seed), pairs);
