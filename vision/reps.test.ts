@@ -5,9 +5,9 @@ import { RepSegmenter } from "./reps";
 // Hand-built angle signals (no hand model): a trapezoid movement sampled at 30 Hz, to check the hysteresis and the
 // hold-plateau peak on their own.
 
-function feed(signal: (tMs: number) => number, durationMs: number, segmenter = new RepSegmenter()) {
+function feed(signal: (tMs: number) => number, durationMs: number, segmenter = new RepSegmenter(), fps = 30) {
   const filter = new OneEuroFilter();
-  for (let t = 0; t <= durationMs; t += 1000 / 30) {
+  for (let t = 0; t <= durationMs; t += 1000 / fps) {
     const raw = signal(t);
     const smoothed = filter.filter(raw, t / 1000);
     segmenter.push(t, raw, smoothed, filter.speed, 90, -1);
@@ -40,6 +40,20 @@ describe("repetition segmentation", () => {
       expect(rep.holdMs).toBeGreaterThan(800);
       expect(rep.holdMs).toBeLessThanOrEqual(1000);
     }
+  });
+
+  it("reads the same peak whatever the frame rate: the plateau is found over half a second, not a count of frames", () => {
+    // A bend with no hold, as in the rendered clips: rest, then a raised cosine up to 70° and back over 2 s, twice.
+    const bend = (t: number) => {
+      const x = (t - 1000) % 3000;
+      return t < 1000 || t >= 7000 || x >= 2000 ? 0 : 35 * (1 - Math.cos((Math.PI * x) / 1000));
+    };
+    const peaks = [30, 20, 15, 10].map((fps) => feed(bend, 8000, new RepSegmenter(), fps).snapshot());
+    for (const reps of peaks) expect(reps).toHaveLength(2);
+    const at30 = peaks[0][0].peakDeg;
+    // Half a second around the top of this cosine averages to about 62° (the plateau mean's own rounding of a bend).
+    expect(at30).toBeGreaterThan(60);
+    for (const reps of peaks) for (const r of reps) expect(Math.abs(r.peakDeg - at30)).toBeLessThan(2);
   });
 
   it("does not chatter: a signal wobbling around the enter threshold gives no repetition", () => {

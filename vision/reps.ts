@@ -50,8 +50,19 @@ export const DEFAULT_REP_PARAMS: RepParams = {
 const JITTER_SAMPLES = 45;
 /** Resting samples needed before the first repetition may start (a third of a second at 30 fps). */
 const MIN_REST_SAMPLES = 10;
-/** Samples in the running mean that finds the hold plateau: half a second at 30 fps. */
-const PLATEAU_WINDOW = 15;
+/**
+ * The running mean that finds the hold plateau spans half a second. In time, not in samples: a fixed 15 samples (half a
+ * second at 30 fps) spanned 1.5 s at 10 fps and smeared the top of a bend, so peaks read 3-13° low on held-out clips
+ * read at 10 frames a second (scripts/accuracy/README.md, "Two hand models on one clip").
+ */
+const PLATEAU_WINDOW_MS = 500;
+
+/** Samples in PLATEAU_WINDOW_MS at the repetition's median frame spacing (at least one). */
+function plateauWindow(times: readonly number[]): number {
+  const gaps: number[] = [];
+  for (let i = 1; i < times.length; i++) if (times[i] > times[i - 1]) gaps.push(times[i] - times[i - 1]);
+  return gaps.length ? Math.max(1, Math.round(PLATEAU_WINDOW_MS / median(gaps))) : 1;
+}
 
 export interface Repetition {
   index: number;
@@ -296,11 +307,12 @@ export class RepSegmenter {
     // the plateau's first to its last frame. Choosing samples by how high they read would pick the ones noise pushed
     // up and read the peak high.
     const raw = this.samplesRaw;
-    const rolling = runningMean(raw, PLATEAU_WINDOW);
+    const window = plateauWindow(this.samplesT);
+    const rolling = runningMean(raw, window);
     let top = Number.NEGATIVE_INFINITY;
     for (const v of rolling) if (v > top) top = v;
     const jitter = this.restJitterDeg() || successiveJitter(raw);
-    const rollingJitter = jitter / Math.sqrt(PLATEAU_WINDOW);
+    const rollingJitter = jitter / Math.sqrt(window);
     const band = Math.max(p.plateauBandDeg, p.plateauBandFraction * excursion, 2.5 * rollingJitter);
     // The top of the running mean is itself lifted by noise; re-centre the band on the plateau's level a few times so
     // the span widens to the whole hold instead of the stretch that noise happened to push up.
