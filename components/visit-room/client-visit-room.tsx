@@ -37,7 +37,9 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
   const [test, setTest] = useState<Test>({ motion: "wrist.extension", side, digit: null, condition: "against_gravity", oneFinger: false });
   const [prompted, setPrompted] = useState(false);
   const [kept, setKept] = useState<string | null>(null);
-  const tracking = useHandTracking({ ...test, videoRef: video, enabled: true, displayMirrored: true });
+  // Finger flexion is read by both hand models, as a self-check is: the kept attempt carries both models' frames. The
+  // live angle the therapist watches stays the lite model's.
+  const tracking = useHandTracking({ ...test, videoRef: video, enabled: true, displayMirrored: true, bothModels: "on" });
   const seq = useRef(0);
   const lastSent = useRef(0);
   const peak = useRef<number | null>(null);
@@ -181,7 +183,13 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
         <h1 className="text-2xl font-semibold">Video visit with {therapistName}</h1>
         <p className="text-sm text-ink-soft">{when}</p>
       </header>
-      <div className="relative overflow-hidden rounded-card bg-ink">
+      <div
+        className="relative overflow-hidden rounded-card bg-ink"
+        data-testid="client-camera"
+        data-thread={tracking.thread ?? ""}
+        data-paired={tracking.paired ? "yes" : "no"}
+        data-pairing-stopped={tracking.pairingStopped ? "yes" : "no"}
+      >
         <video ref={video} aria-label="Your camera" autoPlay playsInline muted className="aspect-[4/3] w-full -scale-x-100 object-cover" />
         <HandOverlay
           image={tracking.frame?.image ?? null}

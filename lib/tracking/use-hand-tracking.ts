@@ -16,6 +16,7 @@ import { readsWithBothModels } from "@/vision/model-pair-scope";
 import type { Vec3 } from "@/vision/vec";
 import { neutralReading, type NeutralFrame, type NeutralReading } from "@/vision/wrist-axis";
 import { CaptureRecorder } from "./capture-recorder";
+import { PAIRED_WINDOW_MS, pairingTooSlow } from "./pairing";
 import { withNeutralFrames } from "./neutral-frames";
 import { gravityInCamera, type CameraFacing } from "./gravity";
 import { meanLuma, runSetupChecks, type SetupCheck } from "./setup-checks";
@@ -65,6 +66,8 @@ export interface HandTrackingState {
   neutralFor: string | null;
   /** Frames are being read by both hand models now (see `bothModels`). */
   paired: boolean;
+  /** Reading with both models was stopped for this camera session: this device kept too few frames a second (lib/tracking/pairing.ts). */
+  pairingStopped: boolean;
 }
 
 export type NeutralState =
@@ -98,6 +101,7 @@ const INITIAL: HandTrackingState = {
   neutral: { status: "none" },
   neutralFor: null,
   paired: false,
+  pairingStopped: false,
 };
 
 function targetKey(t: { motion: MotionId; side: Side; digit: Digit | null; condition: Condition }): string {
@@ -119,6 +123,10 @@ export function useHandTracking(options: HandTrackingOptions) {
   const pipelineRef = useRef<LivePipeline | null>(null);
   const recorderRef = useRef<CaptureRecorder | null>(null);
   const trackerRef = useRef<HandTracker | null>(null);
+  // Since when frames have been read by both models, and whether that was stopped for being too slow here.
+  const pairedSinceRef = useRef<number | null>(null);
+  const pairingStoppedRef = useRef(false);
+  const pairedTimesRef = useRef<number[]>([]);
   const recentRef = useRef<TrackedFrame[]>([]);
   const frameTimesRef = useRef<number[]>([]);
   const lumaRef = useRef<number | null>(null);
@@ -180,6 +188,21 @@ export function useHandTracking(options: HandTrackingOptions) {
       const times = frameTimesRef.current;
       times.push(now);
       while (times.length && now - times[0] > 1000) times.shift();
+      let pairingStopped = false;
+      if (tracker?.paired) {
+        pairedSinceRef.current ??= now;
+        const paired = pairedTimesRef.current;
+        paired.push(now);
+        while (paired.length && now - paired[0] > PAIRED_WINDOW_MS) paired.shift();
+        if (pairingTooSlow(paired, now, pairedSinceRef.current)) {
+          tracker.setPaired(false);
+          pairingStoppedRef.current = true;
+          pairingStopped = true;
+        }
+      } else {
+        pairedSinceRef.current = null;
+        pairedTimesRef.current = [];
+      }
       const recent = recentRef.current;
       recent.push(frame);
       while (recent.length && frame.t - recent[0].t > CHECK_WINDOW_MS) recent.shift();
@@ -213,6 +236,7 @@ export function useHandTracking(options: HandTrackingOptions) {
         checks,
         recordedFrames: recorderRef.current?.frameCount ?? 0,
         ...(neutral ? { neutral, neutralFor: targetKey(t) } : {}),
+        ...(pairingStopped ? { paired: false, pairingStopped: true } : {}),
       }));
     };
 
@@ -266,6 +290,9 @@ export function useHandTracking(options: HandTrackingOptions) {
       if (lumaTimer) clearInterval(lumaTimer);
       tracker?.close();
       trackerRef.current = null;
+      pairedSinceRef.current = null;
+      pairedTimesRef.current = [];
+      pairingStoppedRef.current = false;
       for (const track of stream?.getTracks() ?? []) track.stop();
       if (video.srcObject === stream) video.srcObject = null;
       recentRef.current = [];
@@ -279,14 +306,19 @@ export function useHandTracking(options: HandTrackingOptions) {
   // only while "on". Where tracking runs on the page's own thread it stays off: two models would halve the page's time.
   const wantsPair = bothModels !== "off" && handModel === "lite" && !oneFinger && readsWithBothModels(motion, digit);
   const running = state.status === "running" && state.thread === "worker";
+  // Read when recording starts (a visit starts it from a message handler, right after choosing the test).
+  const recordPairRef = useRef(false);
+  useLayoutEffect(() => {
+    recordPairRef.current = running && wantsPair && bothModels === "on";
+  }, [running, wantsPair, bothModels]);
   useEffect(() => {
     const tracker = trackerRef.current;
     if (!running || !tracker) return;
-    if (!wantsPair) return tracker.setPaired(false);
+    if (!wantsPair || pairingStoppedRef.current) return tracker.setPaired(false);
     let current = true;
     void tracker.loadPairModel().then((loaded) => {
       if (!current) return;
-      tracker.setPaired(loaded && bothModels === "on");
+      tracker.setPaired(loaded && bothModels === "on" && !pairingStoppedRef.current);
       setState((s) => (s.paired === tracker.paired ? s : { ...s, paired: tracker.paired }));
     });
     return () => {
@@ -308,9 +340,9 @@ export function useHandTracking(options: HandTrackingOptions) {
   const startRecording = useCallback(() => {
     newPipeline();
     const t = targetRef.current;
-    // Both models' frames are kept when both read the frames as recording starts (the recorder drops the second
-    // model's if it then reads too few of them).
-    recorderRef.current = new CaptureRecorder(t, freshGravity(), false, trackerRef.current?.paired ?? false);
+    // With both models wanted, the recorder keeps the second model's frames where it read enough of them: pairing may
+    // begin a moment after recording does, while the second model loads (MIN_PAIRED_SHARE).
+    recorderRef.current = new CaptureRecorder(t, freshGravity(), false, recordPairRef.current || (trackerRef.current?.paired ?? false));
     // The preview's last reading (and its repetition count) must not leak into the attempt's first render.
     setState((s) => ({ ...s, recording: true, recordedFrames: 0, update: null }));
   }, [newPipeline]);
