@@ -15,6 +15,7 @@ import { NEUTRAL_HOLD_MS, useHandTracking } from "@/lib/tracking/use-hand-tracki
 import { NEUTRAL_INSTRUCTION } from "@/components/visit-room/neutral-reading";
 import type { CaptureAnalysis } from "@/vision/analyze-capture";
 import { analyzeCaptureFile, type PairAnalysis } from "@/vision/model-pair";
+import { readsWithBothModels } from "@/vision/model-pair-scope";
 import { describeView, viewPolicy } from "@/vision/view-policy";
 import { HandOverlay } from "./hand-overlay";
 import { PositionIllustration } from "./position-illustration";
@@ -90,7 +91,8 @@ export function SelfCheckFlow(props: SelfCheckFlowProps) {
   const mirrored = facing === "user";
   // Finger flexion is read by both hand models while recording, as an uploaded clip is (vision/model-pair.ts): the
   // second model loads during the set-up and reads from the countdown on, so every recorded frame has both readings.
-  const bothModels = step === "countdown" || step === "recording" ? "on" : cameraOn ? "ready" : "off";
+  // Other motions never load it.
+  const bothModels = !readsWithBothModels(motion, digit) ? "off" : step === "countdown" || step === "recording" ? "on" : cameraOn ? "ready" : "off";
   const tracking = useHandTracking({ motion, side, digit, condition, videoRef, enabled: cameraOn, facing, displayMirrored: mirrored, bothModels });
   const { startRecording } = tracking;
 

@@ -38,7 +38,8 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
   const [prompted, setPrompted] = useState(false);
   const [kept, setKept] = useState<string | null>(null);
   // Finger flexion is read by both hand models, as a self-check is: the kept attempt carries both models' frames. The
-  // live angle the therapist watches stays the lite model's.
+  // live angle the therapist watches stays the lite model's. The second model loads as the visit starts, so the first
+  // finger test already has it.
   const tracking = useHandTracking({ ...test, videoRef: video, enabled: true, displayMirrored: true, bothModels: "on" });
   const seq = useRef(0);
   const lastSent = useRef(0);

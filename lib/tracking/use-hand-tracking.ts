@@ -36,11 +36,11 @@ export interface HandTrackingOptions {
   /** The preview is shown mirrored (the usual selfie view); only affects the wording of the set-up checks. */
   displayMirrored?: boolean;
   /**
-   * Reading with both hand models (vision/model-pair.ts), for motions they were measured on together (four fingers'
-   * flexion; not a finger on its own) and only where tracking runs in a worker, so the page stays responsive:
-   * "ready" loads the full model beside the lite one; "on" also reads every frame with it, and an attempt recorded
-   * while on keeps both models' frames. Each frame then costs both models' time, so the frame rate drops (about
-   * halves on a laptop). Default "off".
+   * Reading with both hand models (vision/model-pair.ts), only where tracking runs in a worker, so the page stays
+   * responsive: "ready" loads the full model beside the lite one now; "on" also reads every frame with it while the
+   * motion is one both models were measured on together (four fingers' flexion; not a finger on its own), and an
+   * attempt recorded then keeps both models' frames. Each such frame costs both models' time, so the frame rate drops
+   * (by about a third on a laptop). Default "off".
    */
   bothModels?: "off" | "ready" | "on";
 }
@@ -302,29 +302,31 @@ export function useHandTracking(options: HandTrackingOptions) {
     };
   }, [enabled, facing, handModel, displayMirrored, videoRef, newPipeline]);
 
-  // The second model: loaded when asked for and the motion is one both models were measured on; frames read by both
-  // only while "on". Where tracking runs on the page's own thread it stays off: two models would halve the page's time.
-  const wantsPair = bothModels !== "off" && handModel === "lite" && !oneFinger && readsWithBothModels(motion, digit);
+  // The second model: loaded when asked for; frames read by both only while "on" and the motion is one both models
+  // were measured on. Where tracking runs on the page's own thread it stays off: two models would halve the page's time.
+  const loadsPair = bothModels !== "off" && handModel === "lite";
+  const wantsPair = loadsPair && bothModels === "on" && !oneFinger && readsWithBothModels(motion, digit);
   const running = state.status === "running" && state.thread === "worker";
   // Read when recording starts (a visit starts it from a message handler, right after choosing the test).
   const recordPairRef = useRef(false);
   useLayoutEffect(() => {
-    recordPairRef.current = running && wantsPair && bothModels === "on";
-  }, [running, wantsPair, bothModels]);
+    recordPairRef.current = running && wantsPair;
+  }, [running, wantsPair]);
   useEffect(() => {
     const tracker = trackerRef.current;
     if (!running || !tracker) return;
-    if (!wantsPair || pairingStoppedRef.current) return tracker.setPaired(false);
+    if (!wantsPair || pairingStoppedRef.current) tracker.setPaired(false);
+    if (!loadsPair || pairingStoppedRef.current) return;
     let current = true;
     void tracker.loadPairModel().then((loaded) => {
       if (!current) return;
-      tracker.setPaired(loaded && bothModels === "on" && !pairingStoppedRef.current);
+      tracker.setPaired(loaded && wantsPair && !pairingStoppedRef.current);
       setState((s) => (s.paired === tracker.paired ? s : { ...s, paired: tracker.paired }));
     });
     return () => {
       current = false;
     };
-  }, [running, wantsPair, bothModels]);
+  }, [running, loadsPair, wantsPair]);
 
   /**
    * Starts a neutral reading: the next NEUTRAL_HOLD_MS of frames, wrist straight and forearm still on the table. The
@@ -368,6 +370,6 @@ export function useHandTracking(options: HandTrackingOptions) {
   // A neutral reading taken for another motion, side or position does not hold for this one (the refs were cleared).
   const neutral: NeutralState = state.neutralFor === targetKey({ motion, side, digit, condition }) ? state.neutral : { status: "none" };
   // Stale once the pairing is no longer wanted: the tracker has already stopped it then.
-  const paired = state.paired && wantsPair && bothModels === "on";
+  const paired = state.paired && wantsPair;
   return { ...state, neutral, paired, startRecording, stopRecording, requestMotionSensors, takeNeutral };
 }
