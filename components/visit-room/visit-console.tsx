@@ -252,6 +252,7 @@ export function VisitConsole(props: VisitConsoleProps) {
               {keepState.status === "asked" ? "Asking the client's device for the attempt…" : keepState.status === "saved" ? "Attempt saved." : "The client's device is offline; it will send the attempt when back."}
             </p>
           ) : null}
+          <KeptAttempts summary={summary.data} />
         </Card>
         <Card title="Proposed grades">
           <ProposedGrades summary={summary.data} />
@@ -312,6 +313,37 @@ function Reading({
         </p>
       ) : null}
     </div>
+  );
+}
+
+/**
+ * The attempts kept so far, as the server measured them from the raw capture (for finger flexion, both hand models
+ * together), which can differ from the live reading above; the engine's notes show here, so a doubtful attempt can be
+ * repeated while the client is still in view.
+ */
+function KeptAttempts({ summary }: { summary: VisitSummary | undefined }) {
+  if (!summary?.attempts.length) return null;
+  return (
+    <ol className="mt-3 space-y-2 border-t border-sand-200 pt-2 text-xs" data-testid="kept-attempts" aria-label="Kept attempts">
+      {summary.attempts.map((a) => {
+        const gradedOnArc = MOTIONS[a.motion as MotionId]?.gradedOn === "arc";
+        const value = gradedOnArc ? a.arcDeg : a.peakDeg;
+        return (
+          <li key={a.id}>
+            <span className="font-medium text-ink">
+              {MOTIONS[a.motion as MotionId]?.label ?? a.motion}
+              {a.digit ? `, ${a.digit}` : ""} ({a.side}), {(CONDITION_LABELS[a.condition as keyof typeof CONDITION_LABELS] ?? a.condition).toLowerCase()}:
+            </span>{" "}
+            <span className="text-ink-soft" data-testid="kept-value">
+              {gradedOnArc ? "arc" : "peak"} {value === null ? "not found" : `${Math.round(value)}°`}
+              {value !== null && a.uncertaintyDeg !== null ? ` ± ${Math.round(a.uncertaintyDeg)}°` : ""}, {a.reps} repetition{a.reps === 1 ? "" : "s"}
+              {a.planeVerified ? "" : ", position not confirmed"}
+            </span>
+            {a.warnings.length ? <span className="block text-flag-amber">{a.warnings.join("; ")}</span> : null}
+          </li>
+        );
+      })}
+    </ol>
   );
 }
 

@@ -15,6 +15,9 @@ export interface VisitAttemptRow {
   uncertaintyDeg: number | null;
   planeVerdict: string;
   planeVerified: boolean;
+  reps: number;
+  /** The engine's notes on the attempt, e.g. that the two hand models disagree about its peak. */
+  warnings: string[];
   recordedAt: string;
 }
 
@@ -94,6 +97,8 @@ export async function buildVisitSummary(db: Database, visit: Visit): Promise<Vis
       uncertaintyDeg: a.uncertaintyDeg,
       planeVerdict: a.planeVerdict,
       planeVerified: a.planeVerified,
+      reps: a.reps,
+      warnings: a.warnings,
       recordedAt: a.recordedAt.toISOString(),
     })),
     proposals,

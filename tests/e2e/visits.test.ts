@@ -165,6 +165,12 @@ describe("a video visit through the local media server", () => {
     expect(capture.bytes).toBeGreaterThan(0);
     expect(stored[0].engineVersion).toMatch(/kinarc-engine/);
     await expect.poll(() => therapistPage.getByTestId("proposals").textContent(), { timeout: 15_000 }).toMatch(/PIP flexion, middle \(right\)/);
+    // The kept attempt as the server measured it, beside the live reading.
+    const kept = therapistPage.getByTestId("kept-attempts");
+    await expect.poll(() => kept.textContent(), { timeout: 15_000 }).toMatch(/PIP flexion, middle \(right\), gravity minimized:/);
+    const shown = (await kept.getByTestId("kept-value").first().textContent())!;
+    expect(shown).toContain(`${stored[0].reps} repetition`);
+    if (stored[0].peakDeg !== null) expect(shown).toContain(`peak ${Math.round(stored[0].peakDeg)}°`);
   });
 
   it("an attempt kept while the client's uploads fail is held in their browser and saved exactly once when back", async () => {
