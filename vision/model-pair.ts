@@ -119,6 +119,7 @@ export function analyzeCapturePair(first: ModelCapture, second: ModelCapture, op
   const maxGapMs = options.maxGapMs ?? DEFAULT_MAX_GAP_MS;
   one.updates.forEach((u, i) => {
     const v = two.updates[i];
+    segmenter.frame(u.t);
     const reading = combineFrame(u, v, u.view === v.view ? measured(u.view, Math.min(u.score, v.score)) : null);
     frameReadings.push(reading);
     qualities.push(reading.angleDeg !== null ? "ok" : u.quality);

@@ -321,6 +321,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   }
 
   function push(frame: PipelineFrame): LiveUpdate {
+    segmenter.frame(frame.t);
     frames += 1;
     const score = Number.isFinite(frame.score) ? frame.score : 0;
     scoreSum += score;

@@ -10,6 +10,8 @@ function feed(signal: (tMs: number) => number, durationMs: number, segmenter = n
   for (let t = 0; t <= durationMs; t += 1000 / fps) {
     const raw = signal(t);
     const smoothed = filter.filter(raw, t / 1000);
+    // As the pipeline does: every frame's time, then the usable sample.
+    segmenter.frame(t);
     segmenter.push(t, raw, smoothed, filter.speed, 90, -1);
   }
   return segmenter;
@@ -54,6 +56,21 @@ describe("repetition segmentation", () => {
     // Half a second around the top of this cosine averages to about 62° (the plateau mean's own rounding of a bend).
     expect(at30).toBeGreaterThan(60);
     for (const reps of peaks) for (const r of reps) expect(Math.abs(r.peakDeg - at30)).toBeLessThan(2);
+  });
+
+  it("a movement that begins soon after recording starts keeps its start angle at any frame rate", () => {
+    // Rest for 0.3 s only, then three 60° trapezoids (0.5 s up, 1 s hold, 0.5 s down, 1 s rest).
+    const early = (t: number) => {
+      const x = (t - 300) % 3000;
+      if (t < 300 || t >= 9300) return 0;
+      return x < 500 ? (60 * x) / 500 : x < 1500 ? 60 : x < 2000 ? 60 * (1 - (x - 1500) / 500) : 0;
+    };
+    for (const fps of [30, 15, 10]) {
+      const reps = feed(early, 10_000, new RepSegmenter(), fps).snapshot();
+      expect(reps).toHaveLength(3);
+      expect(Math.abs(reps[0].startDeg)).toBeLessThan(1);
+      expect(reps[0].arcDeg).toBeCloseTo(60, 0);
+    }
   });
 
   it("does not chatter: a signal wobbling around the enter threshold gives no repetition", () => {

@@ -48,8 +48,18 @@ export const DEFAULT_REP_PARAMS: RepParams = {
 };
 
 const JITTER_SAMPLES = 45;
-/** Resting samples needed before the first repetition may start (a third of a second at 30 fps). */
-const MIN_REST_SAMPLES = 10;
+/**
+ * Resting samples needed before the first repetition may start: as many as the capture's frames in a third of a
+ * second (10 at 30 fps), between 3 and 10. Counted from the frame rate, not fixed: 10 samples spanned a whole second
+ * at 10 fps, so a client who began to move 0.3 s into the recording had the start of the bend taken as rest (start
+ * 12°, arc 48° of a 60° movement; a unit test holds it). Not from the time since the first usable sample either: where
+ * the tracker finds the hand in only a few early frames, that let a handful of them set the resting angle (tried;
+ * held-out clips read worse).
+ */
+const MIN_REST_MS = 1000 / 3;
+const MIN_REST_SAMPLES = { least: 3, most: 10 } as const;
+/** Frame spacings kept to judge the frame rate: the first second at 30 fps. */
+const FRAME_GAPS_KEPT = 30;
 /**
  * The running mean that finds the hold plateau spans half a second. In time, not in samples: a fixed 15 samples (half a
  * second at 30 fps) spanned 1.5 s at 10 fps and smeared the top of a bend, so peaks read 3-13° low on held-out clips
@@ -145,6 +155,8 @@ export class RepSegmenter {
   private readonly jitterRing: number[] = [];
   private jitterRingNext = 0;
   private lastRestRaw = Number.NaN;
+  private readonly frameGaps: number[] = [];
+  private lastFrameMs = Number.NaN;
   private candidateSinceMs = Number.NaN;
   private repStartMs = 0;
   private repStartDeg = 0;
@@ -181,7 +193,7 @@ export class RepSegmenter {
     const p = this.p;
     // Until enough resting samples are in, the resting angle is their median (a single first frame may be noisy)
     // and no repetition can start.
-    if (this.phaseNow === "rest" && this.done.length === 0 && this.restRing.length < MIN_REST_SAMPLES) {
+    if (this.phaseNow === "rest" && this.done.length === 0 && this.restRing.length < this.minRestSamples()) {
       this.remember(rawDeg);
       this.restLevel = median(this.restRing);
       return this.phaseNow;
@@ -216,6 +228,21 @@ export class RepSegmenter {
       this.phaseNow = Math.abs(speedDegPerS) < p.holdSpeedDegPerS ? "hold" : "move";
     }
     return this.phaseNow;
+  }
+
+  /**
+   * Notes the time of every frame of the capture, with a usable angle or not, so the segmenter knows the frame rate.
+   * Optional: without it the rate is taken as 30 fps.
+   */
+  frame(tMs: number): void {
+    if (this.frameGaps.length < FRAME_GAPS_KEPT && tMs > this.lastFrameMs) this.frameGaps.push(tMs - this.lastFrameMs);
+    this.lastFrameMs = tMs;
+  }
+
+  private minRestSamples(): number {
+    if (this.frameGaps.length === 0) return MIN_REST_SAMPLES.most;
+    const samples = Math.round(MIN_REST_MS / median(this.frameGaps));
+    return Math.min(MIN_REST_SAMPLES.most, Math.max(MIN_REST_SAMPLES.least, samples));
   }
 
   /** The repetitions so far, with the one under way (if it has left rest) closed as incomplete; changes nothing. */

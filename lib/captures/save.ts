@@ -22,9 +22,10 @@ import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } fro
  * Stored with every attempt so a later engine can tell which analysis produced its numbers. The engine has no version
  * constant of its own yet; this names the capture format and the analysis generation (the correction has its own,
  * stored beside it). analysis-2: a repetition's hold plateau is found over half a second of time, not 15 frames, so a
- * capture at fewer than 30 frames a second no longer reads its peaks low (vision/reps.ts).
+ * capture at fewer than 30 frames a second no longer reads its peaks low (vision/reps.ts). analysis-3: the rest
+ * before the first repetition is a third of a second of the capture's frames, not 10 samples.
  */
-export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-2";
+export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-3";
 
 /**
  * A visit accepts attempts while it runs, and for a while after it ends: an attempt recorded near the end may reach
