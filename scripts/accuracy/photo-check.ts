@@ -3,7 +3,9 @@
  * palm and back; scripts/fixtures/hand-photos.ts, fetched at run time, never committed) tracked frame by frame by the
  * app's own tracking code, then read by the measurement engine with the correction as the app applies it ("auto")
  * and raw ("off"). Prints, per photo, the median over frames of the mean over the four fingers of MCP, PIP and DIP
- * flexion. The bar: an open hand reads at most 10 degrees, a fist at least 70 degrees at MCP and PIP.
+ * flexion. The bar: an open hand reads at most 10 degrees, a fist at least 70 degrees at MCP and PIP. With both models,
+ * a third reading, "both": the two models' frames read together as the app reads an upload or a self-check of finger
+ * flexion (vision/model-pair.ts analyzeCaptureFile).
  *
  *   npx tsx scripts/accuracy/photo-check.ts [--models lite,full] [--reuse]
  */
@@ -11,6 +13,8 @@ import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
 import { parseArgs } from "node:util";
 import { FINGERS, type MotionId } from "@/lib/motions/catalog";
+import { clipCapture, withFullModelFrames } from "@/vision/live/clip-capture";
+import { analyzeCaptureFile } from "@/vision/model-pair";
 import { createLivePipeline } from "@/vision/pipeline";
 import type { TrackedFrame } from "@/vision/live";
 import { CANVAS_HEIGHT, CANVAS_WIDTH, STANDARD_CLIPS, makeHandClip, type PhotoId } from "../fixtures/hand-photos";
@@ -103,6 +107,32 @@ export function readPhoto(frames: readonly TrackedFrame[], photo: PhotoId, model
   return { photo, model, correction, mcpDeg, pipDeg, dipDeg, correctedShare: total ? corrected / total : 0 };
 }
 
+/**
+ * One photo's frames as tracked by both models, read together (analyzeCaptureFile with the full model's frames
+ * attached, as the app builds them), correction as the app applies it. Frames where both models gave a finger no
+ * reading are left out, as in readPhoto.
+ */
+export function readPhotoPair(lite: readonly TrackedFrame[], full: readonly TrackedFrame[], photo: PhotoId): PhotoReading {
+  const side = photo.startsWith("left") ? "left" : "right";
+  const aspect = (f: TrackedFrame): TrackedFrame => ({ ...f, imageAspect: f.imageAspect ?? CANVAS_WIDTH / CANVAS_HEIGHT });
+  const jointMedian = (motion: MotionId) => {
+    const perFinger = FINGERS.map((digit) => {
+      const target = { motion, side, digit, condition: "gravity_minimized" } as const;
+      const capture = withFullModelFrames(clipCapture(target, lite.map(aspect), photo).capture, target, full.map(aspect), photo);
+      if (!capture.fullModel) throw new Error(`${photo}: the two models' frames do not line up`);
+      const analysis = analyzeCaptureFile(capture);
+      if (!("frameReadings" in analysis)) throw new Error(`${photo}: expected a reading of both models`);
+      return analysis.frameReadings.map((r) => r.angleDeg);
+    });
+    const means = lite.flatMap((_, i) => {
+      const values = perFinger.map((series) => series[i]);
+      return values.every((v) => v !== null) ? [values.reduce((a, b) => a! + b!, 0)! / values.length] : [];
+    });
+    return median(means);
+  };
+  return { photo, model: "both", correction: "auto", mcpDeg: jointMedian("mcp.flexion"), pipDeg: jointMedian("pip.flexion"), dipDeg: jointMedian("dip.flexion"), correctedShare: Number.NaN };
+}
+
 /** Whether a photo's reading meets issue 8's bar (or, with `bar: "issue 4"`, issue 4's looser one). */
 export function meetsBar(reading: PhotoReading, bar: "issue 8" | "issue 4" = "issue 8"): boolean {
   const [openMax, fistMin] = bar === "issue 8" ? [OPEN_HAND_MAX_DEG, FIST_MIN_DEG] : [OPEN_NEAR_ZERO_MAX_DEG, FIST_LARGE_MIN_DEG];
@@ -116,19 +146,20 @@ async function main(): Promise<void> {
     "| photo | model | correction | MCP ° | PIP ° | DIP ° | corrected | issue 8 bar | issue 4 bar |",
     "| --- | --- | --- | ---: | ---: | ---: | ---: | --- | --- |",
   ];
+  const row = (r: PhotoReading) =>
+    `| ${r.photo} | ${r.model} | ${r.correction} | ${r.mcpDeg.toFixed(0)} | ${r.pipDeg.toFixed(0)} | ${r.dipDeg.toFixed(0)} | ${Number.isNaN(r.correctedShare) ? "-" : `${Math.round(r.correctedShare * 100)}%`} | ${meetsBar(r) ? "meets" : "misses"} | ${meetsBar(r, "issue 4") ? "meets" : "misses"} |`;
+  // Leave out the frames next to a cut: the encoder may blend or shift a frame there.
+  const framesOf = (frames: readonly TrackedFrame[], index: number) => frames.filter((f) => f.t >= index * 1000 + 50 && f.t < (index + 1) * 1000 - 50);
+  const tracked = new Map<HandModelVariant, TrackedFrame[]>();
   for (const model of parseModels(values.models)) {
     const frames = await trackPhotos(model, values.reuse ?? false);
+    tracked.set(model, frames);
     for (const [index, photo] of PHOTOS.entries()) {
-      // Leave out the frames next to a cut: the encoder may blend or shift a frame there.
-      const own = frames.filter((f) => f.t >= index * 1000 + 50 && f.t < (index + 1) * 1000 - 50);
-      for (const correction of ["off", "auto"] as const) {
-        const r = readPhoto(own, photo, model, correction);
-        lines.push(
-          `| ${photo} | ${model} | ${correction} | ${r.mcpDeg.toFixed(0)} | ${r.pipDeg.toFixed(0)} | ${r.dipDeg.toFixed(0)} | ${Math.round(r.correctedShare * 100)}% | ${meetsBar(r) ? "meets" : "misses"} | ${meetsBar(r, "issue 4") ? "meets" : "misses"} |`,
-        );
-      }
+      for (const correction of ["off", "auto"] as const) lines.push(row(readPhoto(framesOf(frames, index), photo, model, correction)));
     }
   }
+  const [lite, full] = [tracked.get("lite"), tracked.get("full")];
+  if (lite && full) for (const [index, photo] of PHOTOS.entries()) lines.push(row(readPhotoPair(framesOf(lite, index), framesOf(full, index), photo)));
   console.log(lines.join("\n"));
 }
 
