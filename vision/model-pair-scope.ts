@@ -1,6 +1,6 @@
 /**
- * Which clips are read by both hand models (vision/model-pair.ts). Kept apart from the engine so a page can ask without
- * loading it.
+ * Which clips are read by both hand models (vision/model-pair.ts), and how its notes read. Kept apart from the engine
+ * so a page can ask without loading it.
  */
 import type { Digit, MotionId } from "@/lib/motions/catalog";
 
@@ -11,3 +11,6 @@ const MEASURED_MOTIONS: readonly MotionId[] = ["mcp.flexion", "pip.flexion", "di
 export function readsWithBothModels(motion: MotionId, digit: Digit | null): boolean {
   return MEASURED_MOTIONS.includes(motion) && digit !== null && digit !== "thumb";
 }
+
+/** How the engine's note on an attempt whose two models disagree about the peak begins (pages pick it out by it). */
+export const MODELS_DISAGREE_NOTE = "the two hand models disagree";

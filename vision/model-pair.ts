@@ -33,6 +33,7 @@ import { DEFAULT_MAX_GAP_MS, type FrameQuality, type LiveUpdate } from "./pipeli
 import { PlaneAccumulator } from "./plane";
 import type { ValidationView } from "./correction-views";
 import { RepSegmenter } from "./reps";
+import { MODELS_DISAGREE_NOTE } from "./model-pair-scope";
 import { pairPeakUncertaintyDeg, pairUncertaintyDeg } from "./uncertainty";
 
 /**
@@ -158,11 +159,13 @@ export function analyzeCapturePair(first: ModelCapture, second: ModelCapture, op
   if (modelsDisagree) {
     const word = (p: number | null) => (p === null ? "none" : `${p.toFixed(0)} deg`);
     warnings.push(
-      `the two hand models disagree: peaks ${word(peaks[0])} (${first.handModel}) and ${word(peaks[1])} (${second.handModel}), ${word(combined)} read together; ` +
+      `${MODELS_DISAGREE_NOTE}: peaks ${word(peaks[0])} (${first.handModel}) and ${word(peaks[1])} (${second.handModel}), ${word(combined)} read together; ` +
         "one of them lost the joint's bend in part of the attempt, so repeat the attempt or treat the range as uncertain",
     );
   }
   const usableFrames = frameReadings.filter((r) => r.angleDeg !== null).length;
+  // Said wherever the attempt's notes are shown (chart, self-check, visit), so a reader knows which ± applies.
+  warnings.push(`read by both hand models (${first.handModel} and ${second.handModel}) together: ${bothFrames} of ${frameReadings.length} frames seen by both`);
   const planeAgrees = planeReading?.verdict === a.condition;
   return {
     ...x,

@@ -15,6 +15,7 @@ import { ConsoleNeutralStatus, FOREARM_LINE_WORDS, type ConsoleNeutral } from ".
 import { CONDITION_LABELS, TestPicker, type TestChoice } from "./test-picker";
 import { TrackAudio, TrackVideo } from "./track-video";
 import { VisitOverlay } from "./visit-overlay";
+import { MODELS_DISAGREE_NOTE } from "@/vision/model-pair-scope";
 
 const PLANE_WORDS: Record<string, string> = {
   against_gravity: "against gravity",
@@ -318,8 +319,8 @@ function Reading({
 
 /**
  * The attempts kept so far, as the server measured them from the raw capture (for finger flexion, both hand models
- * together), which can differ from the live reading above; the engine's notes show here, so a doubtful attempt can be
- * repeated while the client is still in view.
+ * together), which can differ from the live reading above; the engine's notes show here (a disagreement of the two
+ * models among them), so a doubtful attempt can be repeated while the client is still in view.
  */
 function KeptAttempts({ summary }: { summary: VisitSummary | undefined }) {
   if (!summary?.attempts.length) return null;
@@ -339,7 +340,16 @@ function KeptAttempts({ summary }: { summary: VisitSummary | undefined }) {
               {value !== null && a.uncertaintyDeg !== null ? ` ± ${Math.round(a.uncertaintyDeg)}°` : ""}, {a.reps} repetition{a.reps === 1 ? "" : "s"}
               {a.planeVerified ? "" : ", position not confirmed"}
             </span>
-            {a.warnings.length ? <span className="block text-flag-amber">{a.warnings.join("; ")}</span> : null}
+            {a.warnings
+              .filter((w) => w.startsWith(MODELS_DISAGREE_NOTE))
+              .map((w) => (
+                <span key={w} className="block text-flag-amber" data-testid="kept-disagree">
+                  {w}
+                </span>
+              ))}
+            {a.warnings.some((w) => !w.startsWith(MODELS_DISAGREE_NOTE)) ? (
+              <span className="block text-ink-faint">Notes: {a.warnings.filter((w) => !w.startsWith(MODELS_DISAGREE_NOTE)).join("; ")}</span>
+            ) : null}
           </li>
         );
       })}

@@ -108,6 +108,8 @@ describe("capture recorder", () => {
       expect(analysis.handModels).toEqual(["lite", "full"]);
       expect(analysis.reps).toBe(2);
       expect(analysis.bothFrames).toBeGreaterThan(0.8 * capture.frames.length);
+      // The attempt's notes say it was read by both, wherever they are shown.
+      expect(analysis.warnings).toContain(`read by both hand models (lite and full) together: ${analysis.bothFrames} of ${capture.frames.length} frames seen by both`);
     });
 
     it("keeps one model's reading when the second read too few frames, found no hand, or would pass the size limit", () => {
