@@ -6,7 +6,7 @@ import { HandOverlay } from "@/components/tracking/hand-overlay";
 import { PositionIllustration } from "@/components/tracking/position-illustration";
 import { browserOutbox, runOutbox } from "@/lib/captures/outbox";
 import { getReferenceEndRange, isOneFingerMotion, MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
-import { newCaptureUid } from "@/lib/tracking/capture-recorder";
+import { newCaptureUid, VISIT_KEEP_LAST_MS } from "@/lib/tracking/capture-recorder";
 import { useHandTracking } from "@/lib/tracking/use-hand-tracking";
 import { encodeTelemetry, type ControlMessage } from "@/lib/visits/telemetry";
 import { useVisitRoom } from "@/lib/visits/use-visit-room";
@@ -40,7 +40,9 @@ export function ClientVisitRoom({ visitId, clientId, therapistName, when, side }
   // Finger flexion is read by both hand models, as a self-check is: the kept attempt carries both models' frames. The
   // live angle the therapist watches stays the lite model's. The second model loads as the visit starts, so the first
   // finger test already has it.
-  const tracking = useHandTracking({ ...test, videoRef: video, enabled: true, displayMirrored: true, bothModels: "on" });
+  // The recording runs from the prompt until the therapist keeps it, however long they talk: only its last minute is
+  // kept, so a long wait neither fills the device's memory nor passes the upload limit.
+  const tracking = useHandTracking({ ...test, videoRef: video, enabled: true, displayMirrored: true, bothModels: "on", keepLastMs: VISIT_KEEP_LAST_MS });
   const seq = useRef(0);
   const lastSent = useRef(0);
   const peak = useRef<number | null>(null);

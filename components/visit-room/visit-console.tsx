@@ -248,6 +248,7 @@ export function VisitConsole(props: VisitConsoleProps) {
           >
             Keep this attempt
           </button>
+          <p className="mt-1 text-xs text-ink-faint">Keeps the client&apos;s last minute of movement since the test was asked for.</p>
           {keepState ? (
             <p role="status" className="mt-2 text-xs text-ink-soft">
               {keepState.status === "asked" ? "Asking the client's device for the attempt…" : keepState.status === "saved" ? "Attempt saved." : "The client's device is offline; it will send the attempt when back."}

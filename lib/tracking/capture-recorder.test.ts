@@ -5,7 +5,7 @@ import { buildSyntheticCapture, type SyntheticCaptureSpec } from "@/vision/testi
 import { FULL_MODEL_BUDGET_BYTES } from "@/lib/captures/upload";
 import type { LandmarkXYZ, TrackedFrame } from "@/vision/live/types";
 import { analyzeCaptureFile, type PairAnalysis } from "@/vision/model-pair";
-import { CaptureRecorder, MIN_PAIRED_SHARE, newCaptureUid } from "./capture-recorder";
+import { CaptureRecorder, MIN_PAIRED_SHARE, newCaptureUid, VISIT_KEEP_LAST_MS } from "./capture-recorder";
 
 // The synthetic hand (vision/testing) bends the index MCP to a known 80 degrees twice; recording its frames as the
 // live tracker delivers them (camera clock times, no image landmarks kept) must give a file the engine's own schema
@@ -23,7 +23,7 @@ const source = buildSyntheticCapture({
 
 describe("capture recorder", () => {
   it("writes a capture file the engine's schema accepts, times from zero, and analyzes the same", () => {
-    const recorder = new CaptureRecorder({ motion: "mcp.flexion", side: "left", digit: "index", condition: "gravity_minimized" }, [0, 0, 1]);
+    const recorder = new CaptureRecorder({ motion: "mcp.flexion", side: "left", digit: "index", condition: "gravity_minimized" }, { gravity: [0, 0, 1] });
     const cameraClockMs = 123_456.5;
     for (const f of source.frames) recorder.push({ t: cameraClockMs + f.t, score: f.score, hand: f.hand as never, forearm: f.forearm as never });
     const capture = parseCapture(JSON.parse(JSON.stringify(recorder.finish())), "recorded");
@@ -90,7 +90,7 @@ describe("capture recorder", () => {
       image: f.image ? f.image.map(([x, y]): LandmarkXYZ => [x, y, 0]) : null,
     });
     const record = (pairedFrom: number, fullFrames = full.frames) => {
-      const recorder = new CaptureRecorder(target, null, false, true);
+      const recorder = new CaptureRecorder(target, { pairModel: true });
       lite.frames.forEach((f, i) => recorder.push({ ...tracked(f), t: 5000 + f.t, ...(i >= pairedFrom ? { fullModel: { ...tracked(fullFrames[i]), t: 5000 + f.t } } : {}) }));
       return { recorder, capture: parseCapture(JSON.parse(JSON.stringify(recorder.finish())), "recorded") };
     };
@@ -116,9 +116,9 @@ describe("capture recorder", () => {
       const late = Math.ceil(lite.frames.length * (1 - MIN_PAIRED_SHARE)) + 1;
       expect(record(late).capture.fullModel).toBeUndefined();
       expect(record(0, full.frames.map((f) => ({ ...f, score: 0, hand: null, image: null }))).capture.fullModel).toBeUndefined();
-      expect(new CaptureRecorder(target, null, false, false).finish()).toBeNull();
+      expect(new CaptureRecorder(target, { pairModel: false }).finish()).toBeNull();
 
-      const long = new CaptureRecorder(target, null, false, true);
+      const long = new CaptureRecorder(target, { pairModel: true });
       const frame = tracked(lite.frames.find((f) => f.hand)!);
       let t = 0;
       let lastKept = 0;
@@ -135,5 +135,28 @@ describe("capture recorder", () => {
       expect(lastKept).toBeLessThanOrEqual(FULL_MODEL_BUDGET_BYTES);
       expect(JSON.stringify({ ...capture, fullModel: { frames: capture.frames } }).length).toBeGreaterThan(FULL_MODEL_BUDGET_BYTES);
     });
+  });
+
+  it("a recording that keeps its last minute drops older frames, both models alike, with times from 0", () => {
+    const target = { motion: "pip.flexion", side: "right", digit: "middle", condition: "against_gravity" } as const;
+    const recorder = new CaptureRecorder(target, { pairModel: true, keepLastMs: VISIT_KEEP_LAST_MS });
+    const hand = source.frames.find((f) => f.hand)!.hand as LandmarkXYZ[];
+    // 90 s at 30 frames a second; the second model reads from 20 s on, and each frame's score tells its time.
+    const frames = Array.from({ length: 2700 }, (_, i) => 1000 + (i * 1000) / 30);
+    for (const t of frames) {
+      const score = Math.min(1, (t - 1000) / 100_000);
+      recorder.push({ t, score, hand, ...(t - 1000 >= 20_000 ? { fullModel: { t, score, handedness: "right", hand, image: null } } : {}) });
+    }
+    const capture = parseCapture(JSON.parse(JSON.stringify(recorder.finish())), "recorded");
+    expect(capture.frames[0].t).toBe(0);
+    expect(capture.frames.at(-1)!.t).toBeLessThanOrEqual(VISIT_KEEP_LAST_MS);
+    expect(capture.frames.at(-1)!.t).toBeGreaterThan(VISIT_KEEP_LAST_MS - 40);
+    expect(recorder.frameCount).toBe(capture.frames.length);
+    // The kept frames are the last ones pushed: the last frame's score is that of 90 s in.
+    expect(capture.frames.at(-1)!.score).toBeCloseTo((frames.at(-1)! - 1000) / 100_000, 5);
+    expect(capture.frames[0].score).toBeCloseTo((frames.at(-1)! - 1000 - capture.frames.at(-1)!.t) / 100_000, 5);
+    // Every kept frame was read by both: the second model's frames are kept, at the same times.
+    expect(capture.fullModel?.frames.map((f) => f.t)).toEqual(capture.frames.map((f) => f.t));
+    expect(() => new CaptureRecorder(target, { keepLastMs: 0 })).toThrow(/keepLastMs: expected a positive number/);
   });
 });

@@ -31,34 +31,56 @@ export const MIN_PAIRED_SHARE = 0.9;
 
 type RecordedFrame = Pick<TrackedFrame, "t" | "score" | "hand" | "forearm"> & Partial<Pick<TrackedFrame, "image" | "imageAspect" | "fullModel">>;
 
+export interface RecorderOptions {
+  /** Gravity in camera axes at the start, from the motion sensor; omitted when there is none. */
+  gravity?: Vec3 | null;
+  /**
+   * Keep the picture landmarks too (a stored clip is reviewed with the hand drawn over it); off for live attempts,
+   * except where the engine reads them (the finger estimator, vision/correction.ts readsPicturePoints), so the
+   * server can too.
+   */
+  keepImage?: boolean;
+  /**
+   * Keep the full model's reading of each frame (`TrackedFrame.fullModel`) as the capture's `fullModel`, so the
+   * engine reads both models together (vision/model-pair.ts). Frames the second model did not read count as frames
+   * where it found no hand; see MIN_PAIRED_SHARE.
+   */
+  pairModel?: boolean;
+  /**
+   * Keep only the frames of the last this-many milliseconds (times then start at 0 from the first kept frame): for a
+   * recording that runs until someone decides to keep it, as in a visit, so a long wait neither fills the device's
+   * memory nor passes the upload limit.
+   */
+  keepLastMs?: number;
+}
+
+/**
+ * The most of a visit attempt that is kept: its last minute. A minute at 30 frames a second is about 2.5 MB of JSON
+ * per model (lib/captures/upload.ts), so both models' frames fit the upload limit.
+ */
+export const VISIT_KEEP_LAST_MS = 60_000;
+
 export class CaptureRecorder {
-  private readonly frames: CaptureFrame[] = [];
+  private frames: CaptureFrame[] = [];
   private startMs: number | null = null;
   private imageAspect: number | null = null;
   private readonly keepsImage: boolean;
   /** With `pairModel`: the full model's frames, one for each of `frames`, and how many it actually read. */
-  private readonly fullFrames: CaptureFrame[] | null;
-  private pairedFrames = 0;
+  private fullFrames: CaptureFrame[] | null;
+  /** Per kept frame, whether the second model read it. */
+  private paired: boolean[] = [];
+  private readonly gravity: Vec3 | null;
+  private readonly keepLastMs: number | null;
 
   constructor(
     readonly target: CaptureTarget,
-    /** Gravity in camera axes at the start, from the motion sensor; omitted when there is none. */
-    private readonly gravity: Vec3 | null = null,
-    /**
-     * Keep the picture landmarks too (a stored clip is reviewed with the hand drawn over it); off for live attempts,
-     * except where the engine reads them (the finger estimator, vision/correction.ts readsPicturePoints), so the
-     * server can too.
-     */
-    keepImage = false,
-    /**
-     * Keep the full model's reading of each frame (`TrackedFrame.fullModel`) as the capture's `fullModel`, so the
-     * engine reads both models together (vision/model-pair.ts). Frames the second model did not read count as frames
-     * where it found no hand; see MIN_PAIRED_SHARE.
-     */
-    pairModel = false,
+    options: RecorderOptions = {},
   ) {
-    this.keepsImage = keepImage || readsPicturePoints(CORRECTION_MODEL, target.motion, target.digit);
-    this.fullFrames = pairModel ? [] : null;
+    this.gravity = options.gravity ?? null;
+    this.keepsImage = (options.keepImage ?? false) || readsPicturePoints(CORRECTION_MODEL, target.motion, target.digit);
+    this.fullFrames = options.pairModel ? [] : null;
+    if (options.keepLastMs !== undefined && !(options.keepLastMs > 0)) throw new Error(`keepLastMs: expected a positive number of milliseconds, got ${options.keepLastMs}`);
+    this.keepLastMs = options.keepLastMs ?? null;
   }
 
   push(frame: RecordedFrame): void {
@@ -72,9 +94,29 @@ export class CaptureRecorder {
     const t = Math.max(last?.t ?? 0, frame.t - this.startMs);
     this.frames.push(this.captureFrame(t, frame));
     if (this.fullFrames) {
-      if (frame.fullModel) this.pairedFrames++;
+      this.paired.push(frame.fullModel !== undefined);
       this.fullFrames.push(this.captureFrame(t, frame.fullModel ?? { score: 0, hand: null }));
     }
+    if (this.keepLastMs !== null) this.dropOlderThan(t - this.keepLastMs);
+  }
+
+  /** Drops frames before `fromMs`, in batches so a long recording does not copy its frames on every push. */
+  private dropOlderThan(fromMs: number): void {
+    let stale = 0;
+    while (stale < this.frames.length && this.frames[stale].t < fromMs) stale++;
+    if (stale < 256 && stale < this.frames.length / 4) return;
+    this.frames = this.frames.slice(stale);
+    if (this.fullFrames) this.fullFrames = this.fullFrames.slice(stale);
+    this.paired = this.paired.slice(stale);
+  }
+
+  /** The frames a capture finished now holds: within `keepLastMs` of the last, times from 0. */
+  private keptFrames(frames: CaptureFrame[]): CaptureFrame[] {
+    if (this.keepLastMs === null || frames.length === 0) return [...frames];
+    const last = this.frames[this.frames.length - 1].t;
+    const from = this.frames.findIndex((f) => f.t >= last - this.keepLastMs!);
+    const base = this.frames[from].t;
+    return frames.slice(from).map((f) => ({ ...f, t: f.t - base }));
   }
 
   private captureFrame(t: number, frame: Omit<RecordedFrame, "t">): CaptureFrame {
@@ -91,29 +133,34 @@ export class CaptureRecorder {
     return out;
   }
 
-  /** With `pairModel`: how many of the recorded frames the second model read. */
+  /** With `pairModel`: how many of the kept frames the second model read. */
   get pairedFrameCount(): number {
-    return this.pairedFrames;
+    const kept = this.keptFrames(this.frames).length;
+    return this.paired.slice(this.paired.length - kept).filter(Boolean).length;
   }
 
+  /** Frames a capture finished now would hold. */
   get frameCount(): number {
-    return this.frames.length;
+    return this.keptFrames(this.frames).length;
   }
 
   get durationMs(): number {
-    return this.frames.length ? this.frames[this.frames.length - 1].t : 0;
+    const kept = this.keptFrames(this.frames);
+    return kept.length ? kept[kept.length - 1].t : 0;
   }
 
   /** The capture file, or null when no frame was recorded. */
   finish(): CaptureFile | null {
     if (this.frames.length === 0) return null;
     const { oneFinger, ...target } = this.target;
-    const capture: CaptureFile = { format: CAPTURE_FORMAT, version: CAPTURE_VERSION, ...target, ...(oneFinger ? { oneFinger: true } : {}), frames: [...this.frames] };
+    const frames = this.keptFrames(this.frames);
+    const capture: CaptureFile = { format: CAPTURE_FORMAT, version: CAPTURE_VERSION, ...target, ...(oneFinger ? { oneFinger: true } : {}), frames };
     if (this.gravity && this.gravity.every(Number.isFinite) && Math.hypot(...this.gravity) > 1e-9) capture.gravity = [this.gravity[0], this.gravity[1], this.gravity[2]];
     if (this.keepsImage && this.imageAspect !== null) capture.imageAspect = this.imageAspect;
     const full = this.fullFrames;
-    if (full && this.pairedFrames >= MIN_PAIRED_SHARE * this.frames.length && full.some((f) => f.hand)) {
-      const both: CaptureFile = { ...capture, fullModel: { frames: [...full] } };
+    const fullKept = full ? this.keptFrames(full) : null;
+    if (fullKept && this.pairedFrameCount >= MIN_PAIRED_SHARE * frames.length && fullKept.some((f) => f.hand)) {
+      const both: CaptureFile = { ...capture, fullModel: { frames: fullKept } };
       // A long attempt's second set of frames could push the upload past the server's limit: then one model's stands.
       if (JSON.stringify(both).length <= FULL_MODEL_BUDGET_BYTES) return both;
     }

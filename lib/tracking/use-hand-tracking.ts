@@ -43,6 +43,8 @@ export interface HandTrackingOptions {
    * (by about a third on a laptop). Default "off".
    */
   bothModels?: "off" | "ready" | "on";
+  /** A recording keeps only its last this-many milliseconds (lib/tracking/capture-recorder.ts `keepLastMs`). */
+  keepLastMs?: number;
 }
 
 export interface HandTrackingState {
@@ -117,7 +119,7 @@ function cameraError(error: unknown): string {
 }
 
 export function useHandTracking(options: HandTrackingOptions) {
-  const { motion, side, digit, condition, oneFinger = false, videoRef, enabled, facing = "user", handModel = "lite", displayMirrored = true, bothModels = "off" } = options;
+  const { motion, side, digit, condition, oneFinger = false, videoRef, enabled, facing = "user", handModel = "lite", displayMirrored = true, bothModels = "off", keepLastMs } = options;
   const [state, setState] = useState<HandTrackingState>(INITIAL);
 
   const pipelineRef = useRef<LivePipeline | null>(null);
@@ -309,6 +311,10 @@ export function useHandTracking(options: HandTrackingOptions) {
   const running = state.status === "running" && state.thread === "worker";
   // Read when recording starts (a visit starts it from a message handler, right after choosing the test).
   const recordPairRef = useRef(false);
+  const keepLastMsRef = useRef(keepLastMs);
+  useLayoutEffect(() => {
+    keepLastMsRef.current = keepLastMs;
+  }, [keepLastMs]);
   useLayoutEffect(() => {
     recordPairRef.current = running && wantsPair;
   }, [running, wantsPair]);
@@ -344,7 +350,7 @@ export function useHandTracking(options: HandTrackingOptions) {
     const t = targetRef.current;
     // With both models wanted, the recorder keeps the second model's frames where it read enough of them: pairing may
     // begin a moment after recording does, while the second model loads (MIN_PAIRED_SHARE).
-    recorderRef.current = new CaptureRecorder(t, freshGravity(), false, recordPairRef.current || (trackerRef.current?.paired ?? false));
+    recorderRef.current = new CaptureRecorder(t, { gravity: freshGravity(), pairModel: recordPairRef.current || (trackerRef.current?.paired ?? false), keepLastMs: keepLastMsRef.current });
     // The preview's last reading (and its repetition count) must not leak into the attempt's first render.
     setState((s) => ({ ...s, recording: true, recordedFrames: 0, update: null }));
   }, [newPipeline]);

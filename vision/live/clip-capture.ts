@@ -60,7 +60,7 @@ export function clipStartNeutral(frames: readonly Pick<TrackedFrame, "t" | "scor
  * (the server takes it again from them). `neutral` is null for finger motions. `clipLabel` names the clip in refusals.
  */
 export function clipCapture(target: CaptureTarget, frames: readonly TrackedFrame[], clipLabel: string): { capture: CaptureFile; neutral: ClipNeutral | null } {
-  const recorder = new CaptureRecorder(target, null, true);
+  const recorder = new CaptureRecorder(target, { keepImage: true });
   for (const frame of frames) recorder.push(frame);
   const capture = recorder.finish();
   if (!capture) throw new ClipCaptureError(`CLIP: ${clipLabel} has no frames the tracker could read`);
