@@ -8,7 +8,10 @@ import {
   fingerRows,
   parseMinConfidence,
   parseSensorNoise,
+  parseTrackFps,
   planClips,
+  trackedRateSuffix,
+  truthAtTimes,
   statedCoverage,
   peakCoverage,
   peakErrorP90,
@@ -255,5 +258,22 @@ describe("--sensor-noise (tracking grainy copies of the clips)", () => {
     expect(parseSensorNoise(undefined)).toBeUndefined();
     expect(parseSensorNoise("6")).toBe(6);
     for (const bad of ["0", "101", "2.5", "", "x"]) expect(() => parseSensorNoise(bad)).toThrow(`--sensor-noise: expected a whole number from 1 to 100; got '${bad}'`);
+  });
+});
+
+describe("clips tracked at a lower rate than their own", () => {
+  it("takes a whole divisor of 30 below it, keeps it apart in its own files, and reads the truth at the tracked frames' times", () => {
+    expect(parseTrackFps(undefined)).toBeNull();
+    expect(parseTrackFps("15")).toBe(15);
+    expect(parseTrackFps("10")).toBe(10);
+    for (const bad of ["20", "30", "0", "7.5", ""]) expect(() => parseTrackFps(bad)).toThrow(/--track-fps: expected a whole divisor of 30/);
+    expect(trackedRateSuffix(null)).toBe("");
+    expect(trackedRateSuffix(15)).toBe("-f15");
+    // Frames tracked at 15 frames a second take the truth at their own times; a time with no frame is refused.
+    const timed = { frameCount: 7, frames: Array.from({ length: 7 }, (_, i) => ({ index: i, timeMs: (i * 1000) / 30 })) } as never as Parameters<typeof truthAtTimes>[0];
+    const picked = truthAtTimes(timed, [{ t: 0 }, { t: 1000 / 15 }, { t: 2000 / 15 }]);
+    expect((picked.frames as unknown as { index: number }[]).map((f) => f.index)).toEqual([0, 2, 4]);
+    expect(picked.frameCount).toBe(3);
+    expect(() => truthAtTimes(timed, [{ t: 20 }])).toThrow(/no truth frame at 20.0 ms/);
   });
 });

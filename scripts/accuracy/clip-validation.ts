@@ -23,6 +23,9 @@
  * `--one-finger` moves one finger only (index, middle, ring, little in turn), its neighbours straight, and scores that
  * finger: clips named `<motion>-alone-...` (what a finger tested on its own reads); write those with `--out`.
  *
+ * `--track-fps 15` tracks the clips stepping through every second frame, as a camera at 15 frames a second would give
+ * them (saved apart, `<clip>-<model>-f15.tracked.json`; truth taken at the tracked frames' times); write with `--out`.
+ *
  * Each seed's section ends with the engine's finger readings split by finger ("By finger"): a view may see some fingers
  * well and hide others, and derive-uncertainty.ts gives each finger its own interval where every seed was split.
  *
@@ -226,6 +229,48 @@ export function readSavedTracking(file: string): TrackedFrame[] {
   return (JSON.parse(readFileSync(file, "utf8")) as TrackedFrame[]).map((frame) => (frame.imageAspect ? frame : { ...frame, imageAspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX }));
 }
 
+/**
+ * Which of a clip's frames a camera at `fps` would have given, from a clip at `clipFps`: frame i is kept where
+ * floor(i × fps / clipFps) steps up, so 20 of 30 keeps two frames in three, evenly spread. Every frame at or above the clip's rate.
+ */
+export function framesAtRate(count: number, fps: number, clipFps: number): number[] {
+  if (!(fps > 0)) throw new Error(`fps: expected a positive number, got ${fps}`);
+  const ratio = Math.min(1, fps / clipFps);
+  const kept: number[] = [];
+  for (let i = 0; i < count; i++) if (Math.floor(i * ratio) !== Math.floor((i - 1) * ratio)) kept.push(i);
+  return kept;
+}
+
+/**
+ * The clip's truth at the times of frames tracked at a lower rate (`--track-fps`): for each tracked frame the truth
+ * frame at the same time (within a millisecond). The stepper stops before the clip's last frame when that falls between
+ * its steps, so the count follows the tracked frames, not framesAtRate.
+ */
+export function truthAtTimes(truth: ClipTruthFile, frames: readonly Pick<TrackedFrame, "t">[]): ClipTruthFile {
+  const at = frames.map((frame) => {
+    const i = Math.round(frame.t / (1000 / CLIP_FPS));
+    const match = truth.frames[i];
+    if (!match || Math.abs(match.timeMs - frame.t) > 1) throw new Error(`no truth frame at ${frame.t.toFixed(1)} ms (the clip has ${truth.frameCount} frames)`);
+    return match;
+  });
+  return { ...truth, frameCount: at.length, frames: at };
+}
+
+/** Saved tracking's file suffix for a clip tracked at `fps` frames a second instead of its own (`--track-fps`). */
+export function trackedRateSuffix(fps: number | null): string {
+  return fps === null ? "" : `-f${fps}`;
+}
+
+/** `--track-fps 15`: a whole divisor of the clips' own rate below it, so the tracker sees evenly spaced frames. */
+export function parseTrackFps(raw: string | undefined): number | null {
+  if (raw === undefined) return null;
+  const value = Number(raw);
+  if (raw.trim() === "" || !Number.isInteger(value) || value < 1 || value >= CLIP_FPS || CLIP_FPS % value !== 0) {
+    throw new Error(`--track-fps: expected a whole divisor of ${CLIP_FPS} below it (15, 10, 6, 5, 3, 2 or 1); got '${raw}'`);
+  }
+  return value;
+}
+
 async function trackClips(
   plans: readonly ClipPlan[],
   folder: string,
@@ -233,12 +278,13 @@ async function trackClips(
   reuse: boolean,
   minConfidence?: number,
   sensorNoise?: number,
+  trackFps: number | null = null,
 ): Promise<Map<string, TrackedFrame[]>> {
   const tracked = new Map<string, TrackedFrame[]>();
-  // Tracking with other confidence floors than the library's, or of noisier copies, is kept apart from the rest.
+  // Tracking with other confidence floors than the library's, of noisier copies, or at a lower rate is kept apart.
   const floors = minConfidence === undefined ? "" : `-c${Math.round(minConfidence * 100)}`;
   const noise = sensorNoise === undefined ? "" : `-n${sensorNoise}`;
-  const savedOf = (plan: ClipPlan) => path.join(folder, `${plan.name}-${model}${floors}${noise}.tracked.json`);
+  const savedOf = (plan: ClipPlan) => path.join(folder, `${plan.name}-${model}${floors}${noise}${trackedRateSuffix(trackFps)}.tracked.json`);
   const clipOf = (plan: ClipPlan) => path.join(folder, `${plan.name}${noise}.webm`);
   for (const plan of plans) if (reuse && existsSync(savedOf(plan))) tracked.set(plan.name, readSavedTracking(savedOf(plan)));
   const todo = plans.filter((plan) => !tracked.has(plan.name));
@@ -255,7 +301,7 @@ async function trackClips(
       const page = await openHarnessPage(browser, server, {
         clip: server.fileUrl(clipOf(plan)),
         step: true,
-        fps: CLIP_FPS,
+        fps: trackFps ?? CLIP_FPS,
         model,
         minConfidence,
       });
@@ -645,9 +691,13 @@ async function main(): Promise<void> {
       "min-confidence": { type: "string" },
       "sensor-noise": { type: "string" },
       "one-finger": { type: "boolean" },
+      "track-fps": { type: "string" },
     },
   });
   const minConfidence = parseMinConfidence(values["min-confidence"]);
+  // --track-fps 15: the tracker steps through every second frame, as a camera at 15 frames a second would give them.
+  const trackFps = parseTrackFps(values["track-fps"]);
+  if (trackFps !== null && !values.out) throw new Error("--track-fps: expected --out FILE (the committed reports are read at the clips' own rate)");
   const sensorNoise = parseSensorNoise(values["sensor-noise"]);
   // --view palm,back,down: the clips in those views instead of the recommended one (the whole-hand-shape views).
   const views = values.view ? (values.view.split(",") as CameraView[]) : undefined;
@@ -673,7 +723,7 @@ async function main(): Promise<void> {
     const rows: ClipRow[] = [];
     const byFinger: FingerRow[] = [];
     for (const model of models) {
-      const tracked = await trackClips(plans, folder, model, reuse, minConfidence, sensorNoise);
+      const tracked = await trackClips(plans, folder, model, reuse, minConfidence, sensorNoise, trackFps);
       for (const group of ["mcp.flexion", "pip.flexion", "dip.flexion", "wrist.flexion"] as const) {
         for (const view of [...new Set(plans.map((plan) => plan.view))]) {
           const groupPlans = plans.filter((plan) => plan.motion.bar === group && plan.view === view);
@@ -681,7 +731,8 @@ async function main(): Promise<void> {
           const label = group === "wrist.flexion" ? "wrist flexion (+) / extension (-)" : groupPlans[0].motion.label;
           for (const variant of CLIP_VARIANTS) {
             const readings = groupPlans.flatMap((plan) => {
-              const truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
+              const whole = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
+              const truth = trackFps === null ? whole : truthAtTimes(whole, tracked.get(plan.name)!);
               return plan.motion.digits.map((digit) => readClip(plan, model, digit, tracked.get(plan.name)!, truth, variant));
             });
             if (values["per-clip"] && variant === "engine") perClip.push(...readings.map(perClipLine));

@@ -25,7 +25,22 @@ import type { Condition, MotionId } from "@/lib/motions/catalog";
 import type { TrackedFrame } from "@/vision/live/types";
 import { ClipCaptureError, clipCapture, withFullModelFrames } from "@/vision/live/clip-capture";
 import { analyzeCaptureFile, PEAK_DISAGREEMENT_DEG } from "@/vision/model-pair";
-import { CLIP_FPS, frameErrorP90, peakCoverage, peakErrorP90, planClips, readClip, readSavedTracking, statedCoverage, type ClipPlan, type ClipReading } from "./clip-validation";
+import {
+  CLIP_FPS,
+  framesAtRate,
+  frameErrorP90,
+  parseTrackFps,
+  peakCoverage,
+  peakErrorP90,
+  planClips,
+  readClip,
+  readSavedTracking,
+  statedCoverage,
+  trackedRateSuffix,
+  truthAtTimes,
+  type ClipPlan,
+  type ClipReading,
+} from "./clip-validation";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
 import { parseCount } from "./run-accuracy";
 import { ACCEPTANCE, meetsAcceptance, type AcceptanceKey } from "./acceptance";
@@ -104,26 +119,21 @@ type ClipTruthFile = Parameters<typeof readClip>[4];
 
 type Reading3 = [ClipReading, ClipReading, Scored & { disagree: boolean }];
 
-/**
- * Which of a clip's frames a camera at `fps` would have given, from a clip at `clipFps`: frame i is kept where
- * floor(i × fps / clipFps) steps up, so 20 of 30 keeps two frames in three, evenly spread. Every frame at or above the clip's rate.
- */
-export function framesAtRate(count: number, fps: number, clipFps: number): number[] {
-  if (!(fps > 0)) throw new Error(`fps: expected a positive number, got ${fps}`);
-  const ratio = Math.min(1, fps / clipFps);
-  const kept: number[] = [];
-  for (let i = 0; i < count; i++) if (Math.floor(i * ratio) !== Math.floor((i - 1) * ratio)) kept.push(i);
-  return kept;
-}
+export { framesAtRate };
 
-/** Both models' engine readings of every saved clip of `plans` (clips tracked with one model only are skipped); `fps` as framesAtRate. */
-export function readBoth(folder: string, plans: readonly ClipPlan[], fps: number | null = null): Reading3[] {
+/**
+ * Both models' engine readings of every saved clip of `plans` (clips tracked with one model only are skipped). `fps`:
+ * only the frames a camera at that rate would have given (framesAtRate); `trackedFps`: the tracking saved at that rate
+ * (`clip-validation.ts --track-fps`).
+ */
+export function readBoth(folder: string, plans: readonly ClipPlan[], fps: number | null = null, trackedFps: number | null = null): Reading3[] {
   const pairs: Reading3[] = [];
   for (const plan of plans) {
-    const [liteFile, fullFile] = ["lite", "full"].map((model) => path.join(folder, `${plan.name}-${model}.tracked.json`));
+    const [liteFile, fullFile] = ["lite", "full"].map((model) => path.join(folder, `${plan.name}-${model}${trackedRateSuffix(trackedFps)}.tracked.json`));
     if (!existsSync(liteFile) || !existsSync(fullFile)) continue;
     let [lite, full] = [readSavedTracking(liteFile), readSavedTracking(fullFile)];
-    let truth = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
+    const whole = JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile;
+    let truth = trackedFps === null ? whole : truthAtTimes(whole, lite);
     if (fps !== null) {
       const kept = framesAtRate(truth.frameCount, fps, CLIP_FPS);
       [lite, full] = [kept.map((i) => lite[i]), kept.map((i) => full[i])];
@@ -157,6 +167,7 @@ async function main(): Promise<void> {
       clips: { type: "string" },
       "per-reading": { type: "boolean" },
       fps: { type: "string" },
+      "tracked-fps": { type: "string" },
       out: { type: "string" },
     },
   });
@@ -167,8 +178,10 @@ async function main(): Promise<void> {
   if (condition !== "against_gravity" && condition !== "gravity_minimized") throw new Error(`--condition: expected against_gravity or gravity_minimized; got '${condition}'`);
   const clips = parseCount("clips", values.clips, 10);
   const fps = values.fps === undefined ? null : parseCount("fps", values.fps, CLIP_FPS);
+  const trackedFps = parseTrackFps(values["tracked-fps"]);
+  if (fps !== null && trackedFps !== null) throw new Error("--fps and --tracked-fps: expected one of them");
   const lines: string[] = [];
-  lines.push(`## Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}${fps === null ? "" : `, read at ${fps} frames a second`}\n`);
+  lines.push(`## Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}${fps === null ? "" : `, read at ${fps} frames a second`}${trackedFps === null ? "" : `, tracked at ${trackedFps} frames a second`}\n`);
   lines.push("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peak P90 ° | frame P90 ° | peak within stated ± | models disagree (> " + PEAK_DISAGREEMENT_DEG + "°) | issue 8's bars |");
   lines.push("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- |");
   const perReading: string[] = [];
@@ -186,7 +199,7 @@ async function main(): Promise<void> {
     };
     for (const seed of seeds) {
       const folder = path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
-      const pairs = readBoth(folder, planClips(seed, clips, condition, [motion]), fps);
+      const pairs = readBoth(folder, planClips(seed, clips, condition, [motion]), fps, trackedFps);
       if (!pairs.length) continue;
       all.push(...pairs);
       rows(String(seed), pairs);
