@@ -17,6 +17,11 @@ export const CAPTURE_BODY_LIMIT_BYTES = 8 * 1024 * 1024;
 /** The most a capture with both hand models' frames may weigh: room under the limit for the request's other fields. */
 export const FULL_MODEL_BUDGET_BYTES = CAPTURE_BODY_LIMIT_BYTES - 256 * 1024;
 
+/** Whether a capture carrying both models' frames stays under FULL_MODEL_BUDGET_BYTES (else one model's is sent). */
+export function fitsWithBothModels(capture: CaptureFile): boolean {
+  return JSON.stringify(capture).length <= FULL_MODEL_BUDGET_BYTES;
+}
+
 // Chosen by the recording browser (crypto.randomUUID or similar); letters, digits, - and _ only so it is safe in logs.
 const CAPTURE_UID = /^[A-Za-z0-9_-]{16,64}$/;
 

@@ -3,7 +3,7 @@
  * Frame times restart at 0; the tracker's landmarks are already in the unmirrored camera axes the format asks for.
  */
 import { CAPTURE_FORMAT, CAPTURE_VERSION, IMAGE_ASPECT_RANGE, type CaptureFile, type CaptureFrame } from "@/lib/capture/schema";
-import { FULL_MODEL_BUDGET_BYTES } from "@/lib/captures/upload";
+import { fitsWithBothModels } from "@/lib/captures/upload";
 import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
 import type { TrackedFrame } from "@/vision/live/types";
 import { CORRECTION_MODEL, readsPicturePoints } from "@/vision/correction";
@@ -67,8 +67,10 @@ export class CaptureRecorder {
   private readonly keepsImage: boolean;
   /** With `pairModel`: the full model's frames, one for each of `frames`, and how many it actually read. */
   private fullFrames: CaptureFrame[] | null;
-  /** Per kept frame, whether the second model read it. */
+  /** Per frame, whether the second model read it. */
   private paired: boolean[] = [];
+  /** With `keepLastMs`: the first frame still inside the window; the ones before it are dropped in batches. */
+  private head = 0;
   private readonly gravity: Vec3 | null;
   private readonly keepLastMs: number | null;
 
@@ -100,23 +102,25 @@ export class CaptureRecorder {
     if (this.keepLastMs !== null) this.dropOlderThan(t - this.keepLastMs);
   }
 
-  /** Drops frames before `fromMs`, in batches so a long recording does not copy its frames on every push. */
+  /**
+   * Moves the window's start past frames before `fromMs` (each frame is passed once), and drops the frames behind it
+   * in batches, so a long recording neither scans nor copies its frames on every push.
+   */
   private dropOlderThan(fromMs: number): void {
-    let stale = 0;
-    while (stale < this.frames.length && this.frames[stale].t < fromMs) stale++;
-    if (stale < 256 && stale < this.frames.length / 4) return;
-    this.frames = this.frames.slice(stale);
-    if (this.fullFrames) this.fullFrames = this.fullFrames.slice(stale);
-    this.paired = this.paired.slice(stale);
+    while (this.head < this.frames.length - 1 && this.frames[this.head].t < fromMs) this.head++;
+    if (this.head < 256 || this.head < this.frames.length / 4) return;
+    this.frames = this.frames.slice(this.head);
+    if (this.fullFrames) this.fullFrames = this.fullFrames.slice(this.head);
+    this.paired = this.paired.slice(this.head);
+    this.head = 0;
   }
 
-  /** The frames a capture finished now holds: within `keepLastMs` of the last, times from 0. */
+  /** The frames a capture finished now holds: from the window's start, times from 0 there. */
   private keptFrames(frames: CaptureFrame[]): CaptureFrame[] {
-    if (this.keepLastMs === null || frames.length === 0) return [...frames];
-    const last = this.frames[this.frames.length - 1].t;
-    const from = this.frames.findIndex((f) => f.t >= last - this.keepLastMs!);
-    const base = this.frames[from].t;
-    return frames.slice(from).map((f) => ({ ...f, t: f.t - base }));
+    // After a batch is dropped the window starts at index 0 but not at time 0.
+    const base = this.frames[this.head]?.t ?? 0;
+    if (base === 0) return frames.slice(this.head);
+    return frames.slice(this.head).map((f) => ({ ...f, t: f.t - base }));
   }
 
   private captureFrame(t: number, frame: Omit<RecordedFrame, "t">): CaptureFrame {
@@ -135,18 +139,16 @@ export class CaptureRecorder {
 
   /** With `pairModel`: how many of the kept frames the second model read. */
   get pairedFrameCount(): number {
-    const kept = this.keptFrames(this.frames).length;
-    return this.paired.slice(this.paired.length - kept).filter(Boolean).length;
+    return this.paired.slice(this.head).filter(Boolean).length;
   }
 
-  /** Frames a capture finished now would hold. */
+  /** Frames a capture finished now would hold (read on every frame by the live page: no copying). */
   get frameCount(): number {
-    return this.keptFrames(this.frames).length;
+    return this.frames.length - this.head;
   }
 
   get durationMs(): number {
-    const kept = this.keptFrames(this.frames);
-    return kept.length ? kept[kept.length - 1].t : 0;
+    return this.frames.length ? this.frames[this.frames.length - 1].t - this.frames[this.head].t : 0;
   }
 
   /** The capture file, or null when no frame was recorded. */
@@ -162,7 +164,7 @@ export class CaptureRecorder {
     if (fullKept && this.pairedFrameCount >= MIN_PAIRED_SHARE * frames.length && fullKept.some((f) => f.hand)) {
       const both: CaptureFile = { ...capture, fullModel: { frames: fullKept } };
       // A long attempt's second set of frames could push the upload past the server's limit: then one model's stands.
-      if (JSON.stringify(both).length <= FULL_MODEL_BUDGET_BYTES) return both;
+      if (fitsWithBothModels(both)) return both;
     }
     return capture;
   }

@@ -350,7 +350,7 @@ export function useHandTracking(options: HandTrackingOptions) {
     const t = targetRef.current;
     // With both models wanted, the recorder keeps the second model's frames where it read enough of them: pairing may
     // begin a moment after recording does, while the second model loads (MIN_PAIRED_SHARE).
-    recorderRef.current = new CaptureRecorder(t, { gravity: freshGravity(), pairModel: recordPairRef.current || (trackerRef.current?.paired ?? false), keepLastMs: keepLastMsRef.current });
+    recorderRef.current = new CaptureRecorder(t, { gravity: freshGravity(), pairModel: recordPairRef.current, keepLastMs: keepLastMsRef.current });
     // The preview's last reading (and its repetition count) must not leak into the attempt's first render.
     setState((s) => ({ ...s, recording: true, recordedFrames: 0, update: null }));
   }, [newPipeline]);

@@ -6,6 +6,7 @@ import {
   CLIP_MOTIONS,
   clipReport,
   fingerRows,
+  framesAtRate,
   parseMinConfidence,
   parseSensorNoise,
   parseTrackFps,
@@ -275,5 +276,17 @@ describe("clips tracked at a lower rate than their own", () => {
     expect((picked.frames as unknown as { index: number }[]).map((f) => f.index)).toEqual([0, 2, 4]);
     expect(picked.frameCount).toBe(3);
     expect(() => truthAtTimes(timed, [{ t: 20 }])).toThrow(/no truth frame at 20.0 ms/);
+  });
+});
+
+describe("frames a slower camera would have given", () => {
+  it("keeps frames evenly spread at the asked rate, and every frame at or above the clip's own", () => {
+    expect(framesAtRate(9, 20, 30)).toEqual([0, 2, 3, 5, 6, 8]);
+    expect(framesAtRate(8, 15, 30)).toEqual([0, 2, 4, 6]);
+    expect(framesAtRate(5, 30, 30)).toEqual([0, 1, 2, 3, 4]);
+    expect(framesAtRate(5, 60, 30)).toEqual([0, 1, 2, 3, 4]);
+    // Over a second of a 30 fps clip, 20 frames.
+    expect(framesAtRate(30, 20, 30)).toHaveLength(20);
+    expect(() => framesAtRate(5, 0, 30)).toThrow(/fps: expected a positive number/);
   });
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { agreementRow, framesAtRate } from "./model-agreement";
+import { agreementRow } from "./model-agreement";
 
 describe("a reading's row", () => {
   it("reports detection, MAE, the share inside the stated interval and the worst peak error", () => {
@@ -24,17 +24,5 @@ describe("a reading's row", () => {
     expect(row.worstPeakErrorDeg).toBe(-28);
     // Peak errors -28 (outside ± 10) and +4 (inside).
     expect(row.peakWithin).toBeCloseTo(0.5, 12);
-  });
-});
-
-describe("frames a slower camera would have given", () => {
-  it("keeps frames evenly spread at the asked rate, and every frame at or above the clip's own", () => {
-    expect(framesAtRate(9, 20, 30)).toEqual([0, 2, 3, 5, 6, 8]);
-    expect(framesAtRate(8, 15, 30)).toEqual([0, 2, 4, 6]);
-    expect(framesAtRate(5, 30, 30)).toEqual([0, 1, 2, 3, 4]);
-    expect(framesAtRate(5, 60, 30)).toEqual([0, 1, 2, 3, 4]);
-    // Over a second of a 30 fps clip, 20 frames.
-    expect(framesAtRate(30, 20, 30)).toHaveLength(20);
-    expect(() => framesAtRate(5, 0, 30)).toThrow(/fps: expected a positive number/);
   });
 });

@@ -119,8 +119,6 @@ type ClipTruthFile = Parameters<typeof readClip>[4];
 
 type Reading3 = [ClipReading, ClipReading, Scored & { disagree: boolean }];
 
-export { framesAtRate };
-
 /**
  * Both models' engine readings of every saved clip of `plans` (clips tracked with one model only are skipped). `fps`:
  * only the frames a camera at that rate would have given (framesAtRate); `trackedFps`: the tracking saved at that rate

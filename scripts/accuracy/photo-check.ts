@@ -77,6 +77,15 @@ export interface PhotoReading {
   correctedShare: number;
 }
 
+/** The median over frames of the four fingers' mean, frames where any finger has no reading left out. */
+function medianOfFingerMeans(perFinger: readonly (number | null)[][]): number {
+  const means = perFinger[0].flatMap((_, i) => {
+    const values = perFinger.map((series) => series[i]);
+    return values.every((v) => v !== null) ? [values.reduce((a, b) => a! + b!, 0)! / values.length] : [];
+  });
+  return median(means);
+}
+
 /** Every frame of one photo through one pipeline per finger and motion, as the app would read a capture of it. */
 export function readPhoto(frames: readonly TrackedFrame[], photo: PhotoId, model: HandModelVariant, correction: "auto" | "off"): PhotoReading {
   const side = photo.startsWith("left") ? "left" : "right";
@@ -95,11 +104,7 @@ export function readPhoto(frames: readonly TrackedFrame[], photo: PhotoId, model
         return update.angleDeg;
       });
     });
-    const means = frames.flatMap((_, i) => {
-      const values = perFinger.map((series) => series[i]);
-      return values.every((v) => v !== null) ? [values.reduce((a, b) => a! + b!, 0)! / values.length] : [];
-    });
-    return median(means);
+    return medianOfFingerMeans(perFinger);
   };
   const mcpDeg = jointMedian("mcp.flexion");
   const pipDeg = jointMedian("pip.flexion");
@@ -124,11 +129,7 @@ export function readPhotoPair(lite: readonly TrackedFrame[], full: readonly Trac
       if (!("frameReadings" in analysis)) throw new Error(`${photo}: expected a reading of both models`);
       return analysis.frameReadings.map((r) => r.angleDeg);
     });
-    const means = lite.flatMap((_, i) => {
-      const values = perFinger.map((series) => series[i]);
-      return values.every((v) => v !== null) ? [values.reduce((a, b) => a! + b!, 0)! / values.length] : [];
-    });
-    return median(means);
+    return medianOfFingerMeans(perFinger);
   };
   return { photo, model: "both", correction: "auto", mcpDeg: jointMedian("mcp.flexion"), pipDeg: jointMedian("pip.flexion"), dipDeg: jointMedian("dip.flexion"), correctedShare: Number.NaN };
 }

@@ -4,7 +4,7 @@
  * takes through the tracking harness page. Browser-only.
  */
 import type { CaptureFile } from "@/lib/capture/schema";
-import { FULL_MODEL_BUDGET_BYTES } from "@/lib/captures/upload";
+import { fitsWithBothModels } from "@/lib/captures/upload";
 import type { CaptureTarget } from "@/lib/tracking/capture-recorder";
 import { clipCapture, otherHandSeen, withFullModelFrames, type ClipNeutral } from "./clip-capture";
 import { loadClip, stepThroughClip, type SteppedClip } from "./clip-stepper";
@@ -70,7 +70,7 @@ export async function analyzeClipInBrowser(video: HTMLVideoElement, src: string,
     });
     const both = withFullModelFrames(capture, target, second.frames, "the clip");
     // A long clip's second set of frames could push the upload past the server's limit: then the first model's stands.
-    return both === capture || JSON.stringify(both).length > FULL_MODEL_BUDGET_BYTES ? alone : { ...alone, capture: both };
+    return both === capture || !fitsWithBothModels(both) ? alone : { ...alone, capture: both };
   } finally {
     (full ?? (await fullReady))?.close();
   }
