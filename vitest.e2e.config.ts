@@ -7,6 +7,8 @@ export default defineConfig({
   resolve: { alias: { "@": path.resolve(__dirname) } },
   test: {
     include: ["tests/e2e/**/*.test.ts"],
+    // Tests of the support code need no app or browser; they run with the unit tests.
+    exclude: ["tests/e2e/support/**"],
     environment: "node",
     pool: "forks",
     fileParallelism: false,

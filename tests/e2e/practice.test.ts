@@ -17,8 +17,11 @@ import { buildModels } from "../../scripts/models/build";
 import { startLocalStack, type LocalStack } from "../../scripts/lib/local-stack";
 import { signedInContext, startTestApp, TEST_PORTS, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
+import { StepClock } from "./support/steps";
 
 const REPO_ROOT = path.resolve(__dirname, "..", "..");
+/** The restart test's limit; its steps' deadlines add up to less. */
+const RESTART_TEST_MS = 420_000;
 
 let app: TestApp;
 /** The server started again on the same database by the fault test; stopped instead of `app` when set. */
@@ -165,37 +168,52 @@ describe("home practice", () => {
       .insert(homeProgramItems)
       .values({ clinicId: app.seed.clinicId!, clientId: dorianId, motion: "pip.flexion", side: "right", digit: "middle", condition: "against_gravity", repetitions: 3, sessionsPerPeriod: 2, period: "day", startDate: today, endDate: today })
       .returning();
-    const client = await signedIn("client@kinarc.test");
-    await client.goto(`${app.appUrl}/practice/check?item=${item.id}`);
-    await client.getByRole("button", { name: "I understand, continue" }).click();
-    await client.getByRole("button", { name: "Turn on the camera" }).click();
-    const recordOnce = async (whileRecording?: () => Promise<void>) => {
-      await client.waitForFunction(
-        () => {
-          const button = [...document.querySelectorAll("button")].find((b) => b.textContent?.trim() === "Start");
-          return button && !button.disabled;
-        },
-        null,
-        { timeout: 60_000, polling: 100 },
+    // Each wait runs as a named step with its own deadline, inside the test's limit: a hang names the step it was in.
+    const steps = new StepClock(RESTART_TEST_MS - 10_000);
+    const client = await steps.run("sign in and open the self-check", 40_000, async () => {
+      const page = await signedIn("client@kinarc.test");
+      await page.goto(`${app.appUrl}/practice/check?item=${item.id}`);
+      await page.getByRole("button", { name: "I understand, continue" }).click();
+      await page.getByRole("button", { name: "Turn on the camera" }).click();
+      return page;
+    });
+    const startEnabled = (which: string) =>
+      steps.run(`${which}: Start can be pressed`, 45_000, () =>
+        client.waitForFunction(
+          () => {
+            const button = [...document.querySelectorAll("button")].find((b) => b.textContent?.trim() === "Start");
+            return button && !button.disabled;
+          },
+          null,
+          { timeout: 50_000, polling: 100 },
+        ),
       );
-      await client.getByRole("button", { name: "Start", exact: true }).click();
-      await client.waitForFunction(() => document.querySelector("[data-testid=self-check]")?.getAttribute("data-step") === "recording", null, { timeout: 15_000, polling: 100 });
-      await whileRecording?.();
-      await client.waitForFunction(() => document.querySelector("[data-testid=self-check]")?.getAttribute("data-step") === "summary", null, { timeout: 95_000, polling: 200 });
-    };
+    const record = (which: string, whileRecording?: () => Promise<void>) =>
+      steps.run(`${which}: recorded through to its summary`, 70_000, async () => {
+        await client.getByRole("button", { name: "Start", exact: true }).click();
+        await client.waitForFunction(() => document.querySelector("[data-testid=self-check]")?.getAttribute("data-step") === "recording", null, { timeout: 75_000, polling: 100 });
+        await whileRecording?.();
+        await client.waitForFunction(() => document.querySelector("[data-testid=self-check]")?.getAttribute("data-step") === "summary", null, { timeout: 75_000, polling: 200 });
+      });
     // First attempt of the sitting, saved while the server runs.
-    await recordOnce();
-    await client.waitForSelector("[data-testid=save-status][data-saved=yes]", { timeout: 20_000 });
+    await startEnabled("first attempt");
+    await record("first attempt");
+    await steps.run("first attempt: saved", 20_000, () => client.waitForSelector("[data-testid=save-status][data-saved=yes]", { timeout: 25_000 }));
     // Second attempt: the server goes down while the client is moving, and comes back on the same database.
     await client.getByRole("button", { name: "Try this one again" }).click();
-    await recordOnce(async () => {
+    await startEnabled("second attempt");
+    await record("second attempt, the server stopped while recording", async () => {
       await app.stop();
       appStopped = true;
     });
     expect(await client.getByTestId("save-status").getAttribute("data-saved")).toBe("no");
-    restarted = await startLocalStack({ ...TEST_PORTS, databaseUrl: app.databaseUrl, authSecret: app.env.AUTH_SECRET });
+    await steps.run("the server starts again on the same database", 40_000, async () => {
+      restarted = await startLocalStack({ ...TEST_PORTS, databaseUrl: app.databaseUrl, authSecret: app.env.AUTH_SECRET });
+    });
     // The page's outbox retries on its own timer (doubling from 2 s), with no help from the test.
-    await client.waitForSelector("[data-testid=save-status][data-saved=yes]", { timeout: 120_000 });
+    await steps.run("second attempt: resent by the outbox and saved", 60_000, () =>
+      client.waitForSelector("[data-testid=save-status][data-saved=yes]", { timeout: 65_000 }),
+    );
 
     const sessions = await db.select().from(practiceSessions).where(eq(practiceSessions.itemId, item.id));
     expect(sessions).toHaveLength(1);
@@ -203,5 +221,5 @@ describe("home practice", () => {
     expect(stored).toHaveLength(2);
     expect(new Set(stored.map((a) => a.captureUid)).size).toBe(2);
     expect(stored.every((a) => a.source === "practice")).toBe(true);
-  }, 300_000);
+  }, RESTART_TEST_MS);
 });
