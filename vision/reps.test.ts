@@ -73,6 +73,32 @@ describe("repetition segmentation", () => {
     }
   });
 
+  it("the resting angle follows slow drift over the same seconds at any frame rate, so drift starts no repetition", () => {
+    // Still for 1 s, then a slow creep of 1.5 deg/s for 8 s (a hand relaxing into flexion): no repetition at any rate.
+    // Per sample, the drift weight's time constant stretched from 3.3 s at 30 fps to 10 s at 10 fps, and the resting
+    // angle lagged the creep by more than the enter threshold.
+    const creep = (t: number) => (t < 1000 ? 0 : (1.5 * (t - 1000)) / 1000);
+    for (const fps of [30, 15, 10]) expect(feed(creep, 9000, new RepSegmenter(), fps).snapshot()).toHaveLength(0);
+  });
+
+  it("a client who settles lower just before the bend starts from where they settled, at any frame rate", () => {
+    // Resting at 10 deg for 2 s, settling to 0 over 0.2 s, still for 0.8 s, then a 60 deg trapezoid. The start angle
+    // comes from the last two thirds of a second of rest; a count of 20 samples reached back 2 s at 10 fps and read the
+    // start 7.2 deg, the arc 52.8 deg.
+    const settle = (t: number) => {
+      if (t < 2000) return 10;
+      if (t < 2200) return 10 * (1 - (t - 2000) / 200);
+      const x = t - 3000;
+      return x < 0 ? 0 : x < 500 ? (60 * x) / 500 : x < 1500 ? 60 : x < 2000 ? 60 * (1 - (x - 1500) / 500) : 0;
+    };
+    for (const fps of [30, 15, 10]) {
+      const reps = feed(settle, 7000, new RepSegmenter(), fps).snapshot();
+      expect(reps).toHaveLength(1);
+      expect(Math.abs(reps[0].startDeg)).toBeLessThan(1);
+      expect(reps[0].arcDeg).toBeCloseTo(60, 0);
+    }
+  });
+
   it("does not chatter: a signal wobbling around the enter threshold gives no repetition", () => {
     // 6 deg is the default enter threshold; +/- 2 deg of wobble around 5 deg must not cross in and out repeatedly.
     const reps = feed((t) => 5 + 2 * Math.sin(t / 50), 10_000).snapshot();

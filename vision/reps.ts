@@ -22,11 +22,17 @@ export interface RepParams {
   /** Samples within max(plateauBandDeg, plateauBandFraction x excursion) of the top form the hold plateau. */
   plateauBandDeg: number;
   plateauBandFraction: number;
-  /** How many of the latest resting samples give the start angle (their trimmed mean). */
+  /**
+   * How many of the latest resting samples give the start angle (their trimmed mean), at 30 frames a second; at a
+   * lower frame rate the same span of time (fewer samples, at least MIN_REST_WINDOW).
+   */
   restSamples: number;
-  /** How quickly the resting angle follows slow upward drift, per sample (exponential weight). */
+  /**
+   * How quickly the resting angle follows slow upward drift, per sample at 30 frames a second (exponential weight); at
+   * other frame rates the weight giving the same time constant.
+   */
   restDriftWeight: number;
-  /** How quickly it follows the angle settling lower, per sample. */
+  /** How quickly it follows the angle settling lower, per sample at 30 frames a second (likewise). */
   restSettleWeight: number;
 }
 
@@ -48,6 +54,10 @@ export const DEFAULT_REP_PARAMS: RepParams = {
 };
 
 const JITTER_SAMPLES = 45;
+/** The frame spacing the per-sample settings (`restSamples`, the rest weights) were set at: 30 frames a second. */
+const REFERENCE_GAP_MS = 1000 / 30;
+/** Fewest resting samples the start angle is taken from, however low the frame rate. */
+const MIN_REST_WINDOW = 5;
 /**
  * Resting samples needed before the first repetition may start: as many as the capture's frames in a third of a
  * second (10 at 30 fps), between 3 and 10. Counted from the frame rate, not fixed: 10 samples spanned a whole second
@@ -157,6 +167,7 @@ export class RepSegmenter {
   private lastRestRaw = Number.NaN;
   private readonly frameGaps: number[] = [];
   private lastFrameMs = Number.NaN;
+  private gapMsCache = Number.NaN;
   private candidateSinceMs = Number.NaN;
   private repStartMs = 0;
   private repStartDeg = 0;
@@ -209,7 +220,7 @@ export class RepSegmenter {
       if (!Number.isNaN(this.candidateSinceMs)) this.dropCandidate();
       // Follow the resting angle down quickly but up slowly: repetitions go up, and a slow start of one must not
       // lift the resting angle along with it.
-      const weight = smoothedDeg < this.restLevel ? p.restSettleWeight : p.restDriftWeight;
+      const weight = this.perFrame(smoothedDeg < this.restLevel ? p.restSettleWeight : p.restDriftWeight);
       this.restLevel += weight * (smoothedDeg - this.restLevel);
       this.lastSmoothed = smoothedDeg;
       this.remember(rawDeg);
@@ -235,14 +246,35 @@ export class RepSegmenter {
    * Optional: without it the rate is taken as 30 fps.
    */
   frame(tMs: number): void {
-    if (this.frameGaps.length < FRAME_GAPS_KEPT && tMs > this.lastFrameMs) this.frameGaps.push(tMs - this.lastFrameMs);
+    if (this.frameGaps.length < FRAME_GAPS_KEPT && tMs > this.lastFrameMs) {
+      this.frameGaps.push(tMs - this.lastFrameMs);
+      this.gapMsCache = Number.NaN;
+    }
     this.lastFrameMs = tMs;
+  }
+
+  /** The capture's median frame spacing so far (30 frames a second until `frame` has been called). */
+  private frameGapMs(): number {
+    if (this.frameGaps.length === 0) return REFERENCE_GAP_MS;
+    if (Number.isNaN(this.gapMsCache)) this.gapMsCache = median(this.frameGaps);
+    return this.gapMsCache;
   }
 
   private minRestSamples(): number {
     if (this.frameGaps.length === 0) return MIN_REST_SAMPLES.most;
-    const samples = Math.round(MIN_REST_MS / median(this.frameGaps));
+    const samples = Math.round(MIN_REST_MS / this.frameGapMs());
     return Math.min(MIN_REST_SAMPLES.most, Math.max(MIN_REST_SAMPLES.least, samples));
+  }
+
+  /**
+   * A weight set per sample at 30 frames a second, as the weight per sample at this capture's frame rate with the same
+   * time constant: 1 - (1 - w)^(gap / 33.3 ms). At 10 frames a second 0.01 becomes 0.030, so the resting angle follows
+   * drift over the same seconds instead of three times as many. From the frame rate, not each sample's own gap: a
+   * second with the hand lost must not let the first frames back pull the resting angle most of the way up.
+   */
+  private perFrame(weightAt30: number): number {
+    const ratio = this.frameGapMs() / REFERENCE_GAP_MS;
+    return ratio === 1 ? weightAt30 : 1 - Math.pow(1 - weightAt30, ratio);
   }
 
   /** The repetitions so far, with the one under way (if it has left rest) closed as incomplete; changes nothing. */
@@ -289,16 +321,18 @@ export class RepSegmenter {
   }
 
   /**
-   * The resting samples without the newest quarter: the smoother's lag lets the first frames of a rise in as resting
-   * ones, and those would read the start high.
+   * The latest resting samples (`restSamples`' span of time) without the newest quarter: the smoother's lag lets the
+   * first frames of a rise in as resting ones, and those would read the start high.
    */
   private settledRest(): number[] {
     const n = this.restRing.length;
     const ordered: number[] = [];
     // The ring's oldest entry sits at restRingNext once it is full.
     for (let i = 0; i < n; i++) ordered.push(this.restRing[(this.restRingNext - n + i + n * 2) % Math.max(n, 1)]);
-    const keep = n - Math.floor(n / 4);
-    return ordered.slice(0, Math.max(1, keep));
+    const window = Math.round((this.p.restSamples * REFERENCE_GAP_MS) / this.frameGapMs());
+    const latest = ordered.slice(-Math.min(n, Math.max(MIN_REST_WINDOW, window)));
+    const keep = latest.length - Math.floor(latest.length / 4);
+    return latest.slice(0, Math.max(1, keep));
   }
 
   private remember(rawDeg: number): void {

@@ -23,9 +23,11 @@ import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } fro
  * constant of its own yet; this names the capture format and the analysis generation (the correction has its own,
  * stored beside it). analysis-2: a repetition's hold plateau is found over half a second of time, not 15 frames, so a
  * capture at fewer than 30 frames a second no longer reads its peaks low (vision/reps.ts). analysis-3: the rest
- * before the first repetition is a third of a second of the capture's frames, not 10 samples.
+ * before the first repetition is a third of a second of the capture's frames, not 10 samples. analysis-4: the resting
+ * angle follows drift with the same time constants at any frame rate, and a repetition's start angle comes from the
+ * last two thirds of a second of rest, not the last 20 samples (identical at 30 frames a second).
  */
-export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-3";
+export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-4";
 
 /**
  * A visit accepts attempts while it runs, and for a while after it ends: an attempt recorded near the end may reach
