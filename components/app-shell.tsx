@@ -12,6 +12,7 @@ const NAV: Record<Role, { href: string; label: string }[]> = {
     { href: "/follow-ups", label: "Follow-ups" },
     { href: "/clients", label: "Clients" },
     { href: "/uploads", label: "Clips & documents" },
+    { href: "/accuracy", label: "Accuracy" },
   ],
   assistant: [
     { href: "/home", label: "My list" },
@@ -19,6 +20,7 @@ const NAV: Record<Role, { href: string; label: string }[]> = {
     { href: "/follow-ups", label: "Follow-ups" },
     { href: "/clients", label: "Clients" },
     { href: "/uploads", label: "Clips & documents" },
+    { href: "/accuracy", label: "Accuracy" },
   ],
   admin: [
     { href: "/home", label: "Overview" },
@@ -29,6 +31,7 @@ const NAV: Record<Role, { href: string; label: string }[]> = {
     { href: "/clients", label: "Clients" },
     { href: "/admin-billing", label: "Billing" },
     { href: "/records", label: "Export & erasure" },
+    { href: "/accuracy", label: "Accuracy" },
   ],
   client: [
     { href: "/home", label: "My page" },

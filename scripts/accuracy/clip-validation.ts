@@ -58,6 +58,8 @@ import type { HandModelVariant } from "./tracked-set";
 export const CLIP_VALIDATION_SEEDS = [20_261_210, 20_261_209, 20_261_207, 20_261_205] as const;
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  20261222:
+    "The frame-rate check, read once: rendered and tracked (both conditions, finger and wrist motions, both models) at the clips' own 30 frames a second and again through every third frame (`--track-fps 10`, a camera at 10 frames a second), after the resting angle's settings were put in time (engine analysis-4, commit ed073b9). Nothing is fitted on it.",
   20261221:
     "Rendered and tracked (against gravity, finger and wrist motions, both models) while the peak figures (clipPeakP90Deg from the clip reports' peak P90, one model and both together) were being committed; read once, after. Nothing is fitted on it.",
   20261218:

@@ -1,6 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, BrowserContext } from "playwright-core";
 import { DEMO_SIGN_INS } from "@/db/seed/demo";
+import { accuracyRows } from "@/lib/accuracy/spec";
 import { signedInContext, startTestApp, signInWithPassword, type TestApp } from "./support/app";
 import { launchChromium } from "./support/browser";
 
@@ -209,6 +210,28 @@ describe("clinic admin", () => {
     await page.goto(`${app.appUrl}/audit?action=auth.`);
     expect(await page.getByTestId("audit-table").textContent()).toContain("auth.sign_in_failed");
     await admin.close();
+  });
+
+  it("staff read the measurement accuracy page from the menu; a client is sent home", async () => {
+    const assistant = await signedIn("assistant@kinarc.test");
+    const page = assistant.pages()[0];
+    await page.goto(`${app.appUrl}/home`);
+    await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Accuracy" }).click();
+    await page.waitForURL(/\/accuracy$/);
+    const rows = page.getByTestId("accuracy-row");
+    expect(await rows.count()).toBe(accuracyRows().length);
+    // The figure shown is the one the engine states (lib/accuracy/spec.ts), e.g. PIP flexion against gravity.
+    const pip = accuracyRows().find((r) => r.motion === "pip.flexion" && r.condition === "against_gravity" && r.digit === null)!;
+    const shown = page.locator('[data-testid=accuracy-row][data-motion="pip.flexion"][data-condition="against_gravity"][data-digit="fingers"]');
+    expect(Number(await shown.getByTestId("accuracy-lite").getAttribute("data-frame"))).toBe(pip.lite.frameDeg);
+    expect(await shown.textContent()).toContain("little-finger-side view");
+    expect(await page.getByTestId("accuracy-source").textContent()).toContain("kinarc-uncertainty");
+    await assistant.close();
+    const client = await signedIn("client@kinarc.test");
+    const clientPage = client.pages()[0];
+    await clientPage.goto(`${app.appUrl}/accuracy`);
+    await clientPage.waitForURL(/\/home$/);
+    await client.close();
   });
 
   it("other roles cannot open the admin pages", async () => {

@@ -1,0 +1,61 @@
+import { describe, expect, it } from "vitest";
+import { CONDITIONS, MOTION_IDS, MOTIONS } from "@/lib/motions/catalog";
+import { angleUncertaintyDeg, FULL_CONFIDENCE_SCORE, pairUncertaintyDeg, UNCERTAINTY_TABLE } from "@/vision/uncertainty";
+import { viewPolicy } from "@/vision/view-policy";
+import { accuracyRows, accuracySource } from "./spec";
+
+// The figures come from vision/uncertainty-table.json, derived from held-out rendered-hand clips
+// (scripts/accuracy/derive-uncertainty.ts); these checks hold the page to what the engine states for a reading.
+
+const rows = accuracyRows();
+const half = (deg: number | null) => (deg === null ? null : Math.round(deg * 2) / 2);
+
+describe("accuracy figures for therapists", () => {
+  it("cover every motion in both test positions, the thumb apart where the motion includes it", () => {
+    for (const motion of MOTION_IDS) {
+      for (const condition of CONDITIONS) {
+        const of = rows.filter((r) => r.motion === motion && r.condition === condition);
+        const digits = MOTIONS[motion].digits;
+        const expected = (digits.length === 0 || digits.some((d) => d !== "thumb") ? 1 : 0) + (digits.includes("thumb") ? 1 : 0);
+        expect(of, `${motion} ${condition}`).toHaveLength(expected);
+      }
+    }
+  });
+
+  it("state, for the recommended view, the interval the engine gives a reading there at full confidence", () => {
+    for (const r of rows) {
+      expect(r.view).toBe(viewPolicy(r.motion, r.condition, r.digit).recommended[0]);
+      const engine = angleUncertaintyDeg(r.motion, r.digit, "lite", r.view, FULL_CONFIDENCE_SCORE);
+      expect(r.lite.frameDeg, `${r.motion} ${r.condition}`).toBe(half(engine));
+      if (r.both) expect(r.both.frameDeg).toBe(half(pairUncertaintyDeg(r.motion, null, r.view, FULL_CONFIDENCE_SCORE)));
+    }
+  });
+
+  it("never state a peak narrower than a frame", () => {
+    for (const r of rows) {
+      for (const interval of [r.lite, r.both]) {
+        if (interval?.frameDeg != null && interval.peakDeg !== null) expect(interval.peakDeg).toBeGreaterThanOrEqual(interval.frameDeg);
+      }
+    }
+  });
+
+  it("give both models' figures only for finger flexion, where the two-model reading was measured", () => {
+    const withBoth = new Set(rows.filter((r) => r.both).map((r) => r.motion));
+    expect([...withBoth].sort()).toEqual(["dip.flexion", "mcp.flexion", "pip.flexion"]);
+    expect(rows.filter((r) => r.digit === "thumb").every((r) => r.both === null)).toBe(true);
+  });
+
+  it("from the thumb side list each finger, and the little finger reads less truly than the index (the page's stated limit)", () => {
+    for (const motion of ["mcp.flexion", "pip.flexion"] as const) {
+      const r = rows.find((x) => x.motion === motion && x.condition === "gravity_minimized" && x.digit === null)!;
+      expect(r.view).toBe("radial");
+      const of = (digit: string) => r.byFinger.find((f) => f.digit === digit)!.frameDeg!;
+      expect(r.byFinger.map((f) => f.digit)).toEqual(["index", "middle", "ring", "little"]);
+      expect(of("little")).toBeGreaterThan(of("index"));
+    }
+  });
+
+  it("name the table and correction versions the figures belong to", () => {
+    expect(accuracySource()).toEqual({ uncertainty: UNCERTAINTY_TABLE.version, correction: UNCERTAINTY_TABLE.correctionVersion });
+  });
+});

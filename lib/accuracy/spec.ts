@@ -1,0 +1,112 @@
+/**
+ * What Kinarc states about its own accuracy, per test motion and position, in the view the set-up check asks for:
+ * the same 90% intervals the engine attaches to each reading (vision/uncertainty.ts, at full tracking confidence),
+ * so the page a therapist reads and the ± beside an attempt cannot drift apart. Built from the committed table
+ * (vision/uncertainty-table.json, derived from held-out rendered-hand clips by scripts/accuracy/derive-uncertainty.ts).
+ */
+import { CONDITIONS, FINGERS, MOTION_IDS, MOTIONS, type Condition, type Digit, type MotionId } from "@/lib/motions/catalog";
+import { readsWithBothModels } from "@/vision/model-pair-scope";
+import {
+  angleUncertaintyDeg,
+  FULL_CONFIDENCE_SCORE,
+  fingerAloneUncertaintyDeg,
+  pairPeakUncertaintyDeg,
+  pairUncertaintyDeg,
+  peakUncertaintyDeg,
+  UNCERTAINTY_TABLE,
+  type UncertaintyTable,
+} from "@/vision/uncertainty";
+import { viewName, viewPolicy } from "@/vision/view-policy";
+import type { ValidationView } from "@/vision/uncertainty";
+
+export const CONDITION_WORDS: Record<Condition, string> = {
+  against_gravity: "against gravity",
+  gravity_minimized: "gravity minimized",
+};
+
+export interface Interval {
+  /** 90% half-width of one frame's angle, degrees. */
+  frameDeg: number | null;
+  /** 90% half-width of a repetition's peak, degrees (never narrower than the frame's). */
+  peakDeg: number | null;
+}
+
+export interface FingerInterval {
+  digit: Digit;
+  frameDeg: number | null;
+}
+
+export interface AccuracyRow {
+  motion: MotionId;
+  label: string;
+  condition: Condition;
+  /** Null: the four fingers together (the engine's pooled figure); "thumb" for the thumb's own row. */
+  digit: "thumb" | null;
+  view: ValidationView;
+  viewLabel: string;
+  /** The lite hand model alone: every live reading, and uploads the full model cannot also read. */
+  lite: Interval;
+  /** Both hand models read together, where that was measured (finger flexion); null elsewhere. */
+  both: Interval | null;
+  /** Where the fingers read unalike from this view, each finger's own frame interval (lite); empty otherwise. */
+  byFinger: FingerInterval[];
+  /** A finger tested with its neighbours still (the therapist's "one finger" choice), lite; null where not offered. */
+  fingerAloneDeg: number | null;
+}
+
+const SCORE = FULL_CONFIDENCE_SCORE;
+const roundHalf = (deg: number | null) => (deg === null ? null : Math.round(deg * 2) / 2);
+
+function peakOf(frameDeg: number | null, peakDeg: number | null): number | null {
+  if (frameDeg === null) return roundHalf(peakDeg);
+  return roundHalf(Math.max(frameDeg, peakDeg ?? frameDeg));
+}
+
+function row(motion: MotionId, condition: Condition, digit: "thumb" | null, table: UncertaintyTable): AccuracyRow | null {
+  const policy = viewPolicy(motion, condition, digit);
+  const view = policy.recommended[0];
+  const frameDeg = angleUncertaintyDeg(motion, digit, "lite", view, SCORE, table);
+  if (frameDeg === null) return null;
+  const lite = { frameDeg: roundHalf(frameDeg), peakDeg: peakOf(frameDeg, peakUncertaintyDeg(motion, digit, "lite", view, SCORE, table)) };
+  // Both models read a finger's flexion; the page asks with a finger, as a reading would.
+  const pairFrame = readsWithBothModels(motion, "index") && digit === null ? pairUncertaintyDeg(motion, null, view, SCORE, table) : null;
+  const both = pairFrame === null ? null : { frameDeg: roundHalf(pairFrame), peakDeg: peakOf(pairFrame, pairPeakUncertaintyDeg(motion, null, view, SCORE, table)) };
+  const fingers = digit === null ? MOTIONS[motion].digits.filter((d): d is (typeof FINGERS)[number] => (FINGERS as readonly Digit[]).includes(d)) : [];
+  const perFinger = fingers.map((d) => ({ digit: d as Digit, frameDeg: roundHalf(angleUncertaintyDeg(motion, d, "lite", view, SCORE, table)) }));
+  const unalike = perFinger.some((f) => f.frameDeg !== lite.frameDeg);
+  const alone = fingers.length ? fingerAloneUncertaintyDeg(motion, "index", "lite", view, SCORE, table) : null;
+  return {
+    motion,
+    label: MOTIONS[motion].label,
+    condition,
+    digit,
+    view,
+    viewLabel: viewName(view),
+    lite,
+    both,
+    byFinger: unalike ? perFinger : [],
+    fingerAloneDeg: roundHalf(alone),
+  };
+}
+
+/** Every motion Kinarc measures, in both test positions: the fingers together, then the thumb where it applies. */
+export function accuracyRows(table: UncertaintyTable = UNCERTAINTY_TABLE): AccuracyRow[] {
+  const rows: AccuracyRow[] = [];
+  for (const motion of MOTION_IDS) {
+    const digits = MOTIONS[motion].digits;
+    const targets: ("thumb" | null)[] = digits.length === 0 || digits.some((d) => d !== "thumb") ? [null] : [];
+    if (digits.includes("thumb")) targets.push("thumb");
+    for (const condition of CONDITIONS) {
+      for (const digit of targets) {
+        const r = row(motion, condition, digit, table);
+        if (r) rows.push(r);
+      }
+    }
+  }
+  return rows;
+}
+
+/** The versions the figures belong to, shown beside them. */
+export function accuracySource(table: UncertaintyTable = UNCERTAINTY_TABLE): { uncertainty: string; correction: string } {
+  return { uncertainty: table.version, correction: table.correctionVersion };
+}
