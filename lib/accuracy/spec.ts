@@ -18,6 +18,8 @@ import {
 } from "@/vision/uncertainty";
 import { viewName, viewPolicy } from "@/vision/view-policy";
 import type { ValidationView } from "@/vision/uncertainty";
+import { neutralReadingUncertaintyDeg } from "@/vision/wrist-axis";
+import { withoutStraightWristUncertaintyDeg } from "@/vision/uncertainty";
 
 export const CONDITION_WORDS: Record<Condition, string> = {
   against_gravity: "against gravity",
@@ -52,6 +54,12 @@ export interface AccuracyRow {
   byFinger: FingerInterval[];
   /** A finger tested with its neighbours still (the therapist's "one finger" choice), lite; null where not offered. */
   fingerAloneDeg: number | null;
+  /**
+   * Wrist motions: `lite` is read against the straight-wrist reading the self-check and visits take first (the figure
+   * the engine states then); this is the interval without one, or with the forearm line taken from the upper body.
+   * Null for other motions.
+   */
+  otherwiseDeg: number | null;
 }
 
 const SCORE = FULL_CONFIDENCE_SCORE;
@@ -65,8 +73,13 @@ function peakOf(frameDeg: number | null, peakDeg: number | null): number | null 
 function row(motion: MotionId, condition: Condition, digit: "thumb" | null, table: UncertaintyTable): AccuracyRow | null {
   const policy = viewPolicy(motion, condition, digit);
   const view = policy.recommended[0];
-  const frameDeg = angleUncertaintyDeg(motion, digit, "lite", view, SCORE, table);
-  if (frameDeg === null) return null;
+  const cellDeg = angleUncertaintyDeg(motion, digit, "lite", view, SCORE, table);
+  if (cellDeg === null) return null;
+  // A wrist is read against the straight-wrist reading where one was taken (vision/pipeline.ts statedInterval).
+  const wrist = MOTIONS[motion].joint === "wrist";
+  const neutralDeg = wrist ? neutralReadingUncertaintyDeg(motion, "lite", view, SCORE, undefined, table) : null;
+  const frameDeg = neutralDeg ?? cellDeg;
+  const otherwise = wrist ? Math.max(cellDeg, withoutStraightWristUncertaintyDeg(motion, cellDeg, SCORE, table) ?? 0) : null;
   const lite = { frameDeg: roundHalf(frameDeg), peakDeg: peakOf(frameDeg, peakUncertaintyDeg(motion, digit, "lite", view, SCORE, table)) };
   // Both models read a finger's flexion; the page asks with a finger, as a reading would.
   const pairFrame = readsWithBothModels(motion, "index") && digit === null ? pairUncertaintyDeg(motion, null, view, SCORE, table) : null;
@@ -86,6 +99,7 @@ function row(motion: MotionId, condition: Condition, digit: "thumb" | null, tabl
     both,
     byFinger: unalike ? perFinger : [],
     fingerAloneDeg: roundHalf(alone),
+    otherwiseDeg: neutralDeg === null ? null : roundHalf(otherwise),
   };
 }
 
