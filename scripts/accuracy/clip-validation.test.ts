@@ -10,6 +10,7 @@ import {
   parseMinConfidence,
   parseSensorNoise,
   parseTrackFps,
+  ordinalStep,
   planClips,
   trackedRateSuffix,
   truthAtTimes,
@@ -264,6 +265,7 @@ describe("--sensor-noise (tracking grainy copies of the clips)", () => {
 
 describe("clips tracked at a lower rate than their own", () => {
   it("takes a whole divisor of 30 below it, keeps it apart in its own files, and reads the truth at the tracked frames' times", () => {
+    expect([2, 3, 5, 10].map(ordinalStep)).toEqual(["second", "third", "fifth", "10th"]);
     expect(parseTrackFps(undefined)).toBeNull();
     expect(parseTrackFps("15")).toBe(15);
     expect(parseTrackFps("10")).toBe(10);

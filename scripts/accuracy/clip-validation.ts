@@ -59,7 +59,7 @@ export const CLIP_VALIDATION_SEEDS = [20_261_210, 20_261_209, 20_261_207, 20_261
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
   20261222:
-    "The frame-rate check, read once: rendered and tracked (both conditions, finger and wrist motions, both models) at the clips' own 30 frames a second and again through every third frame (`--track-fps 10`, a camera at 10 frames a second), after the resting angle's settings were put in time (engine analysis-4, commit ed073b9). Nothing is fitted on it.",
+    "The frame-rate check, read once: rendered and tracked (against gravity, finger and wrist motions, both models) at the clips' own 30 frames a second and again through every third frame (`--track-fps 10`, a camera at 10 frames a second), after the resting angle's settings were put in time (engine analysis-4, commit ed073b9). Nothing is fitted on it.",
   20261221:
     "Rendered and tracked (against gravity, finger and wrist motions, both models) while the peak figures (clipPeakP90Deg from the clip reports' peak P90, one model and both together) were being committed; read once, after. Nothing is fitted on it.",
   20261218:
@@ -261,6 +261,12 @@ export function truthAtTimes(truth: ClipTruthFile, frames: readonly Pick<Tracked
 /** Saved tracking's file suffix for a clip tracked at `fps` frames a second instead of its own (`--track-fps`). */
 export function trackedRateSuffix(fps: number | null): string {
   return fps === null ? "" : `-f${fps}`;
+}
+
+/** "second", "third", ... for the frame step of `--track-fps`. */
+export function ordinalStep(step: number): string {
+  const words = ["", "", "second", "third", "fourth", "fifth", "sixth"];
+  return words[step] ?? `${step}th`;
 }
 
 /** `--track-fps 15`: a whole divisor of the clips' own rate below it, so the tracker sees evenly spaced frames. */
@@ -570,7 +576,7 @@ export interface ClipSection {
 
 export function clipReport(
   sections: readonly ClipSection[],
-  meta: { glName: string; condition?: Condition; views?: readonly CameraView[]; withoutStraightWrist?: readonly WithoutStraightWristRow[]; oneFinger?: boolean },
+  meta: { glName: string; condition?: Condition; views?: readonly CameraView[]; withoutStraightWrist?: readonly WithoutStraightWristRow[]; oneFinger?: boolean; trackFps?: number | null },
 ): string {
   const condition = meta.condition ?? "against_gravity";
   const where = meta.views
@@ -594,6 +600,11 @@ export function clipReport(
       `camera 0.3-0.7 m, skin, light and background drawn from the seed, ${where}. ${fingers} Nothing is fitted on these seeds.`,
     "- Path: the app's tracking code frame by frame (step mode, as analyze-clip and the upload review), the upload's capture builder, the engine's capture analysis as shipped (correction where it clearly helps, wrist read against the clip's straight-wrist reading, depth mirror on); `without depth mirror` and `raw` (no correction, no depth mirror) for comparison. Side-on wrist flexion/extension is read in the picture (vision/wrist-axis.ts) in every reading, raw included; the finger estimator reads each finger's picture points as well as its 3-D ones (vision/estimator.ts PICTURE_FEATURES).",
     "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles. Within stated ±: the share of detected frames whose error lies inside the 90% interval the engine stated for that frame (vision/uncertainty.ts; about 90% is honest, far less is overconfident); peak within stated ±: the same for each reading's peak and the interval stated for it. Peak P90: 90% of the readings' peaks lie within this many degrees of the truth (nearest rank; readings read against how the hand was first seen are left out), the figure derive-uncertainty.ts gives the peak's interval; frame P90: the same over every detected frame, the least width derive-uncertainty.ts gives a frame's interval.",
+    ...(meta.trackFps
+      ? [
+          `- Tracked at ${meta.trackFps} frames a second (\`--track-fps ${meta.trackFps}\`): the tracker stepped through every ${ordinalStep(CLIP_FPS / meta.trackFps)} frame of each clip, as a camera at that rate gives them, and each reading's truth is taken at those frames' times.`,
+        ]
+      : []),
     `- Renderer: ${meta.glName}.`,
   ];
   for (const section of sections) {
@@ -750,7 +761,7 @@ async function main(): Promise<void> {
   const renderer = await HandRenderer.start();
   const glName = await renderer.glRenderer();
   await renderer.close();
-  const text = clipReport(sections, { glName, condition, views, withoutStraightWrist: withoutStraightWristRows(withoutStraight), oneFinger: values["one-finger"] ?? false });
+  const text = clipReport(sections, { glName, condition, views, withoutStraightWrist: withoutStraightWristRows(withoutStraight), oneFinger: values["one-finger"] ?? false, trackFps });
   writeFileSync(values.out ?? REPORT_FILES[condition], text);
   process.stdout.write(text);
   if (perClip.length) process.stdout.write(["", "| clip | model | side | digit | to ° | truth peak ° | peak ° | frame MAE ° | bias ° | reps | forearm | method |", ...perClip, ""].join("\n"));
