@@ -4,7 +4,7 @@
  * so the page a therapist reads and the ± beside an attempt cannot drift apart. Built from the committed table
  * (vision/uncertainty-table.json, derived from held-out rendered-hand clips by scripts/accuracy/derive-uncertainty.ts).
  */
-import { CONDITIONS, FINGERS, MOTION_IDS, MOTIONS, type Condition, type Digit, type MotionId } from "@/lib/motions/catalog";
+import { CONDITIONS, MOTION_IDS, MOTIONS, type Condition, type Digit, type MotionId } from "@/lib/motions/catalog";
 import { readsWithBothModels } from "@/vision/model-pair-scope";
 import {
   angleUncertaintyDeg,
@@ -14,12 +14,12 @@ import {
   pairUncertaintyDeg,
   peakUncertaintyDeg,
   UNCERTAINTY_TABLE,
+  withoutStraightWristUncertaintyDeg,
   type UncertaintyTable,
+  type ValidationView,
 } from "@/vision/uncertainty";
 import { viewName, viewPolicy } from "@/vision/view-policy";
-import type { ValidationView } from "@/vision/uncertainty";
 import { neutralReadingUncertaintyDeg } from "@/vision/wrist-axis";
-import { withoutStraightWristUncertaintyDeg } from "@/vision/uncertainty";
 
 export const CONDITION_WORDS: Record<Condition, string> = {
   against_gravity: "against gravity",
@@ -79,13 +79,14 @@ function row(motion: MotionId, condition: Condition, digit: "thumb" | null, tabl
   const wrist = MOTIONS[motion].joint === "wrist";
   const neutralDeg = wrist ? neutralReadingUncertaintyDeg(motion, "lite", view, SCORE, undefined, table) : null;
   const frameDeg = neutralDeg ?? cellDeg;
-  const otherwise = wrist ? Math.max(cellDeg, withoutStraightWristUncertaintyDeg(motion, cellDeg, SCORE, table) ?? 0) : null;
+  // Already never narrower than the cell's own figure.
+  const otherwise = wrist ? (withoutStraightWristUncertaintyDeg(motion, cellDeg, SCORE, table) ?? cellDeg) : null;
   const lite = { frameDeg: roundHalf(frameDeg), peakDeg: peakOf(frameDeg, peakUncertaintyDeg(motion, digit, "lite", view, SCORE, table)) };
   // Both models read a finger's flexion; the page asks with a finger, as a reading would.
   const pairFrame = readsWithBothModels(motion, "index") && digit === null ? pairUncertaintyDeg(motion, null, view, SCORE, table) : null;
   const both = pairFrame === null ? null : { frameDeg: roundHalf(pairFrame), peakDeg: peakOf(pairFrame, pairPeakUncertaintyDeg(motion, null, view, SCORE, table)) };
-  const fingers = digit === null ? MOTIONS[motion].digits.filter((d): d is (typeof FINGERS)[number] => (FINGERS as readonly Digit[]).includes(d)) : [];
-  const perFinger = fingers.map((d) => ({ digit: d as Digit, frameDeg: roundHalf(angleUncertaintyDeg(motion, d, "lite", view, SCORE, table)) }));
+  const fingers = digit === null ? MOTIONS[motion].digits.filter((d) => d !== "thumb") : [];
+  const perFinger = fingers.map((d) => ({ digit: d, frameDeg: roundHalf(angleUncertaintyDeg(motion, d, "lite", view, SCORE, table)) }));
   const unalike = perFinger.some((f) => f.frameDeg !== lite.frameDeg);
   const alone = fingers.length ? fingerAloneUncertaintyDeg(motion, "index", "lite", view, SCORE, table) : null;
   return {
