@@ -6,7 +6,7 @@ import WRIST_PICTURE_GAIN from "./wrist-picture-gain.json";
 import { estimateHandShapeJointDeg, handShapeUsesPicture, type HandShapeEstimatorModel } from "./correction-hand-shape";
 import { estimateFingerJointDeg, fingerJointOfGroup, usesPicture, type Finger, type FingerEstimatorModel, type FingerPicture } from "./estimator";
 import { handAxes, type HandAxes } from "./angles";
-import { viewFromHand, viewOfAxes, type ValidationView } from "./correction-views";
+import { viewFromHand, viewOfAxes, viewOfHand, type ValidationView } from "./correction-views";
 import type { HandLandmarks } from "./landmarks";
 
 /**
@@ -147,9 +147,10 @@ export function correctionFeatures(f: RawAngleFeatures): number[] {
 
 const FINGERS: readonly string[] = ["index", "middle", "ring", "little"];
 
-/** The frame's view as the engine classifies it (viewOfAxes), from the features' hand axes. */
+/** The frame's view as the engine classifies it (viewOfHand, or viewOfAxes without the landmarks), from the features' hand. */
 function viewOfFeatures(features: RawAngleFeatures): ValidationView {
   const axes = features.axes ?? (features.hand && features.side ? handAxes(features.hand, features.side) : null);
+  if (axes && features.hand && features.side) return viewOfHand(features.hand, axes, features.side);
   if (axes) return viewOfAxes(axes);
   return viewFromHand(features.palmTowardCamera, features.radialTowardCamera, 0);
 }

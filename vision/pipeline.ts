@@ -23,7 +23,7 @@ import {
   type UncertaintyTable,
   type ValidationView,
 } from "./uncertainty";
-import { viewName, viewOfAxes, viewPolicy, viewQuality, type ViewPolicy, type ViewQuality } from "./view-policy";
+import { viewName, viewOfHand, viewPolicy, viewQuality, type ViewPolicy, type ViewQuality } from "./view-policy";
 import { forearmFromNeutral, neutralReadingUncertaintyDeg, sideOnNeutral, sideOnWristFlexion, WRIST_AXIS_VALIDATION, type ForearmSource, type NeutralReading, type WristAxisValidation } from "./wrist-axis";
 
 /** How an angle was obtained: raw 3-D landmarks, or those corrected by a named correction ("world3d+kinarc-correction-2"). */
@@ -341,7 +341,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     if (!reading || !Number.isFinite(reading.deg)) return skipped(frame.t, score, "degenerate");
     if (forearm) forearmCounts.set(forearm.source, (forearmCounts.get(forearm.source) ?? 0) + 1);
 
-    const view = viewOfAxes(axes);
+    const view = viewOfHand(hand, axes, options.side);
     let angleDeg = reading.deg;
     const inPicture = pictureFlexion !== null;
     let frameMethod: MeasurementMethod = inPicture ? "image_plane" : "world3d";

@@ -5,7 +5,11 @@ import { MOTION_IDS, MOTIONS, SIDES, CONDITIONS, type Side } from "@/lib/motions
 import { neutralPose, poseHand, withMotionAngle, type Placement } from "./testing/synthetic-hand";
 import type { ValidationView } from "./uncertainty";
 import { rotateAbout, type Vec3 } from "./vec";
-import { majorityView, measureView, viewInstruction, viewPolicy, viewQuality } from "./view-policy";
+import { handAxes } from "./angles";
+import { pictureSideOnFigures, SIDE_ON_LIMITS } from "./correction-views";
+import { MIDDLE_MCP, THUMB_IP, THUMB_MCP, THUMB_TIP, WRIST } from "./landmarks";
+import { createLivePipeline } from "./pipeline";
+import { majorityView, measureView, viewInstruction, viewOfAxes, viewOfHand, viewPolicy, viewQuality } from "./view-policy";
 
 // Camera axes as the tracker gives them: x right, y down, z away from the camera. A hand is placed by its forearm's
 // distal and radial directions (vision/testing/synthetic-hand.ts); the palm normal follows from the side.
@@ -46,9 +50,53 @@ describe("measured view from the hand's own landmarks", () => {
     }
   });
 
+  it("side-on in the picture, the picture names the edge even where the depth turns the palm toward the camera", () => {
+    // The landmark model places depth least surely; seen side-on the hand's width lies along it. Squashing every
+    // landmark's depth to a tenth keeps the picture and turns the 3-D palm toward (or away from) the camera, as the
+    // tracker did to a fifth of the thumb-side training frames (vision/correction-views.ts viewOfHand).
+    for (const side of SIDES) {
+      for (const view of ["radial", "ulnar"] as const) {
+        for (const rollDeg of [0, 35, -80, 170]) {
+          for (const pipDeg of [0, 60, 95]) {
+            // All four fingers bent together, as the held-out clips' test motions do.
+            const pose = (["index", "middle", "ring", "little"] as const).reduce((p, digit) => withMotionAngle(p, "pip.flexion", digit, pipDeg), neutralPose());
+            // Turned 20 degrees about the forearm from square side-on: the width shows a little in the picture (about a
+            // quarter of the length, still side-on), so a depth error can swing the 3-D palm.
+            const square = placementFor(view, side, rollDeg);
+            const placement = { ...square, forearmRadial: rotateAbout(square.forearmRadial, square.forearmDistal, (20 * Math.PI) / 180) };
+            const exact = poseHand(pose, side, placement).landmarks;
+            const wristZ = exact[0][2];
+            const squashed = exact.map((p): Vec3 => [p[0], p[1], wristZ + 0.1 * (p[2] - wristZ)]);
+            const axes = handAxes(squashed, side)!;
+            const label = `${side} ${view} roll ${rollDeg} pip ${pipDeg}`;
+            expect(measureView(exact, side), label).toBe(view);
+            expect(pictureSideOnFigures(squashed)!.widthRatio, label).toBeLessThan(SIDE_ON_LIMITS.maxWidthRatio);
+            expect(["palm", "back"], label).toContain(viewOfAxes(axes));
+            expect(measureView(squashed, side), label).toBe(view);
+            expect(createLivePipeline({ motion: "pip.flexion", side, digit: "index", condition: "gravity_minimized" }).push({ t: 0, score: 0.95, hand: squashed }).view, label).toBe(view);
+          }
+        }
+      }
+    }
+  });
+
+  it("keeps the 3-D view where the picture cannot tell the edge: the thumb on the hand's line", () => {
+    const side: Side = "right";
+    const hand = poseHand(neutralPose(), side, placementFor("radial", side, 0)).landmarks.map((p): Vec3 => [...p]);
+    // The thumb drawn onto the wrist-to-knuckle line in the picture: which side the palm faces is unknown.
+    for (const k of [THUMB_MCP, THUMB_IP, THUMB_TIP]) hand[k] = [hand[WRIST][0] + (hand[MIDDLE_MCP][0] - hand[WRIST][0]) * 0.3 * (k - 1), hand[WRIST][1] + (hand[MIDDLE_MCP][1] - hand[WRIST][1]) * 0.3 * (k - 1), hand[k][2]];
+    const axes = handAxes(hand, side)!;
+    expect(Math.abs(pictureSideOnFigures(hand)!.thumbOffsetM)).toBeLessThan(SIDE_ON_LIMITS.minThumbOffsetM);
+    expect(viewOfHand(hand, axes, side)).toBe(viewOfAxes(axes));
+  });
+
   it("a hand read as the wrong side is seen from the opposite face (why the set-up checks the hand first)", () => {
     const hand = poseHand(neutralPose(), "right", placementFor("palm", "right", 0)).landmarks;
     expect(measureView(hand, "left")).toBe("back");
+    // Side-on the picture tells the edge from the hand's side too, so the wrong side names the opposite edge.
+    const edge = poseHand(neutralPose(), "right", placementFor("radial", "right", 0)).landmarks;
+    expect(measureView(edge, "right")).toBe("radial");
+    expect(measureView(edge, "left")).toBe("ulnar");
   });
 
   it("the majority view needs more than half of the frames that have one", () => {

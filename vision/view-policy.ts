@@ -2,7 +2,7 @@ import type { Condition, Digit, MotionId, Side } from "@/lib/motions/catalog";
 import { MOTIONS } from "@/lib/motions/catalog";
 import { handAxes } from "./angles";
 import type { HandLandmarks } from "./landmarks";
-import { viewOfAxes } from "./correction-views";
+import { viewOfAxes, viewOfHand } from "./correction-views";
 import type { ValidationView } from "./uncertainty";
 
 /**
@@ -13,12 +13,12 @@ import type { ValidationView } from "./uncertainty";
  */
 
 /** The measured view from the hand's own axes: the engine's classifier (vision/correction-views.ts). */
-export { viewOfAxes };
+export { viewOfAxes, viewOfHand };
 
-/** The view of one frame's world landmarks, or null when the hand's axes can't be built. */
+/** The view of one frame's world landmarks (the engine's rule, viewOfHand), or null when the hand's axes can't be built. */
 export function measureView(hand: HandLandmarks, side: Side): ValidationView | null {
   const axes = handAxes(hand, side);
-  return axes ? viewOfAxes(axes) : null;
+  return axes ? viewOfHand(hand, axes, side) : null;
 }
 
 /** Where the camera stands in the room: level with the hand (a vertical motion plane) or above it (on the table). */

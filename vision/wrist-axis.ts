@@ -2,9 +2,10 @@ import type { MotionId, Side } from "@/lib/motions/catalog";
 import { correctionGroupFor, type HandModel } from "./correction";
 import { handAxes } from "./angles";
 import type { MotionReading } from "./angles";
-import { INDEX_MCP, LANDMARK_COUNT, LITTLE_MCP, MIDDLE_MCP, THUMB_IP, THUMB_MCP, THUMB_TIP, WRIST, type HandLandmarks } from "./landmarks";
+import { LANDMARK_COUNT, type HandLandmarks } from "./landmarks";
 import { add, angleBetweenDeg, cross, isFiniteVec, normalize, pictureTurnDeg, rejectFrom, scale, type Vec3 } from "./vec";
 import { viewOfAxes } from "./view-policy";
+import { pictureSideOnFigures, SIDE_ON_LIMITS } from "./correction-views";
 import { trackingFactor, UNCERTAINTY_TABLE, uncertaintyFromMaeDeg, type UncertaintyTable, type ValidationView } from "./uncertainty";
 import VALIDATION from "./wrist-axis-validation.json";
 
@@ -76,25 +77,8 @@ export interface SideOnNeutral {
   thumbOffsetM: number;
 }
 
-/**
- * When a neutral reading counts as side-on. A hand seen from the palm or the back shows its width about 0.8 of its
- * length (index to little-finger knuckle about 7-8 cm, wrist to middle knuckle about 9-10 cm [common anthropometry,
- * from memory]); side-on the width nearly vanishes (training clips, seed 77000401: 0.01-0.34). The thumb rests in front
- * of the palm, so its side of the long axis in the picture is the palm's side: at least 10 mm off the axis, or the
- * reading is not side-on enough to tell, and the 3-D reading stands. Training clips (seeds 77000401-77000402, 71
- * side-on straight-wrist holds): 6.9-49 mm, the right side every time. It was 5 mm until held-out seed 20261209 showed a left
- * hand at 5.9 mm read on the wrong side (its extension read as flexion); 10 mm is our margin over that, not a fit.
- * Kinarc's rule.
- */
-export const SIDE_ON_LIMITS = { maxWidthRatio: 0.45, minThumbOffsetM: 0.01 } as const;
-
-/** The wrist-to-middle-knuckle direction in the picture plane (unit) and its length, or null when it has none. */
-function pictureAxis(hand: HandLandmarks): { u: [number, number]; length: number } | null {
-  const x = hand[MIDDLE_MCP][0] - hand[WRIST][0];
-  const y = hand[MIDDLE_MCP][1] - hand[WRIST][1];
-  const length = Math.hypot(x, y);
-  return length > 1e-9 ? { u: [x / length, y / length], length } : null;
-}
+/** When a neutral reading counts as side-on: the same limits as a frame's view (vision/correction-views.ts). */
+export { SIDE_ON_LIMITS };
 
 /** The side-on figures of a neutral reading's frames, or null when the hand was not seen side-on. */
 export function sideOnNeutral(hands: readonly HandLandmarks[]): SideOnNeutral | null {
@@ -104,14 +88,12 @@ export function sideOnNeutral(hands: readonly HandLandmarks[]): SideOnNeutral | 
   let thumb = 0;
   let n = 0;
   for (const hand of hands) {
-    const axis = pictureAxis(hand);
-    if (!axis) continue;
-    const { u, length } = axis;
-    sx += u[0];
-    sy += u[1];
-    widthRatio += Math.hypot(hand[INDEX_MCP][0] - hand[LITTLE_MCP][0], hand[INDEX_MCP][1] - hand[LITTLE_MCP][1]) / length;
-    // Perpendicular (-u_y, u_x): the long axis turned a quarter clockwise on screen.
-    for (const k of [THUMB_MCP, THUMB_IP, THUMB_TIP]) thumb += (-u[1] * (hand[k][0] - hand[WRIST][0]) + u[0] * (hand[k][1] - hand[WRIST][1])) / 3;
+    const figures = pictureSideOnFigures(hand);
+    if (!figures) continue;
+    sx += figures.u[0];
+    sy += figures.u[1];
+    widthRatio += figures.widthRatio;
+    thumb += figures.thumbOffsetM;
     n += 1;
   }
   const sum = Math.hypot(sx, sy);
@@ -126,7 +108,7 @@ export function sideOnNeutral(hands: readonly HandLandmarks[]): SideOnNeutral | 
  * sight (for the plane check), its travel the palm's side in the picture. Null when the hand has no length in the picture.
  */
 export function sideOnWristFlexion(hand: HandLandmarks, neutral: SideOnNeutral): MotionReading | null {
-  const u = pictureAxis(hand)?.u;
+  const u = pictureSideOnFigures(hand)?.u;
   if (!u) return null;
   const p = neutral.palmarTurn;
   const deg = p * pictureTurnDeg(neutral.longAxisXY, u);

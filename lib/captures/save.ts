@@ -25,9 +25,11 @@ import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } fro
  * capture at fewer than 30 frames a second no longer reads its peaks low (vision/reps.ts). analysis-3: the rest
  * before the first repetition is a third of a second of the capture's frames, not 10 samples. analysis-4: the resting
  * angle follows drift with the same time constants at any frame rate, and a repetition's start angle comes from the
- * last two thirds of a second of rest, not the last 20 samples (identical at 30 frames a second).
+ * last two thirds of a second of rest, not the last 20 samples (identical at 30 frames a second). analysis-5: a frame
+ * whose hand the picture shows side-on takes the radial or ulnar view from the picture, not from the 3-D axes
+ * (vision/correction-views.ts viewOfHand), so its correction and its uncertainty come from that view's cells.
  */
-export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-4";
+export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-5";
 
 /**
  * A visit accepts attempts while it runs, and for a while after it ends: an attempt recorded near the end may reach

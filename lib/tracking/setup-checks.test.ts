@@ -151,9 +151,9 @@ describe("camera view check", () => {
   });
 
   it("the test position decides: sliding on the table wants the thumb side seen from above", () => {
-    const fromAbove = byId({ ...BASE, condition: "gravity_minimized", frames: withHand("left", "radial") }).view;
+    const fromAbove = byId({ ...BASE, side: "left", condition: "gravity_minimized", frames: withHand("left", "radial") }).view;
     expect(fromAbove).toMatchObject({ status: "ok", measuredView: "radial" });
-    const wrongSide = byId({ ...BASE, condition: "gravity_minimized", frames: withHand("left", "ulnar") }).view;
+    const wrongSide = byId({ ...BASE, side: "left", condition: "gravity_minimized", frames: withHand("left", "ulnar") }).view;
     expect(wrongSide.status).toBe("advice");
   });
 
