@@ -59,7 +59,7 @@ export const CLIP_VALIDATION_SEEDS = [20_261_210, 20_261_209, 20_261_207, 20_261
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
   20261222:
-    "The frame-rate check, read once: rendered and tracked (against gravity, finger and wrist motions, both models) at the clips' own 30 frames a second and again through every third frame (`--track-fps 10`, a camera at 10 frames a second), after the resting angle's settings were put in time (engine analysis-4, commit ed073b9). Nothing is fitted on it.",
+    "The frame-rate check, read once: rendered and tracked (against gravity, finger and wrist motions, both models) at the clips' own 30 frames a second and again through every third frame (`--track-fps 10`, a camera at 10 frames a second), after the resting angle's settings were put in time (engine analysis-4, commit ed073b9). With gravity minimized (thumb side, finger and wrist motions, both models) it was rendered and tracked while the side-on view rule (engine analysis-5, commit 6611209) was being chosen on training seeds, and read once after it was committed, at 30 frames a second and tracked at 10; the analysis-4 reading at 30 was written aside before the change and read after. Nothing is fitted on it.",
   20261221:
     "Rendered and tracked (against gravity, finger and wrist motions, both models) while the peak figures (clipPeakP90Deg from the clip reports' peak P90, one model and both together) were being committed; read once, after. Nothing is fitted on it.",
   20261218:
