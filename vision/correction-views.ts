@@ -73,12 +73,16 @@ export function pictureSideOnFigures(hand: HandLandmarks): { u: [number, number]
  * the landmark model places least surely, so the 3-D axes can turn the palm toward the camera when it faces sideways:
  * on training clips from the thumb side (seed 77000401, gravity minimized) the 3-D rule named a fifth of the lite
  * model's PIP frames "palm", whose fit then read them 18 degrees off against 4 for the frames it named "radial".
- * There the picture decides which edge faces the camera: with the palm's side of the long axis (where the thumb sits)
- * and the hand's side, the radial axis (index side) points toward the camera or away (vision/angles.ts handAxes: for a
- * right hand palmar = radial x long, so radial = long x palmar; for a left hand radial = palmar x long). Otherwise the
- * nearest view of the 3-D axes (viewOfAxes).
+ * Where the picture contradicts the 3-D view, the picture decides: the 3-D axes name a face (palm, back) or an edge
+ * while the picture shows the hand side-on. Then the edge comes from the palm's side of the long axis (where the
+ * thumb sits) and the hand's side: the radial axis (index side) points toward the camera or away (vision/angles.ts
+ * handAxes: for a right hand palmar = radial x long, so radial = long x palmar; for a left hand radial = palmar x
+ * long). A hand turned part way (oblique, or from above) shows a width in between, so a narrow picture does not
+ * contradict those views and they stand, as does every view where the picture is not side-on.
  */
 export function viewOfHand(hand: HandLandmarks, axes: HandAxes, side: Side): ValidationView {
+  const fromAxes = viewOfAxes(axes);
+  if (fromAxes === "oblique" || fromAxes === "down") return fromAxes;
   const picture = pictureSideOnFigures(hand);
   if (picture && picture.widthRatio <= SIDE_ON_LIMITS.maxWidthRatio && Math.abs(picture.thumbOffsetM) >= SIDE_ON_LIMITS.minThumbOffsetM) {
     // (long x palmar) along the line of sight has the sign of the thumb's turn; the radial axis is that (right hand) or
@@ -86,5 +90,5 @@ export function viewOfHand(hand: HandLandmarks, axes: HandAxes, side: Side): Val
     const radialZ = (side === "right" ? 1 : -1) * Math.sign(picture.thumbOffsetM);
     return radialZ < 0 ? "radial" : "ulnar";
   }
-  return viewOfAxes(axes);
+  return fromAxes;
 }

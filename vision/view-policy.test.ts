@@ -80,6 +80,20 @@ describe("measured view from the hand's own landmarks", () => {
     }
   });
 
+  it("a hand turned part way (oblique) keeps its 3-D view though its picture is narrow: no contradiction there", () => {
+    // Back to the camera, then turned 55 degrees about the forearm toward the thumb side: the knuckles span about a
+    // third of the hand's length in the picture, inside the side-on limit, yet the hand is between a face and an edge.
+    for (const side of SIDES) {
+      const flip = side === "right" ? 1 : -1;
+      const distal: Vec3 = [0, -1, 0];
+      const radial = rotateAbout([-flip, 0, 0], distal, (flip * 55 * Math.PI) / 180);
+      const hand = poseHand(neutralPose(), side, { forearmDistal: distal, forearmRadial: radial, wrist: [0.02, 0.05, 0.45] }).landmarks;
+      expect(pictureSideOnFigures(hand)!.widthRatio, side).toBeLessThan(SIDE_ON_LIMITS.maxWidthRatio);
+      expect(viewOfAxes(handAxes(hand, side)!), side).toBe("oblique");
+      expect(measureView(hand, side), side).toBe("oblique");
+    }
+  });
+
   it("keeps the 3-D view where the picture cannot tell the edge: the thumb on the hand's line", () => {
     const side: Side = "right";
     const hand = poseHand(neutralPose(), side, placementFor("radial", side, 0)).landmarks.map((p): Vec3 => [...p]);

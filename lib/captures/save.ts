@@ -28,8 +28,10 @@ import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } fro
  * last two thirds of a second of rest, not the last 20 samples (identical at 30 frames a second). analysis-5: a frame
  * whose hand the picture shows side-on takes the radial or ulnar view from the picture, not from the 3-D axes
  * (vision/correction-views.ts viewOfHand), so its correction and its uncertainty come from that view's cells.
+ * analysis-6: only where the picture contradicts the 3-D view (a face or an edge); oblique and from-above frames keep
+ * their 3-D view (analysis-5 turned an open hand seen obliquely from the back into a side view).
  */
-export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-5";
+export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-6";
 
 /**
  * A visit accepts attempts while it runs, and for a while after it ends: an attempt recorded near the end may reach
