@@ -50,6 +50,14 @@ export function viewOfAxes(axes: HandAxes): ValidationView {
  */
 export const SIDE_ON_LIMITS = { maxWidthRatio: 0.45, minThumbOffsetM: 0.01 } as const;
 
+/** The wrist-to-middle-knuckle direction in the picture plane (world x and y; unit) and its length, or null when it has none. */
+export function pictureLongAxis(hand: HandLandmarks): { u: [number, number]; length: number } | null {
+  const x = hand[MIDDLE_MCP][0] - hand[WRIST][0];
+  const y = hand[MIDDLE_MCP][1] - hand[WRIST][1];
+  const length = Math.hypot(x, y);
+  return length > 1e-9 ? { u: [x / length, y / length], length } : null;
+}
+
 /**
  * One frame's hand as the picture shows it, from the world landmarks' x and y (the camera's picture axes): the
  * wrist-to-middle-knuckle direction `u` (unit), the in-picture width (index to little-finger knuckle) over that length,
@@ -57,11 +65,9 @@ export const SIDE_ON_LIMITS = { maxWidthRatio: 0.45, minThumbOffsetM: 0.01 } as 
  * clockwise on screen, in metres (signed). Null when the hand has no length in the picture.
  */
 export function pictureSideOnFigures(hand: HandLandmarks): { u: [number, number]; widthRatio: number; thumbOffsetM: number } | null {
-  const x = hand[MIDDLE_MCP][0] - hand[WRIST][0];
-  const y = hand[MIDDLE_MCP][1] - hand[WRIST][1];
-  const length = Math.hypot(x, y);
-  if (!(length > 1e-9)) return null;
-  const u: [number, number] = [x / length, y / length];
+  const axis = pictureLongAxis(hand);
+  if (!axis) return null;
+  const { u, length } = axis;
   const widthRatio = Math.hypot(hand[INDEX_MCP][0] - hand[LITTLE_MCP][0], hand[INDEX_MCP][1] - hand[LITTLE_MCP][1]) / length;
   let thumb = 0;
   for (const k of [THUMB_MCP, THUMB_IP, THUMB_TIP]) thumb += (-u[1] * (hand[k][0] - hand[WRIST][0]) + u[0] * (hand[k][1] - hand[WRIST][1])) / 3;

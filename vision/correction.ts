@@ -76,6 +76,8 @@ export interface RawAngleFeatures {
   side?: Side;
   /** The hand's axes when the caller already has them for this frame (saves computing them again per frame). */
   axes?: HandAxes;
+  /** The frame's view (viewOfHand) when the caller has already classified it, as the pipeline has. */
+  view?: ValidationView;
   /** The frame's picture points: the finger estimator reads them too since kinarc-correction-6. */
   picture?: FingerPicture | null;
 }
@@ -149,6 +151,7 @@ const FINGERS: readonly string[] = ["index", "middle", "ring", "little"];
 
 /** The frame's view as the engine classifies it (viewOfHand, or viewOfAxes without the landmarks), from the features' hand. */
 function viewOfFeatures(features: RawAngleFeatures): ValidationView {
+  if (features.view) return features.view;
   const axes = features.axes ?? (features.hand && features.side ? handAxes(features.hand, features.side) : null);
   if (axes && features.hand && features.side) return viewOfHand(features.hand, axes, features.side);
   if (axes) return viewOfAxes(axes);

@@ -368,6 +368,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
         hand,
         side: options.side,
         axes,
+        view,
         picture,
       });
       if (corrected !== null && Number.isFinite(corrected)) {

@@ -5,7 +5,7 @@ import type { MotionReading } from "./angles";
 import { LANDMARK_COUNT, type HandLandmarks } from "./landmarks";
 import { add, angleBetweenDeg, cross, isFiniteVec, normalize, pictureTurnDeg, rejectFrom, scale, type Vec3 } from "./vec";
 import { viewOfAxes } from "./view-policy";
-import { pictureSideOnFigures, SIDE_ON_LIMITS } from "./correction-views";
+import { pictureLongAxis, pictureSideOnFigures, SIDE_ON_LIMITS } from "./correction-views";
 import { trackingFactor, UNCERTAINTY_TABLE, uncertaintyFromMaeDeg, type UncertaintyTable, type ValidationView } from "./uncertainty";
 import VALIDATION from "./wrist-axis-validation.json";
 
@@ -108,7 +108,7 @@ export function sideOnNeutral(hands: readonly HandLandmarks[]): SideOnNeutral | 
  * sight (for the plane check), its travel the palm's side in the picture. Null when the hand has no length in the picture.
  */
 export function sideOnWristFlexion(hand: HandLandmarks, neutral: SideOnNeutral): MotionReading | null {
-  const u = pictureSideOnFigures(hand)?.u;
+  const u = pictureLongAxis(hand)?.u;
   if (!u) return null;
   const p = neutral.palmarTurn;
   const deg = p * pictureTurnDeg(neutral.longAxisXY, u);
