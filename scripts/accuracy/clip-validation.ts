@@ -69,7 +69,7 @@ export const SEED_NOTES: Record<number, string> = {
   20261216:
     "Rendered and tracked (against gravity, finger motions) while the little-finger-side per-finger intervals (byDigit, from seeds 20261210, 20261209, 20261207 and 20261205) were being committed; read once, after. Nothing is fitted on it.",
   20261215:
-    "Rendered and tracked while the per-finger intervals (derive-uncertainty.ts byDigit, from seeds 20261210 and 20261207) were being committed; read once, after. Nothing is fitted on it.",
+    "Rendered and tracked while the per-finger intervals (derive-uncertainty.ts byDigit, from seeds 20261210 and 20261207) were being committed; read once, after. Its finger clips with gravity minimized were rendered and tracked again and re-read under engine analysis-6 (commit 78935f7, the side-on view rule, chosen on training seeds) for the two-model report; these tables are that reading. Nothing is fitted on it.",
   20261214:
     "Rendered and tracked after the one-finger handling (the therapist's `oneFinger`, the single-finger cells from report.md's stills) was committed; read once. Nothing is fitted on it.",
   20261210:
