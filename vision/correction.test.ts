@@ -71,6 +71,19 @@ describe("the committed correction (vision/correction-coefficients.json)", () =>
     );
   });
 
+  it("reads a finger with the fit of the frame's view as the engine names it, not the 3-D axes' view", () => {
+    // The little-finger side faces the camera by the 3-D axes; the pipeline's view (the picture decides, viewOfHand) may
+    // still name the frame thumb side, and then the thumb-side fit reads it, as the fit's choice of estimator does.
+    const ulnarByAxes = withFrame(poseHand(withMotionAngle(neutralPose(), "dip.flexion", "ring", 50), "right", { ...RADIAL_VIEW, forearmRadial: [0, 0, 1] }).landmarks);
+    const estimator = CORRECTION_MODEL.fingerEstimator!;
+    const read = (view?: "radial" | "ulnar") => estimateFingerJointDeg(estimator, "full", "dip", ulnarByAxes.hand, "right", "ring", undefined, ulnarByAxes.picture, view);
+    expect(read()).not.toBeNull();
+    expect(read()).toBeCloseTo(read("ulnar")!, 12);
+    expect(Math.abs(read("radial")! - read("ulnar")!)).toBeGreaterThan(0.5);
+    expect(correctMotionAngle(CORRECTION_MODEL, "full", "dip.flexion", "ring", { ...ulnarByAxes, view: "radial" })).toBeCloseTo(read("radial")!, 12);
+    expect(correctMotionAngle(CORRECTION_MODEL, "full", "dip.flexion", "ring", { ...ulnarByAxes, view: "ulnar" })).toBeCloseTo(read("ulnar")!, 12);
+  });
+
   it("has no fit for the thumb or the middle finger's spread, so those stay raw", () => {
     expect(correctMotionAngle(CORRECTION_MODEL, "lite", "mcp.flexion", "thumb", SAMPLE)).toBeNull();
     expect(correctionGroupFor("finger.abduction", "middle")).toBeNull();

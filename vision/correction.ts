@@ -179,7 +179,7 @@ export function correctGroupAngle(
     const handShape = view === null ? undefined : model.handShapeEstimators!.find((m) => m.fits[handModel]?.[joint] && m.views.includes(view));
     if (handShape) return estimateHandShapeJointDeg(handShape, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture);
     if (!model.fingerEstimator?.fits[handModel]?.[joint]) return null;
-    return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture);
+    return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture, view ?? viewOfFeatures(features));
   }
   const fit = model.groups[handModel]?.[group];
   if (!fit) return null;

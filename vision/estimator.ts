@@ -278,8 +278,12 @@ export function applyFingerFit(fit: FingerJointFit, base: readonly number[]): nu
 /**
  * The estimated flexion of one finger joint (degrees, flexion positive), or null when the model has no fit for the
  * joint and hand model, the finger's features cannot be read (a model that uses picture features needs `picture`),
- * or they lie outside the fit's training domain. The fit is chosen by the frame's view (from the hand's axes) where
- * the model has view fits.
+ * or they lie outside the fit's training domain. Where the model has view fits, the fit is chosen by `view`, the
+ * frame's view as the engine names it (viewOfHand: the picture decides a side-on hand), or without it by the 3-D axes.
+ * Engine analysis-7: before it the 3-D axes chose here even where the picture had named the frame side-on, so a
+ * thumb-side frame whose axes leaned toward the palm was read by the stills-only fit, and one whose axes named the
+ * little-finger side by the fit for that side (calibration seeds 77000407-408: 8-65% of thumb-side frames, by joint
+ * and hand model).
  */
 export function estimateFingerJointDeg(
   model: FingerEstimatorModel,
@@ -290,9 +294,10 @@ export function estimateFingerJointDeg(
   finger: Finger,
   axes?: HandAxes,
   picture?: FingerPicture | null,
+  view?: ValidationView,
 ): number | null {
   const frameAxes = axes ?? handAxes(hand, side);
-  const fit = fingerFitFor(model, handModel, joint, model.viewFits?.length && frameAxes ? viewOfAxes(frameAxes) : null);
+  const fit = fingerFitFor(model, handModel, joint, model.viewFits?.length ? (view ?? (frameAxes ? viewOfAxes(frameAxes) : null)) : null);
   if (!fit) return null;
   const base = modelFingerFeatures(model, hand, side, finger, frameAxes ?? null, picture);
   return base && inTrainingDomain(fit, base) ? applyFingerFit(fit, base) : null;

@@ -29,9 +29,11 @@ import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } fro
  * whose hand the picture shows side-on takes the radial or ulnar view from the picture, not from the 3-D axes
  * (vision/correction-views.ts viewOfHand), so its correction and its uncertainty come from that view's cells.
  * analysis-6: only where the picture contradicts the 3-D view (a face or an edge); oblique and from-above frames keep
- * their 3-D view (analysis-5 turned an open hand seen obliquely from the back into a side view).
+ * their 3-D view (analysis-5 turned an open hand seen obliquely from the back into a side view). analysis-7: the
+ * finger estimator's view fit is chosen by that same view too, not by the 3-D axes (vision/estimator.ts
+ * estimateFingerJointDeg), so a thumb-side frame is read by the thumb-side fit.
  */
-export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-6";
+export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-7";
 
 /**
  * A visit accepts attempts while it runs, and for a while after it ends: an attempt recorded near the end may reach
