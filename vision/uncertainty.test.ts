@@ -68,13 +68,16 @@ describe("the committed table (vision/uncertainty-table.json) against its own fi
       for (const f of c.byDigit ?? []) expect(f.uncertaintyDeg).toBeGreaterThanOrEqual(f.clipFramesP90Deg ?? 0);
       if (c.clipRawFramesP90Deg !== undefined) expect(baseUncertaintyDeg(UNCERTAINTY_TABLE, c.group, c.model, c.view, "raw")).toBeGreaterThanOrEqual(c.clipRawFramesP90Deg);
     }
-    // Somewhere the normal rule (2.06 x MAE) falls short of it: from the thumb side, full PIP, where the hidden fingers
-    // miss by far more now and then than the mean suggests (lite PIP there too, but its stills' MAE sets it wider).
-    const thumbSidePip = UNCERTAINTY_TABLE.cells.find((c) => c.group === "PIP flexion" && c.view === "radial" && c.model === "full")!;
-    expect(thumbSidePip.clipFramesP90Deg!).toBeGreaterThan(uncertaintyFromMaeDeg(thumbSidePip.clipMaeDeg!));
-    expect(thumbSidePip.uncertaintyDeg).toBe(thumbSidePip.clipFramesP90Deg);
-    const thumbSideLitePip = UNCERTAINTY_TABLE.cells.find((c) => c.group === "PIP flexion" && c.view === "radial" && c.model === "lite")!;
-    expect(thumbSideLitePip.clipFramesP90Deg!).toBeGreaterThan(uncertaintyFromMaeDeg(thumbSideLitePip.clipMaeDeg!));
+    // Somewhere the normal rule (2.06 x MAE) falls short of it: from the thumb side, DIP with either model, where deep
+    // bends are now and then missed by far more than the mean suggests; and from the palm, PIP (lite), where that width
+    // is the interval.
+    for (const model of ["lite", "full"] as const) {
+      const thumbSideDip = UNCERTAINTY_TABLE.cells.find((c) => c.group === "DIP flexion" && c.view === "radial" && c.model === model)!;
+      expect(thumbSideDip.clipFramesP90Deg!, model).toBeGreaterThan(uncertaintyFromMaeDeg(thumbSideDip.clipMaeDeg!));
+    }
+    const palmPip = UNCERTAINTY_TABLE.cells.find((c) => c.group === "PIP flexion" && c.view === "palm" && c.model === "lite")!;
+    expect(palmPip.clipFramesP90Deg!).toBeGreaterThan(uncertaintyFromMaeDeg(palmPip.clipMaeDeg!));
+    expect(palmPip.uncertaintyDeg).toBe(palmPip.clipFramesP90Deg);
   });
 
   it("takes the held-out clips' figure where a continuous motion read worse than the stills", () => {
