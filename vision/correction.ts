@@ -175,11 +175,12 @@ export function correctGroupAngle(
   if (joint && (model.fingerEstimator?.fits[handModel]?.[joint] || hasHandShape)) {
     if (!features.hand || !features.side || !digit || !FINGERS.includes(digit)) return null;
     // In its views a hand-shape estimator reads the frame or nobody does: the side-view fit was not chosen there.
-    const view = hasHandShape ? viewOfFeatures(features) : null;
-    const handShape = view === null ? undefined : model.handShapeEstimators!.find((m) => m.fits[handModel]?.[joint] && m.views.includes(view));
+    // The frame's view also picks the finger estimator's view fit (engine analysis-7).
+    const view = viewOfFeatures(features);
+    const handShape = model.handShapeEstimators?.find((m) => m.fits[handModel]?.[joint] && m.views.includes(view));
     if (handShape) return estimateHandShapeJointDeg(handShape, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture);
     if (!model.fingerEstimator?.fits[handModel]?.[joint]) return null;
-    return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture, view ?? viewOfFeatures(features));
+    return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture, view);
   }
   const fit = model.groups[handModel]?.[group];
   if (!fit) return null;
