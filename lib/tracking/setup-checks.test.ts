@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { neutralPose, poseHand, type Placement } from "@/vision/testing/synthetic-hand";
 import type { LandmarkXYZ, TrackedFrame } from "@/vision/live/types";
-import { edgesCut, meanLuma, readyToStart, runSetupChecks, SETUP_LIMITS, type SetupInput } from "./setup-checks";
+import { edgesCut, handSpan, handSpanBand, meanLuma, readyToStart, runSetupChecks, SETUP_LIMITS, type SetupInput } from "./setup-checks";
 
 const WIDTH = 640;
 const HEIGHT = 480;
@@ -88,6 +88,26 @@ describe("set-up checks", () => {
     expect(far.status).toBe("fix");
     expect(far.instruction).toMatch(/closer/);
     expect(byId(BASE).hand_size.status).toBe("ok");
+  });
+
+  it("finger flexion seen from the thumb side wants the hand neither too far nor too near; against gravity only a minimum", () => {
+    // The band (0.4-0.6 of the picture's shorter side) is ours, set on calibration renders (see SETUP_LIMITS); here
+    // the synthetic hand (about 19 cm wrist to fingertip) is placed at 0.3, 0.45 and 0.7 m from a 600 px focal length.
+    const thumbSide = { ...BASE, motion: "pip.flexion" as const, condition: "gravity_minimized" as const, digit: "index" as const };
+    const at = (distanceM: number) => frames(30, () => ({ image: handImage(distanceM) }));
+    expect(handSpanBand("pip.flexion", "gravity_minimized", "index")).toEqual(SETUP_LIMITS.thumbSideFingerSpan);
+    expect(handSpan(handImage(0.3), WIDTH, HEIGHT)).toBeGreaterThan(SETUP_LIMITS.thumbSideFingerSpan.max);
+    const near = byId({ ...thumbSide, frames: at(0.3) }).hand_size;
+    expect(near.status).toBe("fix");
+    expect(near.instruction).toMatch(/fills too much of the picture/);
+    expect(byId({ ...thumbSide, frames: at(0.45) }).hand_size.status).toBe("ok");
+    const far = byId({ ...thumbSide, frames: at(0.7) }).hand_size;
+    expect(far).toMatchObject({ status: "fix", instruction: expect.stringMatching(/closer/) });
+    // The same distances against gravity (little-finger side), and the wrist with gravity minimized: no upper bound.
+    expect(byId({ ...BASE, frames: at(0.3) }).hand_size.status).toBe("ok");
+    expect(byId({ ...BASE, frames: at(0.7) }).hand_size.status).toBe("ok");
+    expect(handSpanBand("wrist.flexion", "gravity_minimized", null)).toEqual({ min: SETUP_LIMITS.minHandSpan, max: Infinity });
+    expect(handSpanBand("pip.flexion", "against_gravity", "index").max).toBe(Infinity);
   });
 
   it("too dark and too bright pictures get a light instruction", () => {

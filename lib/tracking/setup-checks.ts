@@ -51,6 +51,17 @@ export const SETUP_LIMITS = {
    * and 1-2 px of jitter turns it by 2-5 degrees].
    */
   minHandSpan: 0.2,
+  /**
+   * Finger flexion seen from the thumb side (gravity minimized: a camera above a hand resting on its little-finger
+   * edge) wants the hand's longer side between these shares of the picture's shorter side. On the calibration clips
+   * (seeds 77000407-77000408, thumb side, four-finger MCP, PIP and DIP flexion, both hand models; nothing fitted on
+   * them), hands filling more than 0.6 of the picture were lost: the full model found 88% of frames at 0.6-0.7 and 43%
+   * above 0.7, against 91-100% below 0.6, and DIP read worst both above 0.6 (two models together, MAE 8.9 deg) and below
+   * 0.4 (8.1 deg, where a fingertip's bone is a few dozen pixels) against 5.7-6.7 deg in between
+   * (scripts/accuracy/contrast-scan.ts and scripts/accuracy/README.md, "Framing from the thumb side"). From the
+   * little-finger side no such loss was seen (seeds 77000407 and 20261222, every span band 100% found by either model).
+   */
+  thumbSideFingerSpan: { min: 0.4, max: 0.6 },
   /** ITU-R BT.601 luma, 0-255: below 50 the detector loses the hand in a dim room; above 235 the skin washes out [from memory]. */
   minLuma: 50,
   maxLuma: 235,
@@ -70,7 +81,7 @@ const LABELS: Record<SetupCheckId, string> = {
   hand_seen: "Hand found",
   hand_in_frame: "Whole hand in the picture",
   correct_hand: "The hand being checked",
-  hand_size: "Hand close enough",
+  hand_size: "Hand at a good distance",
   light: "Enough light",
   steady: "Steady tracking",
   view: "Camera sees the right side of the hand",
@@ -107,6 +118,25 @@ function boundingBox(image: readonly LandmarkXYZ[]): Box {
     box.maxY = Math.max(box.maxY, y);
   }
   return box;
+}
+
+/** The hand's longer side in the picture as a share of the picture's shorter side (landmarks 0-1 of width and height). */
+export function handSpan(image: readonly LandmarkXYZ[], videoWidth: number, videoHeight: number): number {
+  const box = boundingBox(image);
+  const shorter = Math.min(videoWidth, videoHeight) || 1;
+  return Math.max((box.maxX - box.minX) * videoWidth, (box.maxY - box.minY) * videoHeight) / shorter;
+}
+
+/**
+ * The hand spans the set-up check accepts for a motion, test position and digit (`handSpan`): the thumb-side band for a
+ * finger's MCP, PIP or DIP motion whose recommended view is the thumb side, else at least `minHandSpan` with no upper
+ * bound but the picture's edges (`hand_in_frame`).
+ */
+export function handSpanBand(motion: MotionId, condition: Condition, digit: Digit | null): { min: number; max: number } {
+  const joint = MOTIONS[motion].joint;
+  const fingerJoint = joint === "mcp" || joint === "pip" || joint === "dip";
+  const thumbSide = viewPolicy(motion, condition, digit).recommended[0] === "radial";
+  return fingerJoint && digit !== "thumb" && thumbSide ? SETUP_LIMITS.thumbSideFingerSpan : { min: SETUP_LIMITS.minHandSpan, max: Infinity };
 }
 
 /** Which edges of the picture, as the person sees it, the hand runs past. */
@@ -164,13 +194,14 @@ export function runSetupChecks(input: SetupInput): SetupCheck[] {
       checks.push(check("correct_hand", "fix", `This looks like your ${other} hand. Show your ${side} hand for this check, and keep the other one out of the picture.`));
     }
 
-    const box = boundingBox(latest.image);
-    const shorter = Math.min(input.videoWidth, input.videoHeight) || 1;
-    const spanPx = Math.max((box.maxX - box.minX) * input.videoWidth, (box.maxY - box.minY) * input.videoHeight);
+    const span = handSpan(latest.image, input.videoWidth, input.videoHeight);
+    const band = handSpanBand(input.motion, input.condition ?? "against_gravity", input.digit ?? null);
     checks.push(
-      spanPx / shorter >= SETUP_LIMITS.minHandSpan
-        ? check("hand_size", "ok")
-        : check("hand_size", "fix", "Your hand looks small in the picture. Bring it closer to the camera, or the camera closer to your hand."),
+      span < band.min
+        ? check("hand_size", "fix", "Your hand looks small in the picture. Bring it closer to the camera, or the camera closer to your hand.")
+        : span > band.max
+          ? check("hand_size", "fix", "Your hand fills too much of the picture. Move the camera back a little, or your hand away from it, so there is space all around the hand.")
+          : check("hand_size", "ok"),
     );
   }
 

@@ -7,8 +7,11 @@ import {
   clipReport,
   fingerRows,
   framesAtRate,
+  parseFraming,
   parseMinConfidence,
   parseSensorNoise,
+  SETUP_FRAMING_DISTANCE_M,
+  setupAccepts,
   parseTrackFps,
   ordinalStep,
   planClips,
@@ -96,6 +99,40 @@ describe("held-out clip plans", () => {
     expect(Math.min(...distances)).toBeGreaterThanOrEqual(0.3);
     expect(Math.max(...distances)).toBeLessThanOrEqual(0.7);
     expect(Math.max(...distances) - Math.min(...distances)).toBeGreaterThan(0.2);
+  });
+});
+
+describe("framing as the set-up check asks (--framing)", () => {
+  const usual = planClips(20261205, 8, "gravity_minimized", ["pip.flexion"]);
+  const framed = planClips(20261205, 8, "gravity_minimized", ["pip.flexion"], undefined, false, "setup");
+
+  it("`setup` draws distances in its own range from the same draws, and names the clips apart", () => {
+    framed.forEach((plan, i) => {
+      expect(plan.distanceM).toBeGreaterThanOrEqual(SETUP_FRAMING_DISTANCE_M[0]);
+      expect(plan.distanceM).toBeLessThanOrEqual(SETUP_FRAMING_DISTANCE_M[1]);
+      expect([plan.toDeg, plan.side, plan.seed]).toEqual([usual[i].toDeg, usual[i].side, usual[i].seed]);
+      expect(plan.name).toBe(usual[i].name.replace("-gm-", "-gm-setup-"));
+    });
+    // `filter` reads the usual clips.
+    expect(planClips(20261205, 8, "gravity_minimized", ["pip.flexion"], undefined, false, "filter")).toEqual(usual);
+  });
+
+  it("keeps a clip only where the set-up check accepts its first frame's hand span", () => {
+    // A first frame whose landmarks span `px` pixels of the 480-pixel height (the picture is 640x480).
+    const truthSpanning = (px: number) => ({ frameCount: 1, frames: [{ index: 0, timeMs: 0, truth: { landmarksImagePx: Array.from({ length: 21 }, (_, i) => [300, 100 + (px * i) / 20]) } as unknown as FrameTruth }] });
+    const plan = framed[0];
+    expect(setupAccepts(plan, truthSpanning(240))).toBe(true); // 0.5 of the picture's shorter side
+    expect(setupAccepts(plan, truthSpanning(330))).toBe(false); // 0.69: too near
+    expect(setupAccepts(plan, truthSpanning(150))).toBe(false); // 0.31: too far
+    // Against gravity a finger has no upper bound, only the set-up check's least span.
+    const against = planClips(20261205, 1, "against_gravity", ["pip.flexion"])[0];
+    expect(setupAccepts(against, truthSpanning(330))).toBe(true);
+  });
+
+  it("names the expected values of a bad --framing", () => {
+    expect(parseFraming(undefined)).toBeNull();
+    expect(parseFraming("filter")).toBe("filter");
+    expect(() => parseFraming("tight")).toThrow(/--framing: expected setup or filter; got 'tight'/);
   });
 });
 

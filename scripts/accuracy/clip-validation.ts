@@ -39,7 +39,8 @@ import type { Browser } from "playwright-core";
 import type { Condition, Digit, MotionId } from "@/lib/motions/catalog";
 import { analyzeCapture } from "@/vision/analyze-capture";
 import { ClipCaptureError, clipCapture } from "@/vision/live/clip-capture";
-import type { TrackedFrame } from "@/vision/live/types";
+import type { LandmarkXYZ, TrackedFrame } from "@/vision/live/types";
+import { handSpan, handSpanBand } from "@/lib/tracking/setup-checks";
 import { viewPolicy } from "@/vision/view-policy";
 import { launchChromium, openHarnessPage, startHarnessServer, waitForFrames, type HarnessServer } from "../../tests/harness/tracking-harness";
 import { FINGERS, getPoseAngle, type PoseKey } from "./hand-pose";
@@ -134,6 +135,45 @@ export interface ClipPlan {
   oneFinger?: boolean;
 }
 
+/** Camera distances of the held-out clips, metres. */
+export const CLIP_DISTANCE_M: readonly [number, number] = [0.3, 0.7];
+/**
+ * `--framing setup`: distances where a hand usually spans the set-up check's thumb-side band (lib/tracking/setup-checks.ts
+ * `thumbSideFingerSpan`, 0.4-0.6 of the picture's shorter side); ours, from the calibration clips (seeds
+ * 77000407-77000408), where a hand spanned about 0.6 at 0.4 m and 0.4 at 0.6 m. The band itself then decides
+ * (`setupAccepts`), so the draw only needs to cover it.
+ */
+export const SETUP_FRAMING_DISTANCE_M: readonly [number, number] = [0.38, 0.62];
+
+/**
+ * `setup`: clips drawn at `SETUP_FRAMING_DISTANCE_M` (named `<motion>[-gm]-setup-...`, apart from the others) and kept
+ * only where the set-up check accepts their first frame; `filter`: the usual clips, kept only where it accepts theirs.
+ */
+export type Framing = "setup" | "filter";
+
+export function parseFraming(raw: string | undefined): Framing | null {
+  if (raw === undefined) return null;
+  if (raw !== "setup" && raw !== "filter") throw new Error(`--framing: expected setup or filter; got '${raw}'`);
+  return raw;
+}
+
+/** The hand's span in a clip's first frame as the set-up check measures it (lib/tracking/setup-checks.ts handSpan), from the truth's landmarks. */
+export function firstFrameSpan(truth: ClipTruthFile): number {
+  const image = truth.frames[0].truth.landmarksImagePx.map(([x, y]) => [x / IMAGE_WIDTH_PX, y / IMAGE_HEIGHT_PX, 0] as LandmarkXYZ);
+  return handSpan(image, IMAGE_WIDTH_PX, IMAGE_HEIGHT_PX);
+}
+
+/**
+ * Whether the app's set-up check would let this clip's attempt start as far as the hand's size goes: its first frame
+ * (the still start, fingers straight) spans the band the check asks for the motion, test position and digit. A live
+ * attempt cannot start outside it; an upload can, and these figures do not cover it.
+ */
+export function setupAccepts(plan: Pick<ClipPlan, "motion" | "condition">, truth: ClipTruthFile): boolean {
+  const band = handSpanBand(plan.motion.motion, plan.condition, plan.motion.digits[0]);
+  const span = firstFrameSpan(truth);
+  return span >= band.min && span <= band.max;
+}
+
 /** The clips of one seed: for each motion, `count` clips alternating right and left hands, each drawn from its own seed. */
 /** Clip seeds per motion drawn up front, so a plan with more clips keeps the clips of a smaller one. */
 const SEEDS_PER_MOTION = 100;
@@ -149,6 +189,7 @@ export function planClips(
   motions?: readonly MotionId[],
   viewOverride?: CameraView,
   oneFinger = false,
+  framing: Framing | null = null,
 ): ClipPlan[] {
   if (count > SEEDS_PER_MOTION) throw new Error(`--clips: expected at most ${SEEDS_PER_MOTION}; got ${count}`);
   const unknown = motions?.filter((motion) => !CLIP_MOTIONS.some((m) => m.motion === motion)) ?? [];
@@ -163,12 +204,13 @@ export function planClips(
       // The first number of a freshly seeded generator depends little on small seeds; it is not used.
       uniformFloat64(draws);
       const toDeg = motion.toDeg[0] + (motion.toDeg[1] - motion.toDeg[0]) * uniformFloat64(draws);
-      const distanceM = 0.3 + 0.4 * uniformFloat64(draws);
+      const [near, far] = framing === "setup" ? SETUP_FRAMING_DISTANCE_M : CLIP_DISTANCE_M;
+      const distanceM = near + (far - near) * uniformFloat64(draws);
       const view = viewOverride ?? (viewPolicy(motion.motion, condition, motion.digits[0]).recommended[0] as CameraView);
       const side: HandSide = i % 2 === 0 ? "right" : "left";
       // Against gravity keeps its first names (and cached renders); the other condition's clips are named apart.
       const base = viewOverride ? `${motion.motion}-${viewOverride}` : condition === "against_gravity" ? motion.motion : `${motion.motion}-gm`;
-      const prefix = oneFinger ? `${base}-alone` : base;
+      const prefix = `${base}${oneFinger ? "-alone" : ""}${framing === "setup" ? "-setup" : ""}`;
       const name = `${prefix}-${seed}-${i}-${clipSeed}`;
       return { name, motion, side, view, condition, seed: clipSeed, toDeg, distanceM, ...(oneFinger ? { oneFinger: true } : {}) };
     }),
@@ -577,12 +619,15 @@ export interface ClipSection {
   rows: readonly ClipRow[];
   /** The engine's finger readings split by finger (absent in reports written before it). */
   byFinger?: readonly FingerRow[];
+  /** `--framing`: per motion, the clips drawn and those the set-up check accepts (`setupAccepts`), which alone are read. */
+  framing?: readonly { label: string; drawn: number; kept: number }[];
 }
 
 export function clipReport(
   sections: readonly ClipSection[],
-  meta: { glName: string; condition?: Condition; views?: readonly CameraView[]; withoutStraightWrist?: readonly WithoutStraightWristRow[]; oneFinger?: boolean; trackFps?: number | null },
+  meta: { glName: string; condition?: Condition; views?: readonly CameraView[]; withoutStraightWrist?: readonly WithoutStraightWristRow[]; oneFinger?: boolean; trackFps?: number | null; framing?: Framing | null },
 ): string {
+  const distances = meta.framing === "setup" ? SETUP_FRAMING_DISTANCE_M : CLIP_DISTANCE_M;
   const condition = meta.condition ?? "against_gravity";
   const where = meta.views
     ? `seen from ${meta.views.join(", ")} (views other than the recommended one, read by the whole-hand-shape estimators where they apply; issue 8's bars are set for the recommended view and are shown for reference)`
@@ -602,7 +647,12 @@ export function clipReport(
     "",
     `- Held-out clips: per motion, half right hands and half left, each a still start ` +
       `(1 s; 3 s for the wrist, the straight-wrist reading), then ${CYCLES} cycles of ${CYCLE_SECONDS} s from rest to an end of range drawn from the seed and back, ${CLIP_FPS} fps, ` +
-      `camera 0.3-0.7 m, skin, light and background drawn from the seed, ${where}. ${fingers} Nothing is fitted on these seeds.`,
+      `camera ${distances[0]}-${distances[1]} m, skin, light and background drawn from the seed, ${where}. ${fingers} Nothing is fitted on these seeds.`,
+    ...(meta.framing
+      ? [
+          `- Framing (\`--framing ${meta.framing}\`): only clips whose first frame (the still start) the app's set-up check accepts for the hand's size are read (lib/tracking/setup-checks.ts handSpanBand: from the thumb side a finger's hand spans 0.4-0.6 of the picture's shorter side); a live attempt cannot start outside that band, an upload can. Each seed says how many of its clips were kept.`,
+        ]
+      : []),
     "- Path: the app's tracking code frame by frame (step mode, as analyze-clip and the upload review), the upload's capture builder, the engine's capture analysis as shipped (correction where it clearly helps, wrist read against the clip's straight-wrist reading, depth mirror on); `without depth mirror` and `raw` (no correction, no depth mirror) for comparison. Side-on wrist flexion/extension is read in the picture (vision/wrist-axis.ts) in every reading, raw included; the finger estimator reads each finger's picture points as well as its 3-D ones (vision/estimator.ts PICTURE_FEATURES).",
     "- Frames: every frame of every reading; detected = the engine reported an angle. Peak: the best repetition's peak against the truth's end of range. Repetitions: readings with exactly the clip's cycles. Within stated ±: the share of detected frames whose error lies inside the 90% interval the engine stated for that frame (vision/uncertainty.ts; about 90% is honest, far less is overconfident); peak within stated ±: the same for each reading's peak and the interval stated for it. Peak P90: 90% of the readings' peaks lie within this many degrees of the truth (nearest rank; readings read against how the hand was first seen are left out), the figure derive-uncertainty.ts gives the peak's interval; frame P90: the same over every detected frame, the least width derive-uncertainty.ts gives a frame's interval.",
     ...(meta.trackFps
@@ -620,6 +670,7 @@ export function clipReport(
       "",
       SEED_NOTES[section.seed] ?? "Held out from every fit.",
       "",
+      ...(section.framing ? [`Kept by the set-up check's framing: ${section.framing.map((f) => `${f.label} ${f.kept} of ${f.drawn}`).join(", ")}.`, ""] : []),
       meta.views
         ? "### Against issue 8's bars (for reference: not the recommended view)"
         : meta.oneFinger
@@ -710,8 +761,11 @@ async function main(): Promise<void> {
       "sensor-noise": { type: "string" },
       "one-finger": { type: "boolean" },
       "track-fps": { type: "string" },
+      framing: { type: "string" },
     },
   });
+  const framing = parseFraming(values.framing);
+  if (framing && !values.out) throw new Error("--framing: expected --out FILE (the committed reports read every clip)");
   const minConfidence = parseMinConfidence(values["min-confidence"]);
   // --track-fps 15: the tracker steps through every second frame, as a camera at 15 frames a second would give them.
   const trackFps = parseTrackFps(values["track-fps"]);
@@ -736,8 +790,18 @@ async function main(): Promise<void> {
     const folder = path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
     mkdirSync(folder, { recursive: true });
     const oneFinger = values["one-finger"] ?? false;
-    const plans = views ? views.flatMap((view) => planClips(seed, clips, condition, motions, view, oneFinger)) : planClips(seed, clips, condition, motions, undefined, oneFinger);
-    await renderClips(plans, folder, reuse);
+    const drawn = views
+      ? views.flatMap((view) => planClips(seed, clips, condition, motions, view, oneFinger, framing))
+      : planClips(seed, clips, condition, motions, undefined, oneFinger, framing);
+    await renderClips(drawn, folder, reuse);
+    const plans = framing ? drawn.filter((plan) => setupAccepts(plan, JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile)) : drawn;
+    const framingCounts = framing
+      ? [...new Set(drawn.map((plan) => plan.motion.label))].map((label) => ({
+          label,
+          drawn: drawn.filter((plan) => plan.motion.label === label).length,
+          kept: plans.filter((plan) => plan.motion.label === label).length,
+        }))
+      : undefined;
     const rows: ClipRow[] = [];
     const byFinger: FingerRow[] = [];
     for (const model of models) {
@@ -761,12 +825,12 @@ async function main(): Promise<void> {
         }
       }
     }
-    sections.push({ seed, clips, rows, byFinger });
+    sections.push({ seed, clips, rows, byFinger, ...(framingCounts ? { framing: framingCounts } : {}) });
   }
   const renderer = await HandRenderer.start();
   const glName = await renderer.glRenderer();
   await renderer.close();
-  const text = clipReport(sections, { glName, condition, views, withoutStraightWrist: withoutStraightWristRows(withoutStraight), oneFinger: values["one-finger"] ?? false, trackFps });
+  const text = clipReport(sections, { glName, condition, views, withoutStraightWrist: withoutStraightWristRows(withoutStraight), oneFinger: values["one-finger"] ?? false, trackFps, framing });
   writeFileSync(values.out ?? REPORT_FILES[condition], text);
   process.stdout.write(text);
   if (perClip.length) process.stdout.write(["", "| clip | model | side | digit | to ° | truth peak ° | peak ° | frame MAE ° | bias ° | reps | forearm | method |", ...perClip, ""].join("\n"));

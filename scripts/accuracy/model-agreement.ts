@@ -11,10 +11,14 @@
  *
  *   npx tsx scripts/accuracy/model-agreement.ts --seeds 77000401,77000402 [--motions pip.flexion,mcp.flexion]
  *     [--condition against_gravity|gravity_minimized] [--clips 10] [--per-reading] [--fps N] [--out FILE]
+ *     [--framing setup|filter]
  *
  * `--fps N` (below the clips' own 30) reads only the frames a camera at N frames a second would have given, as live
  * tracking with both models delivers fewer frames than a clip has. An approximation: the saved tracking followed every
  * frame, while a tracker given fewer frames starts each one from a hand that moved further.
+ *
+ * `--framing setup` reads the clips `clip-validation.ts --framing setup` rendered; `--framing filter` the usual ones; either
+ * way only the clips whose first frame the app's set-up check accepts for the hand's size (clip-validation.ts setupAccepts).
  *
  * Prints markdown tables (and writes them to FILE with --out); per seed and motion, each model alone and both.
  */
@@ -32,9 +36,11 @@ import {
   parseTrackFps,
   peakCoverage,
   peakErrorP90,
+  parseFraming,
   planClips,
   readClip,
   readSavedTracking,
+  setupAccepts,
   statedCoverage,
   trackedRateSuffix,
   truthAtTimes,
@@ -167,8 +173,10 @@ async function main(): Promise<void> {
       fps: { type: "string" },
       "tracked-fps": { type: "string" },
       out: { type: "string" },
+      framing: { type: "string" },
     },
   });
+  const framing = parseFraming(values.framing);
   if (!values.seeds) throw new Error("--seeds: expected a comma-separated list of seeds, e.g. 77000401,77000402");
   const seeds = values.seeds.split(",").map((raw) => parseCount("seeds", raw, 0));
   const motions = (values.motions ?? "mcp.flexion,pip.flexion,dip.flexion").split(",") as MotionId[];
@@ -179,12 +187,13 @@ async function main(): Promise<void> {
   const trackedFps = parseTrackFps(values["tracked-fps"]);
   if (fps !== null && trackedFps !== null) throw new Error("--fps and --tracked-fps: expected one of them");
   const lines: string[] = [];
-  lines.push(`## Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}${fps === null ? "" : `, read at ${fps} frames a second`}${trackedFps === null ? "" : `, tracked at ${trackedFps} frames a second`}\n`);
+  lines.push(`## Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}${fps === null ? "" : `, read at ${fps} frames a second`}${trackedFps === null ? "" : `, tracked at ${trackedFps} frames a second`}${framing === null ? "" : `, framing ${framing}`}\n`);
   lines.push("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peak P90 ° | frame P90 ° | peak within stated ± | models disagree (> " + PEAK_DISAGREEMENT_DEG + "°) | issue 8's bars |");
   lines.push("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- |");
   const perReading: string[] = [];
   // Both models together, split by finger (derive-uncertainty.ts reads it for the thumb side's two-model cells).
   const byFinger: string[] = [];
+  const framingNotes: string[] = [];
   for (const motion of motions) {
     const all: Reading3[] = [];
     const rows = (label: string, pairs: Reading3[]) => {
@@ -197,7 +206,11 @@ async function main(): Promise<void> {
     };
     for (const seed of seeds) {
       const folder = path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
-      const pairs = readBoth(folder, planClips(seed, clips, condition, [motion]), fps, trackedFps);
+      const drawn = planClips(seed, clips, condition, [motion], undefined, false, framing);
+      // --framing: only the clips the set-up check would let start (clip-validation.ts setupAccepts).
+      const plans = framing ? drawn.filter((plan) => setupAccepts(plan, JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile)) : drawn;
+      if (framing) framingNotes.push(`${motion} ${seed}: ${plans.length} of ${drawn.length} clips`);
+      const pairs = readBoth(folder, plans, fps, trackedFps);
       if (!pairs.length) continue;
       all.push(...pairs);
       rows(String(seed), pairs);
@@ -213,6 +226,7 @@ async function main(): Promise<void> {
     }
     if (seeds.length > 1 && all.length) rows("all", all);
   }
+  if (framingNotes.length) lines.push("", `Kept by the set-up check's framing (first frame's hand span within lib/tracking/setup-checks.ts handSpanBand): ${framingNotes.join("; ")}.`);
   if (byFinger.length) lines.push(["", `${BOTH_BY_FINGER_HEADER} both: frame P90 ° |`, "| --- | --- | --- | ---: | ---: | ---: | ---: |", ...byFinger].join("\n"));
   if (values["per-reading"]) lines.push(["", "| clip | finger | side | truth peak ° | lite peak ° | full peak ° | both peak ° | lite MAE ° | full MAE ° | both MAE ° |", "| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: |", ...perReading].join("\n"));
   const text = `${lines.join("\n")}\n`;
