@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { MOTIONS, MOTION_IDS, SIDES, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
-import { analyzeCapture } from "./analyze-capture";
+import { analyzeCapture, framingWarning, startHandSpan } from "./analyze-capture";
 import { DIGIT_CHAIN, MIDDLE_MCP, WRIST } from "./landmarks";
 import { createLivePipeline } from "./pipeline";
 import { PLANE_LIMITS, planeVerdict } from "./plane";
@@ -215,5 +215,31 @@ describe("plane verdict against the model's geometry, random orientations and gr
       }
     }
     expect(checked).toBeGreaterThan(80);
+  });
+});
+
+describe("framing at the start of a capture (an upload no set-up check held)", () => {
+  // Picture points spanning `span` of a 4:3 picture's height (its shorter side), from t = 0 in steps of 100 ms.
+  const framed = (spans: readonly number[]) =>
+    spans.map((span, i) => ({ t: i * 100, score: 0.9, hand: null, image: Array.from({ length: 21 }, (_, k) => [0.5, 0.2 + (span * k) / 20]), imageAspect: 4 / 3 }));
+  const thumbSide = { motion: "pip.flexion" as const, side: "right" as const, digit: "index" as const, condition: "gravity_minimized" as const };
+
+  it("measures the hand's span as the median over the first second, later frames aside", () => {
+    const frames = [...framed(Array.from({ length: 11 }, () => 0.5)), ...framed([0.95, 0.95]).map((f) => ({ ...f, t: f.t + 2000 }))];
+    expect(startHandSpan({ frames })).toBeCloseTo(0.5, 9);
+    expect(startHandSpan({ frames: [{ t: 0, score: 0, hand: null }] })).toBeNull();
+  });
+
+  it("warns from the thumb side outside the set-up check's band (vision/view-policy.ts FRAMING), not inside it", () => {
+    expect(framingWarning({ ...thumbSide, frames: framed([0.7, 0.7, 0.7]) })).toMatch(/filled 70% of the picture at the start, more than the 60%/);
+    expect(framingWarning({ ...thumbSide, frames: framed([0.3, 0.3, 0.3]) })).toMatch(/filled 30% .* less than the 40%/);
+    expect(framingWarning({ ...thumbSide, frames: framed([0.5, 0.5, 0.5]) })).toBeNull();
+    // Against gravity (little-finger side) a finger has no upper bound.
+    expect(framingWarning({ ...thumbSide, condition: "against_gravity", frames: framed([0.7, 0.7, 0.7]) })).toBeNull();
+  });
+
+  it("reaches the analysis's warnings", () => {
+    const analysis = analyzeCapture({ ...thumbSide, frames: framed(Array.from({ length: 20 }, () => 0.75)) });
+    expect(analysis.warnings.some((w) => /filled 75% of the picture/.test(w))).toBe(true);
   });
 });

@@ -4,7 +4,7 @@ import type { PlaneReading } from "./plane";
 import type { Repetition } from "./reps";
 import type { ValidationView } from "./uncertainty";
 import type { Vec3 } from "./vec";
-import type { ViewQuality } from "./view-policy";
+import { handSpan, handSpanBand, type ViewQuality } from "./view-policy";
 import { neutralReading, type ForearmSource, type NeutralFrame, type NeutralReading } from "./wrist-axis";
 
 /** What the analyzer needs from a capture; the parsed capture file (lib/capture) has this shape. */
@@ -76,6 +76,44 @@ export type AnalyzeOptions = Omit<LivePipelineOptions, "motion" | "side" | "digi
   onUpdate?: (update: LiveUpdate, frameIndex: number) => void;
 };
 
+/** How long at the start of a capture its framing is judged over: the still start before the motion, milliseconds. */
+export const START_FRAMING_MS = 1000;
+
+/**
+ * The hand's span at the start of a capture (vision/view-policy.ts handSpan): the median over the frames with
+ * picture points in its first `START_FRAMING_MS`, or null when no frame has them. What the set-up check would have
+ * measured before a live attempt started.
+ */
+export function startHandSpan(capture: Pick<CaptureInput, "frames" | "imageAspect">): number | null {
+  const withImage = capture.frames.filter((frame) => frame.image && frame.image.length === 21);
+  if (withImage.length === 0) return null;
+  const spans = withImage
+    .filter((frame) => frame.t - withImage[0].t <= START_FRAMING_MS)
+    .map((frame) => handSpan(frame.image!, frame.imageAspect ?? capture.imageAspect ?? 4 / 3, 1))
+    .sort((a, b) => a - b);
+  const mid = Math.floor(spans.length / 2);
+  return spans.length % 2 ? spans[mid] : (spans[mid - 1] + spans[mid]) / 2;
+}
+
+/**
+ * A warning when the capture started with the hand outside the span the set-up check asks for this motion (an
+ * upload, which no set-up check held), else null.
+ */
+export function framingWarning(capture: Pick<CaptureInput, "frames" | "imageAspect" | "motion" | "condition" | "digit">): string | null {
+  const span = startHandSpan(capture);
+  if (span === null) return null;
+  const band = handSpanBand(capture.motion, capture.condition, capture.digit);
+  if (band.max === Infinity) return null;
+  const pct = (x: number) => `${Math.round(x * 100)}%`;
+  if (span > band.max) {
+    return `the hand filled ${pct(span)} of the picture at the start, more than the ${pct(band.max)} the set-up check allows from this side: in Kinarc's rendered test clips hands framed that close were lost more often; readings may be less sure`;
+  }
+  if (span < band.min) {
+    return `the hand filled ${pct(span)} of the picture at the start, less than the ${pct(band.min)} the set-up check asks from this side: in Kinarc's rendered test clips hands framed that far read the fingertip joints less surely`;
+  }
+  return null;
+}
+
 /** The best repetition is the one that went furthest by the measure the motion is graded on. */
 export function bestRepetition(motion: MotionId, repetitions: readonly Repetition[]): Repetition | null {
   const measure = MOTIONS[motion].gradedOn === "arc" ? (r: Repetition) => r.arcDeg : (r: Repetition) => r.peakDeg;
@@ -111,6 +149,8 @@ export function analyzeCapture(capture: CaptureInput, { onUpdate, ...options }: 
 
   const warnings = [...summary.warnings];
   if (neutral && !neutral.ok && isWrist) warnings.push(`neutral reading not used: ${neutral.problem}`);
+  const framing = framingWarning(capture);
+  if (framing) warnings.push(framing);
   const planeAgrees = summary.plane?.verdict === capture.condition;
   if (summary.plane && !planeAgrees) {
     warnings.push(`declared ${capture.condition} but the test plane reads ${summary.plane.verdict} (axis ${summary.plane.axisToGravityDeg.toFixed(0)} deg from gravity)`);

@@ -192,3 +192,41 @@ export function majorityView(views: readonly (ValidationView | null)[]): Validat
   for (const [v, n] of counts) if (n * 2 > seen) return v;
   return null;
 }
+
+/**
+ * How much of the picture the hand should fill, as the hand's longer side over the picture's shorter side (`handSpan`).
+ * - `minHandSpan`: below a fifth the landmarks' pixel jitter becomes several degrees of finger angle [reasoning: at
+ *   480 px a finger segment is then under 25 px, and 1-2 px of jitter turns it by 2-5 degrees].
+ * - `thumbSideFingerSpan`: finger flexion seen from the thumb side (a camera above a hand resting on its little-finger
+ *   edge). On the calibration clips (seeds 77000407-77000408, thumb side, four-finger MCP, PIP and DIP flexion, both
+ *   hand models; nothing fitted on them; scripts/accuracy/detection-scan.ts), hands filling more than 0.6 of the
+ *   picture were lost: the full model found 88% of frames at 0.6-0.7 and 43% above 0.7, against 91-100% below 0.6;
+ *   and DIP read worst above 0.6 (both models together, MAE 8.9 deg) and below 0.4 (8.1 deg, a fingertip's bone a few
+ *   dozen pixels long) against 5.7-6.7 deg between. From the little-finger side no such loss was seen (seeds 77000407
+ *   and 20261222: every span band 100% found by one model or the other).
+ */
+export const FRAMING = {
+  minHandSpan: 0.2,
+  thumbSideFingerSpan: { min: 0.4, max: 0.6 },
+} as const;
+
+/** The hand's longer side in the picture over the picture's shorter side; `image` in 0-1 of `width` and `height`. */
+export function handSpan(image: readonly (readonly number[])[], width: number, height: number): number {
+  if (image.length === 0) throw new Error("image: expected the hand's landmarks, got none");
+  const xs = image.map((p) => p[0]);
+  const ys = image.map((p) => p[1]);
+  const shorter = Math.min(width, height) || 1;
+  return Math.max((Math.max(...xs) - Math.min(...xs)) * width, (Math.max(...ys) - Math.min(...ys)) * height) / shorter;
+}
+
+/**
+ * The hand spans a motion, test position and digit are read at: the thumb-side band for a finger's MCP, PIP or DIP
+ * motion whose recommended view is the thumb side, else at least `minHandSpan` with no upper bound but the picture's
+ * edges. The set-up check holds a live attempt to it; an upload outside it carries a warning (analyzeCapture).
+ */
+export function handSpanBand(motion: MotionId, condition: Condition, digit: Digit | null): { min: number; max: number } {
+  const joint = MOTIONS[motion].joint;
+  const fingerJoint = joint === "mcp" || joint === "pip" || joint === "dip";
+  const thumbSide = policyFor(motion, condition, digit).recommended[0] === "radial";
+  return fingerJoint && digit !== "thumb" && thumbSide ? FRAMING.thumbSideFingerSpan : { min: FRAMING.minHandSpan, max: Infinity };
+}

@@ -31,9 +31,11 @@ import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } fro
  * analysis-6: only where the picture contradicts the 3-D view (a face or an edge); oblique and from-above frames keep
  * their 3-D view (analysis-5 turned an open hand seen obliquely from the back into a side view). analysis-7: the
  * finger estimator's view fit is chosen by that same view too, not by the 3-D axes (vision/estimator.ts
- * estimateFingerJointDeg), so a thumb-side frame is read by the thumb-side fit.
+ * estimateFingerJointDeg), so a thumb-side frame is read by the thumb-side fit. analysis-8: angles as analysis-7; a
+ * thumb-side finger capture whose hand at the start filled the picture outside the set-up check's band carries a
+ * warning (vision/analyze-capture.ts framingWarning; an upload, which no set-up check held).
  */
-export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-7";
+export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-8";
 
 /**
  * A visit accepts attempts while it runs, and for a while after it ends: an attempt recorded near the end may reach

@@ -7,7 +7,7 @@ import { DEFAULT_TRACKING_LIMITS } from "@/vision/analyze-capture";
 import { MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
 import type { LandmarkXYZ, TrackedFrame } from "@/vision/live/types";
 import type { ValidationView } from "@/vision/uncertainty";
-import { majorityView, measureView, viewInstruction, viewPolicy, viewQuality, type ViewQuality } from "@/vision/view-policy";
+import { FRAMING, handSpan, handSpanBand, majorityView, measureView, viewInstruction, viewPolicy, viewQuality, type ViewQuality } from "@/vision/view-policy";
 
 export type SetupCheckId = "hand_seen" | "hand_in_frame" | "correct_hand" | "hand_size" | "light" | "steady" | "view" | "forearm" | "upright";
 
@@ -45,23 +45,10 @@ export interface SetupInput {
 export const SETUP_LIMITS = {
   /** Landmarks closer than this share of the picture to an edge count as cut off (fingertips vanish first). */
   edgeMargin: 0.02,
-  /**
-   * The hand's longer side in the picture, as a share of the picture's shorter side. Below a fifth the landmarks'
-   * pixel jitter becomes several degrees of finger angle [reasoning: at 480 px a finger segment is then under 25 px,
-   * and 1-2 px of jitter turns it by 2-5 degrees].
-   */
-  minHandSpan: 0.2,
-  /**
-   * Finger flexion seen from the thumb side (gravity minimized: a camera above a hand resting on its little-finger
-   * edge) wants the hand's longer side between these shares of the picture's shorter side. On the calibration clips
-   * (seeds 77000407-77000408, thumb side, four-finger MCP, PIP and DIP flexion, both hand models; nothing fitted on
-   * them), hands filling more than 0.6 of the picture were lost: the full model found 88% of frames at 0.6-0.7 and 43%
-   * above 0.7, against 91-100% below 0.6, and DIP read worst both above 0.6 (two models together, MAE 8.9 deg) and below
-   * 0.4 (8.1 deg, where a fingertip's bone is a few dozen pixels) against 5.7-6.7 deg in between
-   * (scripts/accuracy/contrast-scan.ts and scripts/accuracy/README.md, "Framing from the thumb side"). From the
-   * little-finger side no such loss was seen (seeds 77000407 and 20261222, every span band 100% found by either model).
-   */
-  thumbSideFingerSpan: { min: 0.4, max: 0.6 },
+  /** The hand's longer side over the picture's shorter side: at least this much (vision/view-policy.ts FRAMING). */
+  minHandSpan: FRAMING.minHandSpan,
+  /** Finger flexion from the thumb side: within this band (vision/view-policy.ts FRAMING, where the figures are). */
+  thumbSideFingerSpan: FRAMING.thumbSideFingerSpan,
   /** ITU-R BT.601 luma, 0-255: below 50 the detector loses the hand in a dim room; above 235 the skin washes out [from memory]. */
   minLuma: 50,
   maxLuma: 235,
@@ -120,24 +107,7 @@ function boundingBox(image: readonly LandmarkXYZ[]): Box {
   return box;
 }
 
-/** The hand's longer side in the picture as a share of the picture's shorter side (landmarks 0-1 of width and height). */
-export function handSpan(image: readonly LandmarkXYZ[], videoWidth: number, videoHeight: number): number {
-  const box = boundingBox(image);
-  const shorter = Math.min(videoWidth, videoHeight) || 1;
-  return Math.max((box.maxX - box.minX) * videoWidth, (box.maxY - box.minY) * videoHeight) / shorter;
-}
-
-/**
- * The hand spans the set-up check accepts for a motion, test position and digit (`handSpan`): the thumb-side band for a
- * finger's MCP, PIP or DIP motion whose recommended view is the thumb side, else at least `minHandSpan` with no upper
- * bound but the picture's edges (`hand_in_frame`).
- */
-export function handSpanBand(motion: MotionId, condition: Condition, digit: Digit | null): { min: number; max: number } {
-  const joint = MOTIONS[motion].joint;
-  const fingerJoint = joint === "mcp" || joint === "pip" || joint === "dip";
-  const thumbSide = viewPolicy(motion, condition, digit).recommended[0] === "radial";
-  return fingerJoint && digit !== "thumb" && thumbSide ? SETUP_LIMITS.thumbSideFingerSpan : { min: SETUP_LIMITS.minHandSpan, max: Infinity };
-}
+export { handSpan, handSpanBand };
 
 /** Which edges of the picture, as the person sees it, the hand runs past. */
 export function edgesCut(image: readonly LandmarkXYZ[], displayMirrored: boolean, margin: number = SETUP_LIMITS.edgeMargin): ("top" | "bottom" | "left" | "right")[] {

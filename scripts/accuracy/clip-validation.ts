@@ -40,8 +40,7 @@ import type { Condition, Digit, MotionId } from "@/lib/motions/catalog";
 import { analyzeCapture } from "@/vision/analyze-capture";
 import { ClipCaptureError, clipCapture } from "@/vision/live/clip-capture";
 import type { LandmarkXYZ, TrackedFrame } from "@/vision/live/types";
-import { handSpan, handSpanBand } from "@/lib/tracking/setup-checks";
-import { viewPolicy } from "@/vision/view-policy";
+import { handSpan, handSpanBand, viewPolicy } from "@/vision/view-policy";
 import { launchChromium, openHarnessPage, startHarnessServer, waitForFrames, type HarnessServer } from "../../tests/harness/tracking-harness";
 import { FINGERS, getPoseAngle, type PoseKey } from "./hand-pose";
 import { renderSweepClip, runFfmpeg } from "./render-jobs";
@@ -138,8 +137,8 @@ export interface ClipPlan {
 /** Camera distances of the held-out clips, metres. */
 export const CLIP_DISTANCE_M: readonly [number, number] = [0.3, 0.7];
 /**
- * `--framing setup`: distances where a hand usually spans the set-up check's thumb-side band (lib/tracking/setup-checks.ts
- * `thumbSideFingerSpan`, 0.4-0.6 of the picture's shorter side); ours, from the calibration clips (seeds
+ * `--framing setup`: distances where a hand usually spans the set-up check's thumb-side band (vision/view-policy.ts
+ * `FRAMING.thumbSideFingerSpan`, 0.4-0.6 of the picture's shorter side); ours, from the calibration clips (seeds
  * 77000407-77000408), where a hand spanned about 0.6 at 0.4 m and 0.4 at 0.6 m. The band itself then decides
  * (`setupAccepts`), so the draw only needs to cover it.
  */
@@ -157,7 +156,7 @@ export function parseFraming(raw: string | undefined): Framing | null {
   return raw;
 }
 
-/** The hand's span in a clip's first frame as the set-up check measures it (lib/tracking/setup-checks.ts handSpan), from the truth's landmarks. */
+/** The hand's span in a clip's first frame as the set-up check measures it (vision/view-policy.ts handSpan, as the set-up check), from the truth's landmarks. */
 export function firstFrameSpan(truth: ClipTruthFile): number {
   const image = truth.frames[0].truth.landmarksImagePx.map(([x, y]) => [x / IMAGE_WIDTH_PX, y / IMAGE_HEIGHT_PX, 0] as LandmarkXYZ);
   return handSpan(image, IMAGE_WIDTH_PX, IMAGE_HEIGHT_PX);
@@ -650,7 +649,7 @@ export function clipReport(
       `camera ${distances[0]}-${distances[1]} m, skin, light and background drawn from the seed, ${where}. ${fingers} Nothing is fitted on these seeds.`,
     ...(meta.framing
       ? [
-          `- Framing (\`--framing ${meta.framing}\`): only clips whose first frame (the still start) the app's set-up check accepts for the hand's size are read (lib/tracking/setup-checks.ts handSpanBand: from the thumb side a finger's hand spans 0.4-0.6 of the picture's shorter side); a live attempt cannot start outside that band, an upload can. Each seed says how many of its clips were kept.`,
+          `- Framing (\`--framing ${meta.framing}\`): only clips whose first frame (the still start) the app's set-up check accepts for the hand's size are read (vision/view-policy.ts handSpanBand, which the set-up check holds a live attempt to: from the thumb side a finger's hand spans 0.4-0.6 of the picture's shorter side); a live attempt cannot start outside that band, an upload can. Each seed says how many of its clips were kept.`,
         ]
       : []),
     "- Path: the app's tracking code frame by frame (step mode, as analyze-clip and the upload review), the upload's capture builder, the engine's capture analysis as shipped (correction where it clearly helps, wrist read against the clip's straight-wrist reading, depth mirror on); `without depth mirror` and `raw` (no correction, no depth mirror) for comparison. Side-on wrist flexion/extension is read in the picture (vision/wrist-axis.ts) in every reading, raw included; the finger estimator reads each finger's picture points as well as its 3-D ones (vision/estimator.ts PICTURE_FEATURES).",

@@ -6,7 +6,7 @@
  * ever found. This scan reads saved renders and tracking only (nothing is tracked again) and prints, per band, the
  * clips, those neither model found in any frame, and the share of frames each model found:
  * - hand span: the hand's longer side in the first frame (the still start, fingers straight) over the picture's
- *   shorter side, as the app's set-up check measures it (lib/tracking/setup-checks.ts handSpan), from the truth's
+ *   shorter side, as the app's set-up check measures it (vision/view-policy.ts handSpan), from the truth's
  *   landmarks, so it also covers clips the models never found;
  * - contrast: the WCAG 2 contrast ratio (the `color` package's `luminosity` and ratio, which follow the WCAG
  *   definitions) of the median relative luminance of pixels on the hand (midpoints of the palm and finger bones

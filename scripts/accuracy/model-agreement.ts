@@ -226,7 +226,7 @@ async function main(): Promise<void> {
     }
     if (seeds.length > 1 && all.length) rows("all", all);
   }
-  if (framingNotes.length) lines.push("", `Kept by the set-up check's framing (first frame's hand span within lib/tracking/setup-checks.ts handSpanBand): ${framingNotes.join("; ")}.`);
+  if (framingNotes.length) lines.push("", `Kept by the set-up check's framing (first frame's hand span within vision/view-policy.ts handSpanBand): ${framingNotes.join("; ")}.`);
   if (byFinger.length) lines.push(["", `${BOTH_BY_FINGER_HEADER} both: frame P90 ° |`, "| --- | --- | --- | ---: | ---: | ---: | ---: |", ...byFinger].join("\n"));
   if (values["per-reading"]) lines.push(["", "| clip | finger | side | truth peak ° | lite peak ° | full peak ° | both peak ° | lite MAE ° | full MAE ° | both MAE ° |", "| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: |", ...perReading].join("\n"));
   const text = `${lines.join("\n")}\n`;
