@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { CONDITIONS, MOTION_IDS, MOTIONS } from "@/lib/motions/catalog";
 import { angleUncertaintyDeg, FULL_CONFIDENCE_SCORE, pairUncertaintyDeg, UNCERTAINTY_TABLE } from "@/vision/uncertainty";
-import { viewPolicy } from "@/vision/view-policy";
+import { FRAMING, viewPolicy } from "@/vision/view-policy";
 import { neutralReadingUncertaintyDeg } from "@/vision/wrist-axis";
 import { accuracyRows, accuracySource } from "./spec";
 
@@ -67,6 +67,15 @@ describe("accuracy figures for therapists", () => {
     expect(gm.lite.frameDeg!).toBeLessThan(10);
     expect(gm.otherwiseDeg!).toBeGreaterThan(40);
     expect(rows.filter((r) => MOTIONS[r.motion].joint !== "wrist").every((r) => r.otherwiseDeg === null)).toBe(true);
+  });
+
+  it("state the set-up check's framing band for finger flexion from the thumb side only", () => {
+    const rows = accuracyRows();
+    const thumbSide = rows.filter((r) => r.condition === "gravity_minimized" && ["mcp.flexion", "pip.flexion", "dip.flexion"].includes(r.motion) && r.digit === null);
+    expect(thumbSide.length).toBe(3);
+    for (const r of thumbSide) expect(r.framing).toEqual(FRAMING.thumbSideFingerSpan);
+    expect(rows.find((r) => r.motion === "pip.flexion" && r.condition === "against_gravity")?.framing).toBeNull();
+    expect(rows.find((r) => r.motion === "wrist.flexion" && r.condition === "gravity_minimized")?.framing).toBeNull();
   });
 
   it("name the table and correction versions the figures belong to", () => {

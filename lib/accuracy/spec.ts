@@ -18,7 +18,7 @@ import {
   type UncertaintyTable,
   type ValidationView,
 } from "@/vision/uncertainty";
-import { viewName, viewPolicy } from "@/vision/view-policy";
+import { handSpanBand, viewName, viewPolicy } from "@/vision/view-policy";
 import { neutralReadingUncertaintyDeg } from "@/vision/wrist-axis";
 
 export const CONDITION_WORDS: Record<Condition, string> = {
@@ -60,6 +60,11 @@ export interface AccuracyRow {
    * Null for other motions.
    */
   otherwiseDeg: number | null;
+  /**
+   * How much of the picture the hand should fill (its longer side over the picture's shorter side), where the set-up
+   * check holds it to a band (vision/view-policy.ts handSpanBand: a finger from the thumb side); null elsewhere.
+   */
+  framing: { min: number; max: number } | null;
 }
 
 const SCORE = FULL_CONFIDENCE_SCORE;
@@ -68,6 +73,12 @@ const roundHalf = (deg: number | null) => (deg === null ? null : Math.round(deg 
 function peakOf(frameDeg: number | null, peakDeg: number | null): number | null {
   if (frameDeg === null) return roundHalf(peakDeg);
   return roundHalf(Math.max(frameDeg, peakDeg ?? frameDeg));
+}
+
+function framingOf(motion: MotionId, condition: Condition, digit: "thumb" | null): { min: number; max: number } | null {
+  // The fingers together are asked with a finger, as a reading would be.
+  const band = handSpanBand(motion, condition, digit ?? (MOTIONS[motion].digits.length ? "index" : null));
+  return band.max === Infinity ? null : band;
 }
 
 function row(motion: MotionId, condition: Condition, digit: "thumb" | null, table: UncertaintyTable): AccuracyRow | null {
@@ -101,6 +112,7 @@ function row(motion: MotionId, condition: Condition, digit: "thumb" | null, tabl
     byFinger: unalike ? perFinger : [],
     fingerAloneDeg: roundHalf(alone),
     otherwiseDeg: neutralDeg === null ? null : roundHalf(otherwise),
+    framing: framingOf(motion, condition, digit),
   };
 }
 

@@ -225,6 +225,10 @@ describe("clinic admin", () => {
     const shown = page.locator('[data-testid=accuracy-row][data-motion="pip.flexion"][data-condition="against_gravity"][data-digit="fingers"]');
     expect(Number(await shown.getByTestId("accuracy-lite").getAttribute("data-frame"))).toBe(pip.lite.frameDeg);
     expect(await shown.textContent()).toContain("little-finger-side view");
+    expect(await shown.getByTestId("accuracy-framing").count()).toBe(0);
+    // From the thumb side the set-up check's framing band is stated (vision/view-policy.ts FRAMING).
+    const thumbSide = page.locator('[data-testid=accuracy-row][data-motion="pip.flexion"][data-condition="gravity_minimized"][data-digit="fingers"]');
+    expect(await thumbSide.getByTestId("accuracy-framing").textContent()).toBe("hand filling 40-60% of the picture");
     expect(await page.getByTestId("accuracy-source").textContent()).toContain("kinarc-uncertainty");
     await assistant.close();
     const client = await signedIn("client@kinarc.test");

@@ -94,7 +94,14 @@ export default async function AccuracyPage() {
                       {r.digit === "thumb" && !/thumb/i.test(r.label) ? ", thumb" : ""}
                     </td>
                     <td className="px-2 py-2">{CONDITION_WORDS[r.condition]}</td>
-                    <td className="px-2 py-2">{r.viewLabel}</td>
+                    <td className="px-2 py-2">
+                      {r.viewLabel}
+                      {r.framing ? (
+                        <span className="block text-xs text-ink-soft" data-testid="accuracy-framing">
+                          hand filling {Math.round(r.framing.min * 100)}-{Math.round(r.framing.max * 100)}% of the picture
+                        </span>
+                      ) : null}
+                    </td>
                     <IntervalCell value={r.lite} testId="accuracy-lite" />
                     <IntervalCell value={r.both} testId="accuracy-both" />
                     <Notes row={r} />
@@ -108,7 +115,7 @@ export default async function AccuracyPage() {
       <Card title="Limits to keep in mind">
         <ul className="list-disc space-y-1 pl-5 text-sm text-ink">
           <li>Finger figures are for the four fingers moving together, as the self-check asks. A finger moving alone, with its neighbours still, reads far less truly.</li>
-          <li>From the thumb side (finger motions with gravity minimized) the index finger hides the others: the ring and little fingers read least truly.</li>
+          <li>From the thumb side (finger motions with gravity minimized) the index finger hides the others: the ring and little fingers read least truly. There the set-up check asks for the hand to fill 40-60% of the picture: in validation a hand much closer to the camera was often lost, and one much farther read the fingertip joints less truly; an uploaded clip framed otherwise says so.</li>
           <li>A wrist read without its straight-wrist reading (the hand was not found while held straight) carries a much wider interval, and the attempt says so.</li>
           <li>Views from the palm, the back or above are far less accurate for flexion; such attempts are marked as taken in a poor view.</li>
           <li>Grades above 3, and 0 versus 1, need a resisted or palpation test in person. Do not test against resistance with an unhealed fracture or early after a tendon repair; stop on pain, swelling or numbness, and follow the referring surgeon&apos;s protocol.</li>
