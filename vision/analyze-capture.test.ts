@@ -236,6 +236,11 @@ describe("framing at the start of a capture (an upload no set-up check held)", (
     expect(framingWarning({ ...thumbSide, frames: framed([0.5, 0.5, 0.5]) })).toBeNull();
     // Against gravity (little-finger side) a finger has no upper bound.
     expect(framingWarning({ ...thumbSide, condition: "against_gravity", frames: framed([0.7, 0.7, 0.7]) })).toBeNull();
+    // The wrist from the thumb side: the same upper bound; below the usual least span, its own reason.
+    const wrist = { ...thumbSide, motion: "wrist.flexion" as const, digit: null };
+    expect(framingWarning({ ...wrist, frames: framed([0.7, 0.7, 0.7]) })).toMatch(/more than the 60%/);
+    expect(framingWarning({ ...wrist, frames: framed([0.3, 0.3, 0.3]) })).toBeNull();
+    expect(framingWarning({ ...wrist, frames: framed([0.1, 0.1, 0.1]) })).toMatch(/less than the 20% .* pixel jitter/);
   });
 
   it("reaches the analysis's warnings", () => {

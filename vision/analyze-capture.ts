@@ -96,8 +96,8 @@ export function startHandSpan(capture: Pick<CaptureInput, "frames" | "imageAspec
 }
 
 /**
- * A warning when the capture started with the hand outside the span the set-up check asks for this motion (an
- * upload, which no set-up check held), else null.
+ * A warning when the capture started with the hand outside the span the set-up check asks for this motion from the
+ * thumb side (an upload, which no set-up check held), else null.
  */
 export function framingWarning(capture: Pick<CaptureInput, "frames" | "imageAspect" | "motion" | "condition" | "digit">): string | null {
   const span = startHandSpan(capture);
@@ -109,7 +109,11 @@ export function framingWarning(capture: Pick<CaptureInput, "frames" | "imageAspe
     return `the hand filled ${pct(span)} of the picture at the start, more than the ${pct(band.max)} the set-up check allows from this side: in Kinarc's rendered test clips hands framed that close were lost more often; readings may be less sure`;
   }
   if (span < band.min) {
-    return `the hand filled ${pct(span)} of the picture at the start, less than the ${pct(band.min)} the set-up check asks from this side: in Kinarc's rendered test clips hands framed that far read the fingertip joints less surely`;
+    const why =
+      MOTIONS[capture.motion].joint === "wrist"
+        ? "the landmarks' pixel jitter then weighs more"
+        : "in Kinarc's rendered test clips hands framed that far read the fingertip joints less surely";
+    return `the hand filled ${pct(span)} of the picture at the start, less than the ${pct(band.min)} the set-up check asks from this side: ${why}`;
   }
   return null;
 }

@@ -210,6 +210,12 @@ export function majorityView(views: readonly (ValidationView | null)[]): Validat
 export const FRAMING = {
   minHandSpan: 0.2,
   thumbSideFingerSpan: { min: 0.4, max: 0.6 },
+  /**
+   * Wrist flexion/extension from the thumb side: the same upper bound, the usual lower one. Calibration wrist clips
+   * (seeds 77000407-77000408, 40 clips, both models; scripts/accuracy/detection-scan.ts): every clip up to 0.6 was
+   * found in 99-100% of frames by each model, above it the full model found 75% (0.6-0.7) and 18% (above 0.7).
+   */
+  thumbSideWristSpan: { min: 0.2, max: 0.6 },
 } as const;
 
 /** The hand's longer side in the picture over the picture's shorter side; `image` in 0-1 of `width` and `height`. */
@@ -222,13 +228,15 @@ export function handSpan(image: readonly (readonly number[])[], width: number, h
 }
 
 /**
- * The hand spans a motion, test position and digit are read at: the thumb-side band for a finger's MCP, PIP or DIP
- * motion whose recommended view is the thumb side, else at least `minHandSpan` with no upper bound but the picture's
- * edges. The set-up check holds a live attempt to it; an upload outside it carries a warning (analyzeCapture).
+ * The hand spans a motion, test position and digit are read at: where the recommended view is the thumb side, the
+ * thumb-side band of a finger's MCP, PIP or DIP motion or of the wrist's; else at least `minHandSpan` with no upper
+ * bound but the picture's edges (the thumb's own motions were not measured for framing). The set-up check holds a
+ * live attempt to it; an upload outside it carries a warning (analyzeCapture).
  */
 export function handSpanBand(motion: MotionId, condition: Condition, digit: Digit | null): { min: number; max: number } {
   const joint = MOTIONS[motion].joint;
-  const fingerJoint = joint === "mcp" || joint === "pip" || joint === "dip";
-  const thumbSide = policyFor(motion, condition, digit).recommended[0] === "radial";
-  return fingerJoint && digit !== "thumb" && thumbSide ? FRAMING.thumbSideFingerSpan : { min: FRAMING.minHandSpan, max: Infinity };
+  const thumbSide = digit !== "thumb" && policyFor(motion, condition, digit).recommended[0] === "radial";
+  if (thumbSide && (joint === "mcp" || joint === "pip" || joint === "dip")) return FRAMING.thumbSideFingerSpan;
+  if (thumbSide && joint === "wrist") return FRAMING.thumbSideWristSpan;
+  return { min: FRAMING.minHandSpan, max: Infinity };
 }

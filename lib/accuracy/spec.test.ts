@@ -69,13 +69,14 @@ describe("accuracy figures for therapists", () => {
     expect(rows.filter((r) => MOTIONS[r.motion].joint !== "wrist").every((r) => r.otherwiseDeg === null)).toBe(true);
   });
 
-  it("state the set-up check's framing band for finger flexion from the thumb side only", () => {
+  it("state the set-up check's framing band for the fingers and the wrist from the thumb side only", () => {
     const rows = accuracyRows();
     const thumbSide = rows.filter((r) => r.condition === "gravity_minimized" && ["mcp.flexion", "pip.flexion", "dip.flexion"].includes(r.motion) && r.digit === null);
     expect(thumbSide.length).toBe(3);
     for (const r of thumbSide) expect(r.framing).toEqual(FRAMING.thumbSideFingerSpan);
+    expect(rows.find((r) => r.motion === "wrist.flexion" && r.condition === "gravity_minimized")?.framing).toEqual(FRAMING.thumbSideWristSpan);
     expect(rows.find((r) => r.motion === "pip.flexion" && r.condition === "against_gravity")?.framing).toBeNull();
-    expect(rows.find((r) => r.motion === "wrist.flexion" && r.condition === "gravity_minimized")?.framing).toBeNull();
+    expect(rows.find((r) => r.motion === "wrist.flexion" && r.condition === "against_gravity")?.framing).toBeNull();
   });
 
   it("name the table and correction versions the figures belong to", () => {

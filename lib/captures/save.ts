@@ -32,8 +32,8 @@ import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } fro
  * their 3-D view (analysis-5 turned an open hand seen obliquely from the back into a side view). analysis-7: the
  * finger estimator's view fit is chosen by that same view too, not by the 3-D axes (vision/estimator.ts
  * estimateFingerJointDeg), so a thumb-side frame is read by the thumb-side fit. analysis-8: angles as analysis-7; a
- * thumb-side finger capture whose hand at the start filled the picture outside the set-up check's band carries a
- * warning (vision/analyze-capture.ts framingWarning; an upload, which no set-up check held).
+ * thumb-side finger or wrist capture whose hand at the start filled the picture outside the set-up check's band
+ * carries a warning (vision/analyze-capture.ts framingWarning; an upload, which no set-up check held).
  */
 export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-8";
 

@@ -103,11 +103,16 @@ describe("set-up checks", () => {
     expect(byId({ ...thumbSide, frames: at(0.45) }).hand_size.status).toBe("ok");
     const far = byId({ ...thumbSide, frames: at(0.7) }).hand_size;
     expect(far).toMatchObject({ status: "fix", instruction: expect.stringMatching(/closer/) });
-    // The same distances against gravity (little-finger side), and the wrist with gravity minimized: no upper bound.
+    // The same distances against gravity (little-finger side): no upper bound.
     expect(byId({ ...BASE, frames: at(0.3) }).hand_size.status).toBe("ok");
     expect(byId({ ...BASE, frames: at(0.7) }).hand_size.status).toBe("ok");
-    expect(handSpanBand("wrist.flexion", "gravity_minimized", null)).toEqual({ min: SETUP_LIMITS.minHandSpan, max: Infinity });
     expect(handSpanBand("pip.flexion", "against_gravity", "index").max).toBe(Infinity);
+    expect(handSpanBand("wrist.flexion", "against_gravity", null).max).toBe(Infinity);
+    // The wrist from the thumb side: the same upper bound, the usual lower one.
+    const wrist = { ...BASE, motion: "wrist.flexion" as const, condition: "gravity_minimized" as const, digit: null };
+    expect(handSpanBand("wrist.flexion", "gravity_minimized", null)).toEqual({ min: SETUP_LIMITS.minHandSpan, max: SETUP_LIMITS.thumbSideFingerSpan.max });
+    expect(byId({ ...wrist, frames: at(0.3) }).hand_size.instruction).toMatch(/fills too much of the picture/);
+    expect(byId({ ...wrist, frames: at(0.7) }).hand_size.status).toBe("ok");
   });
 
   it("too dark and too bright pictures get a light instruction", () => {

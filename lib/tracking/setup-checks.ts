@@ -49,6 +49,8 @@ export const SETUP_LIMITS = {
   minHandSpan: FRAMING.minHandSpan,
   /** Finger flexion from the thumb side: within this band (vision/view-policy.ts FRAMING, where the figures are). */
   thumbSideFingerSpan: FRAMING.thumbSideFingerSpan,
+  /** The wrist from the thumb side: the same upper bound (vision/view-policy.ts FRAMING). */
+  thumbSideWristSpan: FRAMING.thumbSideWristSpan,
   /** ITU-R BT.601 luma, 0-255: below 50 the detector loses the hand in a dim room; above 235 the skin washes out [from memory]. */
   minLuma: 50,
   maxLuma: 235,

@@ -653,7 +653,7 @@ export function clipReport(
       `camera ${distances[0]}-${distances[1]} m, skin, light and background drawn from the seed, ${where}. ${fingers} Nothing is fitted on these seeds.`,
     ...(meta.framing
       ? [
-          `- Framing (\`--framing ${meta.framing}\`): only clips whose first frame (the still start) the app's set-up check accepts for the hand's size are read (vision/view-policy.ts handSpanBand, which the set-up check holds a live attempt to: from the thumb side a finger's hand spans 0.4-0.6 of the picture's shorter side); a live attempt cannot start outside that band, an upload can. Each seed says how many of its clips were kept.`,
+          `- Framing (\`--framing ${meta.framing}\`): only clips whose first frame (the still start) the app's set-up check accepts for the hand's size are read (vision/view-policy.ts handSpanBand, which the set-up check holds a live attempt to: from the thumb side a finger's hand spans 0.4-0.6 of the picture's shorter side, a wrist's at most 0.6); a live attempt cannot start outside that band, an upload can. Each seed says how many of its clips were kept.`,
         ]
       : []),
     "- Path: the app's tracking code frame by frame (step mode, as analyze-clip and the upload review), the upload's capture builder, the engine's capture analysis as shipped (correction where it clearly helps, wrist read against the clip's straight-wrist reading, depth mirror on); `without depth mirror` and `raw` (no correction, no depth mirror) for comparison. Side-on wrist flexion/extension is read in the picture (vision/wrist-axis.ts) in every reading, raw included; the finger estimator reads each finger's picture points as well as its 3-D ones (vision/estimator.ts PICTURE_FEATURES).",
