@@ -109,6 +109,7 @@ function boundingBox(image: readonly LandmarkXYZ[]): Box {
   return box;
 }
 
+// The framing rule belongs to the view policy (the engine warns by it too); the check's callers find it here as well.
 export { handSpan, handSpanBand };
 
 /** Which edges of the picture, as the person sees it, the hand runs past. */
