@@ -9,7 +9,7 @@ import { handAxes } from "./angles";
 import { pictureSideOnFigures, SIDE_ON_LIMITS } from "./correction-views";
 import { MIDDLE_MCP, THUMB_IP, THUMB_MCP, THUMB_TIP, WRIST } from "./landmarks";
 import { createLivePipeline } from "./pipeline";
-import { majorityView, measureView, viewInstruction, viewOfAxes, viewOfHand, viewPolicy, viewQuality } from "./view-policy";
+import { handSpanBand, majorityView, measureView, viewInstruction, viewOfAxes, viewOfHand, viewPolicy, viewQuality } from "./view-policy";
 
 // Camera axes as the tracker gives them: x right, y down, z away from the camera. A hand is placed by its forearm's
 // distal and radial directions (vision/testing/synthetic-hand.ts); the palm normal follows from the side.
@@ -156,6 +156,24 @@ describe("view policy", () => {
     expect(viewPolicy("finger.abduction", "gravity_minimized", "index").recommended).toContain("down");
     expect(viewPolicy("wrist.ulnar_deviation", "against_gravity", null)).toMatchObject({ recommended: ["back", "palm"], placement: "side" });
     expect(viewPolicy("ip.flexion", "against_gravity", "thumb").recommended).toEqual(["radial", "palm"]);
+  });
+
+  it("where the set-up check bounds the framing, the instruction says how much of the picture the hand should fill, inside that band", () => {
+    let bounded = 0;
+    for (const motion of MOTION_IDS) {
+      for (const condition of CONDITIONS) {
+        for (const digit of MOTIONS[motion].digits.length ? MOTIONS[motion].digits : [null]) {
+          const band = handSpanBand(motion, condition, digit);
+          if (band.max === Infinity) continue;
+          bounded++;
+          expect(viewPolicy(motion, condition, digit).instruction).toMatch(/filling about half of the picture/);
+          expect(band.min).toBeLessThanOrEqual(0.5);
+          expect(band.max).toBeGreaterThanOrEqual(0.5);
+        }
+      }
+    }
+    // Finger MCP, PIP and DIP flexion (four fingers) and the wrist's flexion and extension, from the thumb side.
+    expect(bounded).toBeGreaterThanOrEqual(5);
   });
 
   it("every motion, test position and digit has a policy whose views do not overlap and whose words say what to do", () => {

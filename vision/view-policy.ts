@@ -52,7 +52,7 @@ const WORDS = {
   ulnarSide:
     "Put the camera level with your hand on its little-finger side, so it sees the hand edge-on. Turn your hand so the little finger faces the camera.",
   radialFromAbove:
-    "With your hand resting on its little-finger edge, put the camera above it looking down, so it sees the thumb side of the hand.",
+    "With your hand resting on its little-finger edge, put the camera above it looking down, so it sees the thumb side of the hand, with the hand filling about half of the picture.",
   backFromAbove:
     "Lay your hand flat, palm down, and put the camera above it looking down at the back of your hand, a little in front of your fingertips (a phone on a stand across the table works well).",
   flatOfHand: "Put the camera level with your hand, facing the back or the palm, so it sees the whole flat of the hand.",
