@@ -202,9 +202,9 @@ export function majorityView(views: readonly (ValidationView | null)[]): Validat
  *   hand models; nothing fitted on them; scripts/accuracy/detection-scan.ts), hands filling more than 0.6 of the
  *   picture were lost: the full model found 88% of frames at 0.6-0.7 and 43% above 0.7, against 91-100% below 0.6;
  *   and DIP read worst above 0.6 (both models together, readings' frame MAE averaged, 8.9 deg) and below 0.4
- *   (8.1 deg, a fingertip's bone a few dozen pixels long) against 5.7-6.7 deg between. Held out, seeds 20261225
- *   and 20261226 (framed so, each read once): both models MCP 3.0-3.1, PIP 3.6-3.9, DIP 5.6-6.6 deg, 98-100% of
- *   frames found by each model (scripts/accuracy/README.md, "Framing from the thumb side"). From the little-finger
+ *   (8.1 deg, a fingertip's bone a few dozen pixels long) against 5.7-6.7 deg between. Held out, seeds 20261225,
+ *   20261226 and 20261228 (framed so, each read once): both models MCP 3.0-3.1, PIP 3.6-4.1, DIP 5.6-6.6 deg,
+ *   98-100% of frames found by each model (scripts/accuracy/README.md, "Framing from the thumb side"). From the little-finger
  *   side no such loss was seen (seeds 77000407 and 20261222: every span band 100% found by one model or the other).
  */
 export const FRAMING = {

@@ -61,6 +61,8 @@ const REREAD_UNDER_ANALYSIS_7 =
   " With gravity minimized (thumb side), its finger clips' saved tracking was read again under engine analysis-7 (commit cd34a2a: the finger estimator's view fit follows the engine's view of the frame, chosen on calibration seeds 77000407-77000408), and those rows are that reading; its wrist rows stand as read before (the change does not touch the wrist).";
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  20261228:
+    "The third fresh check of the thumb-side framing band for the fingers: rendered and tracked like 20261225 (`--framing setup`, 12 clips per motion) after the wrist's bound and the view instruction were committed (commit ba91be2); read once, after. Nothing is fitted on it.",
   20261227:
     "The fresh check of the wrist's thumb-side framing bound: rendered and tracked (gravity minimized, wrist flexion and extension, both models, 12 clips per motion, `--framing setup`) after the bound was committed (commit ba8564b; set on calibration seeds 77000407-77000408); read once, after. Nothing is fitted on it.",
   20261226:
