@@ -1,7 +1,7 @@
 import { MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
 import { createLivePipeline, type LiveUpdate, type LivePipelineOptions, type MeasurementMethod, type PipelineFrame } from "./pipeline";
 import type { PlaneReading } from "./plane";
-import type { Repetition } from "./reps";
+import { median, type Repetition } from "./reps";
 import type { ValidationView } from "./uncertainty";
 import type { Vec3 } from "./vec";
 import { handSpan, handSpanBand, type ViewQuality } from "./view-policy";
@@ -87,12 +87,11 @@ export const START_FRAMING_MS = 1000;
 export function startHandSpan(capture: Pick<CaptureInput, "frames" | "imageAspect">): number | null {
   const withImage = capture.frames.filter((frame) => frame.image && frame.image.length === 21);
   if (withImage.length === 0) return null;
-  const spans = withImage
-    .filter((frame) => frame.t - withImage[0].t <= START_FRAMING_MS)
-    .map((frame) => handSpan(frame.image!, frame.imageAspect ?? capture.imageAspect ?? 4 / 3, 1))
-    .sort((a, b) => a - b);
-  const mid = Math.floor(spans.length / 2);
-  return spans.length % 2 ? spans[mid] : (spans[mid - 1] + spans[mid]) / 2;
+  return median(
+    withImage
+      .filter((frame) => frame.t - withImage[0].t <= START_FRAMING_MS)
+      .map((frame) => handSpan(frame.image!, frame.imageAspect ?? capture.imageAspect ?? 4 / 3, 1)),
+  );
 }
 
 /**

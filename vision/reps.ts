@@ -99,7 +99,8 @@ export interface Repetition {
   plane: PlaneReading | null;
 }
 
-function median(values: number[]): number {
+/** The middle value (the mean of the two middle ones for an even count); NaN for none. */
+export function median(values: readonly number[]): number {
   const sorted = values.slice().sort((a, b) => a - b);
   const mid = sorted.length >> 1;
   return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;

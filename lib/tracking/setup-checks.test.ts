@@ -1,7 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { neutralPose, poseHand, type Placement } from "@/vision/testing/synthetic-hand";
 import type { LandmarkXYZ, TrackedFrame } from "@/vision/live/types";
-import { edgesCut, handSpan, handSpanBand, meanLuma, readyToStart, runSetupChecks, SETUP_LIMITS, type SetupInput } from "./setup-checks";
+import { FRAMING, handSpan, handSpanBand } from "@/vision/view-policy";
+import { edgesCut, meanLuma, readyToStart, runSetupChecks, SETUP_LIMITS, type SetupInput } from "./setup-checks";
 
 const WIDTH = 640;
 const HEIGHT = 480;
@@ -95,8 +96,8 @@ describe("set-up checks", () => {
     // the synthetic hand (about 19 cm wrist to fingertip) is placed at 0.3, 0.45 and 0.7 m from a 600 px focal length.
     const thumbSide = { ...BASE, motion: "pip.flexion" as const, condition: "gravity_minimized" as const, digit: "index" as const };
     const at = (distanceM: number) => frames(30, () => ({ image: handImage(distanceM) }));
-    expect(handSpanBand("pip.flexion", "gravity_minimized", "index")).toEqual(SETUP_LIMITS.thumbSideFingerSpan);
-    expect(handSpan(handImage(0.3), WIDTH, HEIGHT)).toBeGreaterThan(SETUP_LIMITS.thumbSideFingerSpan.max);
+    expect(handSpanBand("pip.flexion", "gravity_minimized", "index")).toEqual(FRAMING.thumbSideFingerSpan);
+    expect(handSpan(handImage(0.3), WIDTH, HEIGHT)).toBeGreaterThan(FRAMING.thumbSideFingerSpan.max);
     const near = byId({ ...thumbSide, frames: at(0.3) }).hand_size;
     expect(near.status).toBe("fix");
     expect(near.instruction).toMatch(/fills too much of the picture/);
@@ -110,7 +111,7 @@ describe("set-up checks", () => {
     expect(handSpanBand("wrist.flexion", "against_gravity", null).max).toBe(Infinity);
     // The wrist from the thumb side: the same upper bound, the usual lower one.
     const wrist = { ...BASE, motion: "wrist.flexion" as const, condition: "gravity_minimized" as const, digit: null };
-    expect(handSpanBand("wrist.flexion", "gravity_minimized", null)).toEqual({ min: SETUP_LIMITS.minHandSpan, max: SETUP_LIMITS.thumbSideFingerSpan.max });
+    expect(handSpanBand("wrist.flexion", "gravity_minimized", null)).toEqual({ min: FRAMING.minHandSpan, max: FRAMING.thumbSideFingerSpan.max });
     expect(byId({ ...wrist, frames: at(0.3) }).hand_size.instruction).toMatch(/fills too much of the picture/);
     expect(byId({ ...wrist, frames: at(0.7) }).hand_size.status).toBe("ok");
   });

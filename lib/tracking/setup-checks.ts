@@ -45,12 +45,11 @@ export interface SetupInput {
 export const SETUP_LIMITS = {
   /** Landmarks closer than this share of the picture to an edge count as cut off (fingertips vanish first). */
   edgeMargin: 0.02,
-  /** The hand's longer side over the picture's shorter side: at least this much (vision/view-policy.ts FRAMING). */
+  /**
+   * The hand's longer side over the picture's shorter side: at least this much. The bands that also bound it from
+   * above (the thumb side) are the view policy's (vision/view-policy.ts FRAMING, handSpanBand).
+   */
   minHandSpan: FRAMING.minHandSpan,
-  /** Finger flexion from the thumb side: within this band (vision/view-policy.ts FRAMING, where the figures are). */
-  thumbSideFingerSpan: FRAMING.thumbSideFingerSpan,
-  /** The wrist from the thumb side: the same upper bound (vision/view-policy.ts FRAMING). */
-  thumbSideWristSpan: FRAMING.thumbSideWristSpan,
   /** ITU-R BT.601 luma, 0-255: below 50 the detector loses the hand in a dim room; above 235 the skin washes out [from memory]. */
   minLuma: 50,
   maxLuma: 235,
@@ -108,9 +107,6 @@ function boundingBox(image: readonly LandmarkXYZ[]): Box {
   }
   return box;
 }
-
-// The framing rule belongs to the view policy (the engine warns by it too); the check's callers find it here as well.
-export { handSpan, handSpanBand };
 
 /** Which edges of the picture, as the person sees it, the hand runs past. */
 export function edgesCut(image: readonly LandmarkXYZ[], displayMirrored: boolean, margin: number = SETUP_LIMITS.edgeMargin): ("top" | "bottom" | "left" | "right")[] {

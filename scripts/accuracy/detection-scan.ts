@@ -13,7 +13,8 @@
  *   between the truth's landmarks) against the median on a frame around the hand (its box widened by a quarter on
  *   each side), both in the clip's first frame.
  *
- *   npx tsx scripts/accuracy/detection-scan.ts --seeds 77000407,77000408 [--condition gravity_minimized] [--per-clip]
+ *   npx tsx scripts/accuracy/detection-scan.ts --seeds 77000407,77000408 [--condition gravity_minimized]
+ *     [--motions mcp.flexion,pip.flexion,dip.flexion] [--per-clip]
  */
 import { execFileSync } from "node:child_process";
 import { existsSync, readdirSync, readFileSync } from "node:fs";
@@ -21,10 +22,9 @@ import path from "node:path";
 import { parseArgs } from "node:util";
 import Color from "color";
 import { firstFrameSpan, type ClipTruthFile } from "./clip-validation";
+import { median } from "@/vision/reps";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
-
-const WIDTH = 640;
-const HEIGHT = 480;
+import { IMAGE_HEIGHT_PX as HEIGHT, IMAGE_WIDTH_PX as WIDTH } from "./scene";
 
 /** Landmark pairs (MediaPipe order) whose midpoints lie on the hand: palm bones and finger phalanges, not the thumb. */
 const SKIN_SEGMENTS: readonly [number, number][] = [
@@ -36,13 +36,6 @@ const SKIN_SEGMENTS: readonly [number, number][] = [
 export function contrastRatio(luminanceA: number, luminanceB: number): number {
   const [hi, lo] = luminanceA >= luminanceB ? [luminanceA, luminanceB] : [luminanceB, luminanceA];
   return (hi + 0.05) / (lo + 0.05);
-}
-
-function median(values: readonly number[]): number {
-  if (values.length === 0) throw new Error("median: expected at least one value");
-  const sorted = [...values].sort((a, b) => a - b);
-  const mid = Math.floor(sorted.length / 2);
-  return sorted.length % 2 ? sorted[mid] : (sorted[mid - 1] + sorted[mid]) / 2;
 }
 
 /** Relative luminance of the pixel at (x, y) of an RGB24 picture, averaged over a 3x3 patch. */
@@ -133,7 +126,8 @@ export function summarizeScan(clips: readonly (ScannedClip & { either: number | 
 }
 
 async function main(): Promise<void> {
-  const { values } = parseArgs({ options: { seeds: { type: "string" }, condition: { type: "string" }, "per-clip": { type: "boolean" } } });
+  const { values } = parseArgs({ options: { seeds: { type: "string" }, condition: { type: "string" }, motions: { type: "string" }, "per-clip": { type: "boolean" } } });
+  const motions = values.motions?.split(",") ?? null;
   if (!values.seeds) throw new Error("--seeds: expected a comma-separated list of rendered clip seeds");
   const condition = values.condition ?? "gravity_minimized";
   if (condition !== "gravity_minimized" && condition !== "against_gravity") throw new Error(`--condition: expected gravity_minimized or against_gravity, got ${condition}`);
@@ -144,7 +138,7 @@ async function main(): Promise<void> {
     const names = readdirSync(folder)
       .filter((f) => f.endsWith(".json") && !f.endsWith(".tracked.json") && f.includes("-gm-") === (condition === "gravity_minimized") && !f.includes("-alone-"))
       .map((f) => f.slice(0, -".json".length))
-      .filter((name) => existsSync(path.join(folder, `${name}.webm`)));
+      .filter((name) => existsSync(path.join(folder, `${name}.webm`)) && (!motions || motions.some((motion) => name.startsWith(`${motion}-`))));
     for (const name of names) {
       const truth = JSON.parse(readFileSync(path.join(folder, `${name}.json`), "utf8")) as ClipTruthFile;
       const { ratio } = handContrast(firstFrame(path.join(folder, `${name}.webm`)), WIDTH, HEIGHT, truth.frames[0].truth.landmarksImagePx);
