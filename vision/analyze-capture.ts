@@ -117,6 +117,12 @@ export function framingWarning(capture: Pick<CaptureInput, "frames" | "imageAspe
   return null;
 }
 
+/** A warning when the test plane the capture was read in is not the one it declares, else null. */
+export function planeWarning(condition: Condition, plane: PlaneReading | null): string | null {
+  if (!plane || plane.verdict === condition) return null;
+  return `declared ${condition} but the test plane reads ${plane.verdict} (axis ${plane.axisToGravityDeg.toFixed(0)} deg from gravity)`;
+}
+
 /** The best repetition is the one that went furthest by the measure the motion is graded on. */
 export function bestRepetition(motion: MotionId, repetitions: readonly Repetition[]): Repetition | null {
   const measure = MOTIONS[motion].gradedOn === "arc" ? (r: Repetition) => r.arcDeg : (r: Repetition) => r.peakDeg;
@@ -155,9 +161,8 @@ export function analyzeCapture(capture: CaptureInput, { onUpdate, ...options }: 
   const framing = framingWarning(capture);
   if (framing) warnings.push(framing);
   const planeAgrees = summary.plane?.verdict === capture.condition;
-  if (summary.plane && !planeAgrees) {
-    warnings.push(`declared ${capture.condition} but the test plane reads ${summary.plane.verdict} (axis ${summary.plane.axisToGravityDeg.toFixed(0)} deg from gravity)`);
-  }
+  const plane = planeWarning(capture.condition, summary.plane);
+  if (plane) warnings.push(plane);
   const usableFraction = summary.frames ? summary.usableFrames / summary.frames : 0;
   const trackingOk = usableFraction >= limits.minUsableFraction && summary.meanScore >= limits.minMeanScore;
 

@@ -188,6 +188,44 @@ describe("one clip read by two hand models", () => {
     expect(pairUncertaintyDeg("pip.flexion", "index", "radial", 0.95, table)).toBeNull();
   });
 
+  it("judges framing and the test plane once for the pair, not once per model", () => {
+    // From the thumb side (gravity minimized, gravity along the hand's x axis: the synthetic placement's table plane)
+    // the synthetic pinhole picture already fills about 68% of the height, past the band's 60%; the second model's
+    // picture points are spread 10% wider about their centre, so each model alone would state its own percentage.
+    const spec = pipSpec(80, 11, { condition: "gravity_minimized", gravity: [-9.8, 0, 0] });
+    const one = buildSyntheticCapture(spec);
+    const wider = buildSyntheticCapture({ ...spec, seed: 12 });
+    for (const frame of wider.frames) {
+      if (!frame.image) continue;
+      const cx = frame.image.reduce((sum, p) => sum + p[0], 0) / frame.image.length;
+      const cy = frame.image.reduce((sum, p) => sum + p[1], 0) / frame.image.length;
+      frame.image = frame.image.map(([x, y]): [number, number] => [cx + (x - cx) * 1.1, cy + (y - cy) * 1.1]);
+    }
+    const pair = analyzeCapturePair({ capture: one, handModel: "lite" }, { capture: wider, handModel: "full" }, RAW);
+    const filled = (warnings: readonly string[]) => warnings.filter((w) => /hand filled/.test(w));
+    const percent = (w: string) => Number(/filled (\d+)%/.exec(w)![1]);
+    const own = pair.byModel.map((m) => filled(m.warnings));
+    expect(own.map((w) => w.length)).toEqual([1, 1]);
+    expect(percent(own[0][0])).toBeLessThan(percent(own[1][0]));
+    expect(filled(pair.warnings)).toHaveLength(1);
+    const shared = percent(filled(pair.warnings)[0]);
+    expect(shared).toBeGreaterThanOrEqual(percent(own[0][0]));
+    expect(shared).toBeLessThanOrEqual(percent(own[1][0]));
+
+    // Declared gravity minimized with gravity along the depth axis: the plane reads otherwise, said once, with the
+    // combined reading's own axis, whatever each model's axis read alone.
+    const tilted = { ...spec, gravity: [0, 0, -9.8] as [number, number, number] };
+    const level = analyzeCapturePair(
+      { capture: buildSyntheticCapture(tilted), handModel: "lite" },
+      { capture: buildSyntheticCapture({ ...tilted, seed: 13 }), handModel: "full" },
+      RAW,
+    );
+    const declared = level.warnings.filter((w) => w.startsWith("declared gravity_minimized"));
+    expect(level.planeAgrees).toBe(false);
+    expect(declared).toHaveLength(1);
+    expect(declared[0]).toContain(`reads ${level.plane!.verdict} (axis ${level.plane!.axisToGravityDeg.toFixed(0)} deg`);
+  });
+
   it("refuses captures of different attempts, of different frames, or twice the same model", () => {
     const one = buildSyntheticCapture(pipSpec(80, 7));
     const other = buildSyntheticCapture({ ...pipSpec(80, 8), digit: "middle" });

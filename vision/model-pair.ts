@@ -26,7 +26,7 @@
  *   model losing the bend only at the top of each cycle: the combined peak fell to 54° while the models' own peaks
  *   (98° and 84°, another cycle's) were within 20° of each other.
  */
-import { analyzeCapture, bestRepetition, type AnalyzeOptions, type CaptureAnalysis, type CaptureInput } from "./analyze-capture";
+import { analyzeCapture, bestRepetition, framingWarning, planeWarning, type AnalyzeOptions, type CaptureAnalysis, type CaptureInput } from "./analyze-capture";
 import type { HandModel } from "./correction";
 import { OneEuroFilter } from "./one-euro";
 import { DEFAULT_MAX_GAP_MS, type FrameQuality, type LiveUpdate } from "./pipeline";
@@ -155,7 +155,17 @@ export function analyzeCapturePair(first: ModelCapture, second: ModelCapture, op
   const peakScore = Math.min(x.meanScore, y.meanScore);
   const peakFrameFigure = stated.length === 2 && x.view === y.view ? measured(x.view, peakScore) : null;
   const peakMeasured = peakFrameFigure === null ? null : Math.max(peakFrameFigure, pairPeakUncertaintyDeg(a.motion, a.digit, x.view, peakScore, options.uncertaintyTable) ?? 0);
-  const warnings = [...new Set([...x.warnings, ...y.warnings])];
+  // Framing and the test plane are judged once for the pair (each model's own verdict dropped): framing on both
+  // models' start frames together, the plane on the combined reading, so a reading never carries two framing notes
+  // with different figures or a plane note the combined plane contradicts.
+  const ownVerdicts = new Set(
+    [framingWarning(a), framingWarning(b), planeWarning(a.condition, x.plane), planeWarning(a.condition, y.plane)].filter((w): w is string => w !== null),
+  );
+  const warnings = [...new Set([...x.warnings, ...y.warnings])].filter((w) => !ownVerdicts.has(w));
+  const framing = framingWarning({ ...a, frames: [...a.frames, ...b.frames].sort((p, q) => p.t - q.t) });
+  if (framing) warnings.push(framing);
+  const plane = planeWarning(a.condition, planeReading);
+  if (plane) warnings.push(plane);
   if (modelsDisagree) {
     const word = (p: number | null) => (p === null ? "none" : `${p.toFixed(0)} deg`);
     warnings.push(

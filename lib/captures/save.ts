@@ -33,9 +33,11 @@ import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } fro
  * finger estimator's view fit is chosen by that same view too, not by the 3-D axes (vision/estimator.ts
  * estimateFingerJointDeg), so a thumb-side frame is read by the thumb-side fit. analysis-8: angles as analysis-7; a
  * thumb-side finger or wrist capture whose hand at the start filled the picture outside the set-up check's band
- * carries a warning (vision/analyze-capture.ts framingWarning; an upload, which no set-up check held).
+ * carries a warning (vision/analyze-capture.ts framingWarning; an upload, which no set-up check held). analysis-9:
+ * angles as analysis-8; a reading by both hand models states framing once (judged on both models' start frames) and
+ * the test plane once (the combined reading's), where analysis-8 could repeat each model's own note.
  */
-export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-8";
+export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-9";
 
 /**
  * A visit accepts attempts while it runs, and for a while after it ends: an attempt recorded near the end may reach
