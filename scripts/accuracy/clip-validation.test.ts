@@ -84,6 +84,21 @@ describe("held-out clip plans", () => {
     });
   });
 
+  it("with one finger and chosen digits: only those fingers move, in turn, named for them; no finger outside the four", () => {
+    const all = planClips(20261205, 8, "against_gravity", undefined, undefined, true);
+    const little = planClips(20261205, 8, "against_gravity", undefined, undefined, true, null, ["little"]);
+    expect(little).toHaveLength(all.length);
+    little.forEach((plan, i) => {
+      expect(plan.motion.digits).toEqual(["little"]);
+      expect(plan.motion.joints.every((joint) => joint.startsWith("little."))).toBe(true);
+      expect([plan.toDeg, plan.distanceM, plan.side]).toEqual([all[i].toDeg, all[i].distanceM, all[i].side]);
+      expect(plan.name).toBe(all[i].name.replace("-alone-", "-alone-little-"));
+    });
+    // Every finger, in the usual order, keeps the usual names (and cached renders).
+    expect(planClips(20261205, 8, "against_gravity", undefined, undefined, true, null, ["index", "middle", "ring", "little"])).toEqual(all);
+    expect(() => planClips(20261205, 8, "against_gravity", undefined, undefined, true, null, ["thumb"])).toThrow(/--digits: expected some of index, middle, ring, little; got 'thumb'/);
+  });
+
   it("draw ends of range and distances across their whole span (neighbouring seeds once gave near-identical clips)", () => {
     for (const motion of CLIP_MOTIONS) {
       const ends = plans.filter((plan) => plan.motion === motion).map((plan) => plan.toDeg);

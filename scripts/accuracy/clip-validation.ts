@@ -22,6 +22,7 @@
  *
  * `--one-finger` moves one finger only (index, middle, ring, little in turn), its neighbours straight, and scores that
  * finger: clips named `<motion>-alone-...` (what a finger tested on its own reads); write those with `--out`.
+ * `--digits little` (with `--one-finger`): only those fingers move, in turn; the clips are named `<motion>-alone-little-...`.
  *
  * `--track-fps 15` tracks the clips stepping through every second frame, as a camera at 15 frames a second would give
  * them (saved apart, `<clip>-<model>-f15.tracked.json`; truth taken at the tracked frames' times); write with `--out`.
@@ -197,7 +198,12 @@ export function planClips(
   viewOverride?: CameraView,
   oneFinger = false,
   framing: Framing | null = null,
+  aloneDigits: readonly Digit[] = FINGERS,
 ): ClipPlan[] {
+  const bad = aloneDigits.find((digit) => !FINGERS.includes(digit as (typeof FINGERS)[number]));
+  if (bad !== undefined || aloneDigits.length === 0) throw new Error(`--digits: expected some of ${FINGERS.join(", ")}; got '${bad ?? ""}'`);
+  // Every finger in turn keeps the first names; a chosen few are named for them, so their renders never share a name.
+  const digitsTag = aloneDigits.length === FINGERS.length && aloneDigits.every((d, i) => d === FINGERS[i]) ? "" : `-${aloneDigits.join("+")}`;
   if (count > SEEDS_PER_MOTION) throw new Error(`--clips: expected at most ${SEEDS_PER_MOTION}; got ${count}`);
   const unknown = motions?.filter((motion) => !CLIP_MOTIONS.some((m) => m.motion === motion)) ?? [];
   if (unknown.length) throw new Error(`--motions: expected some of ${CLIP_MOTIONS.map((m) => m.motion).join(", ")}; got ${unknown.join(", ")}`);
@@ -205,7 +211,7 @@ export function planClips(
   const seeds = frameSeeds(seed, CLIP_MOTIONS.length * SEEDS_PER_MOTION);
   return CLIP_MOTIONS.flatMap((allFingers, m) =>
     Array.from({ length: count }, (_, i) => {
-      const motion = oneFinger ? aloneMotion(allFingers, FINGERS[i % FINGERS.length]) : allFingers;
+      const motion = oneFinger ? aloneMotion(allFingers, aloneDigits[i % aloneDigits.length]) : allFingers;
       const clipSeed = seeds[m * SEEDS_PER_MOTION + i];
       const draws = makeRng(clipSeed ^ 0x2545f491);
       // The first number of a freshly seeded generator depends little on small seeds; it is not used.
@@ -217,7 +223,7 @@ export function planClips(
       const side: HandSide = i % 2 === 0 ? "right" : "left";
       // Against gravity keeps its first names (and cached renders); the other condition's clips are named apart.
       const base = viewOverride ? `${motion.motion}-${viewOverride}` : condition === "against_gravity" ? motion.motion : `${motion.motion}-gm`;
-      const prefix = `${base}${oneFinger ? "-alone" : ""}${framing === "setup" ? "-setup" : ""}`;
+      const prefix = `${base}${oneFinger ? `-alone${digitsTag}` : ""}${framing === "setup" ? "-setup" : ""}`;
       const name = `${prefix}-${seed}-${i}-${clipSeed}`;
       return { name, motion, side, view, condition, seed: clipSeed, toDeg, distanceM, ...(oneFinger ? { oneFinger: true } : {}) };
     }),
@@ -769,8 +775,12 @@ async function main(): Promise<void> {
       "one-finger": { type: "boolean" },
       "track-fps": { type: "string" },
       framing: { type: "string" },
+      digits: { type: "string" },
     },
   });
+  // --digits little: with --one-finger, only those fingers move (in turn), named `<motion>-alone-little-...`.
+  const aloneDigits = values.digits ? (values.digits.split(",") as Digit[]) : undefined;
+  if (aloneDigits && !values["one-finger"]) throw new Error("--digits: expected --one-finger too (four-finger clips move every finger)");
   const framing = parseFraming(values.framing);
   if (framing && !values.out) throw new Error("--framing: expected --out FILE (the committed reports read every clip)");
   const minConfidence = parseMinConfidence(values["min-confidence"]);
@@ -798,8 +808,8 @@ async function main(): Promise<void> {
     mkdirSync(folder, { recursive: true });
     const oneFinger = values["one-finger"] ?? false;
     const drawn = views
-      ? views.flatMap((view) => planClips(seed, clips, condition, motions, view, oneFinger, framing))
-      : planClips(seed, clips, condition, motions, undefined, oneFinger, framing);
+      ? views.flatMap((view) => planClips(seed, clips, condition, motions, view, oneFinger, framing, aloneDigits))
+      : planClips(seed, clips, condition, motions, undefined, oneFinger, framing, aloneDigits);
     await renderClips(drawn, folder, reuse);
     const plans = framing ? drawn.filter((plan) => setupAccepts(plan, JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile)) : drawn;
     const framingCounts = framing
