@@ -226,6 +226,16 @@ describe("one clip read by two hand models", () => {
     expect(declared[0]).toContain(`reads ${level.plane!.verdict} (axis ${level.plane!.axisToGravityDeg.toFixed(0)} deg`);
   });
 
+  it("keeps one note on a finger tested on its own, the wider-interval model's, where each model quotes its own figures", () => {
+    const lone = (seed: number) => ({ ...buildSyntheticCapture(pipSpec(70, seed)), oneFinger: true });
+    const pair = analyzeCapturePair({ capture: lone(14), handModel: "lite" }, { capture: lone(15), handModel: "full" }, RAW);
+    const notes = (warnings: readonly string[]) => warnings.filter((w) => w.startsWith("one finger tested on its own"));
+    const [lite, full] = pair.byModel;
+    expect(notes(lite.warnings)).toHaveLength(1);
+    expect(notes(full.warnings)).toHaveLength(1);
+    expect(notes(pair.warnings)).toEqual(notes((full.uncertaintyDeg ?? -1) > (lite.uncertaintyDeg ?? -1) ? full.warnings : lite.warnings));
+  });
+
   it("refuses captures of different attempts, of different frames, or twice the same model", () => {
     const one = buildSyntheticCapture(pipSpec(80, 7));
     const other = buildSyntheticCapture({ ...pipSpec(80, 8), digit: "middle" });

@@ -29,7 +29,7 @@
 import { analyzeCapture, bestRepetition, framingWarning, planeWarning, type AnalyzeOptions, type CaptureAnalysis, type CaptureInput } from "./analyze-capture";
 import type { HandModel } from "./correction";
 import { OneEuroFilter } from "./one-euro";
-import { DEFAULT_MAX_GAP_MS, type FrameQuality, type LiveUpdate } from "./pipeline";
+import { DEFAULT_MAX_GAP_MS, ONE_FINGER_NOTE, type FrameQuality, type LiveUpdate } from "./pipeline";
 import { PlaneAccumulator } from "./plane";
 import type { ValidationView } from "./correction-views";
 import { RepSegmenter } from "./reps";
@@ -161,7 +161,11 @@ export function analyzeCapturePair(first: ModelCapture, second: ModelCapture, op
   const ownVerdicts = new Set(
     [framingWarning(a), framingWarning(b), planeWarning(a.condition, x.plane), planeWarning(a.condition, y.plane)].filter((w): w is string => w !== null),
   );
-  const warnings = [...new Set([...x.warnings, ...y.warnings])].filter((w) => !ownVerdicts.has(w));
+  // A finger tested on its own: one note, the one of the model whose stated interval is the wider (each model's note
+  // quotes its own held-out figures).
+  const wider = (y.uncertaintyDeg ?? -1) > (x.uncertaintyDeg ?? -1) ? y : x;
+  const loneNote = wider.warnings.find((w) => w.startsWith(ONE_FINGER_NOTE)) ?? [...x.warnings, ...y.warnings].find((w) => w.startsWith(ONE_FINGER_NOTE));
+  const warnings = [...new Set([...x.warnings, ...y.warnings])].filter((w) => !ownVerdicts.has(w) && (!w.startsWith(ONE_FINGER_NOTE) || w === loneNote));
   const framing = framingWarning({ ...a, frames: [...a.frames, ...b.frames].sort((p, q) => p.t - q.t) });
   if (framing) warnings.push(framing);
   const plane = planeWarning(a.condition, planeReading);

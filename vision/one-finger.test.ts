@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { isOneFingerMotion } from "@/lib/motions/catalog";
 import { analyzeCapture } from "./analyze-capture";
 import { buildSyntheticCapture, type Placement } from "./testing/synthetic-hand";
-import { angleUncertaintyDeg, fingerAloneCell, fingerAloneUncertaintyDeg, UNCERTAINTY_TABLE } from "./uncertainty";
+import { angleUncertaintyDeg, fingerAloneCell, fingerAloneUncertaintyDeg, UNCERTAINTY_TABLE, type UncertaintyTable } from "./uncertainty";
 
 // A finger tested on its own, the other three held straight. What the hand tracker makes of it is measured on held-out
 // renders (scripts/accuracy/report.md, "Single-finger test motions": 20-40 deg MAE after correction, against 4-13 for
@@ -86,6 +86,41 @@ describe("single-finger uncertainty cells", () => {
         }
       }
     }
+  });
+
+  it("give a finger its own figure where one-finger clips measured it, only in that view and model and for that finger", () => {
+    // The committed table with the little finger's own lone PIP figure in the little-finger-side cell (lite), as
+    // derive-uncertainty.ts writes it from the one-finger clip reports (ONE_FINGER_CLIP_REPORT_FILES).
+    const withLittle = (deg: number): UncertaintyTable => ({
+      ...UNCERTAINTY_TABLE,
+      fingerAlone: (UNCERTAINTY_TABLE.fingerAlone ?? []).map((c) =>
+        c.group === "PIP flexion" && c.view === "ulnar" && c.model === "lite"
+          ? { ...c, byDigit: [{ digit: "little" as const, clipMaeDeg: deg / 2.06, clipPeakMaeDeg: deg / 2.06, uncertaintyDeg: deg }] }
+          : c,
+      ),
+    });
+    const pooled = fingerAloneCell(UNCERTAINTY_TABLE, "pip.flexion", "little", "lite", "ulnar")!.uncertaintyDeg;
+    expect(fingerAloneUncertaintyDeg("pip.flexion", "little", "lite", "ulnar", 1, withLittle(12))).toBeCloseTo(12, 9);
+    expect(fingerAloneUncertaintyDeg("pip.flexion", "index", "lite", "ulnar", 1, withLittle(12))).toBeCloseTo(pooled, 9);
+    expect(fingerAloneUncertaintyDeg("pip.flexion", "little", "full", "ulnar", 1, withLittle(12))).not.toBeCloseTo(12, 1);
+    // A view with no cell takes a stand-in cell; a finger's own figure never comes with it.
+    expect(fingerAloneUncertaintyDeg("pip.flexion", "little", "lite", "palm", 1, withLittle(12))!).toBeGreaterThan(40);
+
+    // Through the engine: a little finger bent alone seen from its own side states that figure (never narrower than the
+    // four-finger cell's or the held-out peaks') and says where it comes from; a middle finger keeps the pooled one.
+    const lone = (digit: "little" | "middle") => ({
+      ...buildSyntheticCapture({ motion: "pip.flexion", side: "right", digit, condition: "against_gravity", placement: ULNAR_VIEW, reps: [{ peakDeg: 70 }], seed: 4 }),
+      oneFinger: true,
+    });
+    const little = analyzeCapture(lone("little"), { uncertaintyTable: withLittle(30) });
+    expect(little.view).toBe("ulnar");
+    expect(little.uncertaintyDeg!).toBeGreaterThanOrEqual(30);
+    expect(little.uncertaintyDeg!).toBeLessThan(pooled);
+    expect(analyzeCapture(lone("little"), { uncertaintyTable: withLittle(35) }).uncertaintyDeg!).toBeGreaterThan(little.uncertaintyDeg!);
+    expect(little.warnings.join(" ")).toMatch(/the little finger bent alone was measured on held-out renders \(off by 15 deg on average per frame, 15 deg at the peak\)/);
+    const middle = analyzeCapture(lone("middle"), { uncertaintyTable: withLittle(30) });
+    expect(middle.uncertaintyDeg!).toBeGreaterThanOrEqual(pooled);
+    expect(middle.warnings.join(" ")).toMatch(/treat the range as a rough guide/);
   });
 
   it("take the worst cell of the group and model where the view has none, and widen with a low tracking score", () => {

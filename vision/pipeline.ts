@@ -200,6 +200,9 @@ export function fingerReadsWorse(
  * The per-frame measurement path shared by the live UI (one `push` per camera frame) and the whole-capture analyzer.
  * No DOM, no Node APIs: runs on the main thread, in a worker and on the server.
  */
+/** How the engine's note on a finger tested on its own begins (a two-model reading keeps one of the two models'). */
+export const ONE_FINGER_NOTE = "one finger tested on its own";
+
 export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   const motion = MOTIONS[options.motion];
   const isWrist = motion.joint === "wrist";
@@ -422,14 +425,6 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
           (pooled ? ` (held-out clips read this way were off by ${pooled.maeDeg.toFixed(0)} deg on average; a straight-wrist reading before the attempt avoids it)` : ""),
       );
     }
-    if (oneFinger) {
-      const cell = fingerAloneCell(table, options.motion, options.digit, handModel, null);
-      warnings.push(
-        "one finger tested on its own, the others held straight: the hand tracker reads a finger bent alone far less truly than four fingers bent together" +
-          (cell ? ` (held-out renders: off by up to ${cell.maeDeg.toFixed(0)} deg on average, mostly reading too little bend)` : "") +
-          "; treat the range as a rough guide, or repeat with all four fingers bending together for a measured range",
-      );
-    }
     if (frames > 0 && usable / frames < 0.8) warnings.push(`only ${usable} of ${frames} frames had a usable hand`);
     if (usable > 0 && repetitions.length === 0) {
       warnings.push(
@@ -449,6 +444,22 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     let view: ValidationView | null = null;
     for (const [v, n] of viewCounts) if (n > usable / 2) view = v;
     const quality = summaryViewQuality(policy, view, viewCounts, usable);
+    // A finger the held-out one-finger clips measured on its own in this view reads within its own figure.
+    const ownAlone = oneFinger && view ? fingerAloneCell(table, options.motion, options.digit, handModel, view) : null;
+    const ownFigure = ownAlone && ownAlone.view === view && ownAlone.model === handModel ? digitFigure(ownAlone, options.digit) : undefined;
+    if (ownFigure) {
+      warnings.push(
+        `${ONE_FINGER_NOTE}, the others held straight: seen in a ${viewName(view!)}, the ${options.digit} finger bent alone was measured on held-out renders ` +
+          `(off by ${ownFigure.clipMaeDeg.toFixed(0)} deg on average per frame, ${ownFigure.clipPeakMaeDeg!.toFixed(0)} deg at the peak), so its ± is that finger's own`,
+      );
+    } else if (oneFinger) {
+      const cell = fingerAloneCell(table, options.motion, options.digit, handModel, null);
+      warnings.push(
+        `${ONE_FINGER_NOTE}, the others held straight: the hand tracker reads a finger bent alone far less truly than four fingers bent together` +
+          (cell ? ` (held-out renders: off by up to ${cell.maeDeg.toFixed(0)} deg on average, mostly reading too little bend)` : "") +
+          "; treat the range as a rough guide, or repeat with all four fingers bending together for a measured range",
+      );
+    }
     const recommendedWords = policy.recommended.map(viewName).join(" or ");
     const seen = view ? `a ${viewName(view)}` : "changing views";
     if (quality === "poor") {

@@ -69,6 +69,8 @@ export interface DigitFigure {
   clipMaeDeg: number;
   /** The finger's own frame P90 (as ValidationCell.clipFramesP90Deg), where every seed gave it. */
   clipFramesP90Deg?: number;
+  /** The finger's own peak MAE, where every seed gave it (FingerAloneCell.byDigit, which needs it). */
+  clipPeakMaeDeg?: number;
   uncertaintyDeg: number;
 }
 
@@ -97,6 +99,11 @@ export interface FingerAloneCell {
   /** MAE of the method the engine uses in the four-finger cell of the same group, view and model. */
   maeDeg: number;
   uncertaintyDeg: number;
+  /**
+   * Fingers whose lone readings held-out one-finger clips measured in this view (the one-finger clip reports'
+   * per-finger tables): that finger's own interval, which stands for its lone readings in place of `uncertaintyDeg`.
+   */
+  byDigit?: DigitFigure[];
 }
 
 /**
@@ -310,10 +317,16 @@ export function fingerAloneCell(
   return from.length ? from.reduce((worst, c) => (c.uncertaintyDeg > worst.uncertaintyDeg ? c : worst)) : null;
 }
 
-/** Uncertainty of a finger tested on its own: its single-finger cell, widened by tracking score. */
+/**
+ * Uncertainty of a finger tested on its own: its single-finger cell (the finger's own figure where held-out one-finger
+ * clips measured it in this view and model), widened by tracking score.
+ */
 export function fingerAloneUncertaintyDeg(motion: MotionId, digit: Digit | null, model: HandModel | null, view: ValidationView | null, score: number, table = UNCERTAINTY_TABLE): number | null {
   const cell = fingerAloneCell(table, motion, digit, model, view);
-  return cell ? widenedByScore(cell.uncertaintyDeg, score) : null;
+  if (!cell) return null;
+  // A finger's own figure only for the view and model that measured it, never for a stand-in cell.
+  const own = cell.view === view && cell.model === model ? digitFigure(cell, digit) : undefined;
+  return widenedByScore(own?.uncertaintyDeg ?? cell.uncertaintyDeg, score);
 }
 
 /**

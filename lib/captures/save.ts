@@ -35,7 +35,9 @@ import { captureUploadSchema, type CaptureSaveResponse, type StoredAttempt } fro
  * thumb-side finger or wrist capture whose hand at the start filled the picture outside the set-up check's band
  * carries a warning (vision/analyze-capture.ts framingWarning; an upload, which no set-up check held). analysis-9:
  * angles as analysis-8; a reading by both hand models states framing once (judged on both models' start frames) and
- * the test plane once (the combined reading's), where analysis-8 could repeat each model's own note.
+ * the test plane once (the combined reading's), and a finger tested on its own once (the wider-interval model's),
+ * where analysis-8 could repeat each model's own note; a finger bent alone in a view where held-out one-finger clips
+ * measured that finger states its own interval (vision/uncertainty.ts FingerAloneCell.byDigit).
  */
 export const ENGINE_VERSION = "kinarc-engine/capture-v1/analysis-9";
 

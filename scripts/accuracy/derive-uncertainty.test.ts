@@ -270,6 +270,32 @@ describe("uncertainty table from the accuracy report", () => {
     }
   });
 
+  it("gives a lone finger its own interval where one-finger clips measured it: frames and peaks, the worst seed; none without every seed's peak", () => {
+    const lone = (seed: number, mae: number, p90: number, peak: string) =>
+      [
+        `## Seed ${seed}`,
+        "",
+        "### By finger (engine)",
+        "",
+        "| motion | view | model | finger | readings | detected | bias ° | MAE ° | slope | within 10° | peak MAE ° | frame P90 ° | within stated ± |",
+        "| --- | --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: |",
+        `| PIP flexion | ulnar | lite | little | 6 | 100% | -1.0 | ${mae} | 0.95 | 90% | ${peak} | ${p90} | 95% |`,
+      ].join("\n");
+    const alone = (markdowns: string[]) =>
+      deriveUncertaintyTable(report, [], CORRECTION_VERSION, [], null, [], [], parseClipFingerRows(markdowns)).fingerAlone!;
+    const cellOf = (cells: ReturnType<typeof alone>, view: string) => cells.find((c) => c.group === "PIP flexion" && c.view === view && c.model === "lite")!;
+    const rows = parseClipFingerRows([lone(1, 5, 9, "7"), lone(2, 4, 14, "3")]);
+    expect(rows).toEqual([{ group: "PIP flexion", view: "ulnar", model: "lite", digit: "little", engineMaeDeg: 5, seeds: 2, engineFramesP90Deg: 14, enginePeakMaeDeg: 7 }]);
+    const measured = alone([lone(1, 5, 9, "7"), lone(2, 4, 14, "3")]);
+    // Frames: 2.06 x 5 = 10.3, never narrower than the frame P90 14; peaks: 2.06 x 7 = 14.4, the wider.
+    expect(cellOf(measured, "ulnar").byDigit).toEqual([{ digit: "little", clipMaeDeg: 5, clipFramesP90Deg: 14, clipPeakMaeDeg: 7, uncertaintyDeg: Math.round(2.0615 * 7 * 10) / 10 }]);
+    // The cell's own figure (report.md's single-finger stills) stays for the other fingers, and other views are untouched.
+    expect(cellOf(measured, "ulnar").uncertaintyDeg).toBe(cellOf(alone([]), "ulnar").uncertaintyDeg);
+    expect(cellOf(measured, "radial").byDigit).toBeUndefined();
+    // A seed whose lone readings never found a peak ("-"): no figure of the finger's own.
+    expect(cellOf(alone([lone(1, 5, 9, "7"), lone(2, 4, 14, "-")]), "ulnar").byDigit).toBeUndefined();
+  });
+
   it("every test-motion row of the report is a cell; random-pose rows fill the rest", () => {
     for (const row of report["test motions"]["raw 3-D"]) {
       const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === row.group && c.view === row.view && c.model === row.model)!;

@@ -30,6 +30,12 @@ export const CLIP_REPORT_FILES = [
   path.join(HERE, "clip-report-hand-shapes.md"),
 ] as const;
 
+/**
+ * Held-out one-finger clips (clip-validation.ts --one-finger), split by finger: their per-finger tables give a lone
+ * finger its own interval (FingerAloneCell.byDigit) where a view measured it.
+ */
+export const ONE_FINGER_CLIP_REPORT_FILES = [path.join(HERE, "clip-report-one-finger-little.md")] as const;
+
 /** Both hand models on one clip (model-agreement.ts): its "both" rows give the two-model cells (PairCell). */
 export const TWO_MODEL_REPORT_FILE = path.join(HERE, "clip-report-two-models.md");
 
@@ -269,6 +275,8 @@ export interface ClipFingerRow {
   seeds: number;
   /** The finger's frame P90, the worst seed, where every seed gave it. */
   engineFramesP90Deg?: number;
+  /** The finger's peak MAE, the worst seed, where every seed gave it. */
+  enginePeakMaeDeg?: number;
 }
 
 /**
@@ -278,6 +286,7 @@ export interface ClipFingerRow {
 export function parseClipFingerRows(markdowns: readonly string[]): ClipFingerRow[] {
   const rows = new Map<string, ClipFingerRow>();
   const optional = new OptionalFigures();
+  const peaks = new OptionalFigures();
   for (const r of tableRows(markdowns, (header) => header[0] === "motion" && header.includes("finger"))) {
     const mae = rowNumber(r, "MAE °", "a number of degrees", "finger");
     const key = `${r.cells[0]}|${r.at("view")}|${r.at("model")}|${r.at("finger")}`;
@@ -286,10 +295,13 @@ export function parseClipFingerRows(markdowns: readonly string[]): ClipFingerRow
     row.seeds += 1;
     rows.set(key, row);
     optional.add(key, r, "frame P90 °", "finger");
+    peaks.add(key, r, "peak MAE °", "finger");
   }
   for (const [key, row] of rows) {
     const p90 = optional.worstOverAll(key, row.seeds);
     if (p90 !== null) row.engineFramesP90Deg = p90;
+    const peak = peaks.worstOverAll(key, row.seeds);
+    if (peak !== null) row.enginePeakMaeDeg = peak;
   }
   return [...rows.values()];
 }
@@ -410,6 +422,7 @@ export function deriveUncertaintyTable(
   withoutStraightWrist: { readings: number; maeDeg: number } | null = null,
   clipFingerRows: readonly ClipFingerRow[] = [],
   pairCells: readonly PairCell[] = [],
+  aloneFingerRows: readonly ClipFingerRow[] = [],
 ): UncertaintyTable {
   const clips = new Map(clipRows.map((r) => [`${r.group}|${r.view}|${r.model}`, r]));
   // A cell is split by finger where every seed that measured it was split, for all four fingers.
@@ -477,6 +490,22 @@ export function deriveUncertaintyTable(
     const correctedMae = singleCorrected.get(key)?.maeDeg ?? null;
     const corrects = cells.find((c) => `${c.group}|${c.view}|${c.model}` === key)?.correctionHelps ?? false;
     const maeDeg = corrects && correctedMae !== null ? correctedMae : raw.maeDeg;
+    // A finger the one-finger clips measured in this view: its own interval from its frames (MAE, frame P90) and its
+    // peaks (MAE), the worst seed; a finger whose peak some seed never found keeps the cell's.
+    const byDigit: DigitFigure[] = FINGERS.flatMap((digit) => {
+      const row = aloneFingerRows.find((r) => `${r.group}|${r.view}|${r.model}|${r.digit}` === `${key}|${digit}`);
+      if (!row || row.enginePeakMaeDeg === undefined) return [];
+      const frames = flooredUncertaintyDeg(row.engineMaeDeg, row.engineFramesP90Deg);
+      return [
+        {
+          digit,
+          clipMaeDeg: row.engineMaeDeg,
+          ...(row.engineFramesP90Deg !== undefined ? { clipFramesP90Deg: row.engineFramesP90Deg } : {}),
+          clipPeakMaeDeg: row.enginePeakMaeDeg,
+          uncertaintyDeg: round1(Math.max(frames, uncertaintyFromMaeDeg(row.enginePeakMaeDeg))),
+        },
+      ];
+    });
     return [
       {
         group: raw.group,
@@ -487,6 +516,7 @@ export function deriveUncertaintyTable(
         correctedMaeDeg: correctedMae,
         maeDeg,
         uncertaintyDeg: round1(uncertaintyFromMaeDeg(maeDeg)),
+        ...(byDigit.length ? { byDigit } : {}),
       },
     ];
   });
@@ -516,6 +546,8 @@ export function deriveUncertaintyTable(
       "(the tracker missed the straight-wrist hold), pooled over their seeds, models and conditions; it stands for every wrist reading made that way. " +
       "fingerAlone: the same rule on report.md's single-finger test motions (one finger bent, the others straight), with the method the engine uses in the " +
       "four-finger cell of the same group, view and model; it stands for a finger the therapist marks as tested on its own, the others held straight (vision/pipeline.ts oneFinger). " +
+      "fingerAlone byDigit: where held-out one-finger clips (scripts/accuracy/clip-report-one-finger-little.md) measured a finger bent alone in a cell's view and model, that finger's " +
+      "interval from the worst seed's frame MAE (never narrower than its frame P90) and peak MAE, by the same normal rule; it stands for that finger's lone readings in that view. " +
       "pairs: the same rule on the frame MAE of both hand models read together (vision/model-pair.ts), the worst over the held-out seeds of " +
       "scripts/accuracy/clip-report-two-models.md, against gravity (little-finger side) and with gravity minimized (thumb side; there only where every seed " +
       "was split by finger, each finger's interval from its own worst seed, byDigit); it stands for a frame both models read in that view; " +
@@ -558,6 +590,7 @@ export function deriveCommittedTable(): UncertaintyTable {
     parseWithoutStraightWrist(clipReports),
     parseClipFingerRows(clipReports),
     existsSync(TWO_MODEL_REPORT_FILE) ? parsePairCells(readFileSync(TWO_MODEL_REPORT_FILE, "utf8")) : [],
+    parseClipFingerRows(readClipReports(ONE_FINGER_CLIP_REPORT_FILES)),
   );
 }
 
