@@ -3,6 +3,7 @@ import { CONDITIONS, MOTION_IDS, MOTIONS } from "@/lib/motions/catalog";
 import { angleUncertaintyDeg, FULL_CONFIDENCE_SCORE, pairUncertaintyDeg, UNCERTAINTY_TABLE } from "@/vision/uncertainty";
 import { FRAMING, viewPolicy } from "@/vision/view-policy";
 import { neutralReadingUncertaintyDeg } from "@/vision/wrist-axis";
+import { correctionGroupFor } from "@/vision/correction";
 import { accuracyRows, accuracySource } from "./spec";
 
 // The figures come from vision/uncertainty-table.json, derived from held-out rendered-hand clips
@@ -77,6 +78,29 @@ describe("accuracy figures for therapists", () => {
     expect(rows.find((r) => r.motion === "wrist.flexion" && r.condition === "gravity_minimized")?.framing).toEqual(FRAMING.thumbSideWristSpan);
     expect(rows.find((r) => r.motion === "pip.flexion" && r.condition === "against_gravity")?.framing).toBeNull();
     expect(rows.find((r) => r.motion === "wrist.flexion" && r.condition === "against_gravity")?.framing).toBeNull();
+  });
+
+  it("state a lone finger's own interval where one-finger clips measured it in the row's view, never narrower than its four-finger one", () => {
+    const withLittle = (deg: number) => ({
+      ...UNCERTAINTY_TABLE,
+      fingerAlone: (UNCERTAINTY_TABLE.fingerAlone ?? []).map((c) =>
+        c.group === "PIP flexion" && c.view === "ulnar" && c.model === "lite"
+          ? { ...c, byDigit: [{ digit: "little" as const, clipMaeDeg: deg / 2.06, clipPeakMaeDeg: deg / 2.06, uncertaintyDeg: deg }] }
+          : c,
+      ),
+    });
+    const pipAgainst = (deg: number) => accuracyRows(withLittle(deg)).find((r) => r.motion === "pip.flexion" && r.condition === "against_gravity" && r.digit === null)!;
+    const fourFingerLittle = half(angleUncertaintyDeg("pip.flexion", "little", "lite", "ulnar", FULL_CONFIDENCE_SCORE))!;
+    expect(pipAgainst(30).fingerAloneByFinger).toEqual([{ digit: "little", frameDeg: 30 }]);
+    // Below the four-finger figure the four-finger one stands, as the engine states it.
+    expect(pipAgainst(1).fingerAloneByFinger).toEqual([{ digit: "little", frameDeg: fourFingerLittle }]);
+    // Only rows of that joint group seen from the little-finger side carry it (a group shares its cells, as in the engine).
+    const carrying = accuracyRows(withLittle(30)).filter((r) => r.fingerAloneByFinger.length > 0);
+    expect(carrying.map((r) => r.motion)).toContain("pip.flexion");
+    for (const r of carrying) {
+      expect(correctionGroupFor(r.motion, "little")?.group).toBe("PIP flexion");
+      expect([r.condition, r.view]).toEqual(["against_gravity", "ulnar"]);
+    }
   });
 
   it("name the table and correction versions the figures belong to", () => {

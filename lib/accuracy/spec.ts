@@ -9,6 +9,7 @@ import { readsWithBothModels } from "@/vision/model-pair-scope";
 import {
   angleUncertaintyDeg,
   FULL_CONFIDENCE_SCORE,
+  fingerAloneCell,
   fingerAloneUncertaintyDeg,
   pairPeakUncertaintyDeg,
   pairUncertaintyDeg,
@@ -55,6 +56,11 @@ export interface AccuracyRow {
   /** A finger tested with its neighbours still (the therapist's "one finger" choice), lite; null where not offered. */
   fingerAloneDeg: number | null;
   /**
+   * Fingers whose lone readings held-out one-finger clips measured in this view (FingerAloneCell.byDigit), lite: the
+   * frame interval the engine states for that finger bent alone (never narrower than its four-finger one); empty elsewhere.
+   */
+  fingerAloneByFinger: FingerInterval[];
+  /**
    * Wrist motions: `lite` is read against the straight-wrist reading the self-check and visits take first (the figure
    * the engine states then); this is the interval without one, or with the forearm line taken from the upper body.
    * Null for other motions.
@@ -100,6 +106,13 @@ function row(motion: MotionId, condition: Condition, digit: "thumb" | null, tabl
   const perFinger = fingers.map((d) => ({ digit: d, frameDeg: roundHalf(angleUncertaintyDeg(motion, d, "lite", view, SCORE, table)) }));
   const unalike = perFinger.some((f) => f.frameDeg !== lite.frameDeg);
   const alone = fingers.length ? fingerAloneUncertaintyDeg(motion, "index", "lite", view, SCORE, table) : null;
+  const aloneCell = fingers.length ? fingerAloneCell(table, motion, "index", "lite", view) : null;
+  const measuredAlone = aloneCell?.view === view ? (aloneCell.byDigit ?? []) : [];
+  const aloneByFinger = measuredAlone.flatMap((figure) => {
+    const own = fingerAloneUncertaintyDeg(motion, figure.digit, "lite", view, SCORE, table);
+    const together = perFinger.find((f) => f.digit === figure.digit)?.frameDeg ?? null;
+    return own === null ? [] : [{ digit: figure.digit, frameDeg: roundHalf(Math.max(own, together ?? 0)) }];
+  });
   return {
     motion,
     label: MOTIONS[motion].label,
@@ -111,6 +124,7 @@ function row(motion: MotionId, condition: Condition, digit: "thumb" | null, tabl
     both,
     byFinger: unalike ? perFinger : [],
     fingerAloneDeg: roundHalf(alone),
+    fingerAloneByFinger: aloneByFinger,
     otherwiseDeg: neutralDeg === null ? null : roundHalf(otherwise),
     framing: framingOf(motion, condition, digit),
   };

@@ -62,6 +62,8 @@ const REREAD_UNDER_ANALYSIS_7 =
   " With gravity minimized (thumb side), its finger clips' saved tracking was read again under engine analysis-7 (commit cd34a2a: the finger estimator's view fit follows the engine's view of the frame, chosen on calibration seeds 77000407-77000408), and those rows are that reading; its wrist rows stand as read before (the change does not touch the wrist).";
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  20261229:
+    "The little finger bent on its own (`--one-finger --digits little`), against gravity, seen from the little-finger side, 12 clips per motion, both models: rendered and tracked while the rule giving a lone finger its own interval (derive-uncertainty.ts ONE_FINGER_CLIP_REPORT_FILES, commit a43972a) was being written, and read once after it was committed. The finger and view were chosen on training seed 77000406 (every finger bent alone, seen from either side). Its per-finger rows are the source of that finger's lone interval; nothing is fitted on it.",
   20261228:
     "The third fresh check of the thumb-side framing band for the fingers: rendered and tracked like 20261225 (`--framing setup`, 12 clips per motion) after the wrist's bound and the view instruction were committed (commit ba91be2); read once, after. Nothing is fitted on it.",
   20261227:

@@ -32,7 +32,12 @@ function Notes({ row }: { row: AccuracyRow }) {
         </p>
       ) : null}
       {row.byFinger.length ? <p>Per finger: {row.byFinger.map((f) => `${f.digit} ${pm(f.frameDeg)}`).join(", ")}.</p> : null}
-      {row.fingerAloneDeg !== null ? <p>One finger moving alone: {pm(row.fingerAloneDeg)}.</p> : null}
+      {row.fingerAloneDeg !== null ? (
+        <p data-testid="accuracy-one-finger">
+          One finger moving alone: {pm(row.fingerAloneDeg)}
+          {row.fingerAloneByFinger.length ? `; measured on its own from this side: ${row.fingerAloneByFinger.map((f) => `${f.digit} ${pm(f.frameDeg)}`).join(", ")}` : ""}.
+        </p>
+      ) : null}
       {row.otherwiseDeg !== null ? (
         <p>Read against the straight-wrist reading taken first. Without one, or with the forearm line taken from the upper body: {pm(row.otherwiseDeg)}.</p>
       ) : null}
