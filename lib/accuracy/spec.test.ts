@@ -83,10 +83,11 @@ describe("accuracy figures for therapists", () => {
   it("state a lone finger's own interval where one-finger clips measured it in the row's view, never narrower than its four-finger one", () => {
     const withLittle = (deg: number) => ({
       ...UNCERTAINTY_TABLE,
+      // Only this cell has a finger's own figure here, whatever the committed table holds.
       fingerAlone: (UNCERTAINTY_TABLE.fingerAlone ?? []).map((c) =>
         c.group === "PIP flexion" && c.view === "ulnar" && c.model === "lite"
           ? { ...c, byDigit: [{ digit: "little" as const, clipMaeDeg: deg / 2.06, clipPeakMaeDeg: deg / 2.06, uncertaintyDeg: deg }] }
-          : c,
+          : { ...c, byDigit: undefined },
       ),
     });
     const pipAgainst = (deg: number) => accuracyRows(withLittle(deg)).find((r) => r.motion === "pip.flexion" && r.condition === "against_gravity" && r.digit === null)!;

@@ -25,9 +25,15 @@ describe("uncertainty table from the accuracy report", () => {
 
   it("the committed table is exactly what the committed report gives (re-run derive-uncertainty after the report)", () => {
     expect(deriveCommittedTable()).toEqual(UNCERTAINTY_TABLE);
-    // Without the clip reports' wrist rows the rest of the table is the same.
-    const { withoutStraightWristReading, pairs, ...cells } = UNCERTAINTY_TABLE;
-    expect(deriveUncertaintyTable(report, readHandShapeRows(), CORRECTION_VERSION, readClipRows(), null, readClipFingerRows())).toEqual(cells);
+    // Without the clip reports' wrist rows and the one-finger reports, the rest of the table is the same.
+    const { withoutStraightWristReading, pairs, fingerAlone, ...cells } = UNCERTAINTY_TABLE;
+    const withoutLone = fingerAlone?.map((cell) => Object.fromEntries(Object.entries(cell).filter(([key]) => key !== "byDigit")));
+    expect(deriveUncertaintyTable(report, readHandShapeRows(), CORRECTION_VERSION, readClipRows(), null, readClipFingerRows())).toEqual({ ...cells, fingerAlone: withoutLone });
+    // The one-finger report of the little finger (seed 20261229) gives it its own lone figure from its own side only.
+    const lone = (fingerAlone ?? []).filter((c) => c.byDigit);
+    expect(lone.map((c) => `${c.group}|${c.view}|${c.model}|${c.byDigit!.map((f) => f.digit).join()}`).sort()).toEqual(
+      ["DIP flexion", "MCP flexion", "PIP flexion"].flatMap((g) => [`${g}|ulnar|full|little`, `${g}|ulnar|lite|little`]),
+    );
     // Both clip reports are split by finger ("By finger"): the thumb side (gravity minimized) and the little-finger side.
     const split = UNCERTAINTY_TABLE.cells.filter((c) => c.byDigit).map((c) => `${c.group}|${c.view}|${c.model}`);
     for (const group of ["MCP flexion", "PIP flexion", "DIP flexion"]) {
