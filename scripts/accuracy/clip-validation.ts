@@ -62,6 +62,10 @@ const REREAD_UNDER_ANALYSIS_7 =
   " With gravity minimized (thumb side), its finger clips' saved tracking was read again under engine analysis-7 (commit cd34a2a: the finger estimator's view fit follows the engine's view of the frame, chosen on calibration seeds 77000407-77000408), and those rows are that reading; its wrist rows stand as read before (the change does not touch the wrist).";
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  20261231:
+    "The fresh check of the little finger's own lone interval from two seeds (20261229 and 20261230): rendered and tracked like them (`--one-finger --digits little`, against gravity, 12 clips per motion, both models) while the second seed was being added, and read once (`--reuse`) after that was committed. Not read by derive-uncertainty.ts; nothing is fitted on it.",
+  20261230:
+    "Rendered and tracked like 20261229 (`--one-finger --digits little`, against gravity, 12 clips per motion, both models) as the fresh check of the little finger's lone interval from that seed alone (commit f4faabb), and read once (`--reuse`) after it was committed: frames inside the stated ± 89-99%, but peaks only 73-83% for PIP and DIP (its peaks read lower than 20261229's: lite PIP peak MAE 15.1 against 7.8 deg). It was then added as the interval's second source (the worst seed stands), checked on 20261231. Nothing is fitted on it.",
   20261229:
     "The little finger bent on its own (`--one-finger --digits little`), against gravity, seen from the little-finger side, 12 clips per motion, both models: rendered and tracked while the rule giving a lone finger its own interval (derive-uncertainty.ts ONE_FINGER_CLIP_REPORT_FILES, commit a43972a) was being written, and read once after it was committed. The finger and view were chosen on training seed 77000406 (every finger bent alone, seen from either side). Its per-finger rows are the source of that finger's lone interval; nothing is fitted on it.",
   20261228:
