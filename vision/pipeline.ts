@@ -196,13 +196,13 @@ export function fingerReadsWorse(
   return { fingerMaeDeg: own.clipMaeDeg, cellMaeDeg: cell.clipMaeDeg };
 }
 
+/** How the engine's note on a finger tested on its own begins (a two-model reading keeps one of the two models'). */
+export const ONE_FINGER_NOTE = "one finger tested on its own";
+
 /**
  * The per-frame measurement path shared by the live UI (one `push` per camera frame) and the whole-capture analyzer.
  * No DOM, no Node APIs: runs on the main thread, in a worker and on the server.
  */
-/** How the engine's note on a finger tested on its own begins (a two-model reading keeps one of the two models'). */
-export const ONE_FINGER_NOTE = "one finger tested on its own";
-
 export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   const motion = MOTIONS[options.motion];
   const isWrist = motion.joint === "wrist";
@@ -450,7 +450,8 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     if (ownFigure) {
       warnings.push(
         `${ONE_FINGER_NOTE}, the others held straight: seen in a ${viewName(view!)}, the ${options.digit} finger bent alone was measured on held-out renders ` +
-          `(off by ${ownFigure.clipMaeDeg.toFixed(0)} deg on average per frame, ${ownFigure.clipPeakMaeDeg!.toFixed(0)} deg at the peak), so its ± is that finger's own`,
+          `(off by ${ownFigure.clipMaeDeg.toFixed(0)} deg on average per frame, ${ownFigure.clipPeakMaeDeg!.toFixed(0)} deg at the peak, mostly too little bend), so its ± is that finger's own; ` +
+          "four fingers bending together read more truly",
       );
     } else if (oneFinger) {
       const cell = fingerAloneCell(table, options.motion, options.digit, handModel, null);
