@@ -1,6 +1,7 @@
 "use client";
 
 import { useState } from "react";
+import { oneFingerFigures } from "@/lib/accuracy/spec";
 import { CONDITIONS, isOneFingerMotion, MOTION_IDS, MOTIONS, type Condition, type Digit, type MotionId, type Side } from "@/lib/motions/catalog";
 
 export interface TestChoice {
@@ -18,6 +19,7 @@ export const CONDITION_LABELS: Record<Condition, string> = { against_gravity: "A
 export function TestPicker({ initial, onPrompt, disabled }: { initial: TestChoice; onPrompt: (choice: TestChoice) => void; disabled?: boolean }) {
   const [choice, setChoice] = useState<TestChoice>(initial);
   const def = MOTIONS[choice.motion];
+  const lone = oneFingerFigures(choice.motion, choice.condition, choice.digit);
   const set = (patch: Partial<TestChoice>) =>
     setChoice((c) => {
       const next = { ...c, ...patch };
@@ -83,8 +85,9 @@ export function TestPicker({ initial, onPrompt, disabled }: { initial: TestChoic
           <input type="checkbox" className="mt-1" checked={choice.oneFinger === true} onChange={(e) => set({ oneFinger: e.target.checked })} />
           <span>
             <span className="font-medium">Other fingers held straight</span>
-            <span className="block text-xs text-ink-soft">
-              The camera reads a finger bent on its own far less truly than four fingers bent together; such readings carry a much wider ± and a note.
+            <span className="block text-xs text-ink-soft" data-testid="one-finger-hint">
+              The camera reads a finger bent on its own less truly than four fingers bent together; such readings carry a wider ± and a note.
+              {lone ? ` Here the ${choice.digit} finger alone reads within ± ${lone.aloneDeg}° (± ${lone.togetherDeg}° bending with the others).` : ""}
             </span>
           </span>
         </label>

@@ -4,7 +4,7 @@ import { angleUncertaintyDeg, FULL_CONFIDENCE_SCORE, pairUncertaintyDeg, UNCERTA
 import { FRAMING, viewPolicy } from "@/vision/view-policy";
 import { neutralReadingUncertaintyDeg } from "@/vision/wrist-axis";
 import { correctionGroupFor } from "@/vision/correction";
-import { accuracyRows, accuracySource } from "./spec";
+import { accuracyRows, accuracySource, oneFingerFigures } from "./spec";
 
 // The figures come from vision/uncertainty-table.json, derived from held-out rendered-hand clips
 // (scripts/accuracy/derive-uncertainty.ts); these checks hold the page to what the engine states for a reading.
@@ -102,6 +102,17 @@ describe("accuracy figures for therapists", () => {
       expect(correctionGroupFor(r.motion, "little")?.group).toBe("PIP flexion");
       expect([r.condition, r.view]).toEqual(["against_gravity", "ulnar"]);
     }
+  });
+
+  it("tell the therapist what a finger bent alone reads within, beside the same finger bending with the others", () => {
+    const little = oneFingerFigures("pip.flexion", "against_gravity", "little")!;
+    const index = oneFingerFigures("pip.flexion", "against_gravity", "index")!;
+    expect(little.togetherDeg).toBe(half(angleUncertaintyDeg("pip.flexion", "little", "lite", "ulnar", FULL_CONFIDENCE_SCORE)));
+    // The little finger's own lone figure (held-out seeds 20261229-20261230) is narrower than the pooled one the index keeps.
+    expect(little.aloneDeg).toBeLessThan(index.aloneDeg);
+    expect(little.aloneDeg).toBeGreaterThanOrEqual(little.togetherDeg);
+    expect(oneFingerFigures("pip.flexion", "against_gravity", "thumb")).toBeNull();
+    expect(oneFingerFigures("wrist.flexion", "against_gravity", null)).toBeNull();
   });
 
   it("name the table and correction versions the figures belong to", () => {

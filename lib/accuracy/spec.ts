@@ -4,7 +4,7 @@
  * so the page a therapist reads and the ± beside an attempt cannot drift apart. Built from the committed table
  * (vision/uncertainty-table.json, derived from held-out rendered-hand clips by scripts/accuracy/derive-uncertainty.ts).
  */
-import { CONDITIONS, MOTION_IDS, MOTIONS, type Condition, type Digit, type MotionId } from "@/lib/motions/catalog";
+import { CONDITIONS, isOneFingerMotion, MOTION_IDS, MOTIONS, type Condition, type Digit, type MotionId } from "@/lib/motions/catalog";
 import { readsWithBothModels } from "@/vision/model-pair-scope";
 import {
   angleUncertaintyDeg,
@@ -131,6 +131,20 @@ function row(motion: MotionId, condition: Condition, digit: "thumb" | null, tabl
 }
 
 /** Every motion Kinarc measures, in both test positions: the fingers together, then the thumb where it applies. */
+/**
+ * What a finger tested on its own is read within, in the view recommended for it at full confidence (lite, frames):
+ * its lone interval as the engine states it (never narrower than the four-finger one) beside the interval of the
+ * same finger bending with the others. Null where a lone finger is not offered or no figure exists.
+ */
+export function oneFingerFigures(motion: MotionId, condition: Condition, digit: Digit | null): { aloneDeg: number; togetherDeg: number } | null {
+  if (!digit || !isOneFingerMotion(motion, digit)) return null;
+  const view = viewPolicy(motion, condition, digit).recommended[0];
+  const together = angleUncertaintyDeg(motion, digit, "lite", view, SCORE);
+  const alone = fingerAloneUncertaintyDeg(motion, digit, "lite", view, SCORE);
+  if (together === null || alone === null) return null;
+  return { aloneDeg: roundHalf(Math.max(alone, together))!, togetherDeg: roundHalf(together)! };
+}
+
 export function accuracyRows(table: UncertaintyTable = UNCERTAINTY_TABLE): AccuracyRow[] {
   const rows: AccuracyRow[] = [];
   for (const motion of MOTION_IDS) {

@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import type { Database } from "@/db";
 import { attemptCaptures, attempts, visits } from "@/db/schema";
+import { oneFingerFigures } from "@/lib/accuracy/spec";
 import { parseCapture } from "@/lib/capture/parse";
 import { LOCAL_DEFAULTS } from "@/lib/env";
 import { toLocalInput } from "@/lib/visits/time";
@@ -228,6 +229,9 @@ describe("a video visit through the local media server", () => {
     await picker.getByLabel("Digit").selectOption("ring");
     await picker.getByLabel("Condition").selectOption("against_gravity");
     await picker.getByLabel("Other fingers held straight").check();
+    // The box says what a lone ring finger reads within, as the engine would state it (lib/accuracy/spec.ts).
+    const lone = oneFingerFigures("pip.flexion", "against_gravity", "ring")!;
+    expect(await picker.getByTestId("one-finger-hint").textContent()).toContain(`the ring finger alone reads within ± ${lone.aloneDeg}° (± ${lone.togetherDeg}° bending with the others)`);
     await picker.getByRole("button", { name: "Ask the client to do this" }).click();
     await expect.poll(() => clientPage.getByTestId("client-test").textContent(), { timeout: 15_000 }).toMatch(/PIP flexion, ring finger on its own \(right\)/);
     expect(await clientPage.getByText("Bend only your ring finger. Keep the other fingers straight").count()).toBe(1);
