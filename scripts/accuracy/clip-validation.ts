@@ -62,6 +62,10 @@ const REREAD_UNDER_ANALYSIS_7 =
   " With gravity minimized (thumb side), its finger clips' saved tracking was read again under engine analysis-7 (commit cd34a2a: the finger estimator's view fit follows the engine's view of the frame, chosen on calibration seeds 77000407-77000408), and those rows are that reading; its wrist rows stand as read before (the change does not touch the wrist).";
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  20261233:
+    "The fresh check of the index, middle and ring fingers' own lone intervals: rendered and tracked like 20261232 (`--one-finger --digits index,middle,ring`, against gravity, 24 clips per motion, 8 per finger, both models) at the same time, and read once (`--reuse`) after those intervals were committed. Not read by derive-uncertainty.ts; nothing is fitted on it.",
+  20261232:
+    "The index, middle and ring fingers each bent on its own (`--one-finger --digits index,middle,ring`), against gravity, seen from the little-finger side, 24 clips per motion (8 per finger), both models: rendered and tracked after the lone-finger rule (commit a43972a) and the little finger's figures were committed, read once. Its per-finger rows are the source of those fingers' lone intervals; nothing is fitted on it.",
   20261231:
     "The fresh check of the little finger's own lone interval from two seeds (20261229 and 20261230): rendered and tracked like them (`--one-finger --digits little`, against gravity, 12 clips per motion, both models) while the second seed was being added, and read once (`--reuse`) after that was committed. Not read by derive-uncertainty.ts; nothing is fitted on it.",
   20261230:

@@ -34,7 +34,10 @@ export const CLIP_REPORT_FILES = [
  * Held-out one-finger clips (clip-validation.ts --one-finger), split by finger: their per-finger tables give a lone
  * finger its own interval (FingerAloneCell.byDigit) where a view measured it.
  */
-export const ONE_FINGER_CLIP_REPORT_FILES = [path.join(HERE, "clip-report-one-finger-little.md")] as const;
+export const ONE_FINGER_CLIP_REPORT_FILES = [
+  path.join(HERE, "clip-report-one-finger-little.md"),
+  path.join(HERE, "clip-report-one-finger-index-middle-ring.md"),
+] as const;
 
 /** Both hand models on one clip (model-agreement.ts): its "both" rows give the two-model cells (PairCell). */
 export const TWO_MODEL_REPORT_FILE = path.join(HERE, "clip-report-two-models.md");
@@ -546,7 +549,7 @@ export function deriveUncertaintyTable(
       "(the tracker missed the straight-wrist hold), pooled over their seeds, models and conditions; it stands for every wrist reading made that way. " +
       "fingerAlone: the same rule on report.md's single-finger test motions (one finger bent, the others straight), with the method the engine uses in the " +
       "four-finger cell of the same group, view and model; it stands for a finger the therapist marks as tested on its own, the others held straight (vision/pipeline.ts oneFinger). " +
-      "fingerAlone byDigit: where held-out one-finger clips (scripts/accuracy/clip-report-one-finger-little.md) measured a finger bent alone in a cell's view and model, that finger's " +
+      "fingerAlone byDigit: where held-out one-finger clips (scripts/accuracy/clip-report-one-finger-little.md, clip-report-one-finger-index-middle-ring.md) measured a finger bent alone in a cell's view and model, that finger's " +
       "interval from the worst seed's frame MAE (never narrower than its frame P90) and peak MAE, by the same normal rule; it stands for that finger's lone readings in that view. " +
       "pairs: the same rule on the frame MAE of both hand models read together (vision/model-pair.ts), the worst over the held-out seeds of " +
       "scripts/accuracy/clip-report-two-models.md, against gravity (little-finger side) and with gravity minimized (thumb side; there only where every seed " +
