@@ -1,4 +1,4 @@
-import { readFileSync } from "node:fs";
+import { existsSync, readFileSync } from "node:fs";
 import { describe, expect, it } from "vitest";
 import { UNCERTAINTY_TABLE } from "@/vision/uncertainty";
 import { CORRECTION_VERSION } from "@/vision/correction";
@@ -17,6 +17,7 @@ import {
   readClipFingerRows,
   readClipRows,
   readHandShapeRows,
+  ONE_FINGER_CLIP_REPORT_FILES,
   REPORT_FILE,
 } from "./derive-uncertainty";
 
@@ -29,11 +30,19 @@ describe("uncertainty table from the accuracy report", () => {
     const { withoutStraightWristReading, pairs, fingerAlone, ...cells } = UNCERTAINTY_TABLE;
     const withoutLone = fingerAlone?.map((cell) => Object.fromEntries(Object.entries(cell).filter(([key]) => key !== "byDigit")));
     expect(deriveUncertaintyTable(report, readHandShapeRows(), CORRECTION_VERSION, readClipRows(), null, readClipFingerRows())).toEqual({ ...cells, fingerAlone: withoutLone });
-    // The one-finger report of the little finger (seed 20261229) gives it its own lone figure from its own side only.
-    const lone = (fingerAlone ?? []).filter((c) => c.byDigit);
-    expect(lone.map((c) => `${c.group}|${c.view}|${c.model}|${c.byDigit!.map((f) => f.digit).join()}`).sort()).toEqual(
-      ["DIP flexion", "MCP flexion", "PIP flexion"].flatMap((g) => [`${g}|ulnar|full|little`, `${g}|ulnar|lite|little`]),
-    );
+    // The one-finger reports give each finger they measured its own lone figure, from the little-finger side only
+    // (the little finger from seeds 20261229-20261230 in every joint and model).
+    const measured = parseClipFingerRows(ONE_FINGER_CLIP_REPORT_FILES.filter((f) => existsSync(f)).map((f) => readFileSync(f, "utf8")));
+    const lone = (fingerAlone ?? []).flatMap((c) => (c.byDigit ?? []).map((f) => ({ cell: c, figure: f })));
+    for (const { cell, figure } of lone) {
+      expect(cell.view).toBe("ulnar");
+      const row = measured.find((r) => `${r.group}|${r.view}|${r.model}|${r.digit}` === `${cell.group}|${cell.view}|${cell.model}|${figure.digit}`)!;
+      expect(figure.clipMaeDeg).toBe(row.engineMaeDeg);
+      expect(figure.clipPeakMaeDeg).toBe(row.enginePeakMaeDeg);
+    }
+    for (const group of ["MCP flexion", "PIP flexion", "DIP flexion"]) {
+      for (const model of ["lite", "full"]) expect(lone.some(({ cell, figure }) => cell.group === group && cell.model === model && figure.digit === "little")).toBe(true);
+    }
     // Both clip reports are split by finger ("By finger"): the thumb side (gravity minimized) and the little-finger side.
     const split = UNCERTAINTY_TABLE.cells.filter((c) => c.byDigit).map((c) => `${c.group}|${c.view}|${c.model}`);
     for (const group of ["MCP flexion", "PIP flexion", "DIP flexion"]) {
