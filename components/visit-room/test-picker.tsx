@@ -13,6 +13,12 @@ export interface TestChoice {
   oneFinger?: boolean;
 }
 
+/**
+ * Past this half-width a lone finger's reading cannot tell half of a finger joint's range from all of it (about 90
+ * degrees for MCP and PIP, AAOS normal values from memory); our threshold, not a published one.
+ */
+const ONE_FINGER_TOO_WIDE_DEG = 45;
+
 export const CONDITION_LABELS: Record<Condition, string> = { against_gravity: "Against gravity", gravity_minimized: "Gravity minimized" };
 
 /** The therapist's choice of the next test: motion, side, digit (for finger motions) and condition. */
@@ -88,6 +94,7 @@ export function TestPicker({ initial, onPrompt, disabled }: { initial: TestChoic
             <span className="block text-xs text-ink-soft" data-testid="one-finger-hint">
               The camera reads a finger bent on its own less truly than four fingers bent together; such readings carry a wider ± and a note.
               {lone ? ` Here the ${choice.digit} finger alone reads within ± ${lone.aloneDeg}° (± ${lone.togetherDeg}° bending with the others).` : ""}
+              {lone && lone.aloneDeg > ONE_FINGER_TOO_WIDE_DEG ? " That is too wide to decide a range-based grade: ask for all four fingers together, or measure it in person." : ""}
             </span>
           </span>
         </label>
