@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { CONDITIONS, MOTION_IDS, MOTIONS } from "@/lib/motions/catalog";
-import { angleUncertaintyDeg, FULL_CONFIDENCE_SCORE, pairUncertaintyDeg, UNCERTAINTY_TABLE } from "@/vision/uncertainty";
+import { angleUncertaintyDeg, fingerAloneCell, FULL_CONFIDENCE_SCORE, pairUncertaintyDeg, UNCERTAINTY_TABLE } from "@/vision/uncertainty";
 import { FRAMING, viewPolicy } from "@/vision/view-policy";
 import { neutralReadingUncertaintyDeg } from "@/vision/wrist-axis";
 import { correctionGroupFor } from "@/vision/correction";
@@ -113,6 +113,11 @@ describe("accuracy figures for therapists", () => {
     expect(little.aloneDeg).toBeGreaterThanOrEqual(little.togetherDeg);
     expect(oneFingerFigures("pip.flexion", "against_gravity", "thumb")).toBeNull();
     expect(oneFingerFigures("wrist.flexion", "against_gravity", null)).toBeNull();
+  });
+
+  it("keep the pooled one-finger figure apart from any finger's own", () => {
+    const pip = rows.find((r) => r.motion === "pip.flexion" && r.condition === "against_gravity" && r.digit === null)!;
+    expect(pip.fingerAloneDeg).toBe(half(fingerAloneCell(UNCERTAINTY_TABLE, "pip.flexion", "index", "lite", "ulnar")!.uncertaintyDeg));
   });
 
   it("name the table and correction versions the figures belong to", () => {

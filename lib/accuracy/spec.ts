@@ -105,8 +105,10 @@ function row(motion: MotionId, condition: Condition, digit: "thumb" | null, tabl
   const fingers = digit === null ? MOTIONS[motion].digits.filter((d) => d !== "thumb") : [];
   const perFinger = fingers.map((d) => ({ digit: d, frameDeg: roundHalf(angleUncertaintyDeg(motion, d, "lite", view, SCORE, table)) }));
   const unalike = perFinger.some((f) => f.frameDeg !== lite.frameDeg);
-  const alone = fingers.length ? fingerAloneUncertaintyDeg(motion, "index", "lite", view, SCORE, table) : null;
   const aloneCell = fingers.length ? fingerAloneCell(table, motion, "index", "lite", view) : null;
+  // The pooled figure: the cell's own, for a finger no one-finger clip measured (not any finger's own figure).
+  const pooledTable = aloneCell ? { ...table, fingerAlone: [{ ...aloneCell, byDigit: undefined }] } : table;
+  const alone = fingers.length ? fingerAloneUncertaintyDeg(motion, "index", "lite", view, SCORE, pooledTable) : null;
   const measuredAlone = aloneCell?.view === view ? (aloneCell.byDigit ?? []) : [];
   const aloneByFinger = measuredAlone.flatMap((figure) => {
     const own = fingerAloneUncertaintyDeg(motion, figure.digit, "lite", view, SCORE, table);

@@ -228,7 +228,9 @@ describe("clinic admin", () => {
     expect(await shown.getByTestId("accuracy-framing").count()).toBe(0);
     // A finger bent alone: the pooled figure, and the little finger's own where held-out one-finger clips measured it.
     const little = pip.fingerAloneByFinger.find((f) => f.digit === "little")!;
-    expect(await shown.getByTestId("accuracy-one-finger").textContent()).toContain(`measured on its own from this side: little ± ${little.frameDeg}°`);
+    const oneFinger = await shown.getByTestId("accuracy-one-finger").textContent();
+    expect(oneFinger).toContain(`One finger moving alone: ± ${pip.fingerAloneDeg}°; measured on its own from this side:`);
+    expect(oneFinger).toContain(`little ± ${little.frameDeg}°`);
     // From the thumb side the set-up check's framing band is stated (vision/view-policy.ts FRAMING).
     const thumbSide = page.locator('[data-testid=accuracy-row][data-motion="pip.flexion"][data-condition="gravity_minimized"][data-digit="fingers"]');
     expect(await thumbSide.getByTestId("accuracy-framing").textContent()).toBe("hand filling 40-60% of the picture");
