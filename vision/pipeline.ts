@@ -15,6 +15,7 @@ import {
   digitFigure,
   fingerAloneCell,
   fingerAloneUncertaintyDeg,
+  ownAloneFigure,
   peakUncertaintyDeg,
   UNCERTAINTY_TABLE,
   validationCell,
@@ -445,8 +446,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     for (const [v, n] of viewCounts) if (n > usable / 2) view = v;
     const quality = summaryViewQuality(policy, view, viewCounts, usable);
     // A finger the held-out one-finger clips measured on its own in this view reads within its own figure.
-    const ownAlone = oneFinger && view ? fingerAloneCell(table, options.motion, options.digit, handModel, view) : null;
-    const ownFigure = ownAlone && ownAlone.view === view && ownAlone.model === handModel ? digitFigure(ownAlone, options.digit) : undefined;
+    const ownFigure = oneFinger && view ? ownAloneFigure(table, options.motion, options.digit, handModel, view) : undefined;
     if (ownFigure) {
       warnings.push(
         `${ONE_FINGER_NOTE}, the others held straight: seen in a ${viewName(view!)}, the ${options.digit} finger bent alone was measured on held-out renders ` +

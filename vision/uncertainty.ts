@@ -324,9 +324,21 @@ export function fingerAloneCell(
 export function fingerAloneUncertaintyDeg(motion: MotionId, digit: Digit | null, model: HandModel | null, view: ValidationView | null, score: number, table = UNCERTAINTY_TABLE): number | null {
   const cell = fingerAloneCell(table, motion, digit, model, view);
   if (!cell) return null;
-  // A finger's own figure only for the view and model that measured it, never for a stand-in cell.
-  const own = cell.view === view && cell.model === model ? digitFigure(cell, digit) : undefined;
-  return widenedByScore(own?.uncertaintyDeg ?? cell.uncertaintyDeg, score);
+  return widenedByScore(ownFigureIn(cell, digit, model, view)?.uncertaintyDeg ?? cell.uncertaintyDeg, score);
+}
+
+/** A finger's own figure only for the view and model that measured it, never for a stand-in cell. */
+function ownFigureIn(cell: FingerAloneCell, digit: Digit | null, model: HandModel | null, view: ValidationView | null): DigitFigure | undefined {
+  return cell.view === view && cell.model === model ? digitFigure(cell, digit) : undefined;
+}
+
+/**
+ * The held-out one-finger clips' own figure for this finger bent alone in this view and model (FingerAloneCell.byDigit),
+ * or undefined where they did not measure it (the pooled single-finger cell stands then).
+ */
+export function ownAloneFigure(table: UncertaintyTable, motion: MotionId, digit: Digit | null, model: HandModel | null, view: ValidationView | null): DigitFigure | undefined {
+  const cell = fingerAloneCell(table, motion, digit, model, view);
+  return cell ? ownFigureIn(cell, digit, model, view) : undefined;
 }
 
 /**

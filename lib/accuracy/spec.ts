@@ -9,8 +9,8 @@ import { readsWithBothModels } from "@/vision/model-pair-scope";
 import {
   angleUncertaintyDeg,
   FULL_CONFIDENCE_SCORE,
-  fingerAloneCell,
   fingerAloneUncertaintyDeg,
+  ownAloneFigure,
   pairPeakUncertaintyDeg,
   pairUncertaintyDeg,
   peakUncertaintyDeg,
@@ -105,15 +105,11 @@ function row(motion: MotionId, condition: Condition, digit: "thumb" | null, tabl
   const fingers = digit === null ? MOTIONS[motion].digits.filter((d) => d !== "thumb") : [];
   const perFinger = fingers.map((d) => ({ digit: d, frameDeg: roundHalf(angleUncertaintyDeg(motion, d, "lite", view, SCORE, table)) }));
   const unalike = perFinger.some((f) => f.frameDeg !== lite.frameDeg);
-  const aloneCell = fingers.length ? fingerAloneCell(table, motion, "index", "lite", view) : null;
-  // The pooled figure: the cell's own, for a finger no one-finger clip measured (not any finger's own figure).
-  const pooledTable = aloneCell ? { ...table, fingerAlone: [{ ...aloneCell, byDigit: undefined }] } : table;
-  const alone = fingers.length ? fingerAloneUncertaintyDeg(motion, "index", "lite", view, SCORE, pooledTable) : null;
-  const measuredAlone = aloneCell?.view === view ? (aloneCell.byDigit ?? []) : [];
-  const aloneByFinger = measuredAlone.flatMap((figure) => {
-    const own = fingerAloneUncertaintyDeg(motion, figure.digit, "lite", view, SCORE, table);
-    const together = perFinger.find((f) => f.digit === figure.digit)?.frameDeg ?? null;
-    return own === null ? [] : [{ digit: figure.digit, frameDeg: roundHalf(Math.max(own, together ?? 0)) }];
+  // The pooled figure (no finger named): the cell's own, for a finger no one-finger clip measured.
+  const alone = fingers.length ? fingerAloneUncertaintyDeg(motion, null, "lite", view, SCORE, table) : null;
+  const aloneByFinger = fingers.flatMap((d) => {
+    const figures = ownAloneFigure(table, motion, d, "lite", view) ? oneFingerFigures(motion, condition, d, table) : null;
+    return figures ? [{ digit: d, frameDeg: figures.aloneDeg }] : [];
   });
   return {
     motion,
@@ -132,21 +128,26 @@ function row(motion: MotionId, condition: Condition, digit: "thumb" | null, tabl
   };
 }
 
-/** Every motion Kinarc measures, in both test positions: the fingers together, then the thumb where it applies. */
 /**
  * What a finger tested on its own is read within, in the view recommended for it at full confidence (lite, frames):
  * its lone interval as the engine states it (never narrower than the four-finger one) beside the interval of the
  * same finger bending with the others. Null where a lone finger is not offered or no figure exists.
  */
-export function oneFingerFigures(motion: MotionId, condition: Condition, digit: Digit | null): { aloneDeg: number; togetherDeg: number } | null {
+export function oneFingerFigures(
+  motion: MotionId,
+  condition: Condition,
+  digit: Digit | null,
+  table: UncertaintyTable = UNCERTAINTY_TABLE,
+): { aloneDeg: number; togetherDeg: number } | null {
   if (!digit || !isOneFingerMotion(motion, digit)) return null;
   const view = viewPolicy(motion, condition, digit).recommended[0];
-  const together = angleUncertaintyDeg(motion, digit, "lite", view, SCORE);
-  const alone = fingerAloneUncertaintyDeg(motion, digit, "lite", view, SCORE);
+  const together = angleUncertaintyDeg(motion, digit, "lite", view, SCORE, table);
+  const alone = fingerAloneUncertaintyDeg(motion, digit, "lite", view, SCORE, table);
   if (together === null || alone === null) return null;
   return { aloneDeg: roundHalf(Math.max(alone, together))!, togetherDeg: roundHalf(together)! };
 }
 
+/** Every motion Kinarc measures, in both test positions: the fingers together, then the thumb where it applies. */
 export function accuracyRows(table: UncertaintyTable = UNCERTAINTY_TABLE): AccuracyRow[] {
   const rows: AccuracyRow[] = [];
   for (const motion of MOTION_IDS) {
