@@ -14,6 +14,7 @@ import {
   setupAccepts,
   parseTrackFps,
   ordinalStep,
+  parseProportions,
   planClips,
   trackedRateSuffix,
   truthAtTimes,
@@ -97,6 +98,22 @@ describe("held-out clip plans", () => {
     // Every finger, in the usual order, keeps the usual names (and cached renders).
     expect(planClips(20261205, 8, "against_gravity", undefined, undefined, true, null, ["index", "middle", "ring", "little"])).toEqual(all);
     expect(() => planClips(20261205, 8, "against_gravity", undefined, undefined, true, null, ["thumb"])).toThrow(/--digits: expected some of index, middle, ring, little; got 'thumb'/);
+  });
+
+  it("with hands of varied build: the same clips, each hand drawn apart and named apart; the mesh's own clips unchanged", () => {
+    const varied = planClips(20261205, 8, "against_gravity", undefined, undefined, false, null, undefined, "varied");
+    expect(varied).toHaveLength(plans.length);
+    varied.forEach((plan, i) => {
+      expect([plan.toDeg, plan.distanceM, plan.side, plan.view, plan.seed]).toEqual([plans[i].toDeg, plans[i].distanceM, plans[i].side, plans[i].view, plans[i].seed]);
+      expect(plan.name).toBe(plans[i].name.replace(/-(20261205-\d+-\d+)$/, "-varied-$1"));
+      expect(plan.proportions).toBeDefined();
+      expect(plans[i].proportions).toBeUndefined();
+    });
+    // Each clip its own hand.
+    expect(new Set(varied.map((plan) => plan.proportions!.digits.index)).size).toBeGreaterThan(varied.length / 2);
+    expect(planClips(20261205, 8, "against_gravity", undefined, undefined, false, null, undefined, "mesh")).toEqual(plans);
+    expect(parseProportions(undefined)).toBe("mesh");
+    expect(() => parseProportions("child")).toThrow("--proportions: expected mesh or varied; got 'child'");
   });
 
   it("draw ends of range and distances across their whole span (neighbouring seeds once gave near-identical clips)", () => {

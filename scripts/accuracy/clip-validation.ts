@@ -24,6 +24,9 @@
  * finger: clips named `<motion>-alone-...` (what a finger tested on its own reads); write those with `--out`.
  * `--digits little` (with `--one-finger`): only those fingers move, in turn; the clips are named `<motion>-alone-little-...`.
  *
+ * `--proportions varied` renders every clip with a hand of its own build (scene.ts `sampleProportions`: palm, finger and
+ * bone lengths, girth), named `<motion>...-varied-...`; the reports so far show the mesh's one hand. Write with `--out`.
+ *
  * `--track-fps 15` tracks the clips stepping through every second frame, as a camera at 15 frames a second would give
  * them (saved apart, `<clip>-<model>-f15.tracked.json`; truth taken at the tracked frames' times); write with `--out`.
  *
@@ -43,13 +46,13 @@ import { ClipCaptureError, clipCapture } from "@/vision/live/clip-capture";
 import type { LandmarkXYZ, TrackedFrame } from "@/vision/live/types";
 import { handSpan, handSpanBand, viewPolicy } from "@/vision/view-policy";
 import { launchChromium, openHarnessPage, startHarnessServer, waitForFrames, type HarnessServer } from "../../tests/harness/tracking-harness";
-import { FINGERS, getPoseAngle, type PoseKey } from "./hand-pose";
+import { FINGERS, getPoseAngle, proportionedRig, type HandProportions, type PoseKey } from "./hand-pose";
 import { renderSweepClip, runFfmpeg } from "./render-jobs";
 import { HandRenderer, RENDER_OUTPUT_ROOT } from "./renderer";
 import { loadHandRig } from "./rig-files";
 import type { HandSide } from "./rig";
 import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
-import { CAMERA_VIEWS, frameSeeds, IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, makeRng, type CameraView, type FrameTruth } from "./scene";
+import { CAMERA_VIEWS, frameSeeds, IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, makeRng, PROPORTION_RANGES, sampleProportions, type CameraView, type FrameTruth } from "./scene";
 import { nearestRankPercentile, summarizeErrors, type ErrorSample, type ErrorSummary } from "./stats";
 import { ACCEPTANCE, meetsAcceptance, MIN_DETECTION, type AcceptanceKey } from "./acceptance";
 import { parseCount, parseModels } from "./run-accuracy";
@@ -62,6 +65,8 @@ const REREAD_UNDER_ANALYSIS_7 =
   " With gravity minimized (thumb side), its finger clips' saved tracking was read again under engine analysis-7 (commit cd34a2a: the finger estimator's view fit follows the engine's view of the frame, chosen on calibration seeds 77000407-77000408), and those rows are that reading; its wrist rows stand as read before (the change does not touch the wrist).";
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  20261234:
+    "Hands of varied build (`--proportions varied`: each clip's hand drawn with its own palm, finger and bone lengths and girth), every motion against gravity and the finger motions with gravity minimized, 10 clips per motion, both models: rendered and tracked after that option was committed, read once. It asks whether the intervals stated from the mesh's one hand hold for other hands. Rule written before reading: where a row's frames inside the stated ± reach at least 85% and its peaks at least 80% (40 readings at a nominal 90%: about two standard errors), the stated intervals stand for other builds; a row below either makes this seed's rows a source of that cell's interval (the worst seed stands), checked on a fresh seed. Nothing is fitted on it.",
   20261233:
     "The fresh check of the index, middle and ring fingers' own lone intervals: rendered and tracked like 20261232 (`--one-finger --digits index,middle,ring`, against gravity, 24 clips per motion, 8 per finger, both models) at the same time, and read once (`--reuse`) after those intervals were committed. Not read by derive-uncertainty.ts; nothing is fitted on it.",
   20261232:
@@ -151,6 +156,17 @@ export interface ClipPlan {
   distanceM: number;
   /** One finger bends, the others stay straight (`--one-finger`): read as the app reads a finger tested on its own. */
   oneFinger?: boolean;
+  /** A hand built unlike the mesh (`--proportions varied`): drawn per clip, rendered by `proportionedRig`. */
+  proportions?: HandProportions;
+}
+
+/** `--proportions`: the mesh's own hand (every report so far) or, per clip, a hand drawn by `sampleProportions`. */
+export type ProportionsMode = "mesh" | "varied";
+
+export function parseProportions(raw: string | undefined): ProportionsMode {
+  if (raw === undefined || raw === "mesh") return "mesh";
+  if (raw !== "varied") throw new Error(`--proportions: expected mesh or varied; got '${raw}'`);
+  return raw;
 }
 
 /** Camera distances of the held-out clips, metres. */
@@ -209,6 +225,7 @@ export function planClips(
   oneFinger = false,
   framing: Framing | null = null,
   aloneDigits: readonly Digit[] = FINGERS,
+  proportionsMode: ProportionsMode = "mesh",
 ): ClipPlan[] {
   const bad = aloneDigits.find((digit) => !FINGERS.includes(digit as (typeof FINGERS)[number]));
   if (bad !== undefined || aloneDigits.length === 0) throw new Error(`--digits: expected some of ${FINGERS.join(", ")}; got '${bad ?? ""}'`);
@@ -233,9 +250,15 @@ export function planClips(
       const side: HandSide = i % 2 === 0 ? "right" : "left";
       // Against gravity keeps its first names (and cached renders); the other condition's clips are named apart.
       const base = viewOverride ? `${motion.motion}-${viewOverride}` : condition === "against_gravity" ? motion.motion : `${motion.motion}-gm`;
-      const prefix = `${base}${oneFinger ? `-alone${digitsTag}` : ""}${framing === "setup" ? "-setup" : ""}`;
+      const prefix = `${base}${oneFinger ? `-alone${digitsTag}` : ""}${framing === "setup" ? "-setup" : ""}${proportionsMode === "varied" ? "-varied" : ""}`;
       const name = `${prefix}-${seed}-${i}-${clipSeed}`;
-      return { name, motion, side, view, condition, seed: clipSeed, toDeg, distanceM, ...(oneFinger ? { oneFinger: true } : {}) };
+      // From a generator of its own, so the mesh's clips keep every draw they had.
+      const proportions = proportionsMode === "varied" ? sampleProportions(makeRng(clipSeed ^ 0x5bd1e995)) : undefined;
+      return {
+        name, motion, side, view, condition, seed: clipSeed, toDeg, distanceM,
+        ...(oneFinger ? { oneFinger: true } : {}),
+        ...(proportions ? { proportions } : {}),
+      };
     }),
   ).filter((plan) => (!motions || motions.includes(plan.motion.motion)) && (!oneFinger || plan.motion.digits[0] !== null));
 }
@@ -262,7 +285,7 @@ async function renderClips(plans: readonly ClipPlan[], folder: string, reuse: bo
     for (const plan of todo) {
       await renderSweepClip(
         renderer,
-        loadHandRig(plan.side),
+        plan.proportions ? proportionedRig(loadHandRig(plan.side), plan.proportions) : loadHandRig(plan.side),
         {
           joints: plan.motion.joints,
           fromDeg: 0,
@@ -648,7 +671,7 @@ export interface ClipSection {
 
 export function clipReport(
   sections: readonly ClipSection[],
-  meta: { glName: string; condition?: Condition; views?: readonly CameraView[]; withoutStraightWrist?: readonly WithoutStraightWristRow[]; oneFinger?: boolean; trackFps?: number | null; framing?: Framing | null },
+  meta: { glName: string; condition?: Condition; views?: readonly CameraView[]; withoutStraightWrist?: readonly WithoutStraightWristRow[]; oneFinger?: boolean; trackFps?: number | null; framing?: Framing | null; proportions?: ProportionsMode },
 ): string {
   const distances = meta.framing === "setup" ? SETUP_FRAMING_DISTANCE_M : CLIP_DISTANCE_M;
   const condition = meta.condition ?? "against_gravity";
@@ -681,6 +704,11 @@ export function clipReport(
     ...(meta.trackFps
       ? [
           `- Tracked at ${meta.trackFps} frames a second (\`--track-fps ${meta.trackFps}\`): the tracker stepped through every ${ordinalStep(CLIP_FPS / meta.trackFps)} frame of each clip, as a camera at that rate gives them, and each reading's truth is taken at those frames' times.`,
+        ]
+      : []),
+    ...(meta.proportions === "varied"
+      ? [
+          `- Hands of varied build (\`--proportions varied\`): each clip's hand is the mesh rebuilt with proportions of its own (scripts/accuracy/scene.ts sampleProportions: palm and each digit ${PROPORTION_RANGES.palm[0]}-${PROPORTION_RANGES.palm[1]} of the mesh's length, each bone a further ${PROPORTION_RANGES.bone[0]}-${PROPORTION_RANGES.bone[1]}, girth ${PROPORTION_RANGES.girth[0]}-${PROPORTION_RANGES.girth[1]}; our own ranges), where the other reports show the mesh's one hand. The stated intervals come from that one hand.`,
         ]
       : []),
     `- Renderer: ${meta.glName}.`,
@@ -786,8 +814,12 @@ async function main(): Promise<void> {
       "track-fps": { type: "string" },
       framing: { type: "string" },
       digits: { type: "string" },
+      proportions: { type: "string" },
     },
   });
+  // --proportions varied: every clip's hand drawn unlike the mesh (palm, finger and bone lengths, girth), named `-varied-`.
+  const proportionsMode = parseProportions(values.proportions);
+  if (proportionsMode === "varied" && !values.out) throw new Error("--proportions: expected --out FILE (the committed reports show the mesh's own hand)");
   // --digits little: with --one-finger, only those fingers move (in turn), named `<motion>-alone-little-...`.
   const aloneDigits = values.digits ? (values.digits.split(",") as Digit[]) : undefined;
   if (aloneDigits && !values["one-finger"]) throw new Error("--digits: expected --one-finger too (four-finger clips move every finger)");
@@ -818,8 +850,8 @@ async function main(): Promise<void> {
     mkdirSync(folder, { recursive: true });
     const oneFinger = values["one-finger"] ?? false;
     const drawn = views
-      ? views.flatMap((view) => planClips(seed, clips, condition, motions, view, oneFinger, framing, aloneDigits))
-      : planClips(seed, clips, condition, motions, undefined, oneFinger, framing, aloneDigits);
+      ? views.flatMap((view) => planClips(seed, clips, condition, motions, view, oneFinger, framing, aloneDigits, proportionsMode))
+      : planClips(seed, clips, condition, motions, undefined, oneFinger, framing, aloneDigits, proportionsMode);
     await renderClips(drawn, folder, reuse);
     const plans = framing ? drawn.filter((plan) => setupAccepts(plan, JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile)) : drawn;
     const framingCounts = framing
@@ -857,7 +889,7 @@ async function main(): Promise<void> {
   const renderer = await HandRenderer.start();
   const glName = await renderer.glRenderer();
   await renderer.close();
-  const text = clipReport(sections, { glName, condition, views, withoutStraightWrist: withoutStraightWristRows(withoutStraight), oneFinger: values["one-finger"] ?? false, trackFps, framing });
+  const text = clipReport(sections, { glName, condition, views, withoutStraightWrist: withoutStraightWristRows(withoutStraight), oneFinger: values["one-finger"] ?? false, trackFps, framing, proportions: proportionsMode });
   writeFileSync(values.out ?? REPORT_FILES[condition], text);
   process.stdout.write(text);
   if (perClip.length) process.stdout.write(["", "| clip | model | side | digit | to ° | truth peak ° | peak ° | frame MAE ° | bias ° | reps | forearm | method |", ...perClip, ""].join("\n"));

@@ -9,15 +9,17 @@ import {
   POSE_KEYS,
   POSE_RANGES_DEG,
   poseHand,
+  proportionedRig,
   recoverPoseFromPositions,
   restHandAxes,
   restPose,
   setPoseAngle,
   type HandPose,
+  type HandProportions,
 } from "./hand-pose";
 import { RIG_JOINT_NAMES, type HandRig, type RigJointName } from "./rig";
 import { loadHandRig } from "./rig-files";
-import { makeRng, samplePose } from "./scene";
+import { buildFrame, makeRng, placeCamera, PROPORTION_RANGES, sampleCamera, sampleLook, sampleProportions, samplePose } from "./scene";
 
 const rigs = { left: loadHandRig("left"), right: loadHandRig("right") } as const;
 const SIDES = ["left", "right"] as const;
@@ -204,5 +206,91 @@ describe("sampled poses", () => {
       expect(seen.get(key)!.low).toBeLessThan(low + 0.05 * span);
       expect(seen.get(key)!.high).toBeGreaterThan(high - 0.05 * span);
     }
+  });
+});
+
+describe("hands built unlike the mesh", () => {
+  const ones: HandProportions = {
+    palm: 1,
+    girth: 1,
+    digits: { thumb: 1, index: 1, middle: 1, ring: 1, little: 1 },
+    phalanges: { thumb: [1, 1, 1], index: [1, 1, 1], middle: [1, 1, 1], ring: [1, 1, 1], little: [1, 1, 1] },
+  };
+
+  it.each(SIDES)("keep the %s mesh's own skeleton when every factor is 1", (side) => {
+    const rebuilt = proportionedRig(rigs[side], ones);
+    for (const joint of RIG_JOINT_NAMES) expect(rebuilt.joints[joint].position.distanceTo(rigs[side].joints[joint].position)).toBeLessThan(1e-12);
+  });
+
+  it.each(SIDES)("lengthen each %s bone by its factor and keep every commanded angle recoverable", (side) => {
+    for (let seed = 1; seed <= 20; seed += 1) {
+      const proportions = sampleProportions(makeRng(seed));
+      const rig = proportionedRig(rigs[side], proportions);
+      const pose = samplePose(makeRng(1000 + seed));
+      const posed = poseHand(rig, pose);
+      for (const finger of FINGERS) {
+        const name = (part: string) => `${finger === "little" ? "pinky" : finger}-finger-${part}` as RigJointName;
+        const bones = [
+          [name("metacarpal"), name("phalanx-proximal"), proportions.palm],
+          [name("phalanx-proximal"), name("phalanx-intermediate"), proportions.digits[finger] * proportions.phalanges[finger][0]],
+          [name("phalanx-intermediate"), name("phalanx-distal"), proportions.digits[finger] * proportions.phalanges[finger][1]],
+          [name("phalanx-distal"), name("tip"), proportions.digits[finger] * proportions.phalanges[finger][2]],
+        ] as const;
+        for (const [from, to, factor] of bones) {
+          const meshLength = rigs[side].joints[to].position.distanceTo(rigs[side].joints[from].position);
+          // Every rig bone runs within 6 degrees of its joint's local -Z, and only that axis takes the length factor.
+          expect(posed.positions[to].distanceTo(posed.positions[from]) / meshLength).toBeCloseTo(factor, 2);
+        }
+      }
+      // Angles keep their meaning: the rest orientations are the mesh's, so the truth is still the commanded pose.
+      const recovered = recoverPoseFromPositions(rig, posed.positions);
+      for (const key of POSE_KEYS) expect(getPoseAngle(recovered, key)).toBeCloseTo(getPoseAngle(pose, key), 6);
+    }
+  });
+
+  it.each(SIDES)("move the %s skin with the skeleton: each scaled bone's skin transform carries its child joint to the landmark", (side) => {
+    // Linear blend skinning (glTF 2.0 spec, "Skins"): a point bound to a bone moves by jointMatrix * inverseBindMatrix,
+    // where the bind pose is the mesh's rest. The page gets jointMatrix from spec.boneMatrices.
+    const rig = proportionedRig(rigs[side], sampleProportions(makeRng(7)));
+    const pose = samplePose(makeRng(8));
+    const rng = makeRng(9);
+    const placement = sampleCamera(rng, "ulnar");
+    const camera = placeCamera(side, placement, new Vector3());
+    const { spec } = buildFrame(rig, pose, camera, placement, sampleLook(rng));
+    const posed = poseHand(rig, pose);
+    for (const chain of JOINT_CHAIN) {
+      if (chain.child === chain.joint || chain.joint === "wrist") continue;
+      const mesh = rigs[side].joints;
+      const inverseBind = new Matrix4().compose(mesh[chain.joint].position, mesh[chain.joint].quaternion, new Vector3(1, 1, 1)).invert();
+      const moved = mesh[chain.child].position.clone().applyMatrix4(inverseBind).applyMatrix4(new Matrix4().fromArray(spec.boneMatrices[chain.joint]));
+      expect(moved.distanceTo(posed.positions[chain.child])).toBeLessThan(1e-9);
+    }
+  });
+
+  it("are drawn within the stated ranges, the same from the same seed, and a factor outside 0.5-1.5 is refused by name", () => {
+    const seen: number[] = [];
+    for (let seed = 0; seed < 200; seed += 1) {
+      const drawn = sampleProportions(makeRng(seed));
+      expect(sampleProportions(makeRng(seed))).toEqual(drawn);
+      expect(drawn.palm).toBeGreaterThanOrEqual(PROPORTION_RANGES.palm[0]);
+      expect(drawn.palm).toBeLessThanOrEqual(PROPORTION_RANGES.palm[1]);
+      expect(drawn.girth).toBeGreaterThanOrEqual(PROPORTION_RANGES.girth[0]);
+      expect(drawn.girth).toBeLessThanOrEqual(PROPORTION_RANGES.girth[1]);
+      for (const factor of Object.values(drawn.digits)) {
+        expect(factor).toBeGreaterThanOrEqual(PROPORTION_RANGES.digit[0]);
+        expect(factor).toBeLessThanOrEqual(PROPORTION_RANGES.digit[1]);
+        seen.push(factor);
+      }
+      for (const factor of Object.values(drawn.phalanges).flat()) {
+        expect(factor).toBeGreaterThanOrEqual(PROPORTION_RANGES.bone[0]);
+        expect(factor).toBeLessThanOrEqual(PROPORTION_RANGES.bone[1]);
+      }
+    }
+    expect(Math.min(...seen)).toBeLessThan(0.9);
+    expect(Math.max(...seen)).toBeGreaterThan(1.1);
+    expect(() => proportionedRig(rigs.right, { ...ones, digits: { ...ones.digits, ring: 2 } })).toThrow(
+      "proportions digits.ring: expected a factor between 0.5 and 1.5; got 2",
+    );
+    expect(() => proportionedRig(proportionedRig(rigs.right, ones), ones)).toThrow(/expected the mesh's own rig/);
   });
 });

@@ -443,3 +443,85 @@ function solveLocalRotation(rig: HandRig, spec: JointSpec, v: Vector3, w: Vector
 function wrapRad(angle: number): number {
   return Math.atan2(Math.sin(angle), Math.cos(angle));
 }
+
+/**
+ * How a hand is built relative to the rigged mesh, as factors (1 = the mesh): real hands differ in palm length,
+ * finger lengths, the share of each phalanx and finger girth, and the renders otherwise show one hand only.
+ */
+export interface HandProportions {
+  /** Length of the finger metacarpals (the palm, wrist crease to knuckles). */
+  palm: number;
+  /** Length of every bone of each digit (the thumb's metacarpal and phalanges; a finger's three phalanges). */
+  digits: Record<"thumb" | Finger, number>;
+  /**
+   * Each bone on top of its digit's factor, from the wrist out: a finger's proximal, middle and distal phalanges;
+   * the thumb's metacarpal, proximal and distal phalanges.
+   */
+  phalanges: Record<"thumb" | Finger, [number, number, number]>;
+  /** Thickness of every digit bone, across the bone. */
+  girth: number;
+}
+
+export function isMeshProportions(proportions: HandProportions): boolean {
+  const values = [
+    proportions.palm,
+    proportions.girth,
+    ...Object.values(proportions.digits),
+    ...Object.values(proportions.phalanges).flat(),
+  ];
+  return values.every((value) => value === 1);
+}
+
+function checkFactor(field: string, value: number): void {
+  if (!Number.isFinite(value) || value < 0.5 || value > 1.5) {
+    throw new Error(`proportions ${field}: expected a factor between 0.5 and 1.5; got ${value}`);
+  }
+}
+
+/** Each scaled joint's own bone scale (x, y across, z along: every rig bone runs along its local -Z). */
+function boneScalesFor(proportions: HandProportions): Partial<Record<RigJointName, [number, number, number]>> {
+  checkFactor("palm", proportions.palm);
+  checkFactor("girth", proportions.girth);
+  const scales: Partial<Record<RigJointName, [number, number, number]>> = {};
+  const g = proportions.girth;
+  checkFactor("digits.thumb", proportions.digits.thumb);
+  (["thumb-metacarpal", "thumb-phalanx-proximal", "thumb-phalanx-distal"] as const).forEach((joint, i) => {
+    checkFactor(`phalanges.thumb[${i}]`, proportions.phalanges.thumb[i]);
+    scales[joint] = [g, g, proportions.digits.thumb * proportions.phalanges.thumb[i]];
+  });
+  scales["thumb-tip"] = [g, g, g];
+  for (const finger of FINGERS) {
+    const name = (part: string) => `${RIG_FINGER[finger]}-finger-${part}` as RigJointName;
+    checkFactor(`digits.${finger}`, proportions.digits[finger]);
+    scales[name("metacarpal")] = [1, 1, proportions.palm];
+    (["phalanx-proximal", "phalanx-intermediate", "phalanx-distal"] as const).forEach((part, i) => {
+      checkFactor(`phalanges.${finger}[${i}]`, proportions.phalanges[finger][i]);
+      scales[name(part)] = [g, g, proportions.digits[finger] * proportions.phalanges[finger][i]];
+    });
+    scales[name("tip")] = [g, g, g];
+  }
+  return scales;
+}
+
+/**
+ * The rig rebuilt with other proportions: each joint's rest position moves with its parent's scaled bone (the
+ * parent's scale applied in the parent's own frame, exactly as the render page scales the skin bound to it), so the
+ * landmarks, the posed skeleton and the picture agree. Angles keep their meaning: every rest orientation is the mesh's.
+ */
+export function proportionedRig(rig: HandRig, proportions: HandProportions): HandRig {
+  if (rig.boneScales) throw new Error("proportionedRig: expected the mesh's own rig, got one already rebuilt");
+  const boneScales = boneScalesFor(proportions);
+  const joints = { ...rig.joints };
+  for (const spec of JOINT_CHAIN) {
+    if (!spec.parent) continue;
+    const parent = rig.joints[spec.parent];
+    const scale = boneScales[spec.parent];
+    const offset = rig.joints[spec.joint].position.clone().sub(parent.position);
+    if (scale) {
+      const inverse = parent.quaternion.clone().invert();
+      offset.applyQuaternion(inverse).multiply(new Vector3(...scale)).applyQuaternion(parent.quaternion);
+    }
+    joints[spec.joint] = { ...rig.joints[spec.joint], position: joints[spec.parent].position.clone().add(offset) };
+  }
+  return { side: rig.side, joints, boneScales };
+}

@@ -32,6 +32,12 @@ export interface RigJointRest {
 export interface HandRig {
   side: HandSide;
   joints: Record<RigJointName, RigJointRest>;
+  /**
+   * A hand built unlike the mesh (scripts/accuracy/hand-pose.ts `proportionedRig`): each bone's scale in its own
+   * frame (x, y across the bone, z along it), which the render page applies to the skin bound to that bone. The
+   * rest positions above are already moved to match. Absent for the mesh as shipped.
+   */
+  boneScales?: Partial<Record<RigJointName, [number, number, number]>>;
 }
 
 interface GltfNode {

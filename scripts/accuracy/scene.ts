@@ -14,6 +14,7 @@ import {
   restPose,
   setPoseAngle,
   type HandPose,
+  type HandProportions,
   type PoseKey,
   type PosedHand,
 } from "./hand-pose";
@@ -61,6 +62,26 @@ export function samplePose(rng: Rng): HandPose {
     setPoseAngle(pose, key, low + (high - low) * share);
   }
   return pose;
+}
+
+/**
+ * Factors for a hand built unlike the mesh (`proportionedRig`). Our own ranges, not from an anthropometric table:
+ * chosen wider than the spread we expect among adult hands ([from memory] hand length varies by roughly 5-7% (one
+ * SD) between adults of one sex, and each finger's share of it by less) so a result that holds here holds with room:
+ * palm and each digit 0.88-1.12, each bone a further 0.95-1.05, girth 0.9-1.15.
+ */
+export const PROPORTION_RANGES = { palm: [0.88, 1.12], digit: [0.88, 1.12], bone: [0.95, 1.05], girth: [0.9, 1.15] } as const;
+
+export function sampleProportions(rng: Rng): HandProportions {
+  const draw = (range: readonly [number, number]) => Math.round(uniform(rng, range[0], range[1]) * 1000) / 1000;
+  const palm = draw(PROPORTION_RANGES.palm);
+  const girth = draw(PROPORTION_RANGES.girth);
+  const parts = ["thumb", ...FINGERS] as const;
+  const digits = Object.fromEntries(parts.map((part) => [part, draw(PROPORTION_RANGES.digit)])) as HandProportions["digits"];
+  const phalanges = Object.fromEntries(
+    parts.map((part) => [part, [draw(PROPORTION_RANGES.bone), draw(PROPORTION_RANGES.bone), draw(PROPORTION_RANGES.bone)]]),
+  ) as HandProportions["phalanges"];
+  return { palm, digits, phalanges, girth };
 }
 
 export const CAMERA_VIEWS = ["palm", "back", "radial", "ulnar", "oblique", "down"] as const;
@@ -262,7 +283,11 @@ export function buildFrame(
 ): { spec: RenderFrameSpec; truth: FrameTruth } {
   const posed = poseHand(rig, pose);
   const boneMatrices: Record<string, number[]> = {};
-  for (const joint of RIG_JOINT_NAMES) boneMatrices[joint] = posed.jointMatrices[joint].toArray();
+  for (const joint of RIG_JOINT_NAMES) {
+    const scale = rig.boneScales?.[joint];
+    const matrix = scale ? posed.jointMatrices[joint].clone().multiply(new Matrix4().makeScale(...scale)) : posed.jointMatrices[joint];
+    boneMatrices[joint] = matrix.toArray();
+  }
   // The mesh's cuff is skinned to the wrist bone alone; left to turn with the hand it swings out of the forearm
   // and shows its open end. Holding that bone still (the wrist joint's position does not move either way) lets
   // the skin between cuff and metacarpals bend instead, as skin over a wrist does.
