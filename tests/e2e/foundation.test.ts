@@ -235,6 +235,8 @@ describe("clinic admin", () => {
     const thumbSide = page.locator('[data-testid=accuracy-row][data-motion="pip.flexion"][data-condition="gravity_minimized"][data-digit="fingers"]');
     expect(await thumbSide.getByTestId("accuracy-framing").textContent()).toBe("hand filling 40-60% of the picture");
     expect(await page.getByTestId("accuracy-source").textContent()).toContain("kinarc-uncertainty");
+    // The check on hands of varied build (scripts/accuracy/clip-report-varied-build.md) is stated beside the figures.
+    expect(await page.getByTestId("accuracy-builds").textContent()).toMatch(/up to 12% either side.*at least \d+% of moments/);
     await assistant.close();
     const client = await signedIn("client@kinarc.test");
     const clientPage = client.pages()[0];
