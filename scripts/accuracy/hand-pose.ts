@@ -462,16 +462,6 @@ export interface HandProportions {
   girth: number;
 }
 
-export function isMeshProportions(proportions: HandProportions): boolean {
-  const values = [
-    proportions.palm,
-    proportions.girth,
-    ...Object.values(proportions.digits),
-    ...Object.values(proportions.phalanges).flat(),
-  ];
-  return values.every((value) => value === 1);
-}
-
 function checkFactor(field: string, value: number): void {
   if (!Number.isFinite(value) || value < 0.5 || value > 1.5) {
     throw new Error(`proportions ${field}: expected a factor between 0.5 and 1.5; got ${value}`);
