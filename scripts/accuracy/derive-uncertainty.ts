@@ -70,7 +70,7 @@ export interface ClipRow {
 }
 
 /** A row of a markdown table, its cells looked up by the table's column names. */
-interface TableRow {
+export interface TableRow {
   cells: string[];
   at: (name: string) => string;
 }
@@ -79,7 +79,7 @@ interface TableRow {
  * The body rows of every table in `markdowns` whose header `wants` (a header is the row right above a `| --- |` line;
  * a table ends at the first line that is not a row).
  */
-function tableRows(markdowns: readonly string[], wants: (header: readonly string[]) => boolean): TableRow[] {
+export function tableRows(markdowns: readonly string[], wants: (header: readonly string[]) => boolean): TableRow[] {
   const out: TableRow[] = [];
   for (const markdown of markdowns) {
     const lines = markdown.split("\n").map((line) => line.trim());
@@ -103,7 +103,7 @@ function tableRows(markdowns: readonly string[], wants: (header: readonly string
 }
 
 /** A figure of a table row, named in the error when it is not a number (a trailing % is dropped). */
-function rowNumber(row: TableRow, name: string, what: string, kind: "motion" | "finger" | "wrist"): number {
+export function rowNumber(row: TableRow, name: string, what: string, kind: "motion" | "finger" | "wrist"): number {
   const value = Number(row.at(name).replace(/%$/, ""));
   // The cells that name the row: motion, view, model and reading (or finger); the wrist table's forearm line and model.
   const naming = row.cells.slice(0, kind === "wrist" ? 2 : 4).join(", ");
@@ -112,7 +112,7 @@ function rowNumber(row: TableRow, name: string, what: string, kind: "motion" | "
 }
 
 /** The per-motion tables: one row per reading method (the per-finger table below them has no "reading" column). */
-const isMotionTable = (header: readonly string[]) => header[0] === "motion" && header.includes("reading");
+export const isMotionTable = (header: readonly string[]) => header[0] === "motion" && header.includes("reading");
 
 /**
  * The clip reports' frame MAE per group, view and model, the worst over their seeds (and reports), for the engine and

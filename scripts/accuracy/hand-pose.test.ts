@@ -2,6 +2,7 @@ import { Matrix4, Object3D, Quaternion, Vector3 } from "three";
 import { describe, expect, it } from "vitest";
 import {
   FINGERS,
+  fingerJointName,
   getPoseAngle,
   JOINT_CHAIN,
   landmarkAnglesDeg,
@@ -229,7 +230,7 @@ describe("hands built unlike the mesh", () => {
       const pose = samplePose(makeRng(1000 + seed));
       const posed = poseHand(rig, pose);
       for (const finger of FINGERS) {
-        const name = (part: string) => `${finger === "little" ? "pinky" : finger}-finger-${part}` as RigJointName;
+        const name = (part: Parameters<typeof fingerJointName>[1]) => fingerJointName(finger, part);
         const bones = [
           [name("metacarpal"), name("phalanx-proximal"), proportions.palm],
           [name("phalanx-proximal"), name("phalanx-intermediate"), proportions.digits[finger] * proportions.phalanges[finger][0]],

@@ -48,7 +48,12 @@ export type PoseKey =
   | `thumb.${keyof ThumbPose}`
   | `wrist.${keyof WristPose}`;
 
-const RIG_FINGER: Record<Finger, string> = { index: "index", middle: "middle", ring: "ring", little: "pinky" };
+const RIG_FINGER = { index: "index", middle: "middle", ring: "ring", little: "pinky" } as const satisfies Record<Finger, string>;
+
+/** The rig's name for a finger joint (the rig calls the little finger "pinky"). */
+export function fingerJointName(finger: Finger, part: "metacarpal" | "phalanx-proximal" | "phalanx-intermediate" | "phalanx-distal" | "tip"): RigJointName {
+  return `${RIG_FINGER[finger]}-finger-${part}`;
+}
 
 type Direction = "palm" | "ulnar" | "radial";
 
@@ -77,7 +82,7 @@ interface JointSpec {
 }
 
 function fingerJoints(finger: Finger): JointSpec[] {
-  const name = (part: string) => `${RIG_FINGER[finger]}-finger-${part}` as RigJointName;
+  const name = (part: Parameters<typeof fingerJointName>[1]) => fingerJointName(finger, part);
   const abductionToward: Direction = finger === "ring" || finger === "little" ? "ulnar" : "radial";
   return [
     { joint: name("metacarpal"), parent: "wrist", child: name("phalanx-proximal"), dofs: [] },
@@ -296,7 +301,7 @@ export const LANDMARK_JOINTS: readonly RigJointName[] = [
   "thumb-tip",
   ...FINGERS.flatMap((finger) =>
     (["phalanx-proximal", "phalanx-intermediate", "phalanx-distal", "tip"] as const).map(
-      (part) => `${RIG_FINGER[finger]}-finger-${part}` as RigJointName,
+      (part) => fingerJointName(finger, part),
     ),
   ),
 ];
@@ -338,7 +343,7 @@ export function landmarkAnglesDeg(rig: HandRig, posed: PosedHand): Record<PoseKe
   const axes = restHandAxes(rig.side);
   const bone = (from: RigJointName, to: RigJointName) => p[to].clone().sub(p[from]);
   for (const finger of FINGERS) {
-    const j = (part: string) => `${RIG_FINGER[finger]}-finger-${part}` as RigJointName;
+    const j = (part: Parameters<typeof fingerJointName>[1]) => fingerJointName(finger, part);
     const metacarpal = bone("wrist", j("phalanx-proximal"));
     const proximal = bone(j("phalanx-proximal"), j("phalanx-intermediate"));
     const middle = bone(j("phalanx-intermediate"), j("phalanx-distal"));
@@ -481,7 +486,7 @@ function boneScalesFor(proportions: HandProportions): Partial<Record<RigJointNam
   });
   scales["thumb-tip"] = [g, g, g];
   for (const finger of FINGERS) {
-    const name = (part: string) => `${RIG_FINGER[finger]}-finger-${part}` as RigJointName;
+    const name = (part: Parameters<typeof fingerJointName>[1]) => fingerJointName(finger, part);
     checkFactor(`digits.${finger}`, proportions.digits[finger]);
     scales[name("metacarpal")] = [1, 1, proportions.palm];
     (["phalanx-proximal", "phalanx-intermediate", "phalanx-distal"] as const).forEach((part, i) => {

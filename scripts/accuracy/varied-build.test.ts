@@ -1,6 +1,7 @@
 import { readFileSync } from "node:fs";
 import path from "node:path";
 import { describe, expect, it } from "vitest";
+import { isMotionTable, rowNumber, tableRows } from "./derive-uncertainty";
 
 /**
  * The Accuracy page states how the intervals held on hands of varied build (held-out seed 20261234). Those figures
@@ -10,12 +11,10 @@ import { describe, expect, it } from "vitest";
 const REPORTS = ["clip-report-varied-build.md", "clip-report-gravity-minimized-varied-build.md"];
 
 function engineCoverage(file: string): { frames: number[]; peaks: number[] } {
-  const text = readFileSync(path.join(__dirname, file), "utf8");
-  const rows = text.split("\n").filter((line) => line.includes("| engine |"));
-  const cells = rows.map((line) => line.split("|").map((cell) => cell.trim()).filter(Boolean));
+  const rows = tableRows([readFileSync(path.join(__dirname, file), "utf8")], isMotionTable).filter((r) => r.at("reading") === "engine");
   return {
-    frames: cells.map((cell) => Number.parseFloat(cell[cell.length - 2])),
-    peaks: cells.map((cell) => Number.parseFloat(cell[cell.length - 1])),
+    frames: rows.map((r) => rowNumber(r, "within stated ±", "a share of frames", "motion")),
+    peaks: rows.map((r) => rowNumber(r, "peak within stated ±", "a share of peaks", "motion")),
   };
 }
 
