@@ -1,5 +1,5 @@
 import { describe, expect, it } from "vitest";
-import { leastSquares, nearestRankPercentile, summarizeErrors } from "./stats";
+import { leastSquares, nearestRankPercentile, pearson, summarizeErrors } from "./stats";
 
 describe("least squares", () => {
   it("fits Anscombe's first data set to y = 3.00 + 0.500 x", () => {
@@ -15,6 +15,22 @@ describe("least squares", () => {
   it("has no slope when the truth does not vary, and refuses mismatched lengths", () => {
     expect(leastSquares([5, 5, 5], [1, 2, 3])).toBeNull();
     expect(() => leastSquares([1, 2], [1])).toThrow(/equal length/);
+  });
+});
+
+describe("Pearson's correlation", () => {
+  it("gives Anscombe's first data set r = 0.816", () => {
+    // Anscombe 1973 (as above): the four sets share the correlation 0.816 [from memory].
+    const x = [10, 8, 13, 9, 11, 14, 6, 4, 12, 7, 5];
+    const y = [8.04, 6.95, 7.58, 8.81, 8.33, 9.96, 7.24, 4.26, 10.84, 4.82, 5.68];
+    expect(pearson(x, y)).toBeCloseTo(0.816, 3);
+    expect(pearson(x, y.map((v) => -2 * v + 1))).toBeCloseTo(-0.816, 3);
+  });
+
+  it("is null when either side does not vary, and refuses mismatched lengths", () => {
+    expect(pearson([1, 2, 3], [4, 4, 4])).toBeNull();
+    expect(pearson([1], [1])).toBeNull();
+    expect(() => pearson([1, 2], [1])).toThrow(/equal length/);
   });
 });
 

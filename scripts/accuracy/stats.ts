@@ -20,24 +20,41 @@ export interface ErrorSummary {
   within10: number | null;
 }
 
+/** Means and centred sums of squares and products of paired values; refuses mismatched lengths. */
+function moments(name: string, x: readonly number[], y: readonly number[]): { meanX: number; meanY: number; sxx: number; sxy: number; syy: number } {
+  if (x.length !== y.length) throw new Error(`${name}: expected x and y of equal length, got ${x.length} and ${y.length}`);
+  const meanX = x.reduce((a, b) => a + b, 0) / x.length;
+  const meanY = y.reduce((a, b) => a + b, 0) / y.length;
+  let sxy = 0;
+  let sxx = 0;
+  let syy = 0;
+  for (let i = 0; i < x.length; i++) {
+    sxy += (x[i] - meanX) * (y[i] - meanY);
+    sxx += (x[i] - meanX) ** 2;
+    syy += (y[i] - meanY) ** 2;
+  }
+  return { meanX, meanY, sxx, sxy, syy };
+}
+
 /**
  * Ordinary least squares of y on x: slope = Sxy / Sxx, intercept = mean(y) - slope * mean(x). Null when x does not
  * vary (a slope means nothing without a spread of truths).
  */
 export function leastSquares(x: readonly number[], y: readonly number[]): { slope: number; intercept: number } | null {
-  if (x.length !== y.length) throw new Error(`leastSquares: expected x and y of equal length, got ${x.length} and ${y.length}`);
-  if (x.length < 2) return null;
-  const meanX = x.reduce((a, b) => a + b, 0) / x.length;
-  const meanY = y.reduce((a, b) => a + b, 0) / y.length;
-  let sxy = 0;
-  let sxx = 0;
-  for (let i = 0; i < x.length; i++) {
-    sxy += (x[i] - meanX) * (y[i] - meanY);
-    sxx += (x[i] - meanX) ** 2;
-  }
-  if (sxx < 1e-9) return null;
-  const slope = sxy / sxx;
-  return { slope, intercept: meanY - slope * meanX };
+  const m = moments("leastSquares", x, y);
+  if (x.length < 2 || m.sxx < 1e-9) return null;
+  const slope = m.sxy / m.sxx;
+  return { slope, intercept: m.meanY - slope * m.meanX };
+}
+
+/**
+ * Pearson's correlation coefficient of x and y: Sxy / sqrt(Sxx Syy). Null when either does not vary; refuses
+ * mismatched lengths.
+ */
+export function pearson(x: readonly number[], y: readonly number[]): number | null {
+  const m = moments("pearson", x, y);
+  if (x.length < 2 || m.sxx < 1e-12 || m.syy < 1e-12) return null;
+  return m.sxy / Math.sqrt(m.sxx * m.syy);
 }
 
 export function summarizeErrors(samples: readonly ErrorSample[]): ErrorSummary {
