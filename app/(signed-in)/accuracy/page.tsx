@@ -127,7 +127,7 @@ export default async function AccuracyPage() {
           <li>Finger figures are for the four fingers moving together, as the self-check asks. A finger moving alone, with its neighbours still, reads far less truly.</li>
           <li>From the thumb side (finger motions with gravity minimized) the index finger hides the others: the ring and little fingers read least truly. There the set-up check asks for the hand to fill 40-60% of the picture: in validation a hand much closer to the camera was often lost, and one much farther read the fingertip joints less truly; an uploaded clip framed otherwise says so.</li>
           <li>A wrist read without its straight-wrist reading (the hand was not found while held straight) carries a much wider interval, and the attempt says so.</li>
-          <li>Views from the palm, the back or above are far less accurate for flexion; such attempts are marked as taken in a poor view.</li>
+          <li>Views from the palm, the back or above are far less accurate for flexion; such attempts are marked as taken in a poor view. Seen from the palm, a finger bends toward the camera: the hand model draws it nearer to straight than it is, and a bend of up to about 20 degrees barely changes the picture at all.</li>
           <li>Grades above 3, and 0 versus 1, need a resisted or palpation test in person. Do not test against resistance with an unhealed fracture or early after a tendon repair; stop on pain, swelling or numbness, and follow the referring surgeon&apos;s protocol.</li>
         </ul>
       </Card>
