@@ -24,12 +24,34 @@ import {
   readClip,
   summarizeClipReadings,
   withoutStraightWristRows,
+  withTurnIn,
   type ClipReading,
 } from "./clip-validation";
 import { parseClipFingerRows, parseWithoutStraightWrist } from "./derive-uncertainty";
 import { restPose, setPoseAngle } from "./hand-pose";
 import { sweepAnglesDeg } from "./sweep";
 import type { FrameTruth } from "./scene";
+
+describe("turn-in clips", () => {
+  it("keeps every draw, names the clips apart and marks the turn", () => {
+    const plans = planClips(77000410, 4, "gravity_minimized", ["mcp.flexion", "pip.flexion"]);
+    const turned = withTurnIn(plans, 77000410, 30);
+    expect(turned).toHaveLength(plans.length);
+    turned.forEach((plan, i) => {
+      expect(plan.name).toBe(plans[i].name.replace("-gm-77000410-", "-gm-turn30-77000410-"));
+      expect({ ...plan, name: plans[i].name, turnInDeg: undefined }).toEqual({ ...plans[i], turnInDeg: undefined });
+      expect(plan.turnInDeg).toBe(30);
+    });
+  });
+
+  it("refuses wrist clips and turns outside 1-90 whole degrees, naming the option", () => {
+    const wrist = planClips(77000410, 2, "gravity_minimized", ["wrist.flexion"]);
+    expect(() => withTurnIn(wrist, 77000410, 30)).toThrow(/^--turn-in: expected finger motions only.*got wrist\.flexion/);
+    const fingers = planClips(77000410, 2, "gravity_minimized", ["mcp.flexion"]);
+    expect(() => withTurnIn(fingers, 77000410, 0)).toThrow(/^--turn-in: expected whole degrees from 1 to 90; got '0'/);
+    expect(() => withTurnIn(fingers, 77000410, 12.5)).toThrow(/^--turn-in: expected whole degrees/);
+  });
+});
 
 describe("held-out clip plans", () => {
   const plans = planClips(20261205, 8);

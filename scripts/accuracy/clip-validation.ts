@@ -27,6 +27,10 @@
  * `--proportions varied` renders every clip with a hand of its own build (scene.ts `sampleProportions`: palm, finger and
  * bone lengths, girth), named `<motion>...-varied-...`; the reports so far show the mesh's one hand. Write with `--out`.
  *
+ * `--turn-in 30` opens every clip with the hand turned 30 degrees palm-first toward the camera, turning back over 1.5 s
+ * before the still start (named `...-turn30-...`; finger motions only; write with `--out`): does a hand the tracker
+ * misses edge-on get found that way and then followed?
+ *
  * `--track-fps 15` tracks the clips stepping through every second frame, as a camera at 15 frames a second would give
  * them (saved apart, `<clip>-<model>-f15.tracked.json`; truth taken at the tracked frames' times); write with `--out`.
  *
@@ -65,6 +69,8 @@ const REREAD_UNDER_ANALYSIS_7 =
   " With gravity minimized (thumb side), its finger clips' saved tracking was read again under engine analysis-7 (commit cd34a2a: the finger estimator's view fit follows the engine's view of the frame, chosen on calibration seeds 77000407-77000408), and those rows are that reading; its wrist rows stand as read before (the change does not touch the wrist).";
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  77000410:
+    "Training seed for the set-up advice, never fitted on: the finger test motions from the thumb side (gravity minimized), 10 clips per motion, hands of varied build, both models, each clip once as drawn and once opening with the hand turned 30 degrees palm-first toward the camera and turning back (`--turn-in 30`), to see whether a hand the tracker never finds edge-on is found that way and then followed.",
   77000409:
     "Training seed for diagnosis, never fitted on: the MCP and PIP test motions seen from the palm (`--view palm`, 8 clips per motion), the mesh's hand and hands of varied build, both models; read many times (the build study, palm-view-limits.ts). Its palm-view PIP peaks fell outside the stated interval too often (65-83%), so its rows became a source of the palm view's intervals (derive-uncertainty.ts CLIP_REPORT_FILES; the worst seed stands), checked on seed 20261235.",
   20261235:
@@ -162,6 +168,23 @@ export interface ClipPlan {
   oneFinger?: boolean;
   /** A hand built unlike the mesh (`--proportions varied`): drawn per clip, rendered by `proportionedRig`. */
   proportions?: HandProportions;
+  /** The clip opens with the hand turned this far palm-first toward the camera, turning back over `TURN_IN_SECONDS` (`--turn-in`). */
+  turnInDeg?: number;
+}
+
+/** How long a `--turn-in` clip takes to turn back to its view, seconds. */
+export const TURN_IN_SECONDS = 1.5;
+
+/**
+ * `--turn-in DEG`: the same clips, each opening with the hand turned DEG palm-first toward the camera and turning back
+ * before the still start, as a client might show the palm for a moment so the tracker finds the hand (named
+ * `<prefix>-turnDEG-<seed>-...`). Finger motions only: a wrist clip's still start is its straight-wrist reading.
+ */
+export function withTurnIn(plans: readonly ClipPlan[], seed: number, turnInDeg: number): ClipPlan[] {
+  if (!(Number.isInteger(turnInDeg) && turnInDeg > 0 && turnInDeg <= 90)) throw new Error(`--turn-in: expected whole degrees from 1 to 90; got '${turnInDeg}'`);
+  const wrist = plans.find((plan) => plan.motion.digits[0] === null);
+  if (wrist) throw new Error(`--turn-in: expected finger motions only (a wrist clip's still start is its straight-wrist reading); got ${wrist.motion.motion}`);
+  return plans.map((plan) => ({ ...plan, name: plan.name.replace(`-${seed}-`, `-turn${turnInDeg}-${seed}-`), turnInDeg }));
 }
 
 /** `--proportions`: the mesh's own hand (every report so far) or, per clip, a hand drawn by `sampleProportions`. */
@@ -302,6 +325,7 @@ async function renderClips(plans: readonly ClipPlan[], folder: string, reuse: bo
           seed: plan.seed,
           distanceM: plan.distanceM,
           holdSeconds: plan.motion.holdSeconds,
+          ...(plan.turnInDeg ? { turnInDeg: plan.turnInDeg, turnInSeconds: TURN_IN_SECONDS } : {}),
         },
         folder,
         plan.name,
@@ -819,8 +843,13 @@ async function main(): Promise<void> {
       framing: { type: "string" },
       digits: { type: "string" },
       proportions: { type: "string" },
+      "turn-in": { type: "string" },
     },
   });
+  // --turn-in 30: every clip opens with the hand turned palm-first toward the camera and turning back, named `-turn30-`.
+  const turnInDeg = values["turn-in"] === undefined ? null : Number(values["turn-in"]);
+  if (turnInDeg !== null && !values.out) throw new Error("--turn-in: expected --out FILE (the committed reports open on the still start)");
+  if (turnInDeg !== null && values.framing) throw new Error("--turn-in: expected no --framing (the set-up check's framing is read off the first frame, which a turn-in turns)");
   // --proportions varied: every clip's hand drawn unlike the mesh (palm, finger and bone lengths, girth), named `-varied-`.
   const proportionsMode = parseProportions(values.proportions);
   if (proportionsMode === "varied" && !values.out) throw new Error("--proportions: expected --out FILE (the committed reports show the mesh's own hand)");
@@ -853,9 +882,10 @@ async function main(): Promise<void> {
     const folder = path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
     mkdirSync(folder, { recursive: true });
     const oneFinger = values["one-finger"] ?? false;
-    const drawn = views
+    const planned = views
       ? views.flatMap((view) => planClips(seed, clips, condition, motions, view, oneFinger, framing, aloneDigits, proportionsMode))
       : planClips(seed, clips, condition, motions, undefined, oneFinger, framing, aloneDigits, proportionsMode);
+    const drawn = turnInDeg === null ? planned : withTurnIn(planned, seed, turnInDeg);
     await renderClips(drawn, folder, reuse);
     const plans = framing ? drawn.filter((plan) => setupAccepts(plan, JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile)) : drawn;
     const framingCounts = framing

@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { getPoseAngle, POSE_KEYS } from "./hand-pose";
 import { loadHandRig } from "./rig-files";
 import { CAMERA_VIEWS, frameSeeds, IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, randomFrame, VERTICAL_FOV_DEG } from "./scene";
-import { buildSweepFrames, sweepAnglesDeg, sweptAnglesOf, validateSweepOptions, type SweepOptions } from "./sweep";
+import { buildSweepFrames, sweepAnglesDeg, sweptAnglesOf, turnInOffsetsDeg, validateSweepOptions, type SweepOptions } from "./sweep";
 
 const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
 
@@ -152,7 +152,44 @@ describe("sweeps", () => {
     expect(frames[45].timeMs).toBeCloseTo(1500, 9);
   });
 
+  it("can open turned palm-first toward the camera, then turn back and play the same clip", () => {
+    const offsets = turnInOffsetsDeg(30, 45);
+    expect(offsets).toHaveLength(45);
+    expect(offsets[0]).toBe(30);
+    expect(offsets.every((o, i) => i === 0 || o < offsets[i - 1])).toBe(true);
+    expect(offsets[44]).toBeGreaterThan(0);
+    expect(offsets[44]).toBeLessThan(0.1);
+    for (const side of ["right", "left"] as const) {
+      const plain = buildSweepFrames(rigs[side], { ...options, side, cycles: 1, holdSeconds: 1 });
+      const turned = buildSweepFrames(rigs[side], { ...options, side, cycles: 1, holdSeconds: 1, turnInDeg: 30, turnInSeconds: 1.5 });
+      expect(turned).toHaveLength(45 + plain.length);
+      expect(sweptAnglesOf(turned, "index.pipFlexionDeg").slice(0, 45).every((a) => a === 0)).toBe(true);
+      expect(JSON.stringify(turned.slice(45).map((f) => f.truth))).toBe(JSON.stringify(plain.map((f) => f.truth)));
+      // From the thumb side the knuckle row is seen end-on; turned toward the palm it opens out in the picture.
+      const knuckleRow = (frame: (typeof plain)[number]) => {
+        const [a, b] = [frame.truth.landmarksImagePx[INDEX_MCP], frame.truth.landmarksImagePx[LITTLE_MCP]];
+        return Math.hypot(a[0] - b[0], a[1] - b[1]);
+      };
+      expect(knuckleRow(turned[0])).toBeGreaterThan(knuckleRow(plain[0]) + 10);
+      // And it is the palm that turns toward the camera: the palm's normal in camera space moves toward a palm view's.
+      const palmNormal = (frame: (typeof plain)[number]) => {
+        const p = frame.truth.landmarksCameraM;
+        const u = [0, 1, 2].map((k) => p[INDEX_MCP][k] - p[WRIST][k]);
+        const v = [0, 1, 2].map((k) => p[LITTLE_MCP][k] - p[WRIST][k]);
+        const n = [u[1] * v[2] - u[2] * v[1], u[2] * v[0] - u[0] * v[2], u[0] * v[1] - u[1] * v[0]];
+        const length = Math.hypot(...n);
+        return n.map((c) => c / length);
+      };
+      const facing = buildSweepFrames(rigs[side], { ...options, side, view: "palm", cycles: 1 })[0];
+      const angleTo = (frame: (typeof plain)[number]) => (Math.acos(palmNormal(frame).reduce((sum, c, k) => sum + c * palmNormal(facing)[k], 0)) * 180) / Math.PI;
+      expect(angleTo(plain[0]) - angleTo(turned[0])).toBeGreaterThan(20);
+      expect(turned[0].truth.camera.azimuthJitterDeg - plain[0].truth.camera.azimuthJitterDeg).toBeCloseTo(30 * Math.sign(turned[0].truth.camera.azimuthJitterDeg - plain[0].truth.camera.azimuthJitterDeg), 9);
+    }
+  });
+
   it("names the bad field when options are wrong", () => {
+    expect(() => validateSweepOptions({ ...options, turnInDeg: 120, turnInSeconds: 1 })).toThrow(/^turnInDeg: expected degrees above 0 and at most 90/);
+    expect(() => validateSweepOptions({ ...options, turnInDeg: 30 })).toThrow(/^turnInSeconds: expected a positive number of seconds/);
     expect(() => validateSweepOptions({ ...options, holdSeconds: -1 })).toThrow(/^holdSeconds: expected zero or more seconds/);
     expect(() => validateSweepOptions({ ...options, joints: ["index.pip" as never] })).toThrow(/^joints: expected some of .*got 'index\.pip'/);
     expect(() => validateSweepOptions({ ...options, joints: [] })).toThrow(/^joints: expected at least one/);

@@ -198,6 +198,18 @@ export function handCentre(posed: PosedHand): Vector3 {
   return points.reduce((sum, point) => sum.add(point), new Vector3()).divideScalar(points.length);
 }
 
+/**
+ * The sign of `azimuthJitterDeg` that turns a view toward the palm: the hand turning palm-first toward the camera about
+ * its long axis looks the same as the camera moving that way around it.
+ */
+export function palmwardAzimuthSign(side: HandSide, view: CameraView): 1 | -1 {
+  const axes = restHandAxes(side);
+  const geometry = VIEW_GEOMETRY[view];
+  const direction = axes.palm.clone().multiplyScalar(geometry.palm).addScaledVector(axes.ulnar, geometry.ulnar).addScaledVector(axes.distal, geometry.distal).normalize();
+  const turned = direction.clone().applyAxisAngle(axes.distal, Math.PI / 18);
+  return turned.dot(axes.palm) > direction.dot(axes.palm) ? 1 : -1;
+}
+
 /** A camera (three's own, so projection matches the page's) placed for a view around `centre`. */
 export function placeCamera(side: HandSide, placement: CameraPlacement, centre: Vector3): PerspectiveCamera {
   const axes = restHandAxes(side);

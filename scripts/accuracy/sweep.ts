@@ -15,6 +15,7 @@ import {
   CAMERA_VIEWS,
   handCentre,
   makeRng,
+  palmwardAzimuthSign,
   placeCamera,
   sampleCamera,
   sampleLook,
@@ -45,6 +46,13 @@ export interface SweepOptions {
    * takes its straight-wrist reading from such a still start: vision/live/clip-capture.ts). None when omitted.
    */
   holdSeconds?: number;
+  /**
+   * Degrees the hand starts turned palm-first toward the camera about its long axis, turning back to the view along a
+   * raised cosine over `turnInSeconds`, before the hold: a client who shows the palm for a moment so the tracker finds
+   * the hand, then turns back. None when omitted.
+   */
+  turnInDeg?: number;
+  turnInSeconds?: number;
 }
 
 /** Checks options from the command line or a caller; every message names the field and what it expects. */
@@ -73,7 +81,20 @@ export function validateSweepOptions(options: SweepOptions): SweepOptions {
   if (options.holdSeconds !== undefined && !(Number.isFinite(options.holdSeconds) && options.holdSeconds >= 0)) {
     throw new Error(`holdSeconds: expected zero or more seconds; got ${options.holdSeconds}`);
   }
+  if (options.turnInDeg !== undefined) {
+    if (!(Number.isFinite(options.turnInDeg) && options.turnInDeg > 0 && options.turnInDeg <= 90)) {
+      throw new Error(`turnInDeg: expected degrees above 0 and at most 90; got ${options.turnInDeg}`);
+    }
+    if (!(Number.isFinite(options.turnInSeconds) && options.turnInSeconds! > 0)) {
+      throw new Error(`turnInSeconds: expected a positive number of seconds with turnInDeg; got ${options.turnInSeconds}`);
+    }
+  }
   return options;
+}
+
+/** The extra palmward turn of each frame of a turn-in: from `turnInDeg` down a raised cosine, reaching 0 at the frame after. */
+export function turnInOffsetsDeg(turnInDeg: number, frames: number): number[] {
+  return Array.from({ length: frames }, (_, i) => (turnInDeg * (1 + Math.cos((Math.PI * i) / frames))) / 2);
 }
 
 /**
@@ -106,15 +127,19 @@ export function buildSweepFrames(rig: HandRig, rawOptions: SweepOptions): SweepF
   const base = options.basePose ? clonePose(options.basePose) : restPose();
   const framesPerCycle = Math.round(options.cycleSeconds * options.fps);
   const held = Array.from({ length: Math.round((options.holdSeconds ?? 0) * options.fps) }, () => options.fromDeg);
-  const angles = [...held, ...sweepAnglesDeg(options.fromDeg, options.toDeg, options.cycles, framesPerCycle)];
+  const turns = options.turnInDeg ? turnInOffsetsDeg(options.turnInDeg, Math.round(options.turnInSeconds! * options.fps)) : [];
+  const angles = [...turns.map(() => options.fromDeg), ...held, ...sweepAnglesDeg(options.fromDeg, options.toDeg, options.cycles, framesPerCycle)];
   // Aim at the hand halfway through the motion so it stays in view at both ends.
   const middlePose = clonePose(base);
   for (const joint of options.joints) setPoseAngle(middlePose, joint, (options.fromDeg + options.toDeg) / 2);
-  const camera = placeCamera(options.side, placement, handCentre(poseHand(rig, middlePose)));
+  const centre = handCentre(poseHand(rig, middlePose));
+  const camera = placeCamera(options.side, placement, centre);
+  const palmward = palmwardAzimuthSign(options.side, options.view);
   return angles.map((angleDeg, index) => {
     const pose = clonePose(base);
     for (const joint of options.joints) setPoseAngle(pose, joint, angleDeg);
-    const { spec, truth } = buildFrame(rig, pose, camera, placement, look);
+    const turned = index < turns.length ? { ...placement, azimuthJitterDeg: placement.azimuthJitterDeg + palmward * turns[index] } : null;
+    const { spec, truth } = turned ? buildFrame(rig, pose, placeCamera(options.side, turned, centre), turned, look) : buildFrame(rig, pose, camera, placement, look);
     return { index, timeMs: (index * 1000) / options.fps, spec, truth };
   });
 }
