@@ -66,6 +66,20 @@ describe("set-up checks", () => {
     expect(readyToStart(checks)).toBe(false);
   });
 
+  it("no hand where the view is the thumb side: says to show the palm for a moment, then turn back", () => {
+    const none = frames(30, () => ({ image: null, handedness: null, score: 0 }));
+    // Finger flexion with gravity minimized: the camera above a hand resting on its little-finger edge.
+    const above = runSetupChecks({ ...BASE, frames: none, motion: "pip.flexion", condition: "gravity_minimized", digit: "index" })[0];
+    expect(above).toMatchObject({ id: "hand_seen", status: "fix" });
+    expect(above.instruction).toMatch(/roll your hand palm up toward the camera for a moment until it is found, then back onto its little-finger edge/);
+    // The thumb's own motions: the camera level with the thumb side.
+    const thumb = runSetupChecks({ ...BASE, frames: none, motion: "ip.flexion", digit: "thumb" })[0];
+    expect(thumb.instruction).toMatch(/turn your palm toward the camera for a moment until it is found, then turn back/);
+    // Against gravity the view is the little-finger side, which was not studied: the plain words only.
+    const ulnar = runSetupChecks({ ...BASE, frames: none, motion: "pip.flexion", condition: "against_gravity", digit: "index" })[0];
+    expect(ulnar.instruction).toBe("Hold your right hand up in front of the camera so it can be seen.");
+  });
+
   it("a hand past the picture's edge names the edge the person sees, mirrored or not", () => {
     const cut = handImage(0.45, 0.2);
     expect(Math.max(...cut.map((p) => p[0]))).toBeGreaterThan(1);
