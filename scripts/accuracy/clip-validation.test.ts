@@ -25,6 +25,8 @@ import {
   summarizeClipReadings,
   withoutStraightWristRows,
   withTurnIn,
+  planSweep,
+  TURN_IN_SECONDS,
   type ClipReading,
 } from "./clip-validation";
 import { parseClipFingerRows, parseWithoutStraightWrist } from "./derive-uncertainty";
@@ -41,7 +43,10 @@ describe("turn-in clips", () => {
       expect(plan.name).toBe(plans[i].name.replace("-gm-77000410-", "-gm-turn30-77000410-"));
       expect({ ...plan, name: plans[i].name, turnInDeg: undefined }).toEqual({ ...plans[i], turnInDeg: undefined });
       expect(plan.turnInDeg).toBe(30);
+      expect(planSweep(plan)).toEqual({ ...planSweep(plans[i]), turnInDeg: 30, turnInSeconds: TURN_IN_SECONDS });
     });
+    expect(planSweep(plans[0])).not.toHaveProperty("turnInDeg");
+    expect(planSweep(plans[0], 1).cycles).toBe(1);
   });
 
   it("refuses wrist clips and turns outside 1-90 whole degrees, naming the option", () => {

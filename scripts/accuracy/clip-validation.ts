@@ -54,7 +54,8 @@ import { FINGERS, getPoseAngle, proportionedRig, type HandProportions, type Pose
 import { renderSweepClip, runFfmpeg } from "./render-jobs";
 import { HandRenderer, RENDER_OUTPUT_ROOT } from "./renderer";
 import { loadHandRig } from "./rig-files";
-import type { HandSide } from "./rig";
+import type { HandRig, HandSide } from "./rig";
+import type { SweepOptions } from "./sweep";
 import { uniformFloat64 } from "pure-rand/distribution/uniformFloat64";
 import { CAMERA_VIEWS, frameSeeds, IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, makeRng, PROPORTION_RANGES, sampleProportions, type CameraView, type FrameTruth } from "./scene";
 import { nearestRankPercentile, summarizeErrors, type ErrorSample, type ErrorSummary } from "./stats";
@@ -306,32 +307,36 @@ export interface ClipTruthFile {
   frames: { index: number; timeMs: number; truth: FrameTruth }[];
 }
 
+/** The hand a plan is rendered with: the mesh's, or rebuilt to the plan's proportions. */
+export function planRig(plan: ClipPlan): HandRig {
+  return plan.proportions ? proportionedRig(loadHandRig(plan.side), plan.proportions) : loadHandRig(plan.side);
+}
+
+/** The sweep a plan renders: a still start, then `cycles` (the reports' 2) from rest to its end of range and back. */
+export function planSweep(plan: ClipPlan, cycles = CYCLES): SweepOptions {
+  return {
+    joints: plan.motion.joints,
+    fromDeg: 0,
+    toDeg: plan.toDeg,
+    cycles,
+    cycleSeconds: CYCLE_SECONDS,
+    fps: CLIP_FPS,
+    view: plan.view,
+    side: plan.side,
+    seed: plan.seed,
+    distanceM: plan.distanceM,
+    holdSeconds: plan.motion.holdSeconds,
+    ...(plan.turnInDeg ? { turnInDeg: plan.turnInDeg, turnInSeconds: TURN_IN_SECONDS } : {}),
+  };
+}
+
 async function renderClips(plans: readonly ClipPlan[], folder: string, reuse: boolean): Promise<void> {
   const todo = plans.filter((plan) => !(reuse && existsSync(path.join(folder, `${plan.name}.webm`)) && existsSync(path.join(folder, `${plan.name}.json`))));
   if (!todo.length) return;
   const renderer = await HandRenderer.start();
   try {
     for (const plan of todo) {
-      await renderSweepClip(
-        renderer,
-        plan.proportions ? proportionedRig(loadHandRig(plan.side), plan.proportions) : loadHandRig(plan.side),
-        {
-          joints: plan.motion.joints,
-          fromDeg: 0,
-          toDeg: plan.toDeg,
-          cycles: CYCLES,
-          cycleSeconds: CYCLE_SECONDS,
-          fps: CLIP_FPS,
-          view: plan.view,
-          side: plan.side,
-          seed: plan.seed,
-          distanceM: plan.distanceM,
-          holdSeconds: plan.motion.holdSeconds,
-          ...(plan.turnInDeg ? { turnInDeg: plan.turnInDeg, turnInSeconds: TURN_IN_SECONDS } : {}),
-        },
-        folder,
-        plan.name,
-      );
+      await renderSweepClip(renderer, planRig(plan), planSweep(plan), folder, plan.name);
       process.stderr.write(`rendered ${plan.name}\n`);
     }
   } finally {
