@@ -25,6 +25,7 @@ import { DIGIT_CHAIN, MIDDLE_MCP, WRIST } from "@/vision/landmarks";
 import { createLivePipeline } from "@/vision/pipeline";
 import type { TrackedFrame } from "@/vision/live";
 import { readSavedTracking, type ClipTruthFile } from "./clip-validation";
+import { getPoseAngle } from "./hand-pose";
 import { RENDER_OUTPUT_ROOT } from "./renderer";
 import { leastSquares, nearestRankPercentile, pearson } from "./stats";
 import type { HandModelVariant } from "./tracked-set";
@@ -113,7 +114,7 @@ function readClips(seed: number): Clip[] {
 }
 
 const commanded = (clip: Clip, index: number, digit: Finger, motion: Motion): number =>
-  clip.truth.frames[index].truth.commandedDeg[digit][motion === "mcp" ? "mcpFlexionDeg" : "pipFlexionDeg"];
+  getPoseAngle(clip.truth.frames[index].truth.commandedDeg, `${digit}.${motion}FlexionDeg`);
 
 function moving(motion: Motion, digit: Finger): [number, number] {
   const [mcp, pip, dip] = DIGIT_CHAIN[digit];

@@ -198,14 +198,19 @@ export function handCentre(posed: PosedHand): Vector3 {
   return points.reduce((sum, point) => sum.add(point), new Vector3()).divideScalar(points.length);
 }
 
+/** A view's line from the hand toward the camera, before the camera's jitter, in the rest hand's axes. */
+function viewDirection(axes: ReturnType<typeof restHandAxes>, view: CameraView): Vector3 {
+  const geometry = VIEW_GEOMETRY[view];
+  return axes.palm.clone().multiplyScalar(geometry.palm).addScaledVector(axes.ulnar, geometry.ulnar).addScaledVector(axes.distal, geometry.distal).normalize();
+}
+
 /**
  * The sign of `azimuthJitterDeg` that turns a view toward the palm: the hand turning palm-first toward the camera about
  * its long axis looks the same as the camera moving that way around it.
  */
 export function palmwardAzimuthSign(side: HandSide, view: CameraView): 1 | -1 {
   const axes = restHandAxes(side);
-  const geometry = VIEW_GEOMETRY[view];
-  const direction = axes.palm.clone().multiplyScalar(geometry.palm).addScaledVector(axes.ulnar, geometry.ulnar).addScaledVector(axes.distal, geometry.distal).normalize();
+  const direction = viewDirection(axes, view);
   const turned = direction.clone().applyAxisAngle(axes.distal, Math.PI / 18);
   return turned.dot(axes.palm) > direction.dot(axes.palm) ? 1 : -1;
 }
@@ -214,12 +219,7 @@ export function palmwardAzimuthSign(side: HandSide, view: CameraView): 1 | -1 {
 export function placeCamera(side: HandSide, placement: CameraPlacement, centre: Vector3): PerspectiveCamera {
   const axes = restHandAxes(side);
   const geometry = VIEW_GEOMETRY[placement.view];
-  const direction = axes.palm
-    .clone()
-    .multiplyScalar(geometry.palm)
-    .addScaledVector(axes.ulnar, geometry.ulnar)
-    .addScaledVector(axes.distal, geometry.distal)
-    .normalize();
+  const direction = viewDirection(axes, placement.view);
   const toRad = Math.PI / 180;
   direction.applyAxisAngle(axes.distal, placement.azimuthJitterDeg * toRad);
   const tiltAxis = new Vector3().crossVectors(direction, axes.distal);
