@@ -1,8 +1,8 @@
 import { describe, expect, it } from "vitest";
 import { handAxes, readMotion } from "./angles";
-import { CORRECTION_MODEL, correctGroupAngle, HAND_SHAPE_DOWN_MODEL, HAND_SHAPE_MODEL } from "./correction";
+import { CORRECTION_MODEL, correctGroupAngle, correctGroupReading, HAND_SHAPE_DOWN_MODEL, HAND_SHAPE_MODEL, HAND_SHAPE_SIDE_MODEL } from "./correction";
 import { estimateHandShapeJointDeg, HAND_SHAPE_VIEWS, handShapeFeatureRows, handShapeUsesPicture, isWholeHandShape } from "./correction-hand-shape";
-import { viewFromHand } from "./correction-views";
+import { viewFromHand, viewOfHand } from "./correction-views";
 import { applyFingerFit, estimateFingerJointDeg, FINGER_FEATURES, type FingerJoint, PICTURE_FEATURES } from "./estimator";
 import type { HandLandmarks } from "./landmarks";
 import { neutralPose, pinholeFingerPicture, poseHand, type Placement, type HandPose } from "./testing/synthetic-hand";
@@ -13,6 +13,7 @@ import { neutralPose, pinholeFingerPicture, poseHand, type Placement, type HandP
 const PALM_VIEW: Placement = { forearmDistal: [0, -1, 0.2], forearmRadial: [1, 0, 0.15], wrist: [0, 0, 0.5] };
 const BACK_VIEW: Placement = { forearmDistal: [0, -1, -0.2], forearmRadial: [-1, 0, 0.15], wrist: [0, 0, 0.5] };
 const RADIAL_VIEW: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, -1], wrist: [0, 0, 0.5] };
+const ULNAR_VIEW: Placement = { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, 1], wrist: [0, 0, 0.5] };
 // A right hand lying flat on a table, the camera above its back in front of the fingertips, tilted 55 degrees down
 // (scripts/accuracy/scene.ts `down`): the fingers point down the picture and partly toward the camera.
 const DOWN_TILT = (55 * Math.PI) / 180;
@@ -156,5 +157,53 @@ describe("the whole-hand-shape estimator's second fit, from above the back of a 
       }
     }
     expect(read).toBeGreaterThan(0);
+  });
+});
+
+describe("the side-on whole-hand-shape fit, read where the side-view estimator declines (vision/correction-hand-shape-side.json)", () => {
+  it("is fitted for both hand models and every finger joint, on training seeds only, for the two side views, and reads only declined frames", () => {
+    expect(Object.keys(HAND_SHAPE_SIDE_MODEL.fits).sort()).toEqual(["full", "lite"]);
+    for (const fits of Object.values(HAND_SHAPE_SIDE_MODEL.fits)) expect(Object.keys(fits).sort()).toEqual(["dip", "mcp", "pip"]);
+    expect([...HAND_SHAPE_SIDE_MODEL.views].sort()).toEqual(["radial", "ulnar"]);
+    expect(HAND_SHAPE_SIDE_MODEL.onlyWhereSideFitDeclines).toBe(true);
+    for (const name of HAND_SHAPE_SIDE_MODEL.trainingSets) expect(name).toMatch(/-77000\d{3}-/);
+    expect(handShapeUsesPicture(HAND_SHAPE_SIDE_MODEL)).toBe(true);
+    // No other fit reads these views on its own, so the side-view estimator keeps every frame it accepts.
+    for (const other of [HAND_SHAPE_MODEL, HAND_SHAPE_DOWN_MODEL]) expect(other.views.some((v) => HAND_SHAPE_SIDE_MODEL.views.includes(v))).toBe(false);
+  });
+
+  it("leaves every frame the side-view estimator reads to it, and reads the ones it declines (a fist among them)", () => {
+    const readers = new Set<string>();
+    for (const placement of [RADIAL_VIEW, ULNAR_VIEW]) {
+      for (const [mcp, pip, dip] of [[0, 0, 0], [20, 30, 20], [45, 60, 40], [70, 90, 60], [90, 100, 80], [0, 90, 70]]) {
+        const hand = poseHand(handShape(mcp, pip, dip), "right", placement).landmarks;
+        const axes = handAxes(hand, "right")!;
+        const view = viewOfHand(hand, axes, "right");
+        expect(["radial", "ulnar"]).toContain(view);
+        for (const [joint, group, motion] of [["mcp", "MCP flexion", "mcp.flexion"], ["pip", "PIP flexion", "pip.flexion"]] as const) {
+          const picture = pinholeFingerPicture(hand);
+          const sideView = estimateFingerJointDeg(CORRECTION_MODEL.fingerEstimator!, "lite", joint, hand, "right", "middle", axes, picture, view);
+          const sideOn = estimateHandShapeJointDeg(HAND_SHAPE_SIDE_MODEL, "lite", joint, hand, "right", "middle", axes, picture, view);
+          const reading = correctGroupReading(CORRECTION_MODEL, "lite", group, features(hand, motion), "middle");
+          if (sideView !== null) expect(reading).toEqual({ deg: sideView, reader: "finger" });
+          else if (sideOn !== null) expect(reading).toEqual({ deg: sideOn, reader: "side-on hand shape" });
+          else expect(reading).toBeNull();
+          if (reading) readers.add(reading.reader);
+        }
+      }
+    }
+    expect([...readers].sort()).toEqual(["finger", "side-on hand shape"]);
+  });
+
+  it("reads a full fist seen side-on as curled, where the side-view estimator declines it", () => {
+    for (const placement of [RADIAL_VIEW, ULNAR_VIEW]) {
+      const hand = poseHand(handShape(90, 100, 80), "right", placement).landmarks;
+      const axes = handAxes(hand, "right")!;
+      const view = viewOfHand(hand, axes, "right");
+      expect(estimateFingerJointDeg(CORRECTION_MODEL.fingerEstimator!, "lite", "pip", hand, "right", "middle", axes, pinholeFingerPicture(hand), view)).toBeNull();
+      // Past the halfway mark of MCP 0-90 and PIP 0-100 [common practice: AROM norms, from memory].
+      expect(correctGroupReading(CORRECTION_MODEL, "lite", "MCP flexion", features(hand, "mcp.flexion"), "middle")!.deg).toBeGreaterThan(45);
+      expect(correctGroupReading(CORRECTION_MODEL, "lite", "PIP flexion", features(hand, "pip.flexion"), "middle")!.deg).toBeGreaterThan(50);
+    }
   });
 });

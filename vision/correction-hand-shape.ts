@@ -66,6 +66,13 @@ export interface HandShapeEstimatorModel {
   /** By hand model. */
   handSpread: Record<string, HandSpreadRange>;
   views: readonly ValidationView[];
+  /**
+   * A fit that reads only the frames of its views that the side-view finger estimator (./estimator.ts) declines as
+   * outside its training domain (kinarc-correction-9: whole-hand shapes seen side-on, such as a full fist, whose
+   * fingertips come nearer the knuckles than any finger the side-view fit saw). Without it, the fit alone reads its
+   * views (the palm, back and oblique fit; the fit from above).
+   */
+  onlyWhereSideFitDeclines?: boolean;
   trainingSets: readonly string[];
   /** By hand model, then joint. */
   fits: Record<string, Partial<Record<FingerJoint, FingerJointFit>>>;
@@ -111,7 +118,9 @@ export function handShapeFeatureRows(
  * The estimated flexion of one finger joint (degrees), or null when the model has no fit for the joint and hand
  * model, the view is not one it was fitted for, a finger cannot be read, one finger's curl is apart from the others'
  * (not a whole-hand shape), any of the four fingers lies outside the fit's training domain, or the model reads the
- * picture features and the frame has no picture: then the raw angle stands.
+ * picture features and the frame has no picture: then the raw angle stands. `view`, when given, is the frame's view as
+ * the engine measured it (correction-views.ts viewOfHand, which reads a side-on hand from the picture); else the view
+ * comes from the 3-D axes alone, as the palm, back and oblique fit has always taken it.
  */
 export function estimateHandShapeJointDeg(
   model: HandShapeEstimatorModel,
@@ -122,12 +131,13 @@ export function estimateHandShapeJointDeg(
   finger: Finger,
   axes?: HandAxes,
   picture?: FingerPicture | null,
+  measuredView?: ValidationView,
 ): number | null {
   const fit = model.fits[handModel]?.[joint];
   if (!fit) return null;
   const handAxesNow = axes ?? handAxes(hand, side);
   if (!handAxesNow) return null;
-  const view = viewOfAxes(handAxesNow);
+  const view = measuredView ?? viewOfAxes(handAxesNow);
   if (!model.views.includes(view)) return null;
   // A model fitted with the picture features reads a frame only with its picture (else the raw angle stands).
   const rows = handShapeFeatureRows(hand, side, handAxesNow, model.wholeHandFeatures, handShapeUsesPicture(model) ? (picture ?? null) : undefined);

@@ -2,6 +2,7 @@ import type { Digit, MotionId, Side } from "@/lib/motions/catalog";
 import COEFFICIENTS from "./correction-coefficients.json";
 import HAND_SHAPE_FIT from "./correction-hand-shape.json";
 import HAND_SHAPE_DOWN_FIT from "./correction-hand-shape-down.json";
+import HAND_SHAPE_SIDE_FIT from "./correction-hand-shape-side.json";
 import WRIST_PICTURE_GAIN from "./wrist-picture-gain.json";
 import { estimateHandShapeJointDeg, handShapeUsesPicture, type HandShapeEstimatorModel } from "./correction-hand-shape";
 import { estimateFingerJointDeg, fingerJointOfGroup, usesPicture, type Finger, type FingerEstimatorModel, type FingerPicture } from "./estimator";
@@ -135,10 +136,11 @@ export function wristPictureGain(model: CorrectionModel, handModel: string): num
 // The JSON module's inferred type is wider than the model's (tuples read as arrays); applyFingerFit and correctGroupAngle check sizes.
 export const HAND_SHAPE_MODEL: HandShapeEstimatorModel = HAND_SHAPE_FIT as unknown as HandShapeEstimatorModel;
 export const HAND_SHAPE_DOWN_MODEL: HandShapeEstimatorModel = HAND_SHAPE_DOWN_FIT as unknown as HandShapeEstimatorModel;
+export const HAND_SHAPE_SIDE_MODEL: HandShapeEstimatorModel = HAND_SHAPE_SIDE_FIT as unknown as HandShapeEstimatorModel;
 export const CORRECTION_MODEL: CorrectionModel = {
   ...(COEFFICIENTS as unknown as CorrectionModel),
   version: CORRECTION_VERSION,
-  handShapeEstimators: [HAND_SHAPE_MODEL, HAND_SHAPE_DOWN_MODEL],
+  handShapeEstimators: [HAND_SHAPE_MODEL, HAND_SHAPE_DOWN_MODEL, HAND_SHAPE_SIDE_MODEL],
   wristPictureGains: WRIST_PICTURE_GAIN.gains as Record<string, WristPictureFit>,
 };
 
@@ -159,28 +161,51 @@ function viewOfFeatures(features: RawAngleFeatures): ValidationView {
 }
 
 /**
- * The corrected angle for a joint group (flexion positive for the finger estimator's groups), or null when the model
- * has no fit for it and this hand model. `digit` names the finger for the finger estimator, which also needs the
- * features' `hand` and `side`; without them its groups read null (the raw angle stands), never a different model.
+ * Which of the correction's fits read a frame: the linear map of a joint group, the side-view finger estimator, a
+ * whole-hand-shape fit that alone reads its views, or the side-on whole-hand-shape fit that reads only frames the
+ * side-view estimator declines. The stated uncertainty of a frame follows the fit that read it.
  */
-export function correctGroupAngle(
+export type CorrectionReader = "linear" | "finger" | "hand shape" | "side-on hand shape";
+
+export interface CorrectedReading {
+  deg: number;
+  reader: CorrectionReader;
+}
+
+/**
+ * The corrected angle for a joint group (flexion positive for the finger estimator's groups) and the fit that read it,
+ * or null when the model has no fit for it and this hand model. `digit` names the finger for the finger estimator,
+ * which also needs the features' `hand` and `side`; without them its groups read null (the raw angle stands), never a
+ * different model.
+ */
+export function correctGroupReading(
   model: CorrectionModel,
   handModel: string,
   group: string,
   features: RawAngleFeatures,
   digit: Digit | null = null,
-): number | null {
+): CorrectedReading | null {
   const joint = fingerJointOfGroup(group);
   const hasHandShape = Boolean(joint && model.handShapeEstimators?.some((m) => m.fits[handModel]?.[joint]));
   if (joint && (model.fingerEstimator?.fits[handModel]?.[joint] || hasHandShape)) {
     if (!features.hand || !features.side || !digit || !FINGERS.includes(digit)) return null;
+    const read = (deg: number | null, reader: CorrectionReader): CorrectedReading | null => (deg === null ? null : { deg, reader });
     // In its views a hand-shape estimator reads the frame or nobody does: the side-view fit was not chosen there.
     // The frame's view also picks the finger estimator's view fit (engine analysis-7).
     const view = viewOfFeatures(features);
-    const handShape = model.handShapeEstimators?.find((m) => m.fits[handModel]?.[joint] && m.views.includes(view));
-    if (handShape) return estimateHandShapeJointDeg(handShape, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture);
-    if (!model.fingerEstimator?.fits[handModel]?.[joint]) return null;
-    return estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture, view);
+    const inView = (m: HandShapeEstimatorModel) => Boolean(m.fits[handModel]?.[joint]) && m.views.includes(view);
+    const handShape = model.handShapeEstimators?.find((m) => inView(m) && !m.onlyWhereSideFitDeclines);
+    if (handShape) {
+      return read(estimateHandShapeJointDeg(handShape, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture), "hand shape");
+    }
+    const sideFit = model.fingerEstimator?.fits[handModel]?.[joint]
+      ? estimateFingerJointDeg(model.fingerEstimator, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture, view)
+      : null;
+    if (sideFit !== null) return { deg: sideFit, reader: "finger" };
+    // Where the side-view fit declines a frame (outside its training domain), a side-on whole-hand-shape fit may read it.
+    const fallback = model.handShapeEstimators?.find((m) => inView(m) && m.onlyWhereSideFitDeclines);
+    if (!fallback) return null;
+    return read(estimateHandShapeJointDeg(fallback, handModel, joint, features.hand, features.side, digit as Finger, features.axes, features.picture, view), "side-on hand shape");
   }
   const fit = model.groups[handModel]?.[group];
   if (!fit) return null;
@@ -189,7 +214,18 @@ export function correctGroupAngle(
       `correction ${handModel} ${group}: expected ${CORRECTION_FEATURES.length} coefficients (${CORRECTION_FEATURES.join(", ")}), got ${fit.coefficients.length}; refit`,
     );
   }
-  return correctionFeatures(features).reduce((sum, value, i) => sum + value * fit.coefficients[i], 0);
+  return { deg: correctionFeatures(features).reduce((sum, value, i) => sum + value * fit.coefficients[i], 0), reader: "linear" };
+}
+
+/** The corrected angle for a joint group alone (correctGroupReading without the fit's name). */
+export function correctGroupAngle(
+  model: CorrectionModel,
+  handModel: string,
+  group: string,
+  features: RawAngleFeatures,
+  digit: Digit | null = null,
+): number | null {
+  return correctGroupReading(model, handModel, group, features, digit)?.deg ?? null;
 }
 
 /** Whether the model has a fit (linear or the finger estimator) for a group and hand model. */
@@ -246,6 +282,27 @@ export function readsPicturePoints(model: CorrectionModel, motion: MotionId, dig
   return Boolean(joint && ((model.fingerEstimator && usesPicture(model.fingerEstimator)) || model.handShapeEstimators?.some(handShapeUsesPicture)));
 }
 
+/** The corrected reading for a motion's reported angle (same sign convention) and the fit that read it, or null when there is no fit. */
+export function correctMotionReading(
+  model: CorrectionModel,
+  handModel: string,
+  motion: MotionId,
+  digit: Digit | null,
+  features: RawAngleFeatures,
+): CorrectedReading | null {
+  const target = correctionGroupFor(motion, digit);
+  if (!target) return null;
+  const { sign } = target;
+  const corrected = correctGroupReading(
+    model,
+    handModel,
+    target.group,
+    { ...features, deg: sign * features.deg, imagePlaneDeg: sign * features.imagePlaneDeg },
+    digit,
+  );
+  return corrected === null ? null : { deg: sign * corrected.deg, reader: corrected.reader };
+}
+
 /** The corrected reading for a motion's reported angle (same sign convention), or null when there is no fit. */
 export function correctMotionAngle(
   model: CorrectionModel,
@@ -254,15 +311,5 @@ export function correctMotionAngle(
   digit: Digit | null,
   features: RawAngleFeatures,
 ): number | null {
-  const target = correctionGroupFor(motion, digit);
-  if (!target) return null;
-  const { sign } = target;
-  const corrected = correctGroupAngle(
-    model,
-    handModel,
-    target.group,
-    { ...features, deg: sign * features.deg, imagePlaneDeg: sign * features.imagePlaneDeg },
-    digit,
-  );
-  return corrected === null ? null : sign * corrected;
+  return correctMotionReading(model, handModel, motion, digit, features)?.deg ?? null;
 }

@@ -8,7 +8,7 @@ import { OneEuroFilter, type OneEuroParams } from "./one-euro";
 import { PlaneAccumulator, readPlane, unitGravity, type PlaneReading } from "./plane";
 import { RepSegmenter, type RepParams, type RepPhase, type Repetition } from "./reps";
 import { add, isFiniteVec, normalize, type Vec3 } from "./vec";
-import { CORRECTION_MODEL, correctionGroupFor, correctMotionAngle, wristPictureGain, type CorrectionModel, type HandModel } from "./correction";
+import { CORRECTION_MODEL, correctionGroupFor, correctMotionReading, wristPictureGain, type CorrectionModel, type HandModel } from "./correction";
 import {
   angleUncertaintyDeg,
   correctionHelps,
@@ -17,6 +17,7 @@ import {
   fingerAloneUncertaintyDeg,
   ownAloneFigure,
   peakUncertaintyDeg,
+  sideOnFitHelps,
   UNCERTAINTY_TABLE,
   validationCell,
   withoutStraightWristUncertaintyDeg,
@@ -230,6 +231,8 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
   const correctedMethod: MeasurementMethod = `world3d+${correctionModel.version}`;
   const pictureCorrectedMethod: MeasurementMethod = `image_plane+${correctionModel.version}`;
   let correctedFrames = 0;
+  /** Interval methods of frames the side-view estimator declined (read raw or by the side-on fit). */
+  const declinedMethods = new Set<UncertaintyMethod>();
   let usableScoreSum = 0;
   const viewCounts = new Map<ValidationView, number>();
   const policy = viewPolicy(options.motion, options.condition, options.digit);
@@ -362,8 +365,10 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     // The correction's wrist maps were fitted on angles read against the render's true forearm; against a neutral reading
     // it moves them away from the truth (scripts/accuracy/report.md, wrist section), so they stay raw.
     const againstNeutral = forearm?.source === "neutral-reading";
+    // Which figure the frame's interval takes: the corrected cell's, raw, or (seen side-on) a declined frame's.
+    let intervalMethod: UncertaintyMethod = "raw";
     if (correctionTarget && !againstNeutral && !inPicture && Number.isFinite(reading.imagePlaneDeg) && correctionHelps(table, correctionTarget.group, handModel, view)) {
-      const corrected = correctMotionAngle(correctionModel, handModel, options.motion, options.digit, {
+      const reader = correctMotionReading(correctionModel, handModel, options.motion, options.digit, {
         deg: reading.deg,
         imagePlaneDeg: reading.imagePlaneDeg,
         planeFacing: Math.abs(reading.axis[2]),
@@ -375,11 +380,17 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
         view,
         picture,
       });
-      if (corrected !== null && Number.isFinite(corrected)) {
-        angleDeg = corrected;
+      // The side-on whole-hand-shape fit reads a declined frame only in cells where held-out shapes showed it helps.
+      const corrected = reader?.reader === "side-on hand shape" && !sideOnFitHelps(table, correctionTarget.group, handModel, view) ? null : reader;
+      if (corrected !== null && Number.isFinite(corrected.deg)) {
+        angleDeg = corrected.deg;
         frameMethod = correctedMethod;
         correctedFrames += 1;
+        intervalMethod = corrected.reader === "side-on hand shape" ? "side-on hand shape" : "engine";
+      } else if (view && validationCell(table, correctionTarget.group, handModel, view)?.declinedBySideFit) {
+        intervalMethod = "declined, raw";
       }
+      if (intervalMethod === "side-on hand shape" || intervalMethod === "declined, raw") declinedMethods.add(intervalMethod);
     }
     method = frameMethod;
     viewCounts.set(view, (viewCounts.get(view) ?? 0) + 1);
@@ -393,7 +404,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     allFramesPlane.add(plane.axisToGravityDeg, plane.travelAlongGravity);
     const phase = segmenter.push(frame.t, angleDeg, smoothedDeg, filter.speed, plane.axisToGravityDeg, plane.travelAlongGravity);
     // A frame left uncorrected carries the raw method's error, whatever the cell's policy.
-    const frameUncertainty = statedInterval(forearm?.source ?? null, view, score, frameMethod === correctedMethod ? "engine" : "raw");
+    const frameUncertainty = statedInterval(forearm?.source ?? null, view, score, intervalMethod);
     const correctedFrame = frameMethod === correctedMethod || frameMethod === pictureCorrectedMethod;
     return {
       t: frame.t,
@@ -407,7 +418,8 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       rep: { phase, count: segmenter.completed.length, currentTopDeg: segmenter.currentTopDeg },
       method: frameMethod,
       uncertaintyDeg: frameUncertainty,
-      peakUncertaintyDeg: atLeastPeakFigure(frameUncertainty, view, score, correctedFrame ? "engine" : "raw"),
+      // A wrist read in the picture keeps the raw frame figure (no held-out cell reads it) but the engine's peaks.
+      peakUncertaintyDeg: atLeastPeakFigure(frameUncertainty, view, score, correctedFrame && intervalMethod === "raw" ? "engine" : intervalMethod),
       view,
       viewQuality: viewQuality(policy, view),
       forearmSource: forearm?.source ?? null,
@@ -482,6 +494,9 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
     }
     const meanUsableScore = usable ? usableScoreSum / usable : 0;
     const uncertaintyMethod: UncertaintyMethod = correctedFrames === usable ? "engine" : "raw";
+    // Frames the side-view estimator declined widen the capture's interval to their own figure.
+    const statedFor = (method: UncertaintyMethod) => atLeastPeakFigure(statedInterval(forearmSource, view, meanUsableScore, method), view, meanUsableScore, method);
+    const intervals = [uncertaintyMethod, ...declinedMethods].flatMap((m) => statedFor(m) ?? []);
     const summaryMethod: MeasurementMethod = pictureFrames > 0 ? (correctedFrames > 0 ? pictureCorrectedMethod : "image_plane") : correctedFrames > 0 ? correctedMethod : "world3d";
     return {
       frames,
@@ -492,7 +507,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       method: summaryMethod,
       // The capture's start, peak and arc: the interval of its usual view at its mean score, never narrower than the
       // held-out peaks' own figure (a peak is one repetition's top and misses by more than a frame does).
-      uncertaintyDeg: usable ? atLeastPeakFigure(statedInterval(forearmSource, view, meanUsableScore, uncertaintyMethod), view, meanUsableScore, uncertaintyMethod) : null,
+      uncertaintyDeg: usable && intervals.length ? Math.max(...intervals) : null,
       view,
       viewQuality: quality,
       recommendedViews: policy.recommended,

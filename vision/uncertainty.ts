@@ -61,6 +61,30 @@ export interface ValidationCell {
    * others (from the thumb side the index finger stands in front of the rest), so a finger's reading takes its own.
    */
   byDigit?: DigitFigure[];
+  /**
+   * Seen side-on (thumb side or little-finger side), the frames the side-view finger estimator declines as outside
+   * what it was fitted on: held-out whole-hand shapes seen side-on (vision/correction-hand-shape-side-validation.json),
+   * read raw and with the side-on whole-hand-shape fit.
+   */
+  declinedBySideFit?: DeclinedFigure;
+}
+
+/**
+ * Held-out figures of the frames the side-view estimator declines in one cell (kinarc-correction-9): a full fist seen
+ * side-on, for one, brings its fingertips nearer the knuckles than any finger that fit saw. Their raw error is far
+ * above a test motion's, so they take their own interval, never narrower than the cell's.
+ */
+export interface DeclinedFigure {
+  samples: number;
+  rawMaeDeg: number;
+  rawP90Deg: number;
+  sideOnFitMaeDeg: number | null;
+  sideOnFitP90Deg: number | null;
+  /** The side-on fit lowered their held-out error by more than two standard errors, so the engine reads them with it. */
+  sideOnFitHelps: boolean;
+  /** 90% half-widths (uncertaintyFromMaeDeg, floored by the held-out P90): raw, and with the side-on fit. */
+  rawUncertaintyDeg: number;
+  sideOnFitUncertaintyDeg: number | null;
 }
 
 /** One finger's held-out clip figure within a cell, and its interval (the cell's still figure as a floor). */
@@ -178,8 +202,16 @@ export function correctionHelps(table: UncertaintyTable, group: string, model: H
   return validationCell(table, group, model, view)?.correctionHelps ?? false;
 }
 
-/** Which method's error a figure is for: the one the engine uses in the cell, or raw 3-D angles (correction off). */
-export type UncertaintyMethod = "engine" | "raw";
+/**
+ * Which method's error a figure is for: the one the engine uses in the cell, raw 3-D angles (correction off), a frame
+ * the side-view estimator declined and left raw, or one the side-on whole-hand-shape fit read in its stead.
+ */
+export type UncertaintyMethod = "engine" | "raw" | "declined, raw" | "side-on hand shape";
+
+/** Whether the engine reads the side-view estimator's declined frames in this cell with the side-on whole-hand-shape fit. */
+export function sideOnFitHelps(table: UncertaintyTable, group: string, model: HandModel, view: ValidationView | null): boolean {
+  return view !== null && (validationCell(table, group, model, view)?.declinedBySideFit?.sideOnFitHelps ?? false);
+}
 
 /** A finger's own figure in a cell split by finger (byDigit); undefined where the cell is not split or no finger is named. */
 export function digitFigure(cell: Pick<ValidationCell, "byDigit">, digit: Digit | null): DigitFigure | undefined {
@@ -187,8 +219,13 @@ export function digitFigure(cell: Pick<ValidationCell, "byDigit">, digit: Digit 
 }
 
 function cellUncertaintyDeg(cell: ValidationCell, method: UncertaintyMethod, digit: Digit | null): number {
-  if (method === "engine") return digitFigure(cell, digit)?.uncertaintyDeg ?? cell.uncertaintyDeg;
-  return Math.round(flooredUncertaintyDeg(Math.max(cell.rawMaeDeg, cell.rawAnyPoseMaeDeg ?? 0, cell.clipRawMaeDeg ?? 0), cell.clipRawFramesP90Deg) * 10) / 10;
+  const engine = () => digitFigure(cell, digit)?.uncertaintyDeg ?? cell.uncertaintyDeg;
+  const raw = () => Math.round(flooredUncertaintyDeg(Math.max(cell.rawMaeDeg, cell.rawAnyPoseMaeDeg ?? 0, cell.clipRawMaeDeg ?? 0), cell.clipRawFramesP90Deg) * 10) / 10;
+  const declined = cell.declinedBySideFit;
+  if (method === "engine") return engine();
+  if (method === "side-on hand shape") return Math.max(engine(), declined?.sideOnFitUncertaintyDeg ?? declined?.rawUncertaintyDeg ?? raw());
+  if (method === "declined, raw") return Math.max(raw(), declined?.rawUncertaintyDeg ?? 0);
+  return raw();
 }
 
 /**
@@ -292,7 +329,8 @@ export function peakUncertaintyDeg(
 ): number | null {
   const group = correctionGroupFor(motion, digit)?.group;
   if (!group) return null;
-  const figure = (c: ValidationCell) => (method === "engine" ? c.clipPeakP90Deg : c.clipRawPeakP90Deg);
+  // A frame the side-on fit read is a corrected frame: the engine's peak figure, under the frame's own wider interval.
+  const figure = (c: ValidationCell) => (method === "engine" || method === "side-on hand shape" ? c.clipPeakP90Deg : c.clipRawPeakP90Deg);
   const figures = cellPool(table, group, model, view).flatMap((c) => (figure(c) === undefined ? [] : [figure(c)!]));
   return figures.length ? widenedByScore(Math.max(...figures), score) : null;
 }

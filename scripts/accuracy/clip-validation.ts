@@ -70,6 +70,10 @@ const REREAD_UNDER_ANALYSIS_7 =
   " With gravity minimized (thumb side), its finger clips' saved tracking was read again under engine analysis-7 (commit cd34a2a: the finger estimator's view fit follows the engine's view of the frame, chosen on calibration seeds 77000407-77000408), and those rows are that reading; its wrist rows stand as read before (the change does not touch the wrist).";
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
+  20261237:
+    "Held-out still set of the side-on whole-hand-shape fit (kinarc-correction-9; scripts/accuracy/hand-shape-fit.ts holdout --family side): 300 whole-hand shapes seen from the thumb side and the little-finger side in turn, both models, rendered after the fit was written and read once. Rule written before reading (scripts/accuracy/README.md): in each cell the fit reads the frames the side-view estimator declines only where it lowers their MAE by more than two standard errors; those frames take their own interval from this set. Nothing is fitted on it.",
+  77000411:
+    "Training seed of the side-on whole-hand-shape fit (kinarc-correction-9): 400 whole-hand-shape stills from the thumb side and the little-finger side (track-training.ts --set hand-shapes-side).",
   20261236:
     "Fresh check of the set-up advice to show the palm for a moment when the hand is not found from the thumb side (chosen on training seed 77000410, where it took the tracker from 95% (lite) and 92% (full) of frames to 100%): the finger test motions from the thumb side (gravity minimized), 10 clips per motion, hands of varied build, both models, every clip opening with the hand turned 30 degrees palm-first and turning back (`--turn-in 30`); rendered and tracked after that advice was committed, read once. Rule written before reading: every engine row detects at least 95% of frames (issue 8's detection bar), with frames inside the stated ± at least 85% and peaks at least 80%; otherwise the advice is not credited with the thumb side's detection. Nothing is fitted on it.",
   77000410:

@@ -21,6 +21,9 @@ export const UNCERTAINTY_VERSION = "kinarc-uncertainty-1";
 /** The whole-hand-shape estimator's held-out cells (scripts/accuracy/hand-shape-fit.ts holdout), front fit first. */
 export const HAND_SHAPE_VALIDATION_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape-validation.json");
 export const HAND_SHAPE_DOWN_VALIDATION_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape-down-validation.json");
+/** The side-on whole-hand-shape fit (kinarc-correction-9): it reads only frames the side-view estimator declines. */
+export const HAND_SHAPE_SIDE_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape-side.json");
+export const HAND_SHAPE_SIDE_VALIDATION_FILE = path.join(HERE, "..", "..", "vision", "correction-hand-shape-side-validation.json");
 export const HAND_SHAPE_VALIDATION_FILES = [HAND_SHAPE_VALIDATION_FILE, HAND_SHAPE_DOWN_VALIDATION_FILE] as const;
 /** The held-out clip reports (scripts/accuracy/clip-validation.ts), one per condition. */
 export const CLIP_REPORT_FILES = [
@@ -338,6 +341,58 @@ export interface HandShapeRow {
   correctedMaeDeg: number | null;
 }
 
+/**
+ * A held-out cell of the side-on whole-hand shapes (hand-shape-fit.ts holdout --family side; SideHandShapeCell there):
+ * the frames the side-view estimator declined, raw and with the side-on fit.
+ */
+export interface DeclinedRow {
+  group: string;
+  view: string;
+  model: string;
+  declined: {
+    samples: number;
+    rawMaeDeg: number | null;
+    rawP90Deg: number | null;
+    afterMaeDeg: number | null;
+    afterP90Deg: number | null;
+    correctionHelps: boolean;
+  };
+}
+
+/** The committed side-on held-out rows, or none when the file has not been written. */
+export function readDeclinedRows(file: string = HAND_SHAPE_SIDE_VALIDATION_FILE): DeclinedRow[] {
+  if (!existsSync(file)) return [];
+  const parsed = JSON.parse(readFileSync(file, "utf8")) as { cells?: DeclinedRow[] };
+  if (!Array.isArray(parsed.cells)) throw new Error(`${file}: expected "cells", a list of held-out rows`);
+  return parsed.cells;
+}
+
+/**
+ * Attaches the declined frames' figures to the side-on cells they were measured in (ValidationCell.declinedBySideFit).
+ * A row with no raw figure (no declined frame held out) adds nothing; a row for a cell the table lacks is an error.
+ */
+export function withDeclinedFigures(cells: readonly ValidationCell[], rows: readonly DeclinedRow[]): ValidationCell[] {
+  const out = cells.map((c) => ({ ...c }));
+  for (const row of rows) {
+    const cell = out.find((c) => c.group === row.group && c.view === row.view && c.model === row.model);
+    if (!cell) throw new Error(`side-on hand shapes: no cell ${row.group} | ${row.view} | ${row.model} in the table`);
+    const d = row.declined;
+    if (d.rawMaeDeg === null || d.rawP90Deg === null || d.samples === 0) continue;
+    const helps = d.correctionHelps && d.afterMaeDeg !== null;
+    cell.declinedBySideFit = {
+      samples: d.samples,
+      rawMaeDeg: d.rawMaeDeg,
+      rawP90Deg: d.rawP90Deg,
+      sideOnFitMaeDeg: d.afterMaeDeg,
+      sideOnFitP90Deg: d.afterP90Deg,
+      sideOnFitHelps: helps,
+      rawUncertaintyDeg: round1(flooredUncertaintyDeg(d.rawMaeDeg, d.rawP90Deg)),
+      sideOnFitUncertaintyDeg: helps ? round1(flooredUncertaintyDeg(d.afterMaeDeg!, d.afterP90Deg)) : null,
+    };
+  }
+  return out;
+}
+
 export interface ReportRow {
   group: string;
   view: string;
@@ -430,6 +485,7 @@ export function deriveUncertaintyTable(
   clipFingerRows: readonly ClipFingerRow[] = [],
   pairCells: readonly PairCell[] = [],
   aloneFingerRows: readonly ClipFingerRow[] = [],
+  declinedRows: readonly DeclinedRow[] = [],
 ): UncertaintyTable {
   const clips = new Map(clipRows.map((r) => [`${r.group}|${r.view}|${r.model}`, r]));
   // A cell is split by finger where every seed that measured it was split, for all four fingers.
@@ -560,8 +616,12 @@ export function deriveUncertaintyTable(
       "was split by finger, each finger's interval from its own worst seed, byDigit); it stands for a frame both models read in that view; " +
       "a pair cell's clipFramesP90Deg (and each finger's from the thumb side) is the same report's frame P90 of the 'both' rows, the worst seed, where every " +
       "seed gave it, a floor under its interval as for one model; its clipPeakP90Deg the peak P90 alike: the two-model peak's " +
-      "interval is never narrower than it (vision/model-pair.ts).",
-    cells,
+      "interval is never narrower than it (vision/model-pair.ts). " +
+      "declinedBySideFit: seen side-on, the frames the side-view estimator declines (outside its training domain), measured on held-out side-on " +
+      "whole-hand shapes (vision/correction-hand-shape-side-validation.json): the same rule on their raw MAE, never narrower than their P90, and where " +
+      "the side-on whole-hand-shape fit lowered their MAE by more than two standard errors (sideOnFitHelps) the engine reads them with it and they take " +
+      "its figure alike; either is never narrower than the cell's own (vision/uncertainty.ts).",
+    cells: declinedRows.length ? withDeclinedFigures(cells, declinedRows) : cells,
     ...(withoutStraightWrist
       ? {
           withoutStraightWristReading: {
@@ -598,6 +658,7 @@ export function deriveCommittedTable(): UncertaintyTable {
     parseClipFingerRows(clipReports),
     existsSync(TWO_MODEL_REPORT_FILE) ? parsePairCells(readFileSync(TWO_MODEL_REPORT_FILE, "utf8")) : [],
     parseClipFingerRows(readClipReports(ONE_FINGER_CLIP_REPORT_FILES)),
+    readDeclinedRows(),
   );
 }
 

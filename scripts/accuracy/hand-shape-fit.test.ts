@@ -18,9 +18,10 @@ const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
 
 describe("the whole-hand-shape fit's guards and held-out scoring", () => {
   it("refuses held-out seeds for fitting and selection and names the rule", () => {
-    expect(() => assertTrainingSet("hand-shapes-20261206-300")).toThrow(/2026120x and 2026121x are held out.*77000xxx/);
+    expect(() => assertTrainingSet("hand-shapes-20261206-300")).toThrow(/202612xx .*held out.*77000xxx/);
     expect(() => assertTrainingSet("hand-shapes-20261212-300")).toThrow(/held out/);
     expect(() => assertTrainingSet("motions-20261202-360")).toThrow(/held out/);
+    expect(() => assertTrainingSet("hand-shapes-side-20261237-300")).toThrow(/held out/);
     expect(() => assertTrainingSet("hand-shapes-77000102-600")).not.toThrow();
   });
 

@@ -23,9 +23,12 @@
  * `--family down` (select, fit, holdout) works on the second fit instead: the same shapes seen from above the back of
  * a hand lying on a table (view `down`), trained on hand-shapes-down-77000103-300, held out on seed 20261213 (was 20261208), written to
  * vision/correction-hand-shape-down.json and its -validation.json. The first fit (`front`: palm, back, oblique) is
- * left as it was, so its held-out figures stand.
+ * left as it was, so its held-out figures stand. `--family side` works on the third: the same shapes seen side-on
+ * (thumb side, little-finger side), trained on hand-shapes-side-77000411-400, held out on seed 20261237, written to
+ * vision/correction-hand-shape-side.json and its -validation.json; it reads only frames the side-view estimator
+ * declines, and its holdout scores it that way through the live pipeline (scoreSideHoldout).
  *
- * Training sets must come from training seeds (77000xxx); any set of a 2026120x or 2026121x seed is refused here except by holdout.
+ * Training sets must come from training seeds (77000xxx); any set of a held-out seed (202612xx) is refused here except by holdout.
  */
 import { existsSync, readFileSync, writeFileSync } from "node:fs";
 import path from "node:path";
@@ -58,10 +61,16 @@ import {
   type FingerJointFit,
 } from "@/vision/estimator";
 import { HUBER_DEG } from "./correction";
-import { correctionClearlyHelps, HAND_SHAPE_DOWN_VALIDATION_FILE, HAND_SHAPE_VALIDATION_FILE } from "./derive-uncertainty";
+import {
+  correctionClearlyHelps,
+  HAND_SHAPE_DOWN_VALIDATION_FILE,
+  HAND_SHAPE_SIDE_FILE,
+  HAND_SHAPE_SIDE_VALIDATION_FILE,
+  HAND_SHAPE_VALIDATION_FILE,
+} from "./derive-uncertainty";
 import { fingerPoseKey, fitFingerJoint, loadTrackedSet, roundedFit } from "./estimator-fit";
 import { getPoseAngle } from "./hand-pose";
-import { HAND_SHAPE_DOWN_VIEWS, handShapeFrame } from "./motion-sets";
+import { HAND_SHAPE_DOWN_VIEWS, HAND_SHAPE_SIDE_VIEWS, handShapeFrame } from "./motion-sets";
 import { clipFolder, FIRST_TRAINING_SEED, mirroredClipFrames, trackedClipNames } from "./clip-training";
 import { IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, type FrameTruth } from "./scene";
 import { loadHandRig } from "./rig-files";
@@ -85,7 +94,7 @@ export const HAND_SHAPE_HOLDOUT_SEED = 20_261_212;
  * a hand on a table; kinarc-correction-4). Each has its own training set, held-out seed and files.
  */
 export interface HandShapeFamily {
-  name: "front" | "down";
+  name: "front" | "down" | "side";
   views: readonly ValidationView[];
   trainingSet: string;
   holdoutSeed: number;
@@ -112,11 +121,20 @@ export const HAND_SHAPE_FAMILIES: Record<HandShapeFamily["name"], HandShapeFamil
     file: path.join(HERE, "..", "..", "vision", "correction-hand-shape-down.json"),
     validationFile: HAND_SHAPE_DOWN_VALIDATION_FILE,
   },
+  side: {
+    name: "side",
+    views: HAND_SHAPE_SIDE_VIEWS,
+    trainingSet: "hand-shapes-side-77000411-400",
+    holdoutSeed: 20_261_237,
+    holdoutCount: 300,
+    file: HAND_SHAPE_SIDE_FILE,
+    validationFile: HAND_SHAPE_SIDE_VALIDATION_FILE,
+  },
 };
 
 function familyOf(value: string | boolean | undefined): HandShapeFamily {
   const name = String(value ?? "front");
-  if (name !== "front" && name !== "down") throw new Error(`--family: expected front or down; got '${name}'`);
+  if (name !== "front" && name !== "down" && name !== "side") throw new Error(`--family: expected front, down or side; got '${name}'`);
   return HAND_SHAPE_FAMILIES[name];
 }
 const FOLDS = 3;
@@ -138,7 +156,7 @@ export interface HandShapeSample {
 
 /** Refuses sets of the held-out and validation seeds (2026120x, 2026121x) for fitting and selection. */
 export function assertTrainingSet(name: string): void {
-  if (/202612[01]\d/.test(name)) throw new Error(`${name}: seeds 2026120x and 2026121x are held out; fit and select on training seeds (77000xxx) only`);
+  if (/202612\d\d/.test(name)) throw new Error(`${name}: seeds 202612xx (2026120x-2026123x so far) are held out; fit and select on training seeds (77000xxx) only`);
 }
 
 /** One sample per finger of every tracked still seen from one of `views` (the front fit's palm, back and oblique). */
@@ -355,7 +373,7 @@ function select(values: Record<string, string | boolean | undefined>): void {
   if (values["spread-only"]) return;
   for (const wholeHand of [false, true]) {
     for (const sets of variants) {
-      const all = loadSets(sets, wholeHand, family.views);
+      const all = loadSets(sets, wholeHand, family.views, Boolean(values.picture));
       // Scored on the hand-shape stills only, the kind the held-out set holds; other sets only add training rows.
       const scoredSet = 0;
       for (const model of models) {
@@ -555,7 +573,153 @@ export function scoreHoldout(set: TrackedSet, model: HandShapeEstimatorModel): H
   return cells;
 }
 
+/**
+ * One cell of the side-on fit's held-out check (`holdout --family side`), read through the live pipeline as the app
+ * reads a capture: `before` is the engine without the side-on fit (the side-view estimator, or the raw angle where it
+ * declines), `after` with it. `declined` holds the frames the side-view estimator declined (read raw before), the
+ * only frames the side-on fit may read: their raw error and their error with the fit.
+ */
+export interface SideHandShapeCell {
+  group: HandShapeValidationCell["group"];
+  view: string;
+  model: string;
+  samples: number;
+  detectionRate: number;
+  beforeMaeDeg: number;
+  beforeSlope: number | null;
+  afterMaeDeg: number;
+  afterSlope: number | null;
+  declined: {
+    samples: number;
+    rawMaeDeg: number | null;
+    rawSlope: number | null;
+    afterMaeDeg: number | null;
+    afterSlope: number | null;
+    /** 90th percentile of the absolute error there, raw and with the fit. */
+    rawP90Deg: number | null;
+    afterP90Deg: number | null;
+    /** Share of the declined frames the side-on fit read (the rest stay raw: not a whole-hand shape, or outside its domain). */
+    readShare: number;
+    correctionHelps: boolean;
+  };
+}
+
+function p90(values: readonly number[]): number | null {
+  if (!values.length) return null;
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.min(sorted.length - 1, Math.ceil(0.9 * sorted.length) - 1)];
+}
+
+/** Scores a tracked held-out set of side-on whole-hand shapes with and without the side-on fit, through the live pipeline. */
+export async function scoreSideHoldout(set: TrackedSet, sideModel: HandShapeEstimatorModel): Promise<SideHandShapeCell[]> {
+  const { createLivePipeline } = await import("@/vision/pipeline");
+  const { CORRECTION_MODEL } = await import("@/vision/correction");
+  const others = (CORRECTION_MODEL.handShapeEstimators ?? []).filter((m) => !m.onlyWhereSideFitDeclines);
+  const engines = {
+    before: { ...CORRECTION_MODEL, handShapeEstimators: others },
+    after: { ...CORRECTION_MODEL, handShapeEstimators: [...others, sideModel] },
+  };
+  const cells: SideHandShapeCell[] = [];
+  for (const handModel of Object.keys(sideModel.fits)) {
+    for (const joint of FINGER_JOINTS) {
+      const motion = `${joint}.flexion` as "mcp.flexion" | "pip.flexion" | "dip.flexion";
+      for (const view of sideModel.views) {
+        const stills = set.stills.filter((s) => s.model === handModel && s.truth.view === view);
+        const before: { truthDeg: number; estimateDeg: number | null }[] = [];
+        const after: { truthDeg: number; estimateDeg: number | null }[] = [];
+        const declinedRaw: { truthDeg: number; estimateDeg: number | null }[] = [];
+        const declinedAfter: { truthDeg: number; estimateDeg: number | null }[] = [];
+        let read = 0;
+        for (const still of stills) {
+          for (const digit of ESTIMATOR_FINGERS) {
+            const truthDeg = getPoseAngle(still.truth.commandedDeg, fingerPoseKey(digit, joint));
+            const push = (correctionModel: typeof CORRECTION_MODEL) =>
+              createLivePipeline({ motion, side: still.truth.side, digit, condition: "against_gravity", handModel: handModel as "lite" | "full", correctionModel }).push({
+                t: 0,
+                score: still.score ?? 0,
+                hand: still.hand ?? null,
+                image: still.image,
+                imageAspect: IMAGE_WIDTH_PX / IMAGE_HEIGHT_PX,
+              });
+            const b = push(engines.before);
+            const a = push(engines.after);
+            before.push({ truthDeg, estimateDeg: b.angleDeg });
+            after.push({ truthDeg, estimateDeg: a.angleDeg });
+            if (b.angleDeg !== null && !b.correctionVersion) {
+              declinedRaw.push({ truthDeg, estimateDeg: b.angleDeg });
+              declinedAfter.push({ truthDeg, estimateDeg: a.angleDeg });
+              if (a.correctionVersion) read += 1;
+            }
+          }
+        }
+        const b = summarizeErrors(before);
+        const a = summarizeErrors(after);
+        if (b.meanAbsoluteErrorDeg === null || a.meanAbsoluteErrorDeg === null) continue;
+        const dr = summarizeErrors(declinedRaw);
+        const da = summarizeErrors(declinedAfter);
+        const abs = (rows: typeof before) => rows.flatMap((r) => (r.estimateDeg === null ? [] : [Math.abs(r.estimateDeg - r.truthDeg)]));
+        const r1 = (x: number | null) => (x === null ? null : Math.round(x * 10) / 10);
+        const r2 = (x: number | null) => (x === null ? null : Math.round(x * 100) / 100);
+        cells.push({
+          group: GROUP_OF[joint],
+          view,
+          model: handModel,
+          samples: b.detected,
+          detectionRate: round(b.detectionRate),
+          beforeMaeDeg: r1(b.meanAbsoluteErrorDeg)!,
+          beforeSlope: r2(b.slope),
+          afterMaeDeg: r1(a.meanAbsoluteErrorDeg)!,
+          afterSlope: r2(a.slope),
+          declined: {
+            samples: declinedRaw.length,
+            rawMaeDeg: r1(dr.meanAbsoluteErrorDeg),
+            rawSlope: r2(dr.slope),
+            afterMaeDeg: r1(da.meanAbsoluteErrorDeg),
+            afterSlope: r2(da.slope),
+            rawP90Deg: r1(p90(abs(declinedRaw))),
+            afterP90Deg: r1(p90(abs(declinedAfter))),
+            readShare: Math.round((read / Math.max(1, declinedRaw.length)) * 1000) / 1000,
+            correctionHelps:
+              dr.meanAbsoluteErrorDeg !== null && da.meanAbsoluteErrorDeg !== null && correctionClearlyHelps(dr.meanAbsoluteErrorDeg, da.meanAbsoluteErrorDeg, declinedRaw.length),
+          },
+        });
+      }
+    }
+  }
+  return cells;
+}
+
+async function sideHoldout(values: Record<string, string | boolean | undefined>, model: HandShapeEstimatorModel, family: HandShapeFamily): Promise<void> {
+  const count = parseCount("count", values.count as string | undefined, family.holdoutCount);
+  const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
+  const set = await trackRenderedSet({
+    name: "hand-shapes-side",
+    seed: family.holdoutSeed,
+    count,
+    models: parseModels(values.models as string | undefined),
+    makeFrame: (frameSeed, index) => handShapeFrame(rigs, frameSeed, index, family.views),
+    reuse: Boolean(values.reuse),
+  });
+  const cells = await scoreSideHoldout(set, model);
+  const pct = (x: number) => `${Math.round(x * 100)}%`;
+  const lines = [
+    "| joint | view | model | samples | detected | engine MAE ° before → after | slope before → after | declined by the side fit | their raw MAE ° (slope, P90) | with the side-on fit (slope, P90) | read by it | clearly helps |",
+    "| --- | --- | --- | ---: | ---: | --- | --- | ---: | --- | --- | ---: | --- |",
+    ...cells.map(
+      (c) =>
+        `| ${c.group} | ${c.view} | ${c.model} | ${c.samples} | ${pct(c.detectionRate)} | ${fmt(c.beforeMaeDeg)} → ${fmt(c.afterMaeDeg)} | ${fmt(c.beforeSlope, 2)} → ${fmt(c.afterSlope, 2)} | ${c.declined.samples} | ${fmt(c.declined.rawMaeDeg)} (${fmt(c.declined.rawSlope, 2)}, ${fmt(c.declined.rawP90Deg)}) | ${fmt(c.declined.afterMaeDeg)} (${fmt(c.declined.afterSlope, 2)}, ${fmt(c.declined.afterP90Deg)}) | ${pct(c.declined.readShare)} | ${c.declined.correctionHelps ? "yes" : "no"} |`,
+    ),
+  ];
+  console.log(lines.join("\n"));
+  writeFileSync(
+    family.validationFile,
+    `${JSON.stringify({ seed: family.holdoutSeed, stills: count, trainingSets: model.trainingSets, rule: "declined.correctionHelps: on the frames the side-view estimator declines, held-out MAE with the side-on fit below raw by more than two standard errors (scripts/accuracy/derive-uncertainty.ts correctionClearlyHelps)", cells }, null, 2)}\n`,
+  );
+  console.error(`held-out cells -> ${family.validationFile}`);
+}
+
 async function holdout(values: Record<string, string | boolean | undefined>, model: HandShapeEstimatorModel, family: HandShapeFamily): Promise<void> {
+  if (family.name === "side") return sideHoldout(values, model, family);
   const count = parseCount("count", values.count as string | undefined, family.holdoutCount);
   const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
   const set = await trackRenderedSet({
@@ -666,7 +830,9 @@ async function main(): Promise<void> {
       return joint as FingerJoint;
     });
     const clipWeight = values["clip-weight"] === undefined ? undefined : parseClipWeight(String(values["clip-weight"]));
-    const model = fitHandShapeEstimator(values.sets.split(","), lambda, values["whole-hand"] ?? false, parseModels(values.models), family.views, { seeds: clipSeeds, views: clipViews, joints: clipJoints, weight: clipWeight }, Boolean(values.picture));
+    const fitted = fitHandShapeEstimator(values.sets.split(","), lambda, values["whole-hand"] ?? false, parseModels(values.models), family.views, { seeds: clipSeeds, views: clipViews, joints: clipJoints, weight: clipWeight }, Boolean(values.picture));
+    // The side-on fit reads only what the side-view estimator declines (vision/correction.ts correctGroupAngle).
+    const model: HandShapeEstimatorModel = family.name === "side" ? { ...fitted, onlyWhereSideFitDeclines: true } : fitted;
     writeFileSync(family.file, `${JSON.stringify(model, null, 2)}\n`);
     console.error(`hand-shape estimator -> ${family.file}`);
     return;

@@ -128,6 +128,13 @@ export const HAND_SHAPE_VIEWS: readonly CameraView[] = ["palm", "back", "oblique
  * view, and the first fit did not cover it.
  */
 export const HAND_SHAPE_DOWN_VIEWS: readonly CameraView[] = ["down"];
+/**
+ * The same shapes seen side-on, from the thumb side and the little-finger side, for the third whole-hand-shape fit
+ * (training seed 77000411, held-out seed 20261237). The side-view finger estimator was fitted on the test motions and
+ * stills of one joint's range; a whole fist seen side-on lies outside what it saw (its fingertips come nearer the
+ * knuckles than any training finger did), and it declines such frames.
+ */
+export const HAND_SHAPE_SIDE_VIEWS: readonly CameraView[] = ["radial", "ulnar"];
 /** Levels of each joint as a share of its range [low, high] per named shape. */
 const HAND_SHAPES: Record<string, Record<"mcp" | "pip" | "dip", readonly [number, number]>> = {
   open: { mcp: [0, 0.1], pip: [0, 0.1], dip: [0, 0.1] },

@@ -2,10 +2,10 @@
  * Renders and tracks a training set for the angle correction and saves it under tests/.cache/renders/tracked/, where
  * fit-correction.ts reads it. Refuses the validation seed.
  *
- *   npx tsx scripts/accuracy/track-training.ts --set motions|finger-motions|single-finger-motions|fingers|hand-shapes|hand-shapes-down --seed 77000002 --count 600 [--models lite,full]
+ *   npx tsx scripts/accuracy/track-training.ts --set motions|finger-motions|single-finger-motions|fingers|hand-shapes|hand-shapes-down|hand-shapes-side --seed 77000002 --count 600 [--models lite,full]
  */
 import { parseArgs } from "node:util";
-import { fingerFlexionFrame, HAND_SHAPE_DOWN_VIEWS, handShapeFrame, MOTION_SETS, motionFrame } from "./motion-sets";
+import { fingerFlexionFrame, HAND_SHAPE_DOWN_VIEWS, HAND_SHAPE_SIDE_VIEWS, handShapeFrame, MOTION_SETS, motionFrame } from "./motion-sets";
 import { loadHandRig } from "./rig-files";
 import { parseCount, parseModels, VALIDATION_SEED } from "./run-accuracy";
 import { FINGER_MOTION_SETS, singleFingerMotionSetFrame, trackRenderedSet, type SetFrame } from "./tracked-set";
@@ -36,6 +36,10 @@ export const TRAINING_SET_KINDS: Record<string, () => (frameSeed: number, index:
   "hand-shapes-down": () => {
     const r = rigs();
     return (frameSeed, index) => handShapeFrame(r, frameSeed, index, HAND_SHAPE_DOWN_VIEWS);
+  },
+  "hand-shapes-side": () => {
+    const r = rigs();
+    return (frameSeed, index) => handShapeFrame(r, frameSeed, index, HAND_SHAPE_SIDE_VIEWS);
   },
 };
 
