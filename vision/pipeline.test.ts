@@ -1,8 +1,10 @@
 import { describe, expect, it } from "vitest";
 import { DIGIT_CHAIN, LANDMARK_COUNT } from "./landmarks";
 import { createLivePipeline, measurementMethodWords } from "./pipeline";
-import { UNCERTAINTY_TABLE } from "./uncertainty";
-import { neutralPose, poseHand, withMotionAngle } from "./testing/synthetic-hand";
+import { handAxes, readMotion } from "./angles";
+import { CORRECTION_MODEL, CORRECTION_VERSION, correctGroupReading } from "./correction";
+import { UNCERTAINTY_TABLE, type UncertaintyTable } from "./uncertainty";
+import { neutralPose, pinholeFingerPicture, poseHand, withMotionAngle } from "./testing/synthetic-hand";
 
 // Forearm level along x, palm up for a right hand (see plane.test.ts): PIP flexion here works against gravity.
 const palmUp = { forearmDistal: [1, 0, 0] as const, forearmRadial: [0, 0, -1] as const, wrist: [0, 0, 0.5] as const };
@@ -95,5 +97,77 @@ describe("a stored attempt's method in words", () => {
     expect(measurementMethodWords("world3d+kinarc-correction-7")).toBe("hand landmarks, corrected (kinarc-correction-7)");
     expect(measurementMethodWords("image_plane+kinarc-correction-8")).toBe("read in the picture, the hand seen side-on, scaled by its fitted gain (kinarc-correction-8)");
     expect(measurementMethodWords(null)).toBe("—");
+  });
+});
+
+describe("a whole-hand shape seen side-on that the side-view estimator declines", () => {
+  // A right fist held with its little-finger side toward the camera (scripts/accuracy/scene.ts `ulnar`).
+  const ulnarSide = { forearmDistal: [0, -1, 0] as const, forearmRadial: [0, 0, 1] as const, wrist: [0, 0, 0.5] as const };
+  const fist = (() => {
+    const pose = neutralPose();
+    for (const f of ["index", "middle", "ring", "little"] as const) pose.fingers[f] = { ...pose.fingers[f], mcpFlexionDeg: 90, pipFlexionDeg: 100, dipFlexionDeg: 80 };
+    return poseHand(pose, "right", ulnarSide).landmarks;
+  })();
+  const picture = pinholeFingerPicture(fist);
+  const cellOf = (table: UncertaintyTable) => table.cells.find((c) => c.group === "PIP flexion" && c.model === "lite" && c.view === "ulnar")!;
+  /** The committed table with the ulnar PIP cell given declined-frame figures (hypothetical ones, wide enough to show). */
+  function tableWith(sideOnFitHelps: boolean): UncertaintyTable {
+    const cells = UNCERTAINTY_TABLE.cells.map((c) =>
+      c === cellOf(UNCERTAINTY_TABLE)
+        ? { ...c, declinedBySideFit: { samples: 400, rawMaeDeg: 30, rawP90Deg: 70, sideOnFitMaeDeg: 10, sideOnFitP90Deg: 35, sideOnFitHelps, rawUncertaintyDeg: 70, sideOnFitUncertaintyDeg: sideOnFitHelps ? 35 : null } }
+        : c,
+    );
+    return { ...UNCERTAINTY_TABLE, cells };
+  }
+  const read = (uncertaintyTable: UncertaintyTable) =>
+    createLivePipeline({ motion: "pip.flexion", side: "right", digit: "middle", condition: "against_gravity", handModel: "lite", uncertaintyTable }).push({
+      t: 0,
+      score: 0.95,
+      hand: fist,
+      image: picture.image,
+      imageAspect: picture.aspect,
+    });
+  const sideOnReading = () => {
+    const axes = handAxes(fist, "right")!;
+    const raw = readMotion("pip.flexion", "middle", fist, axes, null)!;
+    return correctGroupReading(
+      CORRECTION_MODEL,
+      "lite",
+      "PIP flexion",
+      { deg: raw.deg, imagePlaneDeg: raw.imagePlaneDeg, planeFacing: 1, radialTowardCamera: -axes.radialAxis[2], palmTowardCamera: -axes.palmarNormal[2], hand: fist, side: "right", axes, picture },
+      "middle",
+    );
+  };
+
+  it("is read by the side-on whole-hand-shape fit where held-out shapes showed it helps, with that fit's interval", () => {
+    const reading = sideOnReading();
+    expect(reading?.reader).toBe("side-on hand shape");
+    const update = read(tableWith(true));
+    expect(update.view).toBe("ulnar");
+    expect(update.angleDeg).toBeCloseTo(reading!.deg, 9);
+    expect(update.correctionVersion).toBe(CORRECTION_VERSION);
+    // Never narrower than the cell's own figure, and 35 here is wider.
+    expect(update.uncertaintyDeg).toBe(Math.max(35, cellOf(UNCERTAINTY_TABLE).uncertaintyDeg));
+  });
+
+  it("stays raw where it did not help, and then carries the declined frames' raw figure, not a test motion's", () => {
+    const update = read(tableWith(false));
+    const off = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "middle", condition: "against_gravity", handModel: "lite", correction: "off" }).push({
+      t: 0,
+      score: 0.95,
+      hand: fist,
+      image: picture.image,
+      imageAspect: picture.aspect,
+    });
+    expect(update.correctionVersion).toBeNull();
+    expect(update.angleDeg).toBeCloseTo(off.angleDeg!, 9);
+    expect(update.uncertaintyDeg).toBe(70);
+    expect(off.uncertaintyDeg!).toBeLessThan(70);
+  });
+
+  it("a capture of such frames states the widest interval its frames carried", () => {
+    const pipeline = createLivePipeline({ motion: "pip.flexion", side: "right", digit: "middle", condition: "against_gravity", handModel: "lite", uncertaintyTable: tableWith(false) });
+    for (let i = 0; i < 10; i++) pipeline.push({ t: i * 33, score: 0.95, hand: fist, image: picture.image, imageAspect: picture.aspect });
+    expect(pipeline.summary().uncertaintyDeg).toBeGreaterThanOrEqual(70);
   });
 });

@@ -302,3 +302,30 @@ describe("the peak's own figure (held-out clips' peak P90)", () => {
     for (const f of frames) expect(f.peak).toBeCloseTo((cell.uncertaintyDeg * 3 * f.frame) / cell.uncertaintyDeg, 0);
   });
 });
+
+describe("frames the side-view estimator declines (ValidationCell.declinedBySideFit)", () => {
+  const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === "PIP flexion" && c.model === "lite" && c.view === "radial")!;
+  const withFigure = (rawUncertaintyDeg: number, sideOnFitUncertaintyDeg: number | null): UncertaintyTable => ({
+    ...UNCERTAINTY_TABLE,
+    cells: [{ ...cell, declinedBySideFit: { samples: 50, rawMaeDeg: 1, rawP90Deg: 1, sideOnFitMaeDeg: 1, sideOnFitP90Deg: 1, sideOnFitHelps: sideOnFitUncertaintyDeg !== null, rawUncertaintyDeg, sideOnFitUncertaintyDeg } }],
+  });
+  const figure = (table: UncertaintyTable, method: "engine" | "raw" | "declined, raw" | "side-on hand shape") => angleUncertaintyDeg("pip.flexion", null, "lite", "radial", 1, table, method)!;
+
+  it("takes their own figure where it is wider than the cell's, and the cell's where it is not", () => {
+    const wide = withFigure(90, 60);
+    expect(figure(wide, "declined, raw")).toBe(90);
+    expect(figure(wide, "side-on hand shape")).toBe(60);
+    const narrow = withFigure(0.5, 0.5);
+    expect(figure(narrow, "declined, raw")).toBe(figure(narrow, "raw"));
+    expect(figure(narrow, "side-on hand shape")).toBe(figure(narrow, "engine"));
+    // Engine and raw frames are untouched by the declined figures.
+    expect(figure(wide, "engine")).toBe(figure(UNCERTAINTY_TABLE, "engine"));
+    expect(figure(wide, "raw")).toBe(figure(UNCERTAINTY_TABLE, "raw"));
+  });
+
+  it("without the figure, a declined frame keeps the raw one; a side-on fit frame without its own figure takes the raw declined one", () => {
+    const none: UncertaintyTable = { ...UNCERTAINTY_TABLE, cells: [{ ...cell, declinedBySideFit: undefined }] };
+    expect(figure(none, "declined, raw")).toBe(figure(none, "raw"));
+    expect(figure(withFigure(80, null), "side-on hand shape")).toBe(80);
+  });
+});

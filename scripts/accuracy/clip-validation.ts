@@ -68,6 +68,9 @@ export const CLIP_VALIDATION_SEEDS = [20_261_210, 20_261_209, 20_261_207, 20_261
 /** Said of each seed whose thumb-side finger rows were read again from saved tracking under engine analysis-7. */
 const REREAD_UNDER_ANALYSIS_7 =
   " With gravity minimized (thumb side), its finger clips' saved tracking was read again under engine analysis-7 (commit cd34a2a: the finger estimator's view fit follows the engine's view of the frame, chosen on calibration seeds 77000407-77000408), and those rows are that reading; its wrist rows stand as read before (the change does not touch the wrist).";
+/** Seeds whose saved finger clips were read again when the side-on whole-hand-shape fit went in. */
+const REREAD_UNDER_CORRECTION_9 =
+  " Under kinarc-correction-9 (the side-on whole-hand-shape fit reads frames the side-view estimator declines) the saved tracking of its finger clips was read again where this machine still had it (seed 20261222 in both test positions; seeds 20261210 and 20261207 with gravity minimized), and those rows are that reading; the rest stand as read before.";
 /** What each held-out seed was used for besides measuring: the honest provenance of its figures. */
 export const SEED_NOTES: Record<number, string> = {
   20261237:
@@ -105,7 +108,7 @@ export const SEED_NOTES: Record<number, string> = {
   20261224:
     "Rendered and tracked (gravity minimized, finger motions, both models) after engine analysis-7 (commit cd34a2a: the finger estimator's view fit follows the engine's view of the frame, chosen on calibration seeds 77000407-77000408) was committed, while the thumb-side intervals were re-derived under it; read once, after those were committed. Nothing is fitted on it.",
   20261222:
-    "The frame-rate check, read once: rendered and tracked (against gravity, finger and wrist motions, both models) at the clips' own 30 frames a second and again through every third frame (`--track-fps 10`, a camera at 10 frames a second), after the resting angle's settings were put in time (engine analysis-4, commit ed073b9). With gravity minimized (thumb side, finger and wrist motions, both models) it was rendered and tracked while the side-on view rule (engine analysis-5, commit 6611209) was being chosen on training seeds, and read once after it was committed, at 30 frames a second and tracked at 10; the analysis-4 reading at 30 was written aside before the change and read after. Read a second time under analysis-6 (commit 78935f7: oblique and from-above frames keep their 3-D view), a revision prompted by the real photos, not by this seed; these tables are that second reading. Nothing is fitted on it." + REREAD_UNDER_ANALYSIS_7,
+    "The frame-rate check, read once: rendered and tracked (against gravity, finger and wrist motions, both models) at the clips' own 30 frames a second and again through every third frame (`--track-fps 10`, a camera at 10 frames a second), after the resting angle's settings were put in time (engine analysis-4, commit ed073b9). With gravity minimized (thumb side, finger and wrist motions, both models) it was rendered and tracked while the side-on view rule (engine analysis-5, commit 6611209) was being chosen on training seeds, and read once after it was committed, at 30 frames a second and tracked at 10; the analysis-4 reading at 30 was written aside before the change and read after. Read a second time under analysis-6 (commit 78935f7: oblique and from-above frames keep their 3-D view), a revision prompted by the real photos, not by this seed; these tables are that second reading. Nothing is fitted on it." + REREAD_UNDER_ANALYSIS_7 + REREAD_UNDER_CORRECTION_9,
   20261221:
     "Rendered and tracked (against gravity, finger and wrist motions, both models) while the peak figures (clipPeakP90Deg from the clip reports' peak P90, one model and both together) were being committed; read once, after. Nothing is fitted on it." + REREAD_UNDER_ANALYSIS_7,
   20261218:
@@ -119,10 +122,10 @@ export const SEED_NOTES: Record<number, string> = {
   20261214:
     "Rendered and tracked after the one-finger handling (the therapist's `oneFinger`, the single-finger cells from report.md's stills) was committed; read once. Nothing is fitted on it.",
   20261210:
-    "Never looked at before these figures were written: rendered and tracked while the picture-feature fit (kinarc-correction-6) was being chosen on training seeds 77000401-77000405, read only after it was committed to." + REREAD_UNDER_ANALYSIS_7,
+    "Never looked at before these figures were written: rendered and tracked while the picture-feature fit (kinarc-correction-6) was being chosen on training seeds 77000401-77000405, read only after it was committed to." + REREAD_UNDER_ANALYSIS_7 + REREAD_UNDER_CORRECTION_9,
   20261209:
     "Read first under kinarc-correction-5 (rendered and tracked while it was chosen on training seeds 77000401-77000403, read after it was committed to); its wrist figures since moved with the side-on thumb-offset rule (10 mm).",
-  20261207: "Never looked at before these figures were written (rendered after the engine's depth mirror was settled)." + REREAD_UNDER_ANALYSIS_7,
+  20261207: "Never looked at before these figures were written (rendered after the engine's depth mirror was settled)." + REREAD_UNDER_ANALYSIS_7 + REREAD_UNDER_CORRECTION_9,
   20261205:
     "Looked at while developing the depth mirror (vision/depth-mirror.ts): its first rule, which anchored a clip on its first frame, turned one MCP clip here over and was replaced by the anatomical rule. Nothing was fitted on it.",
 };

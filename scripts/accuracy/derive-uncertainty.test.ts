@@ -19,6 +19,7 @@ import {
   readHandShapeRows,
   ONE_FINGER_CLIP_REPORT_FILES,
   REPORT_FILE,
+  withDeclinedFigures,
 } from "./derive-uncertainty";
 
 describe("uncertainty table from the accuracy report", () => {
@@ -26,10 +27,12 @@ describe("uncertainty table from the accuracy report", () => {
 
   it("the committed table is exactly what the committed report gives (re-run derive-uncertainty after the report)", () => {
     expect(deriveCommittedTable()).toEqual(UNCERTAINTY_TABLE);
-    // Without the clip reports' wrist rows and the one-finger reports, the rest of the table is the same.
-    const { withoutStraightWristReading, pairs, fingerAlone, ...cells } = UNCERTAINTY_TABLE;
+    // Without the clip reports' wrist rows, the one-finger reports and the side-on held-out rows, the rest of the table is the same.
+    const { withoutStraightWristReading, pairs, fingerAlone, cells, ...rest } = UNCERTAINTY_TABLE;
     const withoutLone = fingerAlone?.map((cell) => Object.fromEntries(Object.entries(cell).filter(([key]) => key !== "byDigit")));
-    expect(deriveUncertaintyTable(report, readHandShapeRows(), CORRECTION_VERSION, readClipRows(), null, readClipFingerRows())).toEqual({ ...cells, fingerAlone: withoutLone });
+    const withoutDeclined = cells.map((cell) => Object.fromEntries(Object.entries(cell).filter(([key]) => key !== "declinedBySideFit")));
+    expect(deriveUncertaintyTable(report, readHandShapeRows(), CORRECTION_VERSION, readClipRows(), null, readClipFingerRows())).toEqual({ ...rest, cells: withoutDeclined, fingerAlone: withoutLone });
+    expect(cells.filter((c) => c.declinedBySideFit).every((c) => c.view === "radial" || c.view === "ulnar")).toBe(true);
     // The one-finger reports give each finger they measured its own lone figure, from the little-finger side only
     // (the little finger from seeds 20261229-20261230 in every joint and model).
     const measured = parseClipFingerRows(ONE_FINGER_CLIP_REPORT_FILES.filter((f) => existsSync(f)).map((f) => readFileSync(f, "utf8")));
@@ -341,5 +344,29 @@ describe("uncertainty table from the accuracy report", () => {
   it("names the row whose MAE is not a number", () => {
     const broken = readFileSync(REPORT_FILE, "utf8").replace("| MCP flexion | radial | lite | 144 | 89% | 5.7 | 14.8 |", "| MCP flexion | radial | lite | 144 | 89% | 5.7 | abc |");
     expect(() => parseAccuracyReport(broken)).toThrow(/MCP flexion, radial, lite.*expected a number of degrees for MAE, got "abc"/);
+  });
+});
+
+describe("declined frames seen side-on (withDeclinedFigures, the side-on whole-hand shapes' held-out rows)", () => {
+  const cell = { ...UNCERTAINTY_TABLE.cells.find((c) => c.group === "MCP flexion" && c.view === "ulnar" && c.model === "full")!, declinedBySideFit: undefined };
+  const row = (correctionHelps: boolean, rawMaeDeg: number | null = 20) => ({
+    group: "MCP flexion",
+    view: "ulnar",
+    model: "full",
+    declined: { samples: 100, rawMaeDeg, rawP90Deg: rawMaeDeg === null ? null : 30, afterMaeDeg: 5, afterP90Deg: 12, correctionHelps },
+  });
+
+  it("gives the cell the normal rule on their MAE, never narrower than their P90, for raw and (where it helps) the side-on fit", () => {
+    const [out] = withDeclinedFigures([cell], [row(true)]);
+    // 2.06 x 20 = 41.2 is wider than the P90 of 30; 2.06 x 5 = 10.3 narrower than the P90 of 12.
+    expect(out.declinedBySideFit).toMatchObject({ samples: 100, sideOnFitHelps: true, rawUncertaintyDeg: 41.2, sideOnFitUncertaintyDeg: 12 });
+    expect(withDeclinedFigures([cell], [row(false)])[0].declinedBySideFit).toMatchObject({ sideOnFitHelps: false, sideOnFitUncertaintyDeg: null });
+    // The input cells are not changed.
+    expect(cell.declinedBySideFit).toBeUndefined();
+  });
+
+  it("adds nothing for a row with no declined frame, and refuses a row whose cell the table lacks", () => {
+    expect(withDeclinedFigures([cell], [row(true, null)])[0].declinedBySideFit).toBeUndefined();
+    expect(() => withDeclinedFigures([cell], [{ ...row(true), view: "palm" }])).toThrow(/no cell MCP flexion \| palm \| full/);
   });
 });

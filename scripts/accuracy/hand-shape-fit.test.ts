@@ -1,17 +1,18 @@
 import { describe, expect, it } from "vitest";
 import { handAxes, readMotion } from "@/vision/angles";
-import { HAND_SHAPE_MODEL } from "@/vision/correction";
+import { HAND_SHAPE_MODEL, HAND_SHAPE_SIDE_MODEL } from "@/vision/correction";
+import { UNCERTAINTY_TABLE } from "@/vision/uncertainty";
 import { correctionClearlyHelps } from "./derive-uncertainty";
 import { getPoseAngle } from "./hand-pose";
 import { FINGER_FEATURES } from "@/vision/estimator";
 import type { TrackedFrame } from "@/vision/live/types";
 import { neutralPose, pinholePicture, PINHOLE_ASPECT, poseHand } from "@/vision/testing/synthetic-hand";
 import { fingerSpreads, isWholeHandShape, WHOLE_HAND_FEATURES } from "@/vision/correction-hand-shape";
-import { assertTrainingSet, handShapeClipFrameSamples, handShapeClipNames, handSpreadRange, type HandShapeSample, scoreHoldout, type ShapeClipTruth } from "./hand-shape-fit";
+import { assertTrainingSet, handShapeClipFrameSamples, handShapeClipNames, handSpreadRange, type HandShapeSample, scoreHoldout, scoreSideHoldout, type ShapeClipTruth } from "./hand-shape-fit";
 import { restPose, setPoseAngle } from "./hand-pose";
-import { handShapeFrame } from "./motion-sets";
+import { HAND_SHAPE_SIDE_VIEWS, handShapeFrame } from "./motion-sets";
 import { loadHandRig } from "./rig-files";
-import { frameSeeds } from "./scene";
+import { frameSeeds, IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX } from "./scene";
 import type { TrackedSet } from "./tracked-set";
 
 const rigs = { left: loadHandRig("left"), right: loadHandRig("right") };
@@ -56,6 +57,42 @@ describe("the whole-hand-shape fit's guards and held-out scoring", () => {
       expect(c.estimatorShare).toBeGreaterThanOrEqual(0);
       expect(c.estimatorShare).toBeLessThanOrEqual(1);
     }
+  });
+});
+
+describe("the side-on fit's held-out scoring (scoreSideHoldout)", () => {
+  it("reads, through the live pipeline, only frames the side-view estimator declines, and measures the fit on them", async () => {
+    // A perfect tracker again: the rig's own landmarks and picture points, side-on whole-hand shapes.
+    const count = 40;
+    const frames = frameSeeds(11, count).map((seed, i) => handShapeFrame(rigs, seed, i, HAND_SHAPE_SIDE_VIEWS));
+    const set: TrackedSet = {
+      seed: 11,
+      count,
+      renderer: "none",
+      msPerFrame: 0,
+      stills: frames.map((f) => ({
+        truth: f.truth,
+        motion: f.motion,
+        model: "lite",
+        hand: f.truth.landmarksCameraM,
+        image: f.truth.landmarksImagePx.map(([x, y]) => [x / IMAGE_WIDTH_PX, y / IMAGE_HEIGHT_PX, 0] as [number, number, number]),
+        score: 1,
+      })),
+    };
+    // Against a table that has no declined-frame figures yet (as before the first held-out run): the fit must still be measured.
+    const before = { ...UNCERTAINTY_TABLE, cells: UNCERTAINTY_TABLE.cells.map((c) => ({ ...c, declinedBySideFit: undefined })) };
+    const cells = await scoreSideHoldout(set, { ...HAND_SHAPE_SIDE_MODEL, fits: { lite: HAND_SHAPE_SIDE_MODEL.fits.lite } }, before);
+    expect(cells).toHaveLength(6);
+    for (const c of cells) {
+      expect(c.declined.samples).toBeLessThanOrEqual(c.samples);
+      if (c.declined.rawMaeDeg !== null && c.declined.afterMaeDeg !== null) {
+        expect(c.declined.correctionHelps).toBe(correctionClearlyHelps(c.declined.rawMaeDeg, c.declined.afterMaeDeg, c.declined.samples));
+      }
+    }
+    // Curled shapes lie outside the side-view estimator's domain, so some frames are declined, and the fit reads them.
+    const declined = cells.reduce((n, c) => n + c.declined.samples, 0);
+    expect(declined).toBeGreaterThan(0);
+    expect(cells.some((c) => c.declined.readShare > 0)).toBe(true);
   });
 });
 

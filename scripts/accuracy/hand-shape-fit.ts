@@ -38,6 +38,7 @@ import type { Side } from "@/lib/motions/catalog";
 import { handAxes } from "@/vision/angles";
 import type { TrackedFrame } from "@/vision/live/types";
 import type { ValidationView } from "@/vision/correction-views";
+import type { UncertaintyTable } from "@/vision/uncertainty";
 import {
   CURL_FEATURE_INDEXES,
   estimateHandShapeJointDeg,
@@ -611,13 +612,24 @@ function p90(values: readonly number[]): number | null {
 }
 
 /** Scores a tracked held-out set of side-on whole-hand shapes with and without the side-on fit, through the live pipeline. */
-export async function scoreSideHoldout(set: TrackedSet, sideModel: HandShapeEstimatorModel): Promise<SideHandShapeCell[]> {
+export async function scoreSideHoldout(set: TrackedSet, sideModel: HandShapeEstimatorModel, baseTable?: UncertaintyTable): Promise<SideHandShapeCell[]> {
   const { createLivePipeline } = await import("@/vision/pipeline");
   const { CORRECTION_MODEL } = await import("@/vision/correction");
+  const UNCERTAINTY_TABLE = baseTable ?? (await import("@/vision/uncertainty")).UNCERTAINTY_TABLE;
   const others = (CORRECTION_MODEL.handShapeEstimators ?? []).filter((m) => !m.onlyWhereSideFitDeclines);
+  // The engine reads a declined frame with the side-on fit only where the table says it helps (sideOnFitHelps); to
+  // measure the fit, "after" opens that gate in every side-on cell (the interval figures are not read here).
+  const gateOpen = {
+    ...UNCERTAINTY_TABLE,
+    cells: UNCERTAINTY_TABLE.cells.map((c) =>
+      sideModel.views.includes(c.view)
+        ? { ...c, declinedBySideFit: { samples: 0, rawMaeDeg: 0, rawP90Deg: 0, sideOnFitMaeDeg: null, sideOnFitP90Deg: null, sideOnFitHelps: true, rawUncertaintyDeg: 0, sideOnFitUncertaintyDeg: null } }
+        : c,
+    ),
+  };
   const engines = {
-    before: { ...CORRECTION_MODEL, handShapeEstimators: others },
-    after: { ...CORRECTION_MODEL, handShapeEstimators: [...others, sideModel] },
+    before: { correctionModel: { ...CORRECTION_MODEL, handShapeEstimators: others }, uncertaintyTable: UNCERTAINTY_TABLE },
+    after: { correctionModel: { ...CORRECTION_MODEL, handShapeEstimators: [...others, sideModel] }, uncertaintyTable: gateOpen },
   };
   const cells: SideHandShapeCell[] = [];
   for (const handModel of Object.keys(sideModel.fits)) {
@@ -633,8 +645,8 @@ export async function scoreSideHoldout(set: TrackedSet, sideModel: HandShapeEsti
         for (const still of stills) {
           for (const digit of ESTIMATOR_FINGERS) {
             const truthDeg = getPoseAngle(still.truth.commandedDeg, fingerPoseKey(digit, joint));
-            const push = (correctionModel: typeof CORRECTION_MODEL) =>
-              createLivePipeline({ motion, side: still.truth.side, digit, condition: "against_gravity", handModel: handModel as "lite" | "full", correctionModel }).push({
+            const push = (engine: (typeof engines)["before"]) =>
+              createLivePipeline({ motion, side: still.truth.side, digit, condition: "against_gravity", handModel: handModel as "lite" | "full", ...engine }).push({
                 t: 0,
                 score: still.score ?? 0,
                 hand: still.hand ?? null,
