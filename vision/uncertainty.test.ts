@@ -213,7 +213,8 @@ describe("tracking confidence [our rule]", () => {
     expect(trackingFactor(0.5)).toBeCloseTo(2, 9);
     const cell = UNCERTAINTY_TABLE.cells.find((c) => c.group === "PIP flexion" && c.model === "lite" && c.view === "ulnar")!;
     // Stated to a tenth of a degree.
-    expect(angleUncertaintyDeg("pip.flexion", "ring", "lite", "ulnar", 0.7)).toBe(Math.round(cell.uncertaintyDeg * 1.5 * 10) / 10);
+    expect(angleUncertaintyDeg("pip.flexion", "ring", "lite", "ulnar", 0.7)).toBe(Math.round((digitFigure(cell, "ring")?.uncertaintyDeg ?? cell.uncertaintyDeg) * 1.5 * 10) / 10);
+    expect(angleUncertaintyDeg("pip.flexion", null, "lite", "ulnar", 0.7)).toBe(Math.round(cell.uncertaintyDeg * 1.5 * 10) / 10);
   });
 });
 

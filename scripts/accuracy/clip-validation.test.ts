@@ -25,13 +25,16 @@ import {
   summarizeClipReadings,
   withoutStraightWristRows,
   withTurnIn,
+  withDipFollowing,
   planSweep,
   TURN_IN_SECONDS,
   type ClipReading,
 } from "./clip-validation";
 import { parseClipFingerRows, parseWithoutStraightWrist } from "./derive-uncertainty";
 import { restPose, setPoseAngle } from "./hand-pose";
-import { sweepAnglesDeg } from "./sweep";
+import { buildSweepFrames, sweepAnglesDeg, validateSweepOptions } from "./sweep";
+import { getPoseAngle } from "./hand-pose";
+import { loadHandRig } from "./rig-files";
 import type { FrameTruth } from "./scene";
 
 describe("turn-in clips", () => {
@@ -55,6 +58,38 @@ describe("turn-in clips", () => {
     const fingers = planClips(77000410, 2, "gravity_minimized", ["mcp.flexion"]);
     expect(() => withTurnIn(fingers, 77000410, 0)).toThrow(/^--turn-in: expected whole degrees from 1 to 90; got '0'/);
     expect(() => withTurnIn(fingers, 77000410, 12.5)).toThrow(/^--turn-in: expected whole degrees/);
+  });
+});
+
+describe("PIP clips whose DIP bends along (--dip-follows)", () => {
+  it("names the clips apart and bends each finger's DIP at the ratio of its PIP, the PIP as in the plain clip", () => {
+    const plans = planClips(77000412, 2, "against_gravity", ["pip.flexion"]);
+    const following = withDipFollowing(plans, 77000412, 0.7);
+    expect(following.map((p) => p.name)).toEqual(plans.map((p) => p.name.replace("-77000412-", "-dip70-77000412-")));
+    const rig = loadHandRig(plans[0].side);
+    const plain = buildSweepFrames(rig, planSweep(plans[0]));
+    const bent = buildSweepFrames(rig, planSweep(following[0]));
+    expect(bent).toHaveLength(plain.length);
+    let deepest = 0;
+    bent.forEach((frame, i) => {
+      for (const finger of ["index", "middle", "ring", "little"] as const) {
+        const pip = getPoseAngle(frame.truth.commandedDeg, `${finger}.pipFlexionDeg`);
+        expect(pip).toBeCloseTo(getPoseAngle(plain[i].truth.commandedDeg, `${finger}.pipFlexionDeg`), 9);
+        expect(getPoseAngle(frame.truth.commandedDeg, `${finger}.dipFlexionDeg`)).toBeCloseTo(0.7 * pip, 9);
+        expect(getPoseAngle(plain[i].truth.commandedDeg, `${finger}.dipFlexionDeg`)).toBe(0);
+        deepest = Math.max(deepest, pip);
+      }
+    });
+    expect(deepest).toBeGreaterThanOrEqual(60);
+  });
+
+  it("refuses other motions and ratios outside (0, 1.5], and a follower list that does not pair with the swept joints", () => {
+    expect(() => withDipFollowing(planClips(77000412, 2, "against_gravity", ["mcp.flexion"]), 77000412, 0.7)).toThrow(/^--dip-follows: expected PIP flexion clips only.*got mcp\.flexion/);
+    const pip = planClips(77000412, 2, "against_gravity", ["pip.flexion"]);
+    expect(() => withDipFollowing(pip, 77000412, 0)).toThrow(/^--dip-follows: expected a ratio above 0 and at most 1.5; got '0'/);
+    const options = planSweep(withDipFollowing(pip, 77000412, 0.7)[0]);
+    expect(() => validateSweepOptions({ ...options, followers: { joints: options.followers!.joints.slice(1), ratio: 0.7 } })).toThrow(/^followers\.joints: expected one per swept joint \(4\); got 3/);
+    expect(() => validateSweepOptions({ ...options, followers: { joints: options.joints, ratio: 0.7 } })).toThrow(/is swept already/);
   });
 });
 

@@ -11,7 +11,7 @@
  *
  *   npx tsx scripts/accuracy/model-agreement.ts --seeds 77000401,77000402 [--motions pip.flexion,mcp.flexion]
  *     [--condition against_gravity|gravity_minimized] [--clips 10] [--per-reading] [--fps N] [--out FILE]
- *     [--framing setup|filter]
+ *     [--framing setup|filter] [--dip-follows 0.7]
  *
  * `--fps N` (below the clips' own 30) reads only the frames a camera at N frames a second would have given, as live
  * tracking with both models delivers fewer frames than a clip has. An approximation: the saved tracking followed every
@@ -38,6 +38,7 @@ import {
   peakErrorP90,
   parseFraming,
   planClips,
+  withDipFollowing,
   readClip,
   readSavedTracking,
   setupAccepts,
@@ -174,8 +175,11 @@ async function main(): Promise<void> {
       "tracked-fps": { type: "string" },
       out: { type: "string" },
       framing: { type: "string" },
+      "dip-follows": { type: "string" },
     },
   });
+  // --dip-follows 0.7: the PIP clips clip-validation.ts rendered with each finger's DIP bending along (named `-dip70-`).
+  const dipFollows = values["dip-follows"] === undefined ? null : Number(values["dip-follows"]);
   const framing = parseFraming(values.framing);
   if (!values.seeds) throw new Error("--seeds: expected a comma-separated list of seeds, e.g. 77000401,77000402");
   const seeds = values.seeds.split(",").map((raw) => parseCount("seeds", raw, 0));
@@ -187,7 +191,7 @@ async function main(): Promise<void> {
   const trackedFps = parseTrackFps(values["tracked-fps"]);
   if (fps !== null && trackedFps !== null) throw new Error("--fps and --tracked-fps: expected one of them");
   const lines: string[] = [];
-  lines.push(`## Seeds ${seeds.join(", ")}, ${condition.replace("_", " ")}${fps === null ? "" : `, read at ${fps} frames a second`}${trackedFps === null ? "" : `, tracked at ${trackedFps} frames a second`}${framing === null ? "" : `, framing ${framing}`}\n`);
+  lines.push(`## Seeds ${seeds.join(", ")}${dipFollows === null ? "" : ` (the DIP bending along at ${dipFollows} of the PIP)`}, ${condition.replace("_", " ")}${fps === null ? "" : `, read at ${fps} frames a second`}${trackedFps === null ? "" : `, tracked at ${trackedFps} frames a second`}${framing === null ? "" : `, framing ${framing}`}\n`);
   lines.push("| motion | seed | reading | readings | detected | MAE ° | slope | within stated ± | peak MAE ° | worst peak error ° | peak P90 ° | frame P90 ° | peak within stated ± | models disagree (> " + PEAK_DISAGREEMENT_DEG + "°) | issue 8's bars |");
   lines.push("| --- | --- | --- | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | ---: | --- |");
   const perReading: string[] = [];
@@ -206,7 +210,8 @@ async function main(): Promise<void> {
     };
     for (const seed of seeds) {
       const folder = path.join(RENDER_OUTPUT_ROOT, "clip-validation", String(seed));
-      const drawn = planClips(seed, clips, condition, [motion], undefined, false, framing);
+      const planned = planClips(seed, clips, condition, [motion], undefined, false, framing);
+      const drawn = dipFollows === null ? planned : withDipFollowing(planned, seed, dipFollows);
       // --framing: only the clips the set-up check would let start (clip-validation.ts setupAccepts).
       const plans = framing ? drawn.filter((plan) => setupAccepts(plan, JSON.parse(readFileSync(path.join(folder, `${plan.name}.json`), "utf8")) as ClipTruthFile)) : drawn;
       if (framing) framingNotes.push(`${motion} ${seed}: ${plans.length} of ${drawn.length} clips`);

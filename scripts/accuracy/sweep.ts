@@ -53,6 +53,11 @@ export interface SweepOptions {
    */
   turnInDeg?: number;
   turnInSeconds?: number;
+  /**
+   * Joints that bend along with the swept ones, each at `ratio` times the swept angle (e.g. each finger's DIP with its
+   * PIP, as it does in most people's active finger flexion). Paired with `joints` by position. None when omitted.
+   */
+  followers?: { joints: readonly PoseKey[]; ratio: number };
 }
 
 /** Checks options from the command line or a caller; every message names the field and what it expects. */
@@ -88,6 +93,15 @@ export function validateSweepOptions(options: SweepOptions): SweepOptions {
     if (!(Number.isFinite(options.turnInSeconds) && options.turnInSeconds! > 0)) {
       throw new Error(`turnInSeconds: expected a positive number of seconds with turnInDeg; got ${options.turnInSeconds}`);
     }
+  }
+  if (options.followers) {
+    const { joints, ratio } = options.followers;
+    if (joints.length !== options.joints.length) throw new Error(`followers.joints: expected one per swept joint (${options.joints.length}); got ${joints.length}`);
+    for (const joint of joints) {
+      if (!POSE_KEYS.includes(joint)) throw new Error(`followers.joints: expected some of ${POSE_KEYS.join(", ")}; got '${joint}'`);
+      if (options.joints.includes(joint)) throw new Error(`followers.joints: '${joint}' is swept already`);
+    }
+    if (!(Number.isFinite(ratio) && ratio > 0 && ratio <= 1.5)) throw new Error(`followers.ratio: expected a number above 0 and at most 1.5; got ${ratio}`);
   }
   return options;
 }
@@ -130,14 +144,18 @@ export function buildSweepFrames(rig: HandRig, rawOptions: SweepOptions): SweepF
   const turns = options.turnInDeg ? turnInOffsetsDeg(options.turnInDeg, Math.round(options.turnInSeconds! * options.fps)) : [];
   const angles = [...turns.map(() => options.fromDeg), ...held, ...sweepAnglesDeg(options.fromDeg, options.toDeg, options.cycles, framesPerCycle)];
   // Aim at the hand halfway through the motion so it stays in view at both ends.
+  const setSwept = (pose: HandPose, angleDeg: number) => {
+    for (const joint of options.joints) setPoseAngle(pose, joint, angleDeg);
+    for (const joint of options.followers?.joints ?? []) setPoseAngle(pose, joint, options.followers!.ratio * angleDeg);
+  };
   const middlePose = clonePose(base);
-  for (const joint of options.joints) setPoseAngle(middlePose, joint, (options.fromDeg + options.toDeg) / 2);
+  setSwept(middlePose, (options.fromDeg + options.toDeg) / 2);
   const centre = handCentre(poseHand(rig, middlePose));
   const camera = placeCamera(options.side, placement, centre);
   const palmward = palmwardAzimuthSign(options.side, options.view);
   return angles.map((angleDeg, index) => {
     const pose = clonePose(base);
-    for (const joint of options.joints) setPoseAngle(pose, joint, angleDeg);
+    setSwept(pose, angleDeg);
     const turned = index < turns.length ? { ...placement, azimuthJitterDeg: placement.azimuthJitterDeg + palmward * turns[index] } : null;
     const { spec, truth } = turned ? buildFrame(rig, pose, placeCamera(options.side, turned, centre), turned, look) : buildFrame(rig, pose, camera, placement, look);
     return { index, timeMs: (index * 1000) / options.fps, spec, truth };
