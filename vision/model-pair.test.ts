@@ -5,7 +5,7 @@ import { analyzeCapture } from "./analyze-capture";
 import { analyzeCapturePair, combineFrame, PEAK_DISAGREEMENT_DEG } from "./model-pair";
 import { pairPeakUncertaintyDeg, pairUncertaintyDeg, trackingFactor, UNCERTAINTY_TABLE, VALIDATION_VIEWS, type UncertaintyTable } from "./uncertainty";
 import type { LiveUpdate } from "./pipeline";
-import { buildSyntheticCapture, randomPlacement, SeededRandom, type SyntheticCaptureSpec } from "./testing/synthetic-hand";
+import { buildSyntheticCapture, neutralPose, PINHOLE_ASPECT, pinholePicture, poseHand, randomPlacement, SeededRandom, type SyntheticCaptureSpec } from "./testing/synthetic-hand";
 
 // Synthetic hands have exact landmarks, so these run with the correction off (as vision/analyze-capture.test.ts).
 const RAW = { correction: "off" } as const;
@@ -169,6 +169,32 @@ describe("one clip read by two hand models", () => {
     const alone = analyzeCapturePair({ capture: { ...one, oneFinger: true }, handModel: "lite" }, { capture: { ...two, oneFinger: true }, handModel: "full" }, options);
     const aloneRule = analyzeCapturePair({ capture: { ...one, oneFinger: true }, handModel: "lite" }, { capture: { ...two, oneFinger: true }, handModel: "full" }, { uncertaintyTable: { ...table, pairs: [] } });
     expect(alone.frameReadings).toEqual(aloneRule.frameReadings);
+  });
+
+  it("does not stand the test motions' two-model figure for frames the side-view estimator declined (a fist seen side-on)", () => {
+    // A right fist, little-finger side toward the camera: outside the side-view estimator's domain.
+    const pose = neutralPose();
+    for (const f of ["index", "middle", "ring", "little"] as const) pose.fingers[f] = { ...pose.fingers[f], mcpFlexionDeg: 90, pipFlexionDeg: 100, dipFlexionDeg: 80 };
+    const fist = poseHand(pose, "right", { forearmDistal: [0, -1, 0], forearmRadial: [0, 0, 1], wrist: [0, 0, 0.5] }).landmarks;
+    const picture = pinholePicture(fist).map(([x, y]) => [x, y] as [number, number]);
+    const base = buildSyntheticCapture({ ...pipSpec(80, 13), side: "right", digit: "middle" });
+    const capture = { ...base, imageAspect: PINHOLE_ASPECT, frames: base.frames.slice(0, 30).map((f) => ({ ...f, score: 0.95, hand: fist, image: picture })) };
+    // Every PIP cell: a measured two-model figure of 3.3°, and declined frames whose raw figure is 70° (the side-on fit not used).
+    const table: UncertaintyTable = {
+      ...UNCERTAINTY_TABLE,
+      cells: UNCERTAINTY_TABLE.cells.map((c) =>
+        c.group === "PIP flexion" && (c.view === "ulnar" || c.view === "radial")
+          ? { ...c, declinedBySideFit: { samples: 100, rawMaeDeg: 30, rawP90Deg: 70, sideOnFitMaeDeg: null, sideOnFitP90Deg: null, sideOnFitHelps: false, rawUncertaintyDeg: 70, sideOnFitUncertaintyDeg: null } }
+          : c,
+      ),
+      pairs: VALIDATION_VIEWS.map((view) => ({ group: "PIP flexion", view, models: ["lite", "full"], seeds: 1, clipMaeDeg: 1.6, uncertaintyDeg: 3.3 })),
+    };
+    const out: LiveUpdate[] = [];
+    analyzeCapture(capture, { uncertaintyTable: table, handModel: "lite", onUpdate: (u) => out.push(u) });
+    expect(out.every((u) => u.intervalMethod === "declined, raw")).toBe(true);
+    const pair = analyzeCapturePair({ capture, handModel: "lite" }, { capture, handModel: "full" }, { uncertaintyTable: table });
+    for (const reading of pair.frameReadings) expect(reading.uncertaintyDeg).toBeGreaterThanOrEqual(70);
+    expect(pair.uncertaintyDeg).toBeGreaterThanOrEqual(70);
   });
 
   it("takes a finger's own two-model figure where the cell is split by finger (thumb side)", () => {

@@ -107,6 +107,10 @@ export function analyzeCapturePair(first: ModelCapture, second: ModelCapture, op
   const measurable = options.correction !== "off" && a.oneFinger !== true;
   const measured = (view: ValidationView | null, score: number) =>
     measurable ? pairUncertaintyDeg(a.motion, a.digit, view, score, options.uncertaintyTable) : null;
+  // The two-model figures were measured on test motions; a frame the side-view estimator declined (a fist seen side-on,
+  // say) carries its own wider figure in each model, so there the pair takes the one-model rule instead.
+  const declined = (u: LiveUpdate) => u.intervalMethod === "declined, raw" || u.intervalMethod === "side-on hand shape";
+  const anyDeclined = [...one.updates, ...two.updates].some(declined);
 
   // Repetitions found again on the combined angles, as the pipeline finds them on one model's.
   const filter = new OneEuroFilter(options.filter);
@@ -121,7 +125,7 @@ export function analyzeCapturePair(first: ModelCapture, second: ModelCapture, op
   one.updates.forEach((u, i) => {
     const v = two.updates[i];
     segmenter.frame(u.t);
-    const reading = combineFrame(u, v, u.view === v.view ? measured(u.view, Math.min(u.score, v.score)) : null);
+    const reading = combineFrame(u, v, u.view === v.view && !declined(u) && !declined(v) ? measured(u.view, Math.min(u.score, v.score)) : null);
     frameReadings.push(reading);
     qualities.push(reading.angleDeg !== null ? "ok" : u.quality);
     if (reading.angleDeg === null) {
@@ -153,7 +157,7 @@ export function analyzeCapturePair(first: ModelCapture, second: ModelCapture, op
   // The measured two-model figure for the peak: the frame figure at the lower mean score, never narrower than the
   // held-out two-model peaks' own (pairPeakUncertaintyDeg).
   const peakScore = Math.min(x.meanScore, y.meanScore);
-  const peakFrameFigure = stated.length === 2 && x.view === y.view ? measured(x.view, peakScore) : null;
+  const peakFrameFigure = stated.length === 2 && x.view === y.view && !anyDeclined ? measured(x.view, peakScore) : null;
   const peakMeasured = peakFrameFigure === null ? null : Math.max(peakFrameFigure, pairPeakUncertaintyDeg(a.motion, a.digit, x.view, peakScore, options.uncertaintyTable) ?? 0);
   // Framing and the test plane are judged once for the pair (each model's own verdict dropped): framing on both
   // models' start frames together, the plane on the combined reading, so a reading never carries two framing notes

@@ -120,6 +120,12 @@ export interface LiveUpdate {
    * than the held-out peaks' figure for this view and score (peakUncertaintyDeg); the summary's figure for the capture.
    */
   peakUncertaintyDeg: number | null;
+  /**
+   * Which held-out figure the frame's interval came from (vision/uncertainty.ts UncertaintyMethod); absent for a
+   * skipped frame. A frame the side-view estimator declined ("declined, raw", "side-on hand shape") is not a test
+   * motion's, so figures measured on test motions (both models read together) do not stand for it.
+   */
+  intervalMethod?: UncertaintyMethod;
   /** The camera view the frame's hand axes point to (scripts/accuracy views), null when the frame was skipped. */
   view: ValidationView | null;
   /** How that view serves the motion and test position (vision/view-policy.ts), null when the frame was skipped. */
@@ -420,6 +426,7 @@ export function createLivePipeline(options: LivePipelineOptions): LivePipeline {
       uncertaintyDeg: frameUncertainty,
       // A wrist read in the picture keeps the raw frame figure (no held-out cell reads it) but the engine's peaks.
       peakUncertaintyDeg: atLeastPeakFigure(frameUncertainty, view, score, correctedFrame && intervalMethod === "raw" ? "engine" : intervalMethod),
+      intervalMethod,
       view,
       viewQuality: viewQuality(policy, view),
       forearmSource: forearm?.source ?? null,
