@@ -379,8 +379,13 @@ export interface DeclinedRow {
 
 /** The committed side-on held-out rows, or none when the file has not been written. */
 export function readDeclinedRows(file: string = HAND_SHAPE_SIDE_VALIDATION_FILE): DeclinedRow[] {
+  return readHeldOutCells<DeclinedRow>(file);
+}
+
+/** The "cells" of a committed held-out file (hand-shape-fit.ts holdout), or none when the file has not been written. */
+function readHeldOutCells<T>(file: string): T[] {
   if (!existsSync(file)) return [];
-  const parsed = JSON.parse(readFileSync(file, "utf8")) as { cells?: DeclinedRow[] };
+  const parsed = JSON.parse(readFileSync(file, "utf8")) as { cells?: T[] };
   if (!Array.isArray(parsed.cells)) throw new Error(`${file}: expected "cells", a list of held-out rows`);
   return parsed.cells;
 }
@@ -656,12 +661,7 @@ export function deriveUncertaintyTable(
 
 /** The committed hand-shape held-out rows, or none when the file has not been written. */
 export function readHandShapeRows(files: readonly string[] = HAND_SHAPE_VALIDATION_FILES): HandShapeRow[] {
-  return files.flatMap((file) => {
-    if (!existsSync(file)) return [];
-    const parsed = JSON.parse(readFileSync(file, "utf8")) as { cells?: HandShapeRow[] };
-    if (!Array.isArray(parsed.cells)) throw new Error(`${file}: expected "cells", a list of held-out rows`);
-    return parsed.cells;
-  });
+  return files.flatMap((file) => readHeldOutCells<HandShapeRow>(file));
 }
 
 /** The table the committed reports give (what `main` writes and the committed table must equal). */

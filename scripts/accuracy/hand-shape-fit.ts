@@ -76,7 +76,7 @@ import { clipFolder, FIRST_TRAINING_SEED, mirroredClipFrames, trackedClipNames }
 import { IMAGE_HEIGHT_PX, IMAGE_WIDTH_PX, type FrameTruth } from "./scene";
 import { loadHandRig } from "./rig-files";
 import { parseCount, parseModels } from "./run-accuracy";
-import { summarizeErrors, type ErrorSummary } from "./stats";
+import { nearestRankPercentile, summarizeErrors, type ErrorSummary } from "./stats";
 import { trackRenderedSet, type TrackedSet } from "./tracked-set";
 import { stillPicture, type TrackedStill } from "./report";
 
@@ -605,12 +605,6 @@ export interface SideHandShapeCell {
   };
 }
 
-function p90(values: readonly number[]): number | null {
-  if (!values.length) return null;
-  const sorted = [...values].sort((a, b) => a - b);
-  return sorted[Math.min(sorted.length - 1, Math.ceil(0.9 * sorted.length) - 1)];
-}
-
 /** Scores a tracked held-out set of side-on whole-hand shapes with and without the side-on fit, through the live pipeline. */
 export async function scoreSideHoldout(set: TrackedSet, sideModel: HandShapeEstimatorModel, baseTable?: UncertaintyTable): Promise<SideHandShapeCell[]> {
   const { createLivePipeline } = await import("@/vision/pipeline");
@@ -688,8 +682,8 @@ export async function scoreSideHoldout(set: TrackedSet, sideModel: HandShapeEsti
             rawSlope: r2(dr.slope),
             afterMaeDeg: r1(da.meanAbsoluteErrorDeg),
             afterSlope: r2(da.slope),
-            rawP90Deg: r1(p90(abs(declinedRaw))),
-            afterP90Deg: r1(p90(abs(declinedAfter))),
+            rawP90Deg: r1(nearestRankPercentile(abs(declinedRaw), 0.9)),
+            afterP90Deg: r1(nearestRankPercentile(abs(declinedAfter), 0.9)),
             readShare: Math.round((read / Math.max(1, declinedRaw.length)) * 1000) / 1000,
             correctionHelps:
               dr.meanAbsoluteErrorDeg !== null && da.meanAbsoluteErrorDeg !== null && correctionClearlyHelps(dr.meanAbsoluteErrorDeg, da.meanAbsoluteErrorDeg, declinedRaw.length),
