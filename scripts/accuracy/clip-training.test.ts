@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { FINGER_FEATURES, PICTURE_FEATURES } from "@/vision/estimator";
 import { neutralPose, PINHOLE_ASPECT, pinholePicture, poseHand, type Placement } from "@/vision/testing/synthetic-hand";
 import type { TrackedFrame } from "@/vision/live/types";
-import { clipFingerSamples, clipFrameSamples } from "./clip-training";
+import { clipFingerSamples, clipFrameSamples, clipShapeOf, clipShapeOfName } from "./clip-training";
 import { restPose, setPoseAngle } from "./hand-pose";
 import type { FrameTruth } from "./scene";
 
@@ -59,6 +59,19 @@ describe("finger estimator training samples from tracked clips", () => {
     expect(clipFrameSamples("pip.flexion-77000401-0-1", "lite", gappy, truth, 1).map((s) => s.stillId)).not.toContain("clip:pip.flexion-77000401-0-1#0");
     expect(() => clipFrameSamples("pip.flexion-77000401-0-1", "lite", frames.slice(1), truth, 1)).toThrow(/tracked 2 frames, the clip has 3/);
     expect(() => clipFrameSamples("wrist.flexion-77000401-0-1", "lite", frames, truth, 1)).toThrow(/expected a finger clip/);
+  });
+
+  it("tells a PIP clip whose DIP bends along from one bent alone, by the name clip-validation gives it", () => {
+    expect(clipShapeOfName("pip.flexion-77000401-0-123")).toBe("alone");
+    expect(clipShapeOfName("pip.flexion-gm-77000401-0-123")).toBe("alone");
+    expect(clipShapeOfName("pip.flexion-dip70-77000401-0-123")).toBe("dip-follows");
+    expect(clipShapeOfName("pip.flexion-gm-dip70-77000401-0-123")).toBe("dip-follows");
+    expect(clipShapeOfName("pip.flexion-palm-77000501-0-123")).toBeNull();
+    const { frames, truth } = clip([0, 30, 60]);
+    const samples = clipFrameSamples("pip.flexion-dip70-77000401-0-9", "lite", frames, truth, 1);
+    expect(samples.length).toBe(12);
+    expect(samples.every((s) => s.motion === "pip.flexion" && clipShapeOf(s) === "dip-follows")).toBe(true);
+    expect(clipShapeOf({ stillId: "motions-77000001-600#4" })).toBeNull();
   });
 
   it("never reads a held-out seed", () => {

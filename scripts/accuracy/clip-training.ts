@@ -26,12 +26,26 @@ export const FIRST_TRAINING_SEED = 77_000_000;
 
 /**
  * Finger test motions: clip-validation names them `<motion>-<seed>-<i>-<clipSeed>` against gravity (seen from the
- * little-finger side) and `<motion>-gm-<seed>-...` with gravity minimized (the thumb side, from above).
+ * little-finger side) and `<motion>-gm-<seed>-...` with gravity minimized (the thumb side, from above); a PIP clip
+ * whose DIP bends along (`--dip-follows 0.7`) carries `dip70-` before its seed.
  */
-const CLIP_NAME = /^(mcp|pip|dip)\.flexion-(gm-)?(\d+)-\d+-\d+$/;
+const CLIP_NAME = /^(mcp|pip|dip)\.flexion-(gm-)?(dip\d+-)?(\d+)-\d+-\d+$/;
 
 export const CLIP_CONDITIONS = ["against_gravity", "gravity_minimized"] as const;
 export type ClipCondition = (typeof CLIP_CONDITIONS)[number];
+
+/**
+ * The shape of a finger clip: the tested joint bent `alone` (the test position holds the finger's other joints
+ * straight), or a PIP clip whose DIP bends along with it (`dip-follows`), as most people bend a finger.
+ */
+export const CLIP_SHAPES = ["alone", "dip-follows"] as const;
+export type ClipShape = (typeof CLIP_SHAPES)[number];
+
+/** The shape of a clip by its name, or null for a name that is not a finger test clip. */
+export function clipShapeOfName(name: string): ClipShape | null {
+  const match = CLIP_NAME.exec(name);
+  return match ? (match[3] ? "dip-follows" : "alone") : null;
+}
 
 interface ClipTruth {
   frameCount: number;
@@ -40,6 +54,12 @@ interface ClipTruth {
 
 /** Where a sample's `stillId` says it came from a clip frame (`clip:<name>#<frame>`), not a still. */
 const CLIP_SAMPLE_PREFIX = "clip:";
+
+/** The shape of a clip sample (null for a still), read from its `stillId`. */
+export function clipShapeOf(sample: Pick<FingerSample, "stillId">): ClipShape | null {
+  if (!isClipSample(sample)) return null;
+  return clipShapeOfName(sample.stillId.slice(CLIP_SAMPLE_PREFIX.length).split("#")[0]);
+}
 
 /** Whether a finger sample is a clip frame: it weighs by the clip weight and forms its own training-domain source. */
 export function isClipSample(sample: Pick<FingerSample, "stillId">): boolean {
@@ -66,11 +86,17 @@ export function trackedClipNames(seed: number, model: string, keep: (name: strin
     .sort();
 }
 
-/** The names of a seed's tracked finger clips for one hand model, of one condition or both. */
-export function fingerClipNames(seed: number, model: string, conditions: readonly ClipCondition[] = CLIP_CONDITIONS): string[] {
+/** The names of a seed's tracked finger clips for one hand model, of the conditions and shapes asked. */
+export function fingerClipNames(
+  seed: number,
+  model: string,
+  conditions: readonly ClipCondition[] = CLIP_CONDITIONS,
+  shapes: readonly ClipShape[] = ["alone"],
+): string[] {
   return trackedClipNames(seed, model, (name) => {
     const match = CLIP_NAME.exec(name);
-    return Boolean(match && conditions.includes(match[2] ? "gravity_minimized" : "against_gravity"));
+    const shape = clipShapeOfName(name);
+    return Boolean(match && shape && shapes.includes(shape) && conditions.includes(match[2] ? "gravity_minimized" : "against_gravity"));
   });
 }
 
@@ -112,7 +138,7 @@ export function mirroredClipFrames(frames: readonly TrackedFrame[], side: Side, 
 export function clipFrameSamples(name: string, model: string, frames: readonly TrackedFrame[], truth: ClipTruth, everyNth: number): FingerSample[] {
   if (frames.length !== truth.frameCount) throw new Error(`${name} (${model}): tracked ${frames.length} frames, the clip has ${truth.frameCount}`);
   const motion = CLIP_NAME.exec(name)?.[1];
-  if (!motion) throw new Error(`${name}: expected a finger clip named <mcp|pip|dip>.flexion-[gm-]<seed>-<i>-<clipSeed>`);
+  if (!motion) throw new Error(`${name}: expected a finger clip named <mcp|pip|dip>.flexion-[gm-][dip70-]<seed>-<i>-<clipSeed>`);
   const side = truth.frames[0].truth.side as Side;
   const samples: FingerSample[] = [];
   for (const { index, hand, axes, picture } of mirroredClipFrames(frames, side, everyNth)) {
@@ -135,13 +161,27 @@ export function clipFrameSamples(name: string, model: string, frames: readonly T
   return samples;
 }
 
-/** Samples from every tracked finger clip of the training seeds (of the conditions asked), for one hand model. */
-export function clipFingerSamples(seeds: readonly number[], model: string, everyNth = 3, conditions: readonly ClipCondition[] = CLIP_CONDITIONS): FingerSample[] {
+/**
+ * Samples from every tracked finger clip of the training seeds (of the conditions and shapes asked; by default the
+ * tested joint bent alone), for one hand model.
+ */
+export function clipFingerSamples(
+  seeds: readonly number[],
+  model: string,
+  everyNth = 3,
+  conditions: readonly ClipCondition[] = CLIP_CONDITIONS,
+  shapes: readonly ClipShape[] = ["alone"],
+): FingerSample[] {
   return seeds.flatMap((seed) => {
     if (!Number.isInteger(seed) || seed < FIRST_TRAINING_SEED) throw new Error(`clip training seed ${seed}: expected a training seed (${FIRST_TRAINING_SEED} or above); held-out seeds are never fitted on`);
     const folder = clipFolder(seed);
-    const names = fingerClipNames(seed, model, conditions);
-    if (!names.length) throw new Error(`${folder}: no tracked finger clips for ${model}; render them with clip-validation.ts --seeds ${seed}`);
+    const names = fingerClipNames(seed, model, conditions, shapes);
+    for (const shape of shapes) {
+      if (!names.some((name) => clipShapeOfName(name) === shape)) {
+        const how = shape === "dip-follows" ? " --motions pip.flexion --dip-follows 0.7" : "";
+        throw new Error(`${folder}: no tracked finger clips (${shape}) for ${model}; render them with clip-validation.ts --seeds ${seed}${how}`);
+      }
+    }
     return names.flatMap((name) => {
       const frames = JSON.parse(readFileSync(path.join(folder, `${name}-${model}.tracked.json`), "utf8")) as TrackedFrame[];
       const truth = JSON.parse(readFileSync(path.join(folder, `${name}.json`), "utf8")) as ClipTruth;

@@ -7,11 +7,12 @@
  *
  *   npx tsx scripts/accuracy/fit-correction.ts [--per-motion 100] [--models lite,full] [--reuse]
  */
-import { writeFileSync } from "node:fs";
+import { readFileSync, writeFileSync } from "node:fs";
 import { parseArgs } from "node:util";
+import { CORRECTION_VERSION, type CorrectionModel } from "@/vision/correction";
 import type { ValidationView } from "@/vision/correction-views";
 import { ESTIMATOR_FEATURES, FINGER_JOINTS, type FingerEstimatorModel, type FingerJoint, type FingerViewFits } from "@/vision/estimator";
-import { clipFingerSamples, isClipSample, sampleSource, type ClipCondition } from "./clip-training";
+import { clipFingerSamples, clipShapeOf, isClipSample, sampleSource, type ClipCondition, type ClipShape } from "./clip-training";
 import { fitCorrection, HUBER_DEG, jointGroupOf, type CorrectionSample } from "./correction";
 import { fingerSamples, fitFingerJoint, type FingerSample, loadTrackedSet, roundedFit, sampleWeight } from "./estimator-fit";
 import { estimateAngles } from "./estimates";
@@ -52,9 +53,28 @@ export const ESTIMATOR_CLIP_SEEDS: readonly number[] = [77_000_401, 77_000_402, 
  * gravity-minimized training clips worse than a fit per view. Chosen by select-estimator.ts on training seeds only (README,
  * "Estimator selection").
  */
-export const ESTIMATOR_VIEW_FITS: readonly { views: readonly ValidationView[]; condition: ClipCondition; seeds: readonly number[]; weight: number }[] = [
-  { views: ["ulnar"], condition: "against_gravity", seeds: ESTIMATOR_CLIP_SEEDS, weight: 1 },
-  { views: ["radial"], condition: "gravity_minimized", seeds: ESTIMATOR_CLIP_SEEDS, weight: 1 },
+export interface EstimatorViewFitPlan {
+  views: readonly ValidationView[];
+  condition: ClipCondition;
+  seeds: readonly number[];
+  /** How much a clip frame counts against a still. */
+  weight: number;
+  /**
+   * How much a frame of a PIP clip whose DIP bends along (`clip-validation.ts --dip-follows 0.7`) counts, times
+   * `weight`; 0 leaves those clips out. Only the PIP fit reads them (they are PIP flexion clips).
+   */
+  dipFollowsWeight: number;
+}
+/**
+ * Since kinarc-correction-10 the little-finger-side PIP fit also reads PIP clips whose DIP bends along (the same
+ * training seeds, `--dip-follows 0.7`), a frame counting as much as one of the PIP bent alone: chosen on training seeds
+ * only (fitted on 77000401-77000402 and scored on 77000403, then on 77000401-77000403 scored on 77000404) as the weight
+ * that kept the worse of the two shapes lowest (scripts/accuracy/README.md, "One PIP fit for both ways of bending").
+ * The thumb side's fit is not yet refitted that way.
+ */
+export const ESTIMATOR_VIEW_FITS: readonly EstimatorViewFitPlan[] = [
+  { views: ["ulnar"], condition: "against_gravity", seeds: ESTIMATOR_CLIP_SEEDS, weight: 1, dipFollowsWeight: 1 },
+  { views: ["radial"], condition: "gravity_minimized", seeds: ESTIMATOR_CLIP_SEEDS, weight: 1, dipFollowsWeight: 0 },
 ];
 export const ESTIMATOR_CLIP_EVERY = 3;
 
@@ -65,13 +85,22 @@ function round(value: number): number {
 }
 
 /** One fit per hand model and joint on `samples` (the stills of each joint's test motion, plus any clip frames). */
-function fitJoints(models: readonly string[], samples: readonly FingerSample[], label: string, clipWeight: number): FingerEstimatorModel["fits"] {
+function fitJoints(
+  models: readonly string[],
+  samples: readonly FingerSample[],
+  label: string,
+  clipWeight: number,
+  dipFollowsWeight = 0,
+  joints: readonly FingerJoint[] = FINGER_JOINTS,
+): FingerEstimatorModel["fits"] {
   const fits: FingerEstimatorModel["fits"] = {};
   for (const model of models) {
     fits[model] = {};
-    for (const joint of FINGER_JOINTS) {
+    for (const joint of joints) {
       const weightOf = (s: FingerSample) =>
-        sampleWeight(s, joint, ESTIMATOR_TOGETHER_WEIGHT[joint], ESTIMATOR_RESTING_WEIGHT) * (isClipSample(s) ? clipWeight : 1);
+        sampleWeight(s, joint, ESTIMATOR_TOGETHER_WEIGHT[joint], ESTIMATOR_RESTING_WEIGHT) *
+        (isClipSample(s) ? clipWeight : 1) *
+        (clipShapeOf(s) === "dip-follows" ? dipFollowsWeight : 1);
       const rows = samples.filter((s) => s.model === model && weightOf(s) > 0);
       const fit = fitFingerJoint(
         rows.map((s) => s.base),
@@ -90,6 +119,55 @@ function fitJoints(models: readonly string[], samples: readonly FingerSample[], 
   return fits;
 }
 
+/** The training-set names a view fit records: the still sets, then each clip seed (and its DIP-along PIP clips). */
+function viewFitTrainingSets(plan: EstimatorViewFitPlan, setNames: readonly string[]): string[] {
+  const gm = plan.condition === "gravity_minimized" ? "gm-" : "";
+  return [
+    ...setNames,
+    ...plan.seeds.map((seed) => `finger-clips-${gm}${seed}-every-${ESTIMATOR_CLIP_EVERY}`),
+    ...(plan.dipFollowsWeight > 0 ? plan.seeds.map((seed) => `pip-clips-dip70-${gm}${seed}-every-${ESTIMATOR_CLIP_EVERY}`) : []),
+  ];
+}
+
+/** A plan's clip samples for the hand models: its condition's clips, with the DIP-along PIP clips where it weighs them. */
+function planClipSamples(plan: EstimatorViewFitPlan, models: readonly string[]): FingerSample[] {
+  const shapes: ClipShape[] = plan.dipFollowsWeight > 0 ? ["alone", "dip-follows"] : ["alone"];
+  return models.flatMap((model) => clipFingerSamples(plan.seeds, model, ESTIMATOR_CLIP_EVERY, [plan.condition], shapes));
+}
+
+/**
+ * Refits one joint of the view fit for `view` (`--refit ulnar:pip`) on its plan in ESTIMATOR_VIEW_FITS and keeps every
+ * other coefficient of `estimator` as it stands: the whole refit needs every training clip of every joint and
+ * condition rendered, this one only the still sets and that joint's clips in that view's condition. With the plan as
+ * it stood, it gives the committed coefficients back (a check that the renders and tracking reproduce).
+ */
+export function refitViewJoint(
+  estimator: FingerEstimatorModel & { trainingSets: string[] },
+  view: ValidationView,
+  joint: FingerJoint,
+  models: readonly string[],
+  setNames: readonly string[] = ESTIMATOR_TRAINING_SETS,
+  viewFitPlans: typeof ESTIMATOR_VIEW_FITS = ESTIMATOR_VIEW_FITS,
+): FingerEstimatorModel & { trainingSets: string[] } {
+  const planIndex = viewFitPlans.findIndex((plan) => plan.views.includes(view));
+  const plan = viewFitPlans[planIndex];
+  const viewFit = estimator.viewFits?.[planIndex];
+  if (!plan || !viewFit || !viewFit.views.includes(view)) throw new Error(`--refit: no view fit for '${view}' (expected one of ${viewFitPlans.flatMap((p) => p.views).join(", ")})`);
+  const stills = setNames.flatMap((name) => fingerSamples(loadTrackedSet(name), name));
+  const refitted = fitJoints(models, [...stills, ...planClipSamples(plan, models)], plan.views.join(", "), plan.weight, plan.dipFollowsWeight, [joint]);
+  const viewFits = estimator.viewFits!.map((fit, i) =>
+    i !== planIndex
+      ? fit
+      : {
+          ...fit,
+          fits: Object.fromEntries(Object.entries(fit.fits).map(([model, joints]) => [model, { ...joints, ...(refitted[model] ?? {}) }])),
+          trainingSets: viewFitTrainingSets(plan, setNames),
+        },
+  );
+  const trainingSets = [...new Set([...setNames, ...viewFits.flatMap((v) => v.trainingSets)])];
+  return { ...estimator, trainingSets, viewFits };
+}
+
 export function fitFingerEstimator(
   models: readonly string[],
   setNames: readonly string[] = ESTIMATOR_TRAINING_SETS,
@@ -97,14 +175,11 @@ export function fitFingerEstimator(
 ): FingerEstimatorModel & { trainingSets: string[] } {
   const stills = setNames.flatMap((name) => fingerSamples(loadTrackedSet(name), name));
   const fits = fitJoints(models, stills, "side views", 1);
-  const viewFits: FingerViewFits[] = viewFitPlans.map((plan) => {
-    const clips = models.flatMap((model) => clipFingerSamples(plan.seeds, model, ESTIMATOR_CLIP_EVERY, [plan.condition]));
-    return {
-      views: plan.views,
-      fits: fitJoints(models, [...stills, ...clips], plan.views.join(", "), plan.weight),
-      trainingSets: [...setNames, ...plan.seeds.map((seed) => `finger-clips-${plan.condition === "gravity_minimized" ? "gm-" : ""}${seed}-every-${ESTIMATOR_CLIP_EVERY}`)],
-    };
-  });
+  const viewFits: FingerViewFits[] = viewFitPlans.map((plan) => ({
+    views: plan.views,
+    fits: fitJoints(models, [...stills, ...planClipSamples(plan, models)], plan.views.join(", "), plan.weight, plan.dipFollowsWeight),
+    trainingSets: viewFitTrainingSets(plan, setNames),
+  }));
   const trainingSets = [...new Set([...setNames, ...viewFits.flatMap((v) => v.trainingSets)])];
   return { features: ESTIMATOR_FEATURES, trainingSets, fits, ...(viewFits.length ? { viewFits } : {}) };
 }
@@ -112,9 +187,20 @@ export function fitFingerEstimator(
 async function main(): Promise<void> {
   if (TRAINING_SEED === VALIDATION_SEED) throw new Error("TRAINING_SEED must differ from VALIDATION_SEED");
   const { values } = parseArgs({
-    options: { "per-motion": { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" } },
+    options: { "per-motion": { type: "string" }, models: { type: "string" }, reuse: { type: "boolean" }, refit: { type: "string" } },
   });
   const models = parseModels(values.models);
+  if (values.refit !== undefined) {
+    // One joint of one view fit, the rest of the committed file kept (refitViewJoint).
+    const [view, joint] = values.refit.split(":");
+    if (!(FINGER_JOINTS as readonly string[]).includes(joint)) throw new Error(`--refit: expected VIEW:JOINT with JOINT one of ${FINGER_JOINTS.join(", ")}; got '${values.refit}'`);
+    const committed = JSON.parse(readFileSync(CORRECTION_FILE, "utf8")) as CorrectionModel;
+    if (!committed.fingerEstimator) throw new Error(`${CORRECTION_FILE}: no finger estimator to refit`);
+    const fingerEstimator = refitViewJoint(committed.fingerEstimator as FingerEstimatorModel & { trainingSets: string[] }, view as ValidationView, joint as FingerJoint, models);
+    writeFileSync(CORRECTION_FILE, `${JSON.stringify({ ...committed, version: CORRECTION_VERSION, fingerEstimator }, null, 2)}\n`);
+    console.error(`correction (${values.refit} refitted) -> ${CORRECTION_FILE}`);
+    return;
+  }
   // The linear maps are trained on test motions in their recommended view only: that is what the app measures. On
   // random poses in any view the raw readings carry too little of the angle for a linear map (measured: PIP
   // correlation 0.1 there against 0.85 in a side view), and pooling them in dragged every coefficient toward the mean.
