@@ -145,14 +145,15 @@ describe("uncertainty table from the accuracy report", () => {
     const rows = readClipRows();
     // scripts/accuracy/clip-report.md: PIP flexion, ulnar, lite, engine 3.90, 3.81, 3.93 and 3.38 (seeds 20261210, 20261209,
     // 20261207, 20261205); clip-report-pip-dip-follows.md (the DIP bending along, read under kinarc-correction-10):
-    // 4.32 and 4.40 (seeds 77000412, 20261238), the worst.
+    // 4.32 and 4.40 (seeds 77000412, 20261238); the fresh check of 20261239: 4.70 (the PIP alone, clip-report-pip-check.md,
+    // the worst) and 4.13 (the DIP along).
     const pip = rows.find((r) => r.group === "PIP flexion" && r.view === "ulnar" && r.model === "lite")!;
     const engineMaes = CLIP_REPORT_FILES.flatMap((file) =>
       [...readFileSync(file, "utf8").matchAll(/^\| PIP flexion \| ulnar \| lite \| engine \|(?:[^|]*\|){4}\s*([\d.]+)\s*\|/gm)].map((m) => Number(m[1])),
     );
     expect(engineMaes.length).toBeGreaterThanOrEqual(5);
     expect(pip.engineMaeDeg).toBe(Math.max(...engineMaes));
-    expect(pip.engineMaeDeg).toBe(4.4);
+    expect(pip.engineMaeDeg).toBe(4.7);
     expect(pip.rawMaeDeg).toBeGreaterThan(pip.engineMaeDeg);
     // The gravity-minimized report adds the thumb-side view.
     expect(rows.some((r) => r.view === "radial" && r.group === "MCP flexion")).toBe(true);

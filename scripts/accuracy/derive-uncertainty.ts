@@ -40,6 +40,10 @@ export const CLIP_REPORT_FILES = [
   // that from a PIP bent alone, so the PIP's intervals must hold for both (clip-validation.ts --dip-follows).
   path.join(HERE, "clip-report-pip-dip-follows.md"),
   path.join(HERE, "clip-report-gravity-minimized-pip-dip-follows.md"),
+  // The fresh check of kinarc-correction-10's little-finger-side PIP (seed 20261239, the PIP alone and with its DIP
+  // along): the full model's peaks fell outside the stated ± more often than its rule allowed, so it is a source too.
+  path.join(HERE, "clip-report-pip-check.md"),
+  path.join(HERE, "clip-report-pip-dip-follows-check.md"),
 ] as const;
 
 /**
@@ -61,9 +65,12 @@ export const TWO_MODEL_REPORT_FILE = path.join(HERE, "clip-report-two-models.md"
 export const TWO_MODEL_DIP_FOLLOWS_FILE = path.join(HERE, "clip-report-two-models-pip-dip-follows.md");
 export const TWO_MODEL_DIP_FOLLOWS_SEEDS: ReadonlySet<string> = new Set(["77000412"]);
 
-/** The two-model report and its PIP-with-DIP companion, as one markdown text for parsePairCells. */
+/** Both models on the fresh check of kinarc-correction-10's PIP (seed 20261239), a source like its one-model rows. */
+export const TWO_MODEL_PIP_CHECK_FILE = path.join(HERE, "clip-report-two-models-pip-check.md");
+
+/** The two-model report and its PIP companions, as one markdown text for parsePairCells. */
 export function readTwoModelReports(): string {
-  return [TWO_MODEL_REPORT_FILE, TWO_MODEL_DIP_FOLLOWS_FILE].filter((f) => existsSync(f)).map((f) => readFileSync(f, "utf8")).join("\n");
+  return [TWO_MODEL_REPORT_FILE, TWO_MODEL_DIP_FOLLOWS_FILE, TWO_MODEL_PIP_CHECK_FILE].filter((f) => existsSync(f)).map((f) => readFileSync(f, "utf8")).join("\n");
 }
 
 /** A markdown table row's cells, trimmed (the row starts and ends with "|"). */
