@@ -20,9 +20,9 @@ function featureValue(name: string, f: RawAngleFeatures): number {
 const SAMPLE: RawAngleFeatures = { deg: 41, imagePlaneDeg: 38, planeFacing: 0.8, radialTowardCamera: 0.9, palmTowardCamera: -0.2 };
 
 describe("the committed correction (vision/correction-coefficients.json)", () => {
-  it("is version kinarc-correction-10 with the engine's feature list, ten coefficients per linear fit and the finger estimator", () => {
+  it("is version kinarc-correction-11 with the engine's feature list, ten coefficients per linear fit and the finger estimator", () => {
     expect(COEFFICIENTS.version).toBe(CORRECTION_VERSION);
-    expect(CORRECTION_VERSION).toBe("kinarc-correction-10");
+    expect(CORRECTION_VERSION).toBe("kinarc-correction-11");
     expect(COEFFICIENTS.features).toEqual([...CORRECTION_FEATURES]);
     for (const groups of Object.values(CORRECTION_MODEL.groups)) for (const fit of Object.values(groups)) expect(fit.coefficients).toHaveLength(10);
     // Finger flexion is the estimator's alone: a linear fit beside it would never be read.
@@ -130,8 +130,8 @@ describe("the live pipeline with the correction", () => {
     const expected = correctGroupAngle(CORRECTION_MODEL, "lite", "PIP flexion", { ...withFrame(hand), deg: raw.deg, imagePlaneDeg: raw.imagePlaneDeg, planeFacing: 1, radialTowardCamera: 1, palmTowardCamera: 0 }, "index")!;
     expect(update.angleDeg).toBeCloseTo(expected, 9);
     expect(Math.abs(update.angleDeg! - raw.deg)).toBeGreaterThan(0.1);
-    expect(update.method).toBe("world3d+kinarc-correction-10");
-    expect(update.correctionVersion).toBe("kinarc-correction-10");
+    expect(update.method).toBe("world3d+kinarc-correction-11");
+    expect(update.correctionVersion).toBe("kinarc-correction-11");
     const cell = table.cells.find((c) => c.group === "PIP flexion" && c.model === "lite" && c.view === "radial")!;
     // The index finger's own figure where the held-out clips split the cell by finger.
     expect(update.uncertaintyDeg).toBeCloseTo(cell.byDigit?.find((f) => f.digit === "index")?.uncertaintyDeg ?? cell.uncertaintyDeg, 6);

@@ -78,7 +78,7 @@ describe("the committed estimator reads the picture (since kinarc-correction-6)"
   const hand = middleFinger(0, 50, 25, ULNAR_VIEW);
 
   it("lists the world features then the picture features, and needs a frame's picture to read it", () => {
-    expect(CORRECTION_VERSION).toBe("kinarc-correction-10");
+    expect(CORRECTION_VERSION).toBe("kinarc-correction-11");
     expect(estimator.features).toEqual([...ESTIMATOR_FEATURES]);
     expect(ESTIMATOR_FEATURES).toEqual([...FINGER_FEATURES, ...PICTURE_FEATURES]);
     expect(usesPicture(estimator)).toBe(true);

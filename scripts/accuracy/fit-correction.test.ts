@@ -7,14 +7,17 @@ import type { FingerEstimatorModel } from "@/vision/estimator";
 const estimator = committed.fingerEstimator as unknown as FingerEstimatorModel & { trainingSets: string[] };
 
 describe("the finger estimator's view fits as committed", () => {
-  it("fit the little-finger side's PIP on the DIP-along PIP clips of every training clip seed, and no other view", () => {
-    const ulnar = ESTIMATOR_VIEW_FITS.find((plan) => plan.views.includes("ulnar"))!;
-    expect(ulnar.dipFollowsWeight).toBeGreaterThan(0);
-    expect(ESTIMATOR_VIEW_FITS.filter((plan) => plan.dipFollowsWeight > 0).map((plan) => plan.views)).toEqual([["ulnar"]]);
-    const index = ESTIMATOR_VIEW_FITS.indexOf(ulnar);
-    // The committed file records what it was fitted on (fit-correction.ts viewFitTrainingSets).
-    expect(estimator.viewFits![index].trainingSets).toEqual(expect.arrayContaining(ESTIMATOR_CLIP_SEEDS.map((seed) => `pip-clips-dip70-${seed}-every-3`)));
-    expect(estimator.viewFits!.filter((_, i) => i !== index).every((fit) => fit.trainingSets.every((name) => !name.includes("dip70")))).toBe(true);
+  it("fit each side view's PIP on the DIP-along PIP clips of every training clip seed in that view's condition", () => {
+    expect(ESTIMATOR_VIEW_FITS.map((plan) => [plan.views, plan.dipFollowsWeight > 0])).toEqual([
+      [["ulnar"], true],
+      [["radial"], true],
+    ]);
+    // The committed file records what each view fit was fitted on (fit-correction.ts viewFitTrainingSets).
+    ESTIMATOR_VIEW_FITS.forEach((plan, index) => {
+      const gm = plan.condition === "gravity_minimized" ? "gm-" : "";
+      expect(estimator.viewFits![index].views).toEqual(plan.views);
+      expect(estimator.viewFits![index].trainingSets).toEqual(expect.arrayContaining(ESTIMATOR_CLIP_SEEDS.map((seed) => `pip-clips-dip70-${gm}${seed}-every-3`)));
+    });
   });
 
   it("refuses to refit a view no plan names, before reading any render", () => {

@@ -66,15 +66,15 @@ export interface EstimatorViewFitPlan {
   dipFollowsWeight: number;
 }
 /**
- * Since kinarc-correction-10 the little-finger-side PIP fit also reads PIP clips whose DIP bends along (the same
- * training seeds, `--dip-follows 0.7`), a frame counting as much as one of the PIP bent alone: chosen on training seeds
- * only (fitted on 77000401-77000402 and scored on 77000403, then on 77000401-77000403 scored on 77000404) as the weight
- * that kept the worse of the two shapes lowest (scripts/accuracy/README.md, "One PIP fit for both ways of bending").
- * The thumb side's fit is not yet refitted that way.
+ * Since kinarc-correction-10 both side views' PIP fits also read PIP clips whose DIP bends along (the same training
+ * seeds and condition, `--dip-follows 0.7`), a frame counting as much as one of the PIP bent alone: chosen on training
+ * seeds only (fitted on 77000401-77000402 and scored on 77000403, then on 77000401-77000403 scored on 77000404, each
+ * view on its own condition's clips) as the weight that kept the worse of the two shapes lowest (scripts/accuracy/
+ * README.md, "One PIP fit for both ways of bending").
  */
 export const ESTIMATOR_VIEW_FITS: readonly EstimatorViewFitPlan[] = [
   { views: ["ulnar"], condition: "against_gravity", seeds: ESTIMATOR_CLIP_SEEDS, weight: 1, dipFollowsWeight: 1 },
-  { views: ["radial"], condition: "gravity_minimized", seeds: ESTIMATOR_CLIP_SEEDS, weight: 1, dipFollowsWeight: 0 },
+  { views: ["radial"], condition: "gravity_minimized", seeds: ESTIMATOR_CLIP_SEEDS, weight: 1, dipFollowsWeight: 1 },
 ];
 export const ESTIMATOR_CLIP_EVERY = 3;
 
