@@ -61,6 +61,15 @@ export function clipShapeOf(sample: Pick<FingerSample, "stillId">): ClipShape | 
   return clipShapeOfName(sample.stillId.slice(CLIP_SAMPLE_PREFIX.length).split("#")[0]);
 }
 
+/**
+ * How much a sample counts beyond its joint's own weighting: a clip frame `clipWeight` (a still 1), and a frame of a
+ * DIP-along PIP clip `dipFollowsWeight` times that. Shared by the fit (fit-correction.ts) and its selection
+ * (select-estimator.ts), so both weigh a frame alike.
+ */
+export function clipFrameWeight(sample: Pick<FingerSample, "stillId">, clipWeight: number, dipFollowsWeight: number): number {
+  return (isClipSample(sample) ? clipWeight : 1) * (clipShapeOf(sample) === "dip-follows" ? dipFollowsWeight : 1);
+}
+
 /** Whether a finger sample is a clip frame: it weighs by the clip weight and forms its own training-domain source. */
 export function isClipSample(sample: Pick<FingerSample, "stillId">): boolean {
   return sample.stillId.startsWith(CLIP_SAMPLE_PREFIX);
@@ -95,8 +104,9 @@ export function fingerClipNames(
 ): string[] {
   return trackedClipNames(seed, model, (name) => {
     const match = CLIP_NAME.exec(name);
-    const shape = clipShapeOfName(name);
-    return Boolean(match && shape && shapes.includes(shape) && conditions.includes(match[2] ? "gravity_minimized" : "against_gravity"));
+    if (!match) return false;
+    const shape: ClipShape = match[3] ? "dip-follows" : "alone";
+    return shapes.includes(shape) && conditions.includes(match[2] ? "gravity_minimized" : "against_gravity");
   });
 }
 

@@ -18,7 +18,7 @@
  */
 import { parseArgs } from "node:util";
 import { applyFingerFit, DOMAIN_MARGIN_SD, FINGER_JOINTS, inTrainingDomain, type FingerJoint } from "@/vision/estimator";
-import { CLIP_CONDITIONS, CLIP_SHAPES, clipFingerSamples, clipShapeOf, isClipSample, sampleSource, type ClipCondition, type ClipShape } from "./clip-training";
+import { CLIP_CONDITIONS, CLIP_SHAPES, clipFingerSamples, clipFrameWeight, clipShapeOf, isClipSample, sampleSource, type ClipCondition, type ClipShape } from "./clip-training";
 import { HUBER_DEG } from "./correction";
 import { fingerSamples, fitFingerJoint, loadTrackedSet, sampleWeight, type FingerSample } from "./estimator-fit";
 import { FINGER_FLEXION_SET } from "./motion-sets";
@@ -47,8 +47,7 @@ function scoreJoint(
   clipWeight = 1,
   dipClipWeight = 1,
 ) {
-  const weightOf = (s: FingerSample) =>
-    sampleWeight(s, joint, togetherWeight, restingWeight) * (isClipSample(s) ? clipWeight : 1) * (clipShapeOf(s) === "dip-follows" ? dipClipWeight : 1);
+  const weightOf = (s: FingerSample) => sampleWeight(s, joint, togetherWeight, restingWeight) * clipFrameWeight(s, clipWeight, dipClipWeight);
   const rows = train.filter((s) => weightOf(s) > 0);
   const fit = fitFingerJoint(rows.map((s) => s.base), rows.map((s) => s.truthDeg[joint]), {
     ridgeLambda: lambda,
@@ -119,6 +118,7 @@ async function main(): Promise<void> {
   );
   const dipClipWeights = (values["dip-clip-weights"] ?? "1").split(",").map(Number);
   const joints = values.joints ? (values.joints.split(",") as FingerJoint[]) : FINGER_JOINTS;
+  const fitsDipFollowing = clipTrain.some((c) => clipShapeOf(c) === "dip-follows");
   all.push(...clipTrain);
   const holdout = values.holdout || clipHoldout.length ? [...stillHoldout, ...clipHoldout] : null;
   const lambdas = (values.lambdas ?? "3,10,30").split(",").map(Number);
@@ -150,7 +150,7 @@ async function main(): Promise<void> {
             const kept = results.filter((r) => r.view === view && r.inDomain).length / Math.max(1, results.filter((r) => r.view === view).length);
             return `${view} MAE ${s.meanAbsoluteErrorDeg?.toFixed(1)} slope ${s.slope?.toFixed(2)} estimator ${Math.round(kept * 100)}%`;
           });
-          console.log(`${model} ${joint} lambda ${lambda} together-weight ${weight} margin ${marginSd} sd resting ${resting}${clipSeeds.length ? ` clip-weight ${clipWeight}` : ""}${clipTrain.some((c) => clipShapeOf(c) === "dip-follows") ? ` dip-clip-weight ${dipClipWeight}` : ""}: ${cells.join(" | ")}`);
+          console.log(`${model} ${joint} lambda ${lambda} together-weight ${weight} margin ${marginSd} sd resting ${resting}${clipSeeds.length ? ` clip-weight ${clipWeight}` : ""}${fitsDipFollowing ? ` dip-clip-weight ${dipClipWeight}` : ""}: ${cells.join(" | ")}`);
         }
       }
     }
